@@ -1,0 +1,318 @@
+//! Resolving the size of a coil: from two of outer diameter, inner diameter
+//! and turns, the third; or as many turns as fit.
+//!
+//! Sizes are measured on the copper the spiral really makes (edges of the
+//! traces), by building the spiral and measuring it, so that the three
+//! numbers always describe the same coil. Monotonic relations are solved by
+//! bisection.
+//!
+//! # Units
+//! Millimetres.
+
+use super::spiral::{SpiralSpec, box_extent, radial_extent};
+use crate::spec::{Corner, Shape};
+
+/// What the design file asked for.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum TurnsRequest {
+    /// A given number of turns per layer.
+    Count(f64),
+    /// As many as fit (rounded down to 0.01 turn).
+    Max,
+}
+
+/// The inputs of a fit.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FitInput {
+    /// Shape (a rectangle carries its outer width and height).
+    pub shape: Shape,
+    /// Corner style.
+    pub corner: Corner,
+    /// Track width, mm.
+    pub trace_width: f64,
+    /// Gap between turns, mm.
+    pub clearance: f64,
+    /// Outer diameter, mm (circle and polygon; ignored for a rectangle).
+    pub outer_diameter: Option<f64>,
+    /// Inner (free centre) diameter, mm.
+    pub inner_diameter: Option<f64>,
+    /// Turns per layer.
+    pub turns: Option<TurnsRequest>,
+    /// Smallest free centre that holds the centre vias, mm.
+    pub min_inner_diameter: f64,
+}
+
+/// All three sizes.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Fit {
+    /// Outer diameter, mm (rectangle: its diagonal).
+    pub outer_diameter: f64,
+    /// Inner diameter, mm.
+    pub inner_diameter: f64,
+    /// Turns per layer.
+    pub turns: f64,
+}
+
+/// Why the sizes do not make a coil.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum FitError {
+    /// Not exactly two of the three were given.
+    #[error(
+        "give exactly two of outer_diameter, inner_diameter and turns (a rectangle takes width and height plus one of inner_diameter or turns)"
+    )]
+    NeedTwo,
+    /// The requested turns do not fit between the given diameters.
+    #[error("{requested} turns do not fit; at most {max:.2} fit")]
+    TooManyTurns {
+        /// Requested turns.
+        requested: f64,
+        /// Most that fit.
+        max: f64,
+    },
+    /// The free centre cannot hold the centre vias.
+    #[error("inner diameter {given:.3} mm is too small for the centre vias; the minimum is {min:.3} mm")]
+    InnerTooSmall {
+        /// Given or implied inner diameter, mm.
+        given: f64,
+        /// Minimum, mm.
+        min: f64,
+    },
+    /// The inner diameter is not smaller than the outer.
+    #[error("inner diameter must be smaller than the outer size minus one trace")]
+    InnerNotInside,
+    /// Rounded corners larger than the innermost side.
+    #[error("corner radius {radius:.3} mm is too large; it must be below {max:.3} mm")]
+    CornerTooLarge {
+        /// Requested radius, mm.
+        radius: f64,
+        /// Largest radius that fits, mm.
+        max: f64,
+    },
+}
+
+impl FitInput {
+    /// The spiral's `inner` parameter for a free-centre diameter.
+    fn inner_param(&self, inner_diameter: f64) -> f64 {
+        let r = inner_diameter / 2.0 + self.trace_width / 2.0;
+        match self.shape {
+            // The smaller half-size is the free radius; `inner` is the x half-size.
+            Shape::Rectangle { width, height } if height < width => r + (width - height) / 2.0,
+            _ => r,
+        }
+    }
+
+    /// Free-centre diameter for a spiral `inner` parameter.
+    fn inner_diameter_of(&self, inner: f64) -> f64 {
+        let r = match self.shape {
+            Shape::Rectangle { width, height } if height < width => inner - (width - height) / 2.0,
+            _ => inner,
+        };
+        2.0 * (r - self.trace_width / 2.0)
+    }
+
+    fn spiral(&self, inner: f64, turns: f64) -> SpiralSpec {
+        SpiralSpec {
+            shape: self.shape,
+            corner: self.corner,
+            pitch: self.trace_width + self.clearance,
+            inner,
+            turns,
+        }
+    }
+
+    /// How far the copper pokes beyond the outer size (negative = inside), mm.
+    fn excess(&self, inner: f64, turns: f64, outer: f64) -> Result<f64, FitError> {
+        let segs = self.spiral(inner, turns).segments().map_err(|e| match e {
+            super::spiral::SpiralError::CornerTooLarge { radius, max } => {
+                FitError::CornerTooLarge { radius, max }
+            }
+            _ => FitError::InnerNotInside,
+        })?;
+        let hw = self.trace_width / 2.0;
+        Ok(match self.shape {
+            Shape::Rectangle { width, height } => {
+                let (x, y) = box_extent(&segs);
+                (x + hw - width / 2.0).max(y + hw - height / 2.0)
+            }
+            _ => radial_extent(&segs).1 + hw - outer / 2.0,
+        })
+    }
+
+    /// Outer diameter of the built copper, mm (rectangle: diagonal).
+    fn outer_of(&self, inner: f64, turns: f64) -> Result<f64, FitError> {
+        match self.shape {
+            Shape::Rectangle { width, height } => Ok(width.hypot(height)),
+            _ => Ok(2.0 * (self.excess(inner, turns, 0.0)?)),
+        }
+    }
+
+    /// The outer size to fit into, mm (rectangle: unused placeholder).
+    fn outer_limit(&self) -> Option<f64> {
+        match self.shape {
+            Shape::Rectangle { .. } => Some(0.0),
+            _ => self.outer_diameter,
+        }
+    }
+
+    /// Most turns that fit with the free centre `inner`, by bisection.
+    fn max_turns(&self, inner: f64, outer: f64) -> Result<f64, FitError> {
+        if self.excess(inner, 1e-6, outer)? > 0.0 {
+            return Ok(0.0);
+        }
+        let (mut lo, mut hi) = (1e-6, 1.0);
+        while self.excess(inner, hi, outer)? <= 0.0 {
+            lo = hi;
+            hi *= 2.0;
+            if hi > 1e6 {
+                return Err(FitError::InnerNotInside);
+            }
+        }
+        for _ in 0..60 {
+            let mid = 0.5 * (lo + hi);
+            if self.excess(inner, mid, outer)? <= 0.0 {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        Ok(lo)
+    }
+
+    /// Resolves all three sizes.
+    pub fn resolve(&self) -> Result<Fit, FitError> {
+        let outer = self.outer_limit();
+        let min_id = self.min_inner_diameter;
+        let check_inner = |id: f64| {
+            if id < min_id - 1e-9 {
+                Err(FitError::InnerTooSmall {
+                    given: id,
+                    min: min_id,
+                })
+            } else {
+                Ok(())
+            }
+        };
+        match (outer, self.inner_diameter, self.turns) {
+            (Some(od), Some(id), None) | (Some(od), Some(id), Some(TurnsRequest::Max)) => {
+                check_inner(id)?;
+                let t = self.max_turns(self.inner_param(id), od)?;
+                if t <= 0.0 {
+                    return Err(FitError::InnerNotInside);
+                }
+                let t = if self.turns.is_some() {
+                    (t * 100.0).floor() / 100.0
+                } else {
+                    t
+                };
+                Ok(Fit {
+                    outer_diameter: self.outer_of(self.inner_param(id), t)?.max(0.0),
+                    inner_diameter: id,
+                    turns: t,
+                })
+            }
+            (Some(od), None, Some(TurnsRequest::Max)) => {
+                let inner = self.inner_param(min_id);
+                let t = (self.max_turns(inner, od)? * 100.0).floor() / 100.0;
+                if t <= 0.0 {
+                    return Err(FitError::InnerTooSmall {
+                        given: min_id,
+                        min: min_id,
+                    });
+                }
+                Ok(Fit {
+                    outer_diameter: self.outer_of(inner, t)?,
+                    inner_diameter: min_id,
+                    turns: t,
+                })
+            }
+            (Some(od), None, Some(TurnsRequest::Count(t))) => {
+                // Largest free centre such that `t` turns fit inside `od`.
+                let lo_inner = self.inner_param(min_id);
+                if self.excess(lo_inner, t, od)? > 0.0 {
+                    let max = (self.max_turns(lo_inner, od)? * 100.0).floor() / 100.0;
+                    return Err(FitError::TooManyTurns { requested: t, max });
+                }
+                let (mut lo, mut hi) = (lo_inner, lo_inner + 1.0);
+                while self.excess(hi, t, od)? <= 0.0 {
+                    lo = hi;
+                    hi += hi;
+                }
+                for _ in 0..60 {
+                    let mid = 0.5 * (lo + hi);
+                    if self.excess(mid, t, od)? <= 0.0 {
+                        lo = mid;
+                    } else {
+                        hi = mid;
+                    }
+                }
+                Ok(Fit {
+                    outer_diameter: self.outer_of(lo, t)?,
+                    inner_diameter: self.inner_diameter_of(lo),
+                    turns: t,
+                })
+            }
+            (None, Some(id), Some(TurnsRequest::Count(t))) => {
+                check_inner(id)?;
+                Ok(Fit {
+                    outer_diameter: self.outer_of(self.inner_param(id), t)?,
+                    inner_diameter: id,
+                    turns: t,
+                })
+            }
+            _ => Err(FitError::NeedTwo),
+        }
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn input(od: Option<f64>, id: Option<f64>, t: Option<TurnsRequest>) -> FitInput {
+        FitInput {
+            shape: Shape::Circle,
+            corner: Corner::Sharp,
+            trace_width: 0.1,
+            clearance: 0.1,
+            outer_diameter: od,
+            inner_diameter: id,
+            turns: t,
+            min_inner_diameter: 1.0,
+        }
+    }
+
+    #[test]
+    fn circle_sizes_agree_with_closed_form() {
+        // OD = ID + 2 T p + 2 w for the two-centre spiral.
+        let f = input(None, Some(4.0), Some(TurnsRequest::Count(10.0)))
+            .resolve()
+            .unwrap();
+        assert!((f.outer_diameter - (4.0 + 2.0 * 10.0 * 0.2 + 0.2)).abs() < 1e-9);
+        let g = input(Some(8.2), Some(4.0), None).resolve().unwrap();
+        assert!((g.turns - 10.0).abs() < 1e-6, "{}", g.turns);
+        let h = input(Some(8.2), None, Some(TurnsRequest::Count(10.0)))
+            .resolve()
+            .unwrap();
+        assert!((h.inner_diameter - 4.0).abs() < 1e-9);
+    }
+
+    #[test]
+    fn too_many_turns_says_how_many_fit() {
+        let e = input(Some(8.2), None, Some(TurnsRequest::Count(30.0)))
+            .resolve()
+            .unwrap_err();
+        match e {
+            FitError::TooManyTurns { max, .. } => assert!((max - 17.5).abs() < 0.011, "{max}"),
+            other => panic!("{other:?}"),
+        }
+    }
+
+    #[test]
+    fn max_turns_uses_minimum_centre() {
+        let f = input(Some(8.2), None, Some(TurnsRequest::Max))
+            .resolve()
+            .unwrap();
+        assert_eq!(f.inner_diameter, 1.0);
+        assert!((f.turns - 17.5).abs() < 0.011);
+    }
+}

@@ -1,0 +1,237 @@
+//! The copper of a coil on every layer: tracks, vias, terminal pads and the
+//! board outline. Produced by [`super::build`]; consumed by the rule check,
+//! the physics and every exporter (which translate it and never compute
+//! geometry of their own).
+
+use super::{Point, Segment};
+use serde::Serialize;
+
+/// What a track is for.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum TrackRole {
+    /// Part of the spiral winding.
+    Winding,
+    /// A lead joining a winding end to a via or a terminal pad.
+    Lead,
+}
+
+/// One piece of copper track on one layer.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Track {
+    /// Copper layer, 1 = top.
+    pub layer: u8,
+    /// Centre line (mm).
+    pub segment: Segment,
+    /// Track width, mm.
+    pub width: f64,
+    /// Winding or lead.
+    pub role: TrackRole,
+}
+
+/// A plated through hole that joins windings on different layers.
+///
+/// Vias go through every layer of the board; they join copper only on the
+/// layers in `joins` and must stay clear of copper on all the others.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Via {
+    /// Centre, mm.
+    pub at: Point,
+    /// Finished hole diameter, mm.
+    pub drill: f64,
+    /// Pad (land) diameter, mm.
+    pub diameter: f64,
+    /// Layers (1 = top) whose copper this via joins, ascending.
+    pub joins: Vec<u8>,
+    /// In the free centre of the coil or outside the outermost turn.
+    pub place: Place,
+}
+
+/// Where a via or pad sits relative to the winding.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Place {
+    /// In the free centre, inside the innermost turn.
+    Centre,
+    /// Outside the outermost turn.
+    Outside,
+}
+
+/// A terminal of the coil: a plated through-hole pad named "1" or "2".
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Pad {
+    /// Pad name/number: "1" where the current enters, "2" where it leaves.
+    pub name: String,
+    /// Centre, mm.
+    pub at: Point,
+    /// Finished hole diameter, mm.
+    pub drill: f64,
+    /// Pad diameter, mm.
+    pub diameter: f64,
+    /// Layers whose winding copper this pad joins.
+    pub joins: Vec<u8>,
+    /// In the centre (odd layer counts) or outside.
+    pub place: Place,
+}
+
+/// A node of the conductor: a terminal pad or a via (index into the layout).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(tag = "kind", content = "index", rename_all = "snake_case")]
+pub enum Node {
+    /// `Layout::pads[i]`.
+    Pad(usize),
+    /// `Layout::vias[i]`.
+    Via(usize),
+}
+
+/// Which way a winding runs from its start node to its end node.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Direction {
+    /// From the outside towards the centre.
+    Inward,
+    /// From the centre towards the outside.
+    Outward,
+}
+
+/// The copper of one layer between two nodes, in the order the current
+/// flows (from `from` to `to`).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Winding {
+    /// Copper layer, 1 = top.
+    pub layer: u8,
+    /// Position in the series chain, 0 first. Windings with the same group
+    /// are in parallel (parallel-pairs wiring).
+    pub group: usize,
+    /// Tracks of this layer: `Layout::tracks[tracks.0 .. tracks.1]`, ordered
+    /// along the current, each starting where the previous ends.
+    pub tracks: (usize, usize),
+    /// Node where the current enters.
+    pub from: Node,
+    /// Node where the current leaves.
+    pub to: Node,
+    /// Inward or outward.
+    pub direction: Direction,
+    /// Turns of the spiral part (leads excluded).
+    pub turns: f64,
+}
+
+/// The closed board outline (profile), mm.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Outline {
+    /// Closed path: each segment starts where the previous ends, the last
+    /// ends where the first starts.
+    pub segments: Vec<Segment>,
+}
+
+/// Series or parallel-pairs, as built.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Wiring {
+    /// Every layer in series.
+    Series,
+    /// Two adjacent layers in parallel; the pairs in series.
+    ParallelPairs,
+}
+
+/// The coil's copper on every layer.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Layout {
+    /// Design name.
+    pub name: String,
+    /// Number of copper layers.
+    pub layers: u8,
+    /// Series or parallel-pairs.
+    pub wiring: Wiring,
+    /// Every track on every layer.
+    pub tracks: Vec<Track>,
+    /// Plated vias joining layers.
+    pub vias: Vec<Via>,
+    /// Terminal pads: `pads[0]` is "1", `pads[1]` is "2".
+    pub pads: Vec<Pad>,
+    /// One entry per layer, in the order the current visits them (parallel
+    /// windings of a pair are consecutive and share a group).
+    pub windings: Vec<Winding>,
+    /// Board outline.
+    pub outline: Outline,
+    /// Track width, mm.
+    pub trace_width: f64,
+    /// Required gap between neighbouring turns, mm.
+    pub clearance: f64,
+    /// Centre-to-centre distance of neighbouring turns, mm.
+    pub pitch: f64,
+    /// Smallest distance of winding copper (edge) from the axis, mm.
+    pub inner_radius: f64,
+    /// Largest distance of winding copper (edge) from the axis, mm.
+    pub outer_radius: f64,
+    /// Turns per layer of the spiral part.
+    pub turns: f64,
+}
+
+impl Layout {
+    /// Tracks of one winding, in current order.
+    pub fn winding_tracks(&self, w: &Winding) -> &[Track] {
+        &self.tracks[w.tracks.0..w.tracks.1]
+    }
+
+    /// All tracks on `layer` (1 = top).
+    pub fn tracks_on(&self, layer: u8) -> impl Iterator<Item = &Track> {
+        self.tracks.iter().filter(move |t| t.layer == layer)
+    }
+
+    /// Position of a node.
+    pub fn node_at(&self, n: Node) -> Point {
+        match n {
+            Node::Pad(i) => self.pads[i].at,
+            Node::Via(i) => self.vias[i].at,
+        }
+    }
+
+    /// Total centre-line length of copper tracks, mm (vias excluded).
+    pub fn track_length(&self) -> f64 {
+        self.tracks.iter().map(|t| t.segment.length()).sum()
+    }
+
+    /// Axis-aligned bounds of all copper (track edges, pads, vias): (min, max), mm.
+    pub fn copper_bounds(&self) -> (Point, Point) {
+        let mut lo = Point::new(f64::INFINITY, f64::INFINITY);
+        let mut hi = Point::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
+        let mut grow = |a: Point, b: Point, r: f64| {
+            lo = Point::new(lo.x.min(a.x - r), lo.y.min(a.y - r));
+            hi = Point::new(hi.x.max(b.x + r), hi.y.max(b.y + r));
+        };
+        for t in &self.tracks {
+            let (a, b) = t.segment.bounds();
+            grow(a, b, t.width / 2.0);
+        }
+        for v in &self.vias {
+            grow(v.at, v.at, v.diameter / 2.0);
+        }
+        for p in &self.pads {
+            grow(p.at, p.at, p.diameter / 2.0);
+        }
+        (lo, hi)
+    }
+
+    /// Axis-aligned bounds of the outline: (min, max), mm.
+    pub fn outline_bounds(&self) -> (Point, Point) {
+        let mut lo = Point::new(f64::INFINITY, f64::INFINITY);
+        let mut hi = Point::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
+        for s in &self.outline.segments {
+            let (a, b) = s.bounds();
+            lo = Point::new(lo.x.min(a.x), lo.y.min(a.y));
+            hi = Point::new(hi.x.max(b.x), hi.y.max(b.y));
+        }
+        (lo, hi)
+    }
+
+    /// Signed angle the winding on `w` sweeps about the axis, radians
+    /// (negative = clockwise seen from the top).
+    pub fn circulation(&self, w: &Winding) -> f64 {
+        self.winding_tracks(w)
+            .iter()
+            .filter(|t| t.role == TrackRole::Winding)
+            .map(|t| t.segment.swept_about_origin())
+            .sum()
+    }
+}

@@ -1,0 +1,20 @@
+//! Copper geometry: primitives, the spiral of one layer, the stitching of
+//! layers with vias, and the resulting [`Layout`].
+
+mod fit;
+mod layout;
+mod primitives;
+pub mod round;
+mod spiral;
+mod stitching;
+
+pub use fit::{Fit, FitError, FitInput, TurnsRequest};
+pub use layout::{
+    Direction, Layout, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding, Wiring,
+};
+pub use primitives::{
+    Arc, Line, Point, Segment, Vec2, angle_between, arc_steps, distance_point_line,
+    distance_point_segment,
+};
+pub use spiral::{SpiralError, SpiralSpec, cut_at_polar_angle};
+pub use stitching::{GeometryError, build, min_inner_diameter};

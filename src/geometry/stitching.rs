@@ -1,0 +1,519 @@
+//! Joining the layers: where the vias go, how each layer's spiral is
+//! oriented, and the leads from spiral ends to vias and terminals.
+//!
+//! Series wiring: layer 1 runs inward from terminal 1, a via in the free
+//! centre takes the current to layer 2, which runs outward (a mirror image
+//! of layer 1), a via just outside the outermost turn takes it to layer 3,
+//! and so on. Seen from the top the current circulates clockwise on every
+//! layer. Parallel-pairs wiring does the same with pairs of identical
+//! adjacent layers taking the place of single layers.
+//!
+//! Vias are plated through holes: they pass every layer. They sit on a
+//! circle in the free centre ("centre slots") or on a ring outside the
+//! winding ("outer slots"), spread evenly in angle. Each layer is rotated
+//! so that its inner end points straight at its centre slot; its outer end
+//! reaches its outer slot along a lead ring one pitch outside the winding.
+//! On any layer the only copper in the centre and outside the winding is
+//! that layer's own two leads, so a via meets no copper of layers it does
+//! not join.
+//!
+//! # Units
+//! Millimetres and radians.
+
+use super::layout::{Direction, Layout, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding};
+use super::spiral::{SpiralError, SpiralSpec};
+use super::{Arc, Point, Segment, Vec2};
+use crate::spec::{Design, Shape, Wiring};
+use std::f64::consts::{PI, TAU};
+
+/// Why a layout cannot be built from a design.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum GeometryError {
+    /// The spiral itself cannot be made.
+    #[error(transparent)]
+    Spiral(#[from] SpiralError),
+    /// Parallel-pairs wiring needs an even layer count.
+    #[error("parallel-pairs wiring needs an even number of layers, got {0}")]
+    OddParallel(u8),
+    /// Layer count outside 1..=32.
+    #[error("layers must be 1 to 32, got {0}")]
+    Layers(u8),
+    /// The outer slots are too close for the vias and pads.
+    #[error("too many outside vias for the size: neighbouring slots are {gap:.3} mm apart, {need:.3} mm needed")]
+    OuterCrowded {
+        /// Spacing achieved, mm.
+        gap: f64,
+        /// Spacing needed, mm.
+        need: f64,
+    },
+}
+
+/// How the layers are grouped and which junctions they need.
+struct Plan {
+    /// Layers of each group in current order; a group is one layer (series)
+    /// or two (parallel pairs).
+    groups: Vec<Vec<u8>>,
+}
+
+impl Plan {
+    fn new(layers: u8, wiring: Wiring) -> Result<Plan, GeometryError> {
+        if !(1..=32).contains(&layers) {
+            return Err(GeometryError::Layers(layers));
+        }
+        let groups = match wiring {
+            Wiring::Series => (1..=layers).map(|l| vec![l]).collect(),
+            Wiring::ParallelPairs => {
+                if layers % 2 != 0 {
+                    return Err(GeometryError::OddParallel(layers));
+                }
+                (0..layers / 2).map(|g| vec![2 * g + 1, 2 * g + 2]).collect()
+            }
+        };
+        Ok(Plan { groups })
+    }
+
+    /// Number of nodes in the centre: a via for each inward->outward change,
+    /// plus the second terminal when the chain ends in the centre.
+    fn centre_slots(&self) -> usize {
+        self.groups.len().div_ceil(2)
+    }
+
+    /// Number of nodes outside: terminal 1, a via for each outward->inward
+    /// change, and terminal 2 when the chain ends outside.
+    fn outer_slots(&self) -> usize {
+        let g = self.groups.len();
+        1 + (g - 1) / 2 + usize::from(g % 2 == 0)
+    }
+
+    /// Whether the second terminal is in the centre.
+    fn ends_in_centre(&self) -> bool {
+        self.groups.len() % 2 == 1
+    }
+}
+
+/// The smallest free centre (inner diameter, mm) that holds the centre vias
+/// and the centre terminal with `clearance` between them and to the
+/// innermost turn.
+pub fn min_inner_diameter(
+    shape: &Shape,
+    layers: u8,
+    wiring: Wiring,
+    clearance: f64,
+    trace_width: f64,
+    via_diameter: f64,
+    terminal_diameter: f64,
+) -> f64 {
+    let Ok(plan) = Plan::new(layers, wiring) else {
+        return f64::NAN;
+    };
+    let dmax = if plan.ends_in_centre() {
+        via_diameter.max(terminal_diameter)
+    } else {
+        via_diameter
+    };
+    let ring = centre_ring_radius(plan.centre_slots(), dmax, clearance, trace_width);
+    let lead_ring = if centre_leads_need_ring(shape, plan.centre_slots()) {
+        trace_width + clearance
+    } else {
+        0.0
+    };
+    2.0 * (ring + dmax / 2.0 + clearance + lead_ring)
+}
+
+/// Circles rotate each layer so its inner end points at its centre slot;
+/// polygons and rectangles keep their orientation and reach the slot along
+/// a lead ring inside the innermost turn (unless there is a single slot on
+/// the axis, straight inward from the inner end).
+fn centre_leads_need_ring(shape: &Shape, slots: usize) -> bool {
+    !matches!(shape, Shape::Circle) && slots > 1
+}
+
+/// Radius of the circle of centre slots: zero for one slot, otherwise large
+/// enough that neighbouring pads are `clearance` apart and a lead passing a
+/// neighbour keeps `clearance` too.
+fn centre_ring_radius(n: usize, dmax: f64, clearance: f64, trace_width: f64) -> f64 {
+    if n <= 1 {
+        return 0.0;
+    }
+    let chord = (dmax + clearance).max(dmax / 2.0 + trace_width / 2.0 + clearance);
+    chord / (2.0 * (PI / n as f64).sin())
+}
+
+/// A closed convex ring about the axis along which outer leads run and on
+/// which outer vias sit: a circle, or a polygon given by its side normals
+/// and distances.
+#[derive(Debug, Clone)]
+enum Ring {
+    Circle(f64),
+    Polygon { normals: Vec<Vec2>, dist: Vec<f64> },
+}
+
+impl Ring {
+    /// The ring `by` mm further out (parallel sides for a polygon).
+    fn grown(&self, by: f64) -> Ring {
+        match self {
+            Ring::Circle(r) => Ring::Circle(r + by),
+            Ring::Polygon { normals, dist } => Ring::Polygon {
+                normals: normals.clone(),
+                dist: dist.iter().map(|d| d + by).collect(),
+            },
+        }
+    }
+
+    /// The point of the ring on the ray from the axis at `angle`.
+    fn at(&self, angle: f64) -> Point {
+        match self {
+            Ring::Circle(r) => Point::polar(*r, angle),
+            Ring::Polygon { normals, dist } => {
+                let u = Vec2::from_angle(angle);
+                let t = normals
+                    .iter()
+                    .zip(dist)
+                    .filter_map(|(n, d)| {
+                        let c = n.dot(u);
+                        (c > 1e-12).then(|| d / c)
+                    })
+                    .fold(f64::INFINITY, f64::min);
+                Point::ORIGIN + u * t
+            }
+        }
+    }
+
+    /// Polar angles of the polygon's vertices.
+    fn vertex_angles(&self) -> Vec<f64> {
+        match self {
+            Ring::Circle(_) => vec![],
+            Ring::Polygon { normals, dist } => {
+                let n = normals.len();
+                (0..n)
+                    .map(|i| {
+                        let j = (i + 1) % n;
+                        let (n1, n2) = (normals[i], normals[j]);
+                        let det = n1.cross(n2);
+                        let p = Point::new(
+                            (dist[i] * n2.y - dist[j] * n1.y) / det,
+                            (n1.x * dist[j] - n2.x * dist[i]) / det,
+                        );
+                        p.angle()
+                    })
+                    .collect()
+            }
+        }
+    }
+
+    /// Path along the ring from `from` (exact start point, on the ring at
+    /// polar angle `a`) sweeping `sweep` radians about the axis.
+    fn path(&self, from: Point, a: f64, sweep: f64) -> Vec<Segment> {
+        if sweep.abs() < 1e-12 {
+            return vec![];
+        }
+        match self {
+            Ring::Circle(_) => vec![Segment::Arc(Arc::from_start(Point::ORIGIN, from, sweep))],
+            Ring::Polygon { .. } => {
+                // Vertices strictly between a and a + sweep, in order.
+                let mut cuts: Vec<f64> = self
+                    .vertex_angles()
+                    .into_iter()
+                    .map(|v| {
+                        let d = (v - a).rem_euclid(TAU);
+                        if sweep > 0.0 { d } else { d - TAU }
+                    })
+                    .filter(|d| d.abs() > 1e-9 && d.abs() < sweep.abs() - 1e-9)
+                    .collect();
+                cuts.sort_by(|x, y| x.abs().total_cmp(&y.abs()));
+                cuts.push(sweep);
+                let mut out = Vec::with_capacity(cuts.len());
+                let mut at = from;
+                for d in cuts {
+                    let next = self.at(a + d);
+                    out.push(Segment::line(at, next));
+                    at = next;
+                }
+                out
+            }
+        }
+    }
+}
+
+/// The signed sweep from angle `a` to angle `b` the short way, radians.
+fn short_sweep(a: f64, b: f64) -> f64 {
+    let d = (b - a).rem_euclid(TAU);
+    if d > PI { d - TAU } else { d }
+}
+
+/// Reverses a chain of segments (order and direction).
+fn reversed(path: &[Segment]) -> Vec<Segment> {
+    path.iter().rev().map(|s| s.reversed()).collect()
+}
+
+/// Builds the copper of every layer from a validated design.
+pub fn build(design: &Design) -> Result<Layout, GeometryError> {
+    let coil = &design.coil;
+    let plan = Plan::new(coil.layers, coil.wiring)?;
+    let w = coil.trace_width;
+    let s = coil.clearance;
+    let p = coil.pitch();
+    let via_d = design.via.diameter;
+    let term_d = design.terminal.diameter;
+
+    // Canonical spiral: inner end on +x, outward counter-clockwise.
+    let inner = {
+        let r = coil.inner_diameter / 2.0 + w / 2.0;
+        match coil.shape {
+            Shape::Rectangle { width, height } if height < width => r + (width - height) / 2.0,
+            _ => r,
+        }
+    };
+    let spiral = SpiralSpec {
+        shape: coil.shape,
+        corner: coil.corner,
+        pitch: p,
+        inner,
+        turns: coil.turns,
+    }
+    .segments()?;
+    let spiral_end = spiral.last().map(|x| x.end()).unwrap_or(Point::new(inner, 0.0));
+    let outer_end_angle = spiral_end.angle();
+
+    // Centre slots.
+    let nc = plan.centre_slots();
+    let centre_dmax = if plan.ends_in_centre() { via_d.max(term_d) } else { via_d };
+    let rc = centre_ring_radius(nc, centre_dmax, s, w);
+    let centre_angle = |j: usize| TAU * j as f64 / nc as f64;
+    let centre_ring = centre_leads_need_ring(&coil.shape, nc);
+    let inner_lead_radius = rc + centre_dmax / 2.0 + s + w / 2.0;
+    let centre_point = |j: usize| {
+        if nc == 1 { Point::ORIGIN } else { Point::polar(rc, centre_angle(j)) }
+    };
+
+    // Lead ring one pitch outside the winding, vias one pad further out.
+    let lead_ring = match coil.shape {
+        Shape::Circle => Ring::Circle(super::spiral::radial_extent(&spiral).1 + p),
+        Shape::Polygon { sides } => polygon_ring(&spiral, sides as usize, p),
+        Shape::Rectangle { .. } => polygon_ring(&spiral, 4, p),
+    };
+    let lead_ring = match (&lead_ring, coil.layers > 1) {
+        // Mirrored layers reach as far in the mirrored directions.
+        (Ring::Polygon { normals, dist }, true) => {
+            let n = normals.len();
+            Ring::Polygon {
+                normals: normals.clone(),
+                dist: (0..n).map(|k| dist[k].max(dist[(n - k) % n])).collect(),
+            }
+        }
+        _ => lead_ring,
+    };
+    let outer_dmax = via_d.max(term_d);
+    let via_ring = lead_ring.grown(w / 2.0 + s + outer_dmax / 2.0);
+    let no = plan.outer_slots();
+    // Terminals side by side at the top, junction vias spread over the rest.
+    let outer_angle = |j: usize| PI / 2.0 - TAU * j as f64 / no as f64;
+    if no > 1 {
+        let need = outer_dmax + s;
+        let gap = (0..no)
+            .map(|j| via_ring.at(outer_angle(j)).distance(via_ring.at(outer_angle((j + 1) % no))))
+            .fold(f64::INFINITY, f64::min);
+        if gap < need {
+            return Err(GeometryError::OuterCrowded { gap, need });
+        }
+    }
+
+    let mut layout = Layout {
+        name: design.name.clone(),
+        layers: coil.layers,
+        wiring: match coil.wiring {
+            Wiring::Series => super::layout::Wiring::Series,
+            Wiring::ParallelPairs => super::layout::Wiring::ParallelPairs,
+        },
+        tracks: vec![],
+        vias: vec![],
+        pads: vec![],
+        windings: vec![],
+        outline: Outline { segments: vec![] },
+        trace_width: w,
+        clearance: s,
+        pitch: p,
+        inner_radius: 0.0,
+        outer_radius: 0.0,
+        turns: coil.turns,
+    };
+
+    // Nodes: terminal 1 at outer slot 0; then alternately centre and outer.
+    let g = plan.groups.len();
+    layout.pads.push(Pad {
+        name: "1".into(),
+        at: via_ring.at(outer_angle(0)),
+        drill: design.terminal.drill,
+        diameter: term_d,
+        joins: plan.groups[0].clone(),
+        place: Place::Outside,
+    });
+    // Node between group i and i+1 (i = 0..g-1), and the final terminal.
+    let mut boundary: Vec<(Node, Place, f64)> = Vec::with_capacity(g + 1);
+    boundary.push((Node::Pad(0), Place::Outside, outer_angle(0)));
+    let (mut next_centre, mut next_outer) = (0usize, 1usize);
+    for i in 0..g {
+        let centre = i % 2 == 0; // group i runs inward when i is even
+        let (at, angle, place) = if centre {
+            let j = next_centre;
+            next_centre += 1;
+            (centre_point(j), centre_angle(j), Place::Centre)
+        } else {
+            let j = next_outer;
+            next_outer += 1;
+            (via_ring.at(outer_angle(j)), outer_angle(j), Place::Outside)
+        };
+        let node = if i + 1 < g {
+            let mut joins: Vec<u8> = plan.groups[i].clone();
+            joins.extend(&plan.groups[i + 1]);
+            joins.sort();
+            layout.vias.push(Via {
+                at,
+                drill: design.via.drill,
+                diameter: via_d,
+                joins,
+                place,
+            });
+            Node::Via(layout.vias.len() - 1)
+        } else {
+            layout.pads.push(Pad {
+                name: "2".into(),
+                at,
+                drill: design.terminal.drill,
+                diameter: term_d,
+                joins: plan.groups[i].clone(),
+                place,
+            });
+            Node::Pad(1)
+        };
+        boundary.push((node, place, angle));
+    }
+
+    for (i, group) in plan.groups.iter().enumerate() {
+        let inward = i % 2 == 0;
+        // The centre node of this group decides its rotation.
+        let (centre_node, _, centre_angle_i) = if inward { boundary[i + 1] } else { boundary[i] };
+        let (outer_node, _, outer_slot_angle) = if inward { boundary[i] } else { boundary[i + 1] };
+        // Circles turn each layer to face its centre slot; other shapes keep
+        // their orientation.
+        let rot = if centre_ring { 0.0 } else { centre_angle_i };
+        // Inward groups use the canonical spiral, outward ones its mirror.
+        let oriented: Vec<Segment> = spiral
+            .iter()
+            .map(|x| {
+                let x = if inward { *x } else { x.mirrored() };
+                x.rotated(rot)
+            })
+            .collect();
+        let inner_end = oriented[0].start();
+        let outer_end = oriented.last().map(|x| x.end()).unwrap_or(inner_end);
+        let end_angle = if inward {
+            rot + outer_end_angle
+        } else {
+            rot - outer_end_angle
+        };
+        // Centre lead: node -> (inner lead ring ->) inner end.
+        let centre_at = layout.node_at(centre_node);
+        let centre_lead = if centre_ring {
+            let ring = Ring::Circle(inner_lead_radius);
+            let a = ring.at(centre_angle_i);
+            let mut c = vec![Segment::line(centre_at, a)];
+            c.extend(ring.path(a, centre_angle_i, short_sweep(centre_angle_i, rot)));
+            let last = c.last().map(|x| x.end()).unwrap_or(a);
+            c.push(Segment::line(last, inner_end));
+            c
+        } else {
+            vec![Segment::line(centre_at, inner_end)]
+        };
+        // Outer lead: node -> lead ring -> along ring -> outer end.
+        let node_at = layout.node_at(outer_node);
+        let ring_a = lead_ring.at(outer_slot_angle);
+        let mut outer_lead = vec![Segment::line(node_at, ring_a)];
+        outer_lead.extend(lead_ring.path(ring_a, outer_slot_angle, short_sweep(outer_slot_angle, end_angle)));
+        let last = outer_lead.last().map(|x| x.end()).unwrap_or(ring_a);
+        outer_lead.push(Segment::line(last, outer_end));
+
+        let (from, to, chain): (Node, Node, Vec<(Segment, TrackRole)>) = if inward {
+            let mut c: Vec<_> = outer_lead.iter().map(|x| (*x, TrackRole::Lead)).collect();
+            c.extend(reversed(&oriented).into_iter().map(|x| (x, TrackRole::Winding)));
+            c.extend(reversed(&centre_lead).into_iter().map(|x| (x, TrackRole::Lead)));
+            (outer_node, centre_node, c)
+        } else {
+            let mut c: Vec<_> = centre_lead.iter().map(|x| (*x, TrackRole::Lead)).collect();
+            c.extend(oriented.iter().map(|x| (*x, TrackRole::Winding)));
+            c.extend(reversed(&outer_lead).into_iter().map(|x| (x, TrackRole::Lead)));
+            (centre_node, outer_node, c)
+        };
+        for &layer in group {
+            let start = layout.tracks.len();
+            layout.tracks.extend(
+                chain
+                    .iter()
+                    .filter(|(x, _)| x.length() > 0.0)
+                    .map(|&(segment, role)| Track { layer, segment, width: w, role }),
+            );
+            layout.windings.push(Winding {
+                layer,
+                group: i,
+                tracks: (start, layout.tracks.len()),
+                from,
+                to,
+                direction: if inward { Direction::Inward } else { Direction::Outward },
+                turns: coil.turns,
+            });
+        }
+    }
+
+    let (rmin, rmax) = super::spiral::radial_extent(&spiral);
+    layout.inner_radius = rmin - w / 2.0;
+    layout.outer_radius = rmax + w / 2.0;
+    let edge = via_ring.grown(outer_dmax / 2.0 + design.board.margin);
+    layout.outline = Outline {
+        segments: match &edge {
+            Ring::Circle(r) => {
+                let start = Point::new(*r, 0.0);
+                vec![
+                    Segment::Arc(Arc::from_start(Point::ORIGIN, start, PI)),
+                    Segment::Arc(Arc {
+                        center: Point::ORIGIN,
+                        start: Point::new(-r, 0.0),
+                        end: start,
+                        sweep: PI,
+                    }),
+                ]
+            }
+            Ring::Polygon { .. } => {
+                let mut pts: Vec<Point> = edge.vertex_angles().into_iter().map(|a| edge.at(a)).collect();
+                pts.push(pts[0]);
+                pts.windows(2).map(|w| Segment::line(w[0], w[1])).collect()
+            }
+        },
+    };
+    // Make the first outline arc end exactly where the second starts.
+    if let [Segment::Arc(a), Segment::Arc(b)] = layout.outline.segments.as_mut_slice() {
+        a.end = b.start;
+    }
+    Ok(layout)
+}
+
+/// A polygon ring whose every side is `gap` outside the farthest winding
+/// copper in that side's normal direction.
+fn polygon_ring(spiral: &[Segment], sides: usize, gap: f64) -> Ring {
+    let normals: Vec<Vec2> = (0..sides)
+        .map(|k| Vec2::from_angle(TAU * k as f64 / sides as f64))
+        .collect();
+    let dist = normals
+        .iter()
+        .map(|n| {
+            spiral
+                .iter()
+                .flat_map(|s| s.flatten(1e-6))
+                .map(|p| n.dot(p.to_vec2()))
+                .fold(f64::NEG_INFINITY, f64::max)
+                + 1e-6
+                + gap
+        })
+        .collect();
+    Ring::Polygon { normals, dist }
+}
+

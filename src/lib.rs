@@ -1,0 +1,12 @@
+//! coilwright: printed-circuit coils from a design file to fab-ready files.
+//!
+//! Data flows one way through pure stages: [`spec`] (design file to a
+//! validated [`spec::Design`]), [`geometry`] (copper on every layer as a
+//! [`geometry::Layout`]), [`rules`] (fab rule check on the layout),
+//! [`physics`] (resistance, inductance, field, force, heating, bending) and
+//! [`export`] (Gerber, Excellon, job file, KiCad, SVG, report). Only the
+//! command-line front end touches the file system.
+#![warn(missing_docs)]
+
+pub mod geometry;
+pub mod spec;

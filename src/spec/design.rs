@@ -1,0 +1,239 @@
+//! The validated design: every length in millimetres, every value checked.
+//!
+//! Produced by [`super::parse`] from a design file; the sizes (outer and
+//! inner diameter, turns) are already resolved, so every later stage can
+//! rely on all three.
+
+use serde::Serialize;
+
+/// A complete, validated coil design. Lengths are millimetres.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Design {
+    /// Design name (used in file names and titles).
+    pub name: String,
+    /// Winding geometry.
+    pub coil: Coil,
+    /// Layer stack.
+    pub stackup: Stackup,
+    /// Vias joining layers.
+    pub via: HoleSize,
+    /// Terminal pads (plated through holes).
+    pub terminal: HoleSize,
+    /// Board outline.
+    pub board: Board,
+    /// Fab rules to check against.
+    pub rules: RulesRequest,
+    /// Optional permanent magnet driven by the coil.
+    pub magnet: Option<Magnet>,
+    /// Electrical drive and thermal environment.
+    pub drive: Drive,
+}
+
+/// Outline of the spiral.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum Shape {
+    /// Circular spiral of true arcs.
+    Circle,
+    /// Regular polygon spiral, 3..=12 sides.
+    Polygon {
+        /// Number of sides.
+        sides: u8,
+    },
+    /// Rectangular spiral; `width` x `height` is the outer copper size, mm.
+    Rectangle {
+        /// Outer copper width (x), mm.
+        width: f64,
+        /// Outer copper height (y), mm.
+        height: f64,
+    },
+}
+
+/// Corner style of polygon and rectangle spirals.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum Corner {
+    /// Straight sides meeting at a point.
+    Sharp,
+    /// Corners rounded by arcs; `radius` (mm) is the centre-line radius of
+    /// the innermost corner; each outer turn's corner grows by the pitch so
+    /// that the corners are concentric and the pitch stays exact.
+    Round {
+        /// Innermost corner radius, mm.
+        radius: f64,
+    },
+}
+
+/// How the layers are connected.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "kebab-case")]
+pub enum Wiring {
+    /// All layers in series.
+    Series,
+    /// Adjacent layers in parallel pairs, the pairs in series (even layer counts).
+    ParallelPairs,
+}
+
+/// Winding geometry. All sizes resolved.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Coil {
+    /// Shape of the spiral.
+    pub shape: Shape,
+    /// Diameter of the smallest circle about the axis that holds all winding
+    /// copper, mm (for a rectangle: its diagonal).
+    pub outer_diameter: f64,
+    /// Diameter of the largest circle about the axis free of winding copper, mm.
+    pub inner_diameter: f64,
+    /// Turns per layer (may be fractional).
+    pub turns: f64,
+    /// Track width, mm.
+    pub trace_width: f64,
+    /// Gap between neighbouring turns, mm.
+    pub clearance: f64,
+    /// Number of copper layers, 1..=32.
+    pub layers: u8,
+    /// Series or parallel-pairs.
+    pub wiring: Wiring,
+    /// Corner style (polygon and rectangle).
+    pub corner: Corner,
+}
+
+impl Coil {
+    /// Centre-to-centre distance of neighbouring turns, mm.
+    pub fn pitch(&self) -> f64 {
+        self.trace_width + self.clearance
+    }
+}
+
+/// Rigid or flexible board.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum BoardKind {
+    /// Flexible (polyimide, coverlay).
+    Flex,
+    /// Rigid (FR-4, solder mask).
+    Rigid,
+}
+
+/// Static (bent once to install) or dynamic (bent repeatedly).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum BendKind {
+    /// Bent once, at installation.
+    Static,
+    /// Bent repeatedly in service.
+    Dynamic,
+}
+
+/// A requested bend of a flexible board.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Bend {
+    /// Bend radius, mm.
+    pub radius: f64,
+    /// Static or dynamic.
+    pub kind: BendKind,
+}
+
+/// Layer stack.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Stackup {
+    /// Flex or rigid.
+    pub kind: BoardKind,
+    /// Copper thickness per layer, top first, mm (length = layers).
+    pub copper: Vec<f64>,
+    /// Dielectric thickness per gap between copper layers, top first, mm
+    /// (length = layers - 1).
+    pub dielectric: Vec<f64>,
+    /// Dielectric material name (for the job file), e.g. "Polyimide", "FR4".
+    pub dielectric_material: String,
+    /// Relative permittivity of the dielectric.
+    pub dielectric_constant: f64,
+    /// Via barrel plating thickness, mm.
+    pub plating: f64,
+    /// Coverlay (flex) or solder mask (rigid) thickness on each outer face, mm.
+    pub cover: f64,
+    /// Requested bend, flex only.
+    pub bend: Option<Bend>,
+}
+
+/// Drill and pad size of a plated hole.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct HoleSize {
+    /// Finished hole diameter, mm.
+    pub drill: f64,
+    /// Pad (land) diameter, mm.
+    pub diameter: f64,
+}
+
+/// Board outline settings.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Board {
+    /// Distance from the outermost copper to the board edge, mm.
+    pub margin: f64,
+}
+
+/// Which fab rule profile to use, and per-design overrides (mm).
+#[derive(Debug, Clone, PartialEq, Default, Serialize)]
+pub struct RulesRequest {
+    /// Built-in profile name ("standard", "fine", "cautious") or a path.
+    pub profile: String,
+    /// Overrides of individual rule values.
+    pub overrides: RuleOverrides,
+}
+
+/// Rule values a design may override; `None` keeps the profile's value.
+#[derive(Debug, Clone, Copy, PartialEq, Default, Serialize)]
+pub struct RuleOverrides {
+    /// Minimum track width, mm.
+    pub min_trace_width: Option<f64>,
+    /// Minimum copper-to-copper clearance, mm.
+    pub min_clearance: Option<f64>,
+    /// Minimum finished drill, mm.
+    pub min_drill: Option<f64>,
+    /// Minimum annular ring, mm.
+    pub min_annular_ring: Option<f64>,
+    /// Minimum hole-to-hole spacing (edge to edge), mm.
+    pub min_hole_spacing: Option<f64>,
+    /// Minimum copper-to-board-edge distance, mm.
+    pub min_edge_clearance: Option<f64>,
+}
+
+/// An axially magnetised cylindrical permanent magnet on the coil axis.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Magnet {
+    /// Diameter, mm.
+    pub diameter: f64,
+    /// Thickness (axial length), mm.
+    pub thickness: f64,
+    /// Remanence, tesla.
+    pub remanence: f64,
+    /// Gap from the coil's top copper surface to the magnet face, mm.
+    pub gap: f64,
+}
+
+/// The electrical source.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "kind", content = "value", rename_all = "snake_case")]
+pub enum Source {
+    /// Constant voltage, volts.
+    Voltage(f64),
+    /// Constant current, amperes.
+    Current(f64),
+}
+
+/// Drive and thermal environment.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Drive {
+    /// Voltage or current source.
+    pub source: Source,
+    /// Ambient temperature, degrees C.
+    pub ambient: f64,
+    /// Highest allowed copper temperature, degrees C.
+    pub max_temperature: f64,
+    /// Optional frequency for impedance and Q, Hz.
+    pub frequency: Option<f64>,
+    /// Optional override of the convection coefficient, W/(m^2 K).
+    pub convection: Option<f64>,
+    /// Surface emissivity for radiation (0..1).
+    pub emissivity: f64,
+}
