@@ -5,8 +5,13 @@
 //! [`geometry::Layout`]), [`rules`] (fab rule check on the layout),
 //! [`physics`] (resistance, inductance, field, force, heating, bending) and
 //! [`export`] (Gerber, Excellon, job file, KiCad, SVG, report). Only the
-//! command-line front end touches the file system.
+//! command-line front end ([`cli`]) touches the file system.
 #![warn(missing_docs)]
 
+pub mod cli;
+pub mod explore;
+pub mod export;
 pub mod geometry;
+pub mod physics;
+pub mod rules;
 pub mod spec;

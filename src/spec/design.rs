@@ -237,3 +237,62 @@ pub struct Drive {
     /// Surface emissivity for radiation (0..1).
     pub emissivity: f64,
 }
+
+impl Design {
+    /// A small valid design (4-layer circular flex coil, 20 mm outside,
+    /// 10 turns, 0.1/0.1 mm) for examples and tests. Invented numbers.
+    pub fn sample() -> Design {
+        let layers = 4u8;
+        Design {
+            name: "sample-coil".into(),
+            coil: Coil {
+                shape: Shape::Circle,
+                outer_diameter: 20.0,
+                inner_diameter: 20.0 - 2.0 * (10.0 * 0.2 + 0.1),
+                turns: 10.0,
+                trace_width: 0.1,
+                clearance: 0.1,
+                layers,
+                wiring: Wiring::Series,
+                corner: Corner::Sharp,
+            },
+            stackup: Stackup {
+                kind: BoardKind::Flex,
+                copper: vec![0.035; layers as usize],
+                dielectric: vec![0.05; layers as usize - 1],
+                dielectric_material: "Polyimide".into(),
+                dielectric_constant: 3.4,
+                plating: 0.02,
+                cover: 0.0375,
+                bend: None,
+            },
+            via: HoleSize {
+                drill: 0.2,
+                diameter: 0.45,
+            },
+            terminal: HoleSize {
+                drill: 0.4,
+                diameter: 0.8,
+            },
+            board: Board { margin: 0.5 },
+            rules: RulesRequest {
+                profile: "standard".into(),
+                overrides: RuleOverrides::default(),
+            },
+            magnet: Some(Magnet {
+                diameter: 5.0,
+                thickness: 2.0,
+                remanence: 1.3,
+                gap: 0.5,
+            }),
+            drive: Drive {
+                source: Source::Voltage(3.3),
+                ambient: 25.0,
+                max_temperature: 80.0,
+                frequency: None,
+                convection: None,
+                emissivity: 0.9,
+            },
+        }
+    }
+}

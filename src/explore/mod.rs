@@ -1,0 +1,4 @@
+//! Design exploration: sweeps over design keys, requirements, ranking and
+//! the Pareto front.
+//!
+//! (Skeleton: lands with the exploration issue.)
