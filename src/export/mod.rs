@@ -2,6 +2,8 @@
 //! never compute geometry; coordinates go through
 //! [`crate::geometry::round`].
 
+pub mod svg;
+
 use crate::geometry::Layout;
 use crate::physics::Analysis;
 use crate::spec::Design;
@@ -28,8 +30,28 @@ pub enum ExportError {
 /// Everything `build` writes, in a fixed order.
 pub fn bundle(
     _design: &Design,
-    _layout: &Layout,
+    layout: &Layout,
     _analysis: &Analysis,
 ) -> Result<Vec<OutFile>, ExportError> {
-    Ok(Vec::new())
+    let mut out = Vec::new();
+    out.extend(previews(layout, &[]));
+    Ok(out)
+}
+
+/// The SVG previews: `preview/stack.svg` and `preview/layer-N.svg`, with
+/// `violations` marked.
+pub fn previews(layout: &Layout, violations: &[crate::rules::Violation]) -> Vec<OutFile> {
+    let mut out = vec![OutFile {
+        path: "preview/stack.svg".into(),
+        role: "preview of all copper layers stacked".into(),
+        bytes: svg::preview(layout, svg::View::Stack, violations).into_bytes(),
+    }];
+    for l in 1..=layout.layers {
+        out.push(OutFile {
+            path: format!("preview/layer-{l}.svg"),
+            role: format!("preview of copper layer {l}"),
+            bytes: svg::preview(layout, svg::View::Layer(l), violations).into_bytes(),
+        });
+    }
+    out
 }

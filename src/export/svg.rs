@@ -1,0 +1,435 @@
+//! SVG previews: one drawing per copper layer and a stacked view, with vias,
+//! terminal pads, the board outline, current-direction arrows, a legend, a
+//! scale bar and (optionally) rule violations marked on top.
+//!
+//! Coordinates go through [`crate::geometry::round`] like every other
+//! exporter; y is flipped (SVG y runs down). Colours are samples of the
+//! viridis colour map (perceptually uniform), one per layer.
+
+use crate::geometry::round::{format_mm, to_nm};
+use crate::geometry::{Direction, Layout, Point, Segment, TrackRole};
+use crate::rules::{Severity, Violation};
+use std::fmt::Write;
+
+/// Viridis colour map, 9 samples from 0.0 to 1.0 (matplotlib's data).
+const VIRIDIS: [(f64, f64, f64); 9] = [
+    (0.267, 0.005, 0.329),
+    (0.278, 0.176, 0.482),
+    (0.231, 0.322, 0.545),
+    (0.173, 0.443, 0.557),
+    (0.129, 0.565, 0.553),
+    (0.153, 0.682, 0.502),
+    (0.361, 0.784, 0.388),
+    (0.667, 0.863, 0.196),
+    (0.992, 0.906, 0.145),
+];
+
+/// Paper, ink and marker colours of the previews.
+const PAPER: &str = "#faf7f2";
+const INK: &str = "#2b2b33";
+const OUTLINE: &str = "#8a8578";
+const MARK_ERROR: &str = "#d7263d";
+const MARK_WARNING: &str = "#f18f01";
+
+/// Colour of layer `layer` (1-based) of `layers`, as `#rrggbb`: viridis
+/// sampled between 0.0 and 0.85 (the bright yellow end is hard to see on paper).
+pub fn layer_colour(layer: u8, layers: u8) -> String {
+    let t = if layers <= 1 {
+        0.0
+    } else {
+        0.85 * f64::from(layer - 1) / f64::from(layers - 1)
+    };
+    let x = t * (VIRIDIS.len() - 1) as f64;
+    let i = (x.floor() as usize).min(VIRIDIS.len() - 2);
+    let f = x - i as f64;
+    let (a, b) = (VIRIDIS[i], VIRIDIS[i + 1]);
+    let c = |u: f64, v: f64| ((u + (v - u) * f) * 255.0).round() as u8;
+    format!("#{:02x}{:02x}{:02x}", c(a.0, b.0), c(a.1, b.1), c(a.2, b.2))
+}
+
+/// A coordinate in SVG user units (mm) with y flipped, rounded through the
+/// shared nanometre grid.
+fn xy(p: Point) -> String {
+    format!("{} {}", format_mm(to_nm(p.x)), format_mm(-to_nm(p.y)))
+}
+
+fn mm(v: f64) -> String {
+    format_mm(to_nm(v))
+}
+
+/// SVG path data of a chain of segments starting with a move-to.
+fn path_data(segs: &[Segment]) -> String {
+    let mut d = String::new();
+    let mut at: Option<Point> = None;
+    for s in segs {
+        if at.is_none_or(|p| to_nm(p.x) != to_nm(s.start().x) || to_nm(p.y) != to_nm(s.start().y)) {
+            let _ = write!(d, "M{} ", xy(s.start()));
+        }
+        match s {
+            Segment::Line(l) => {
+                let _ = write!(d, "L{} ", xy(l.end));
+            }
+            Segment::Arc(a) => {
+                let r = mm(a.radius());
+                let large = u8::from(a.sweep.abs() > std::f64::consts::PI);
+                // Counter-clockwise with y up is counter-clockwise on screen,
+                // which is SVG's negative sweep direction.
+                let sweep = u8::from(a.sweep < 0.0);
+                let _ = write!(d, "A{r} {r} 0 {large} {sweep} {} ", xy(a.end));
+            }
+        }
+        at = Some(s.end());
+    }
+    d.trim_end().to_string()
+}
+
+/// Which layers and overlays a drawing shows.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum View {
+    /// One copper layer (1 = top).
+    Layer(u8),
+    /// All layers stacked, top drawn last.
+    Stack,
+}
+
+/// Draws a preview of `layout` as an SVG document.
+pub fn preview(layout: &Layout, view: View, violations: &[Violation]) -> String {
+    let (lo, hi) = layout.outline_bounds();
+    let legend_w = 0.8 * (hi.x - lo.x).max(hi.y - lo.y).max(12.0);
+    let pad = 0.08 * (hi.x - lo.x).max(hi.y - lo.y).max(2.0);
+    let (x0, y0) = (lo.x - pad, -hi.y - pad);
+    let w = hi.x - lo.x + 2.0 * pad + legend_w;
+    let h = (hi.y - lo.y + 2.0 * pad).max(0.9 * legend_w);
+    let font = (0.035 * h).max(0.3);
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" viewBox="{} {} {} {}" width="{}mm" height="{}mm" font-family="DejaVu Sans, Helvetica, Arial, sans-serif">"#,
+        mm(x0),
+        mm(y0),
+        mm(w),
+        mm(h),
+        mm(w),
+        mm(h)
+    );
+    let title = match view {
+        View::Layer(l) => format!("{} - copper layer {l} of {}", layout.name, layout.layers),
+        View::Stack => format!("{} - all {} layers stacked", layout.name, layout.layers),
+    };
+    let _ = writeln!(s, "<title>{}</title>", escape(&title));
+    let _ = writeln!(
+        s,
+        r#"<rect x="{}" y="{}" width="{}" height="{}" fill="{PAPER}"/>"#,
+        mm(x0),
+        mm(y0),
+        mm(w),
+        mm(h)
+    );
+    // Board outline.
+    let _ = writeln!(
+        s,
+        r#"<path d="{}" fill="none" stroke="{OUTLINE}" stroke-width="{}" stroke-dasharray="{} {}"/>"#,
+        path_data(&layout.outline.segments),
+        mm(font * 0.08),
+        mm(font * 0.5),
+        mm(font * 0.3)
+    );
+    let layers: Vec<u8> = match view {
+        View::Layer(l) => vec![l],
+        View::Stack => (1..=layout.layers).rev().collect(),
+    };
+    let opacity = if matches!(view, View::Stack) && layout.layers > 1 {
+        0.6
+    } else {
+        1.0
+    };
+    for &l in &layers {
+        let colour = layer_colour(l, layout.layers);
+        let _ = writeln!(
+            s,
+            r#"<g id="layer-{l}" stroke="{colour}" stroke-opacity="{opacity}" fill="none" stroke-linecap="round" stroke-linejoin="round">"#
+        );
+        for w in layout.windings.iter().filter(|w| w.layer == l) {
+            let segs: Vec<Segment> = layout.winding_tracks(w).iter().map(|t| t.segment).collect();
+            let _ = writeln!(
+                s,
+                r#"<path d="{}" stroke-width="{}"/>"#,
+                path_data(&segs),
+                mm(layout.trace_width)
+            );
+        }
+        let _ = writeln!(s, "</g>");
+    }
+    // Current-direction arrows on the drawn layers.
+    for &l in &layers {
+        let colour = layer_colour(l, layout.layers);
+        for w in layout.windings.iter().filter(|w| w.layer == l) {
+            for (p, dir) in arrow_points(layout, w, 4) {
+                let size = (layout.pitch * 2.5).max(font * 0.6);
+                let tip = p + dir * (size * 0.6);
+                let back = p - dir * (size * 0.4);
+                let side = dir.perp() * (size * 0.35);
+                let _ = writeln!(
+                    s,
+                    r#"<path d="M{} L{} L{} Z" fill="{colour}" stroke="{INK}" stroke-width="{}"/>"#,
+                    xy(tip),
+                    xy(back + side),
+                    xy(back - side),
+                    mm(size * 0.04)
+                );
+            }
+        }
+    }
+    // Vias and pads (through holes: drawn on every view).
+    for v in &layout.vias {
+        let joined = match view {
+            View::Layer(l) => v.joins.contains(&l),
+            View::Stack => true,
+        };
+        let ring = if joined { INK } else { OUTLINE };
+        let _ = writeln!(
+            s,
+            r#"<circle cx="{}" cy="{}" r="{}" fill="{ring}" fill-opacity="{}"/><circle cx="{}" cy="{}" r="{}" fill="{PAPER}"/>"#,
+            mm(v.at.x),
+            mm(-v.at.y),
+            mm(v.diameter / 2.0),
+            if joined { "0.9" } else { "0.35" },
+            mm(v.at.x),
+            mm(-v.at.y),
+            mm(v.drill / 2.0)
+        );
+    }
+    for p in &layout.pads {
+        let _ = writeln!(
+            s,
+            r#"<circle cx="{}" cy="{}" r="{}" fill="{INK}"/><circle cx="{}" cy="{}" r="{}" fill="{PAPER}"/><text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="bold">{}</text>"#,
+            mm(p.at.x),
+            mm(-p.at.y),
+            mm(p.diameter / 2.0),
+            mm(p.at.x),
+            mm(-p.at.y),
+            mm(p.drill / 2.0),
+            mm(p.at.x + p.diameter * 0.6),
+            mm(-p.at.y - p.diameter * 0.6),
+            mm(font),
+            escape(&p.name)
+        );
+    }
+    // Violations.
+    for v in violations.iter().filter(|v| match view {
+        View::Layer(l) => v.layer.is_none_or(|x| x == l),
+        View::Stack => true,
+    }) {
+        let c = if v.severity == Severity::Error {
+            MARK_ERROR
+        } else {
+            MARK_WARNING
+        };
+        let r = (layout.pitch * 3.0).max(font * 0.8);
+        let _ = writeln!(
+            s,
+            r#"<g class="violation"><circle cx="{}" cy="{}" r="{}" fill="none" stroke="{c}" stroke-width="{}"/><text x="{}" y="{}" font-size="{}" fill="{c}">{}</text></g>"#,
+            mm(v.at.x),
+            mm(-v.at.y),
+            mm(r),
+            mm(r * 0.2),
+            mm(v.at.x + r * 1.1),
+            mm(-v.at.y - r * 1.1),
+            mm(font * 0.8),
+            escape(v.rule)
+        );
+    }
+    // Legend at the right.
+    let lx = hi.x + pad;
+    let mut ly = -hi.y + font;
+    let _ = writeln!(
+        s,
+        r#"<text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="bold">{}</text>"#,
+        mm(lx),
+        mm(ly),
+        mm(font * 1.1),
+        escape(&layout.name)
+    );
+    ly += font * 1.5;
+    let info = format!(
+        "{:.2} turns/layer, w {} mm, gap {} mm",
+        layout.turns,
+        mm(layout.trace_width),
+        mm(layout.clearance)
+    );
+    let _ = writeln!(
+        s,
+        r#"<text x="{}" y="{}" font-size="{}" fill="{INK}">{}</text>"#,
+        mm(lx),
+        mm(ly),
+        mm(font * 0.8),
+        escape(&info)
+    );
+    ly += font * 1.4;
+    for l in 1..=layout.layers {
+        if let View::Layer(v) = view
+            && v != l
+            && layout.layers > 8
+        {
+            continue;
+        }
+        let dir = layout
+            .windings
+            .iter()
+            .find(|w| w.layer == l)
+            .map(|w| match w.direction {
+                Direction::Inward => "inward",
+                Direction::Outward => "outward",
+            })
+            .unwrap_or("");
+        let weight = if view == View::Layer(l) {
+            "bold"
+        } else {
+            "normal"
+        };
+        let _ = writeln!(
+            s,
+            r#"<rect x="{}" y="{}" width="{}" height="{}" fill="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="{weight}">L{l}{}: {dir}, clockwise</text>"#,
+            mm(lx),
+            mm(ly - font * 0.7),
+            mm(font * 1.2),
+            mm(font * 0.7),
+            layer_colour(l, layout.layers),
+            mm(lx + font * 1.6),
+            mm(ly),
+            mm(font * 0.8),
+            if l == 1 {
+                " top"
+            } else if l == layout.layers {
+                " bottom"
+            } else {
+                ""
+            }
+        );
+        ly += font * 1.1;
+    }
+    ly += font * 0.4;
+    let _ = writeln!(
+        s,
+        r#"<circle cx="{}" cy="{}" r="{}" fill="{INK}"/><text x="{}" y="{}" font-size="{}" fill="{INK}">via / terminal pad (grey: not joined here)</text>"#,
+        mm(lx + font * 0.6),
+        mm(ly - font * 0.3),
+        mm(font * 0.35),
+        mm(lx + font * 1.6),
+        mm(ly),
+        mm(font * 0.8)
+    );
+    ly += font * 1.1;
+    let _ = writeln!(
+        s,
+        r#"<text x="{}" y="{}" font-size="{}" fill="{INK}">arrows: current from pad 1 to pad 2</text>"#,
+        mm(lx),
+        mm(ly),
+        mm(font * 0.8)
+    );
+    if !violations.is_empty() {
+        ly += font * 1.1;
+        let _ = writeln!(
+            s,
+            r#"<text x="{}" y="{}" font-size="{}" fill="{MARK_ERROR}">circles: {} rule violation(s)</text>"#,
+            mm(lx),
+            mm(ly),
+            mm(font * 0.8),
+            violations.len()
+        );
+    }
+    // Scale bar: a round length about a quarter of the board.
+    let span = (hi.x - lo.x).max(1e-3);
+    let bar = nice_length(span / 4.0);
+    let by = -lo.y + pad * 0.55;
+    let _ = writeln!(
+        s,
+        r#"<path d="M{} {} h{} M{} {} v{} M{} {} v{}" stroke="{INK}" stroke-width="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}">{} mm</text>"#,
+        mm(lo.x),
+        mm(by),
+        mm(bar),
+        mm(lo.x),
+        mm(by - font * 0.3),
+        mm(font * 0.6),
+        mm(lo.x + bar),
+        mm(by - font * 0.3),
+        mm(font * 0.6),
+        mm(font * 0.1),
+        mm(lo.x + bar + font * 0.4),
+        mm(by + font * 0.3),
+        mm(font * 0.8),
+        mm(bar)
+    );
+    s.push_str("</svg>\n");
+    s
+}
+
+/// A 1-2-5 series length not above `x`, mm.
+fn nice_length(x: f64) -> f64 {
+    let e = 10f64.powf(x.log10().floor());
+    [5.0, 2.0, 1.0]
+        .into_iter()
+        .map(|m| m * e)
+        .find(|&v| v <= x)
+        .unwrap_or(e)
+}
+
+/// `n` positions and current directions spread along the winding part of
+/// a layer's copper (by length).
+fn arrow_points(
+    layout: &Layout,
+    w: &crate::geometry::Winding,
+    n: usize,
+) -> Vec<(Point, crate::geometry::Vec2)> {
+    let tracks: Vec<_> = layout
+        .winding_tracks(w)
+        .iter()
+        .filter(|t| t.role == TrackRole::Winding)
+        .collect();
+    let total: f64 = tracks.iter().map(|t| t.segment.length()).sum();
+    let mut out = Vec::new();
+    for k in 0..n {
+        let mut target = total * (k as f64 + 0.5) / n as f64;
+        for t in &tracks {
+            let len = t.segment.length();
+            if target <= len && len > 0.0 {
+                let f = target / len;
+                let p = t.segment.point_at(f);
+                let dir = match t.segment {
+                    Segment::Line(l) => l.end - l.start,
+                    Segment::Arc(a) => (p - a.center).perp() * a.sweep.signum(),
+                };
+                if let Some(d) = dir.normalized() {
+                    out.push((p, d));
+                }
+                break;
+            }
+            target -= len;
+        }
+    }
+    out
+}
+
+fn escape(s: &str) -> String {
+    s.replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;")
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn colours_are_viridis_ends() {
+        assert_eq!(layer_colour(1, 4), "#440154");
+        assert_eq!(layer_colour(1, 1), "#440154");
+    }
+
+    #[test]
+    fn nice_lengths() {
+        assert_eq!(nice_length(7.0), 5.0);
+        assert_eq!(nice_length(0.3), 0.2);
+        assert_eq!(nice_length(1.0), 1.0);
+    }
+}
