@@ -253,7 +253,9 @@ impl FitInput {
                     turns: t,
                 })
             }
-            (None, Some(id), Some(TurnsRequest::Count(t))) => {
+            (None, Some(id), Some(TurnsRequest::Count(t)))
+                if !matches!(self.shape, Shape::Rectangle { .. }) =>
+            {
                 check_inner(id)?;
                 Ok(Fit {
                     outer_diameter: self.outer_of(self.inner_param(id), t)?,

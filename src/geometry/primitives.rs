@@ -427,6 +427,24 @@ impl Segment {
         }
     }
 
+    /// Support function: the largest `n . p` over points `p` of the centre
+    /// line, mm (for a unit `n`, how far the segment reaches in direction `n`).
+    pub fn support(&self, n: Vec2) -> f64 {
+        let ends = n
+            .dot(self.start().to_vec2())
+            .max(n.dot(self.end().to_vec2()));
+        match self {
+            Segment::Line(_) => ends,
+            Segment::Arc(a) => {
+                if a.contains_angle(n.angle()) {
+                    ends.max(n.dot(a.center.to_vec2()) + a.radius() * n.length())
+                } else {
+                    ends
+                }
+            }
+        }
+    }
+
     /// Smallest distance of the centre line from the origin, mm.
     pub fn min_radius(&self) -> f64 {
         distance_point_segment(Point::ORIGIN, self)

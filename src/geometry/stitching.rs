@@ -572,10 +572,8 @@ fn polygon_ring(spiral: &[Segment], sides: usize, gap: f64) -> Ring {
         .map(|n| {
             spiral
                 .iter()
-                .flat_map(|s| s.flatten(1e-6))
-                .map(|p| n.dot(p.to_vec2()))
+                .map(|s| s.support(*n))
                 .fold(f64::NEG_INFINITY, f64::max)
-                + 1e-6
                 + gap
         })
         .collect();

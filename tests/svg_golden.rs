@@ -1,0 +1,29 @@
+//! Golden SVG preview of one small design (a 2-layer, 3.5-turn circle).
+//! Review changes with `cargo insta review` (or delete the snapshot and rerun).
+use coilwright::export::svg::{View, preview};
+use coilwright::geometry;
+use coilwright::spec::Design;
+
+fn small() -> Design {
+    let mut d = Design::sample();
+    d.name = "golden-small".into();
+    d.coil.layers = 2;
+    d.coil.turns = 3.5;
+    d.coil.inner_diameter = 4.0;
+    d.coil.outer_diameter = 4.0 + 2.0 * 3.5 * 0.2 + 0.2;
+    d.stackup.copper = vec![0.035; 2];
+    d.stackup.dielectric = vec![0.05];
+    d
+}
+
+#[test]
+fn golden_stack_preview() {
+    let l = geometry::build(&small()).unwrap();
+    insta::assert_snapshot!("stack", preview(&l, View::Stack, &[]));
+}
+
+#[test]
+fn golden_layer_preview() {
+    let l = geometry::build(&small()).unwrap();
+    insta::assert_snapshot!("layer2", preview(&l, View::Layer(2), &[]));
+}
