@@ -1,4 +1,678 @@
-//! Design exploration: sweeps over design keys, requirements, ranking and
-//! the Pareto front.
+//! Design exploration: sweep design keys, keep the candidates that meet the
+//! requirements, rank them by an objective and show the trade-off.
 //!
-//! (Skeleton: lands with the exploration issue.)
+//! Every candidate is the base design file with some keys replaced; it goes
+//! through the same pipeline as `build` (validation, geometry, rule check,
+//! analysis) via the evaluator the caller passes in, so this module stays
+//! free of I/O. Invalid or rule-breaking candidates stay in the table with
+//! their reason.
+//!
+//! Size keys: a coil takes exactly two of outer_diameter, inner_diameter and
+//! turns. When a sweep varies one of them and the base file gives the other
+//! two, the one not varied is dropped in this order: inner_diameter, turns,
+//! outer_diameter (so "turns within this outer diameter" works from a base
+//! that gives outer and inner diameter).
+
+mod pareto;
+mod require;
+mod vary;
+
+pub use pareto::{PlotPoint, front, plot};
+pub use require::{Op, Requirement, check_metric};
+pub use vary::{Kind, NUMERIC_KEYS, Value, Vary, parse as parse_vary, resolve_key};
+
+use rayon::prelude::*;
+use serde::Serialize;
+use std::collections::BTreeMap;
+
+/// Bad sweep arguments.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum SweepError {
+    /// The key is not a design key.
+    #[error("unknown design key '{key}'{}", hint(suggestion))]
+    UnknownKey {
+        /// As typed.
+        key: String,
+        /// Nearest known key.
+        suggestion: Option<String>,
+    },
+    /// The short key names several keys.
+    #[error("'{key}' is ambiguous: write one of {}", candidates.join(", "))]
+    AmbiguousKey {
+        /// As typed.
+        key: String,
+        /// Full paths it could mean.
+        candidates: Vec<String>,
+    },
+    /// The key holds text, not a number.
+    #[error(
+        "'{key}' is not a numeric key and cannot be swept (numeric keys: turns, layers, trace_width, clearance, outer_diameter, copper, ...)"
+    )]
+    NotNumeric {
+        /// As typed.
+        key: String,
+    },
+    /// The values do not parse.
+    #[error("--vary {arg}: {message}")]
+    BadValues {
+        /// The argument.
+        arg: String,
+        /// What is wrong.
+        message: String,
+    },
+    /// A range or list with no values.
+    #[error("--vary {arg}: the range is empty (give A..B with A <= B, or a list)")]
+    EmptyRange {
+        /// The argument.
+        arg: String,
+    },
+    /// Step zero or negative.
+    #[error("--vary {arg}: the step must be positive")]
+    ZeroStep {
+        /// The argument.
+        arg: String,
+    },
+    /// The same key varied twice.
+    #[error("--vary {key} is given twice")]
+    Duplicate {
+        /// Key path.
+        key: String,
+    },
+    /// Too many combinations.
+    #[error("{count} candidates; at most {max} per sweep")]
+    TooMany {
+        /// Product of all value counts.
+        count: usize,
+        /// Limit.
+        max: usize,
+    },
+    /// A requirement that does not parse.
+    #[error("--require '{text}': {message}")]
+    BadRequirement {
+        /// As typed.
+        text: String,
+        /// What is wrong.
+        message: String,
+    },
+    /// A metric name that the report does not have.
+    #[error("unknown metric '{metric}'{}", hint(suggestion))]
+    UnknownMetric {
+        /// As typed.
+        metric: String,
+        /// Nearest known metric.
+        suggestion: Option<String>,
+    },
+    /// The base design file is not a TOML table.
+    #[error("the base design is not valid TOML: {0}")]
+    Base(String),
+}
+
+fn hint(s: &Option<String>) -> String {
+    s.as_ref()
+        .map(|s| format!("; did you mean '{s}'?"))
+        .unwrap_or_default()
+}
+
+/// The closest name by Jaro-Winkler similarity, if reasonably close.
+pub(crate) fn nearest(typed: &str, names: impl Iterator<Item = String>) -> Option<String> {
+    names
+        .map(|n| (strsim::jaro_winkler(typed, &n), n))
+        .filter(|(s, _)| *s > 0.75)
+        .max_by(|a, b| a.0.total_cmp(&b.0))
+        .map(|(_, n)| n)
+}
+
+/// Maximize or minimize.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Objective {
+    /// Metric name.
+    pub metric: String,
+    /// `true` to maximize.
+    pub maximize: bool,
+}
+
+/// Most candidates a sweep may have.
+pub const MAX_CANDIDATES: usize = 200_000;
+
+/// A sweep, ready to run.
+#[derive(Debug, Clone)]
+pub struct Sweep {
+    /// The base design file as a TOML table.
+    pub base: toml::Table,
+    /// Keys and values, in the order given.
+    pub vary: Vec<Vary>,
+    /// Requirements.
+    pub require: Vec<Requirement>,
+    /// Objective.
+    pub objective: Objective,
+    /// Second metric for the trade-off plot and its sense (true = maximize).
+    pub versus: (String, bool),
+}
+
+/// Why a candidate was set aside.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Status {
+    /// Valid, passes the rule check and meets every requirement.
+    Ok,
+    /// Analysed but misses a requirement.
+    FailsRequirement,
+    /// Breaks a fab rule (error severity).
+    RuleViolation,
+    /// Not a valid design (validation or geometry).
+    Invalid,
+}
+
+/// What the evaluator reports for one candidate design file.
+#[derive(Debug, Clone, PartialEq)]
+pub enum Evaluation {
+    /// Metrics of a valid, rule-clean design.
+    Metrics(BTreeMap<String, f64>),
+    /// Metrics are known, but a fab rule is broken (reason given).
+    RuleViolation(BTreeMap<String, f64>, String),
+    /// Invalid design (reason given).
+    Invalid(String),
+}
+
+/// One evaluated candidate.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Candidate {
+    /// Key path -> value text, in the order of the `--vary` arguments.
+    pub params: Vec<(String, String)>,
+    /// Outcome.
+    pub status: Status,
+    /// Why it is not `ok` (empty when ok).
+    pub reason: String,
+    /// Report metrics (empty when invalid).
+    pub metrics: BTreeMap<String, f64>,
+    /// Rank among the `ok` candidates by the objective (1 = best).
+    pub rank: Option<usize>,
+    /// On the Pareto front of (versus, objective) among `ok` candidates.
+    pub pareto: bool,
+}
+
+/// The result of a sweep.
+#[derive(Debug, Clone, Serialize)]
+pub struct Outcome {
+    /// The objective.
+    pub objective: Objective,
+    /// Requirements as typed.
+    pub requirements: Vec<String>,
+    /// The trade-off plot's x metric.
+    pub versus: String,
+    /// All candidates in generation order.
+    pub candidates: Vec<Candidate>,
+    /// Index of the best candidate.
+    pub best: Option<usize>,
+}
+
+impl Sweep {
+    /// Checks the sweep against the metric names a report has.
+    pub fn new(
+        base_text: &str,
+        vary: Vec<Vary>,
+        require: Vec<Requirement>,
+        objective: Objective,
+        versus: Option<(String, bool)>,
+        known_metrics: &[String],
+    ) -> Result<Sweep, SweepError> {
+        let base: toml::Table = base_text
+            .parse()
+            .map_err(|e: toml::de::Error| SweepError::Base(e.to_string()))?;
+        for (i, v) in vary.iter().enumerate() {
+            if vary[..i].iter().any(|u| u.key == v.key) {
+                return Err(SweepError::Duplicate { key: v.key.clone() });
+            }
+        }
+        let count = vary
+            .iter()
+            .try_fold(1usize, |acc, v| acc.checked_mul(v.values.len()))
+            .unwrap_or(usize::MAX);
+        if count > MAX_CANDIDATES {
+            return Err(SweepError::TooMany {
+                count,
+                max: MAX_CANDIDATES,
+            });
+        }
+        check_metric(&objective.metric, known_metrics)?;
+        let versus = match versus {
+            Some(v) => {
+                check_metric(&v.0, known_metrics)?;
+                v
+            }
+            None => {
+                let x = if objective.metric == "outer_diameter_mm" {
+                    "resistance_ohm_20c"
+                } else {
+                    "outer_diameter_mm"
+                };
+                (x.to_string(), false)
+            }
+        };
+        Ok(Sweep {
+            base,
+            vary,
+            require,
+            objective,
+            versus,
+        })
+    }
+
+    /// Number of candidates.
+    pub fn len(&self) -> usize {
+        self.vary.iter().map(|v| v.values.len()).product()
+    }
+
+    /// Whether the sweep has no candidates.
+    pub fn is_empty(&self) -> bool {
+        self.len() == 0
+    }
+
+    /// The value index of each `--vary` for candidate `i` (last key fastest).
+    fn choice(&self, mut i: usize) -> Vec<usize> {
+        let mut out = vec![0; self.vary.len()];
+        for (k, v) in self.vary.iter().enumerate().rev() {
+            out[k] = i % v.values.len();
+            i /= v.values.len();
+        }
+        out
+    }
+
+    /// The design table of candidate `i`.
+    pub fn candidate_table(&self, i: usize) -> toml::Table {
+        let mut t = self.base.clone();
+        let choice = self.choice(i);
+        let sizes = ["coil.inner_diameter", "coil.turns", "coil.outer_diameter"];
+        let varied: Vec<&str> = self.vary.iter().map(|v| v.key.as_str()).collect();
+        for (v, &c) in self.vary.iter().zip(&choice) {
+            set(&mut t, &v.key, v.values[c].toml.clone());
+        }
+        // Keep exactly two of the size keys when one of them is swept.
+        if varied.iter().any(|k| sizes.contains(k))
+            && let Some(toml::Value::Table(coil)) = t.get_mut("coil")
+        {
+            let present = sizes
+                .iter()
+                .filter(|k| coil.contains_key(k.trim_start_matches("coil.")))
+                .count();
+            if present > 2
+                && let Some(drop) = sizes.iter().find(|k| !varied.contains(k))
+            {
+                coil.remove(drop.trim_start_matches("coil."));
+            }
+        }
+        t
+    }
+
+    /// The parameters of candidate `i` as (key, text).
+    pub fn params(&self, i: usize) -> Vec<(String, String)> {
+        self.vary
+            .iter()
+            .zip(self.choice(i))
+            .map(|(v, c)| (v.key.clone(), v.values[c].text.clone()))
+            .collect()
+    }
+
+    /// Evaluates every candidate (in parallel) with `eval`, which receives
+    /// the candidate's design-file text; `tick` is called once per candidate.
+    pub fn run(&self, eval: impl Fn(&str) -> Evaluation + Sync, tick: impl Fn() + Sync) -> Outcome {
+        let mut candidates: Vec<Candidate> = (0..self.len())
+            .into_par_iter()
+            .map(|i| {
+                let text = toml::to_string(&self.candidate_table(i)).unwrap_or_default();
+                let params = self.params(i);
+                let c = match eval(&text) {
+                    Evaluation::Invalid(reason) => Candidate {
+                        params,
+                        status: Status::Invalid,
+                        reason,
+                        metrics: BTreeMap::new(),
+                        rank: None,
+                        pareto: false,
+                    },
+                    Evaluation::RuleViolation(metrics, reason) => Candidate {
+                        params,
+                        status: Status::RuleViolation,
+                        reason,
+                        metrics,
+                        rank: None,
+                        pareto: false,
+                    },
+                    Evaluation::Metrics(metrics) => {
+                        let failed: Vec<String> = self
+                            .require
+                            .iter()
+                            .filter(|r| r.holds(&metrics) != Some(true))
+                            .map(|r| {
+                                let got = metrics
+                                    .get(&r.metric)
+                                    .map_or("missing".into(), |v| format!("{v:.4}"));
+                                format!("{} (is {got})", r.text)
+                            })
+                            .collect();
+                        Candidate {
+                            params,
+                            status: if failed.is_empty() {
+                                Status::Ok
+                            } else {
+                                Status::FailsRequirement
+                            },
+                            reason: failed.join("; "),
+                            metrics,
+                            rank: None,
+                            pareto: false,
+                        }
+                    }
+                };
+                tick();
+                c
+            })
+            .collect();
+        // Rank the ok candidates.
+        let obj = &self.objective;
+        let value = |c: &Candidate| c.metrics.get(&obj.metric).copied().unwrap_or(f64::NAN);
+        let mut ok: Vec<usize> = (0..candidates.len())
+            .filter(|&i| candidates[i].status == Status::Ok && value(&candidates[i]).is_finite())
+            .collect();
+        ok.sort_by(|&a, &b| {
+            let (x, y) = (value(&candidates[a]), value(&candidates[b]));
+            let o = if obj.maximize {
+                y.total_cmp(&x)
+            } else {
+                x.total_cmp(&y)
+            };
+            o.then(a.cmp(&b))
+        });
+        for (r, &i) in ok.iter().enumerate() {
+            candidates[i].rank = Some(r + 1);
+        }
+        let best = ok.first().copied();
+        // Pareto front among ok candidates.
+        let pts: Vec<(f64, f64)> = ok
+            .iter()
+            .map(|&i| {
+                let c = &candidates[i];
+                (
+                    c.metrics.get(&self.versus.0).copied().unwrap_or(f64::NAN),
+                    value(c),
+                )
+            })
+            .collect();
+        for k in front(&pts, self.versus.1, obj.maximize) {
+            candidates[ok[k]].pareto = true;
+        }
+        Outcome {
+            objective: obj.clone(),
+            requirements: self.require.iter().map(|r| r.text.clone()).collect(),
+            versus: self.versus.0.clone(),
+            candidates,
+            best,
+        }
+    }
+}
+
+/// Sets a dotted key in a TOML table, creating tables as needed.
+fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
+    let mut parts: Vec<&str> = key.split('.').collect();
+    let last = parts.pop().unwrap_or(key);
+    let mut cur = t;
+    for p in parts {
+        let entry = cur
+            .entry(p.to_string())
+            .or_insert_with(|| toml::Value::Table(toml::Table::new()));
+        if !entry.is_table() {
+            *entry = toml::Value::Table(toml::Table::new());
+        }
+        cur = match entry {
+            toml::Value::Table(x) => x,
+            _ => unreachable!("just made a table"),
+        };
+    }
+    cur.insert(last.to_string(), value);
+}
+
+impl Outcome {
+    /// All candidates as CSV: rank, status, reason, parameters, metrics.
+    pub fn csv(&self) -> String {
+        let params: Vec<String> = self
+            .candidates
+            .first()
+            .map(|c| c.params.iter().map(|(k, _)| k.clone()).collect())
+            .unwrap_or_default();
+        let mut metrics: Vec<String> = self
+            .candidates
+            .iter()
+            .flat_map(|c| c.metrics.keys().cloned())
+            .collect();
+        metrics.sort();
+        metrics.dedup();
+        let mut out = String::new();
+        let mut header = vec![
+            "index".to_string(),
+            "rank".into(),
+            "status".into(),
+            "pareto".into(),
+        ];
+        header.extend(params.iter().cloned());
+        header.extend(metrics.iter().cloned());
+        header.push("reason".into());
+        out.push_str(
+            &header
+                .iter()
+                .map(|h| csv_field(h))
+                .collect::<Vec<_>>()
+                .join(","),
+        );
+        out.push('\n');
+        for (i, c) in self.candidates.iter().enumerate() {
+            let mut row = vec![
+                i.to_string(),
+                c.rank.map(|r| r.to_string()).unwrap_or_default(),
+                serde_json::to_value(&c.status)
+                    .ok()
+                    .and_then(|v| v.as_str().map(String::from))
+                    .unwrap_or_default(),
+                c.pareto.to_string(),
+            ];
+            row.extend(c.params.iter().map(|(_, v)| v.clone()));
+            row.extend(
+                metrics
+                    .iter()
+                    .map(|m| c.metrics.get(m).map(|v| format!("{v}")).unwrap_or_default()),
+            );
+            row.push(c.reason.clone());
+            out.push_str(
+                &row.iter()
+                    .map(|h| csv_field(h))
+                    .collect::<Vec<_>>()
+                    .join(","),
+            );
+            out.push('\n');
+        }
+        out
+    }
+
+    /// The trade-off plot (SVG).
+    pub fn plot(&self) -> String {
+        let obj = &self.objective.metric;
+        let analysed: Vec<usize> = (0..self.candidates.len())
+            .filter(|&i| {
+                matches!(
+                    self.candidates[i].status,
+                    Status::Ok | Status::FailsRequirement
+                )
+            })
+            .collect();
+        let points: Vec<PlotPoint> = analysed
+            .iter()
+            .map(|&i| {
+                let c = &self.candidates[i];
+                PlotPoint {
+                    x: c.metrics.get(&self.versus).copied().unwrap_or(f64::NAN),
+                    y: c.metrics.get(obj).copied().unwrap_or(f64::NAN),
+                    feasible: c.status == Status::Ok,
+                }
+            })
+            .collect();
+        let mut front_idx: Vec<usize> = analysed
+            .iter()
+            .enumerate()
+            .filter(|(_, i)| self.candidates[**i].pareto)
+            .map(|(k, _)| k)
+            .collect();
+        front_idx.sort_by(|a, b| points[*a].x.total_cmp(&points[*b].x));
+        let best = self
+            .best
+            .and_then(|b| analysed.iter().position(|&i| i == b));
+        let title = format!(
+            "{} {} vs {} ({} of {} candidates meet the requirements)",
+            if self.objective.maximize {
+                "maximize"
+            } else {
+                "minimize"
+            },
+            obj,
+            self.versus,
+            self.candidates
+                .iter()
+                .filter(|c| c.status == Status::Ok)
+                .count(),
+            self.candidates.len()
+        );
+        plot(&points, &front_idx, best, &self.versus, obj, &title)
+    }
+}
+
+fn csv_field(s: &str) -> String {
+    if s.contains([',', '"', '\n']) {
+        format!("\"{}\"", s.replace('"', "\"\""))
+    } else {
+        s.to_string()
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    const BASE: &str = r#"
+name = "t"
+[coil]
+outer_diameter = "20mm"
+inner_diameter = "4mm"
+trace_width = "0.1mm"
+clearance = "0.1mm"
+layers = 2
+"#;
+
+    fn known() -> Vec<String> {
+        [
+            "force_n",
+            "outer_diameter_mm",
+            "resistance_ohm_20c",
+            "temperature_c",
+        ]
+        .iter()
+        .map(|s| s.to_string())
+        .collect()
+    }
+
+    /// A fake evaluator: force grows with turns and layers, temperature too.
+    fn fake(text: &str) -> Evaluation {
+        let t: toml::Table = text.parse().unwrap();
+        let coil = t["coil"].as_table().unwrap();
+        let Some(turns) = coil
+            .get("turns")
+            .and_then(|v| v.as_float().or(v.as_integer().map(|i| i as f64)))
+        else {
+            return Evaluation::Invalid("no turns".into());
+        };
+        if coil.contains_key("inner_diameter") {
+            return Evaluation::Invalid("three sizes".into());
+        }
+        let layers = coil["layers"].as_integer().unwrap() as f64;
+        let mut m = BTreeMap::new();
+        m.insert("force_n".into(), turns * layers);
+        m.insert("temperature_c".into(), 20.0 + turns * layers);
+        m.insert("outer_diameter_mm".into(), 20.0);
+        m.insert("resistance_ohm_20c".into(), turns);
+        Evaluation::Metrics(m)
+    }
+
+    #[test]
+    fn sweeps_ranks_and_keeps_failures() {
+        let vary = vec![
+            parse_vary("layers=2,4").unwrap(),
+            parse_vary("turns=4..8:2").unwrap(),
+        ];
+        let req = vec![Requirement::parse("temperature_c <= 40", &known()).unwrap()];
+        let s = Sweep::new(
+            BASE,
+            vary,
+            req,
+            Objective {
+                metric: "force_n".into(),
+                maximize: true,
+            },
+            Some(("resistance_ohm_20c".into(), false)),
+            &known(),
+        )
+        .unwrap();
+        assert_eq!(s.len(), 6);
+        let out = s.run(fake, || {});
+        // turns*layers <= 20: (2,4),(2,6),(2,8),(4,4) pass; best is 16 (2x8 or 4x4, first wins by order).
+        let ok = out
+            .candidates
+            .iter()
+            .filter(|c| c.status == Status::Ok)
+            .count();
+        assert_eq!(ok, 4);
+        let best = &out.candidates[out.best.unwrap()];
+        assert_eq!(best.metrics["force_n"], 16.0);
+        assert!(
+            out.candidates
+                .iter()
+                .any(|c| c.status == Status::FailsRequirement
+                    && c.reason.contains("temperature_c <= 40"))
+        );
+        let csv = out.csv();
+        assert_eq!(csv.lines().count(), 7);
+        assert!(out.plot().starts_with("<svg"));
+    }
+
+    #[test]
+    fn unknown_metric_is_rejected() {
+        let e = Sweep::new(
+            BASE,
+            vec![parse_vary("turns=4..8").unwrap()],
+            vec![],
+            Objective {
+                metric: "forse_n".into(),
+                maximize: true,
+            },
+            None,
+            &known(),
+        )
+        .unwrap_err();
+        assert!(e.to_string().contains("did you mean 'force_n'"), "{e}");
+    }
+
+    #[test]
+    fn duplicate_keys_rejected() {
+        let e = Sweep::new(
+            BASE,
+            vec![
+                parse_vary("turns=4..8").unwrap(),
+                parse_vary("coil.turns=1,2").unwrap(),
+            ],
+            vec![],
+            Objective {
+                metric: "force_n".into(),
+                maximize: true,
+            },
+            None,
+            &known(),
+        );
+        assert!(matches!(e, Err(SweepError::Duplicate { .. })));
+    }
+}

@@ -65,7 +65,7 @@ impl Plan {
         let groups = match wiring {
             Wiring::Series => (1..=layers).map(|l| vec![l]).collect(),
             Wiring::ParallelPairs => {
-                if layers % 2 != 0 {
+                if !layers.is_multiple_of(2) {
                     return Err(GeometryError::OddParallel(layers));
                 }
                 (0..layers / 2)
@@ -86,7 +86,7 @@ impl Plan {
     /// change, and terminal 2 when the chain ends outside.
     fn outer_slots(&self) -> usize {
         let g = self.groups.len();
-        1 + (g - 1) / 2 + usize::from(g % 2 == 0)
+        1 + (g - 1) / 2 + usize::from(g.is_multiple_of(2))
     }
 
     /// Whether the second terminal is in the centre.
