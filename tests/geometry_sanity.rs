@@ -22,7 +22,10 @@ fn builds_all_shapes_and_layer_counts() {
         for shape in [
             Shape::Circle,
             Shape::Polygon { sides: 6 },
-            Shape::Rectangle { width: 30.0, height: 20.0 },
+            Shape::Rectangle {
+                width: 30.0,
+                height: 20.0,
+            },
         ] {
             let mut d = Design::sample();
             d.coil.layers = layers;

@@ -43,7 +43,9 @@ pub enum SpiralError {
     #[error("the free centre is too small: the innermost turn would reach the axis")]
     NoCentre,
     /// A rounded corner would be larger than the side it joins.
-    #[error("corner radius {radius} mm is too large for the innermost side (must be below {max} mm)")]
+    #[error(
+        "corner radius {radius} mm is too large for the innermost side (must be below {max} mm)"
+    )]
     CornerTooLarge {
         /// Requested radius, mm.
         radius: f64,
@@ -178,7 +180,11 @@ pub fn cut_at_polar_angle(path: &[Segment], target: f64) -> Vec<Segment> {
         for _ in 0..80 {
             let mid = 0.5 * (lo + hi);
             let a = angle_between(start, s.point_at(mid).to_vec2());
-            let a = if a < 0.0 && want > PI / 2.0 { a + TAU } else { a };
+            let a = if a < 0.0 && want > PI / 2.0 {
+                a + TAU
+            } else {
+                a
+            };
             if a < want {
                 lo = mid;
             } else {
@@ -232,7 +238,11 @@ mod tests {
             shape,
             corner,
             pitch: 0.2,
-            inner: if matches!(shape, Shape::Rectangle { .. }) { 3.0 } else { 2.0 },
+            inner: if matches!(shape, Shape::Rectangle { .. }) {
+                3.0
+            } else {
+                2.0
+            },
             turns,
         }
     }
