@@ -2,6 +2,8 @@
 //! never compute geometry; coordinates go through
 //! [`crate::geometry::round`].
 
+pub mod out_dir;
+
 use crate::geometry::Layout;
 use crate::physics::Analysis;
 use crate::spec::Design;
