@@ -819,11 +819,16 @@ fn read_coil(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
         .into_iter()
         .filter(|k| t.has(k) && !(shape_i == 2 && *k == "outer_diameter"))
         .collect();
+    // Point at the size key written last in the file (the likely extra one).
+    let last_given = given
+        .iter()
+        .copied()
+        .max_by_key(|k| t.get(k).map_or(0, |v| v.span().start));
     if shape_i == 2 {
         if given.len() != 1 {
             cx.err(
                 "coil",
-                t.span_of(given.last().copied().unwrap_or("width")),
+                t.span_of(last_given.unwrap_or("width")),
                 format!(
                     "a rectangle takes width and height plus exactly one of inner_diameter or turns; found {}",
                     if given.is_empty() { "neither".to_string() } else { given.join(" and ") }
@@ -835,7 +840,7 @@ fn read_coil(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
         if given.len() != 2 {
             cx.err(
                 "coil",
-                t.span_of(given.last().copied().unwrap_or("shape")),
+                t.span_of(last_given.unwrap_or("shape")),
                 format!(
                     "give exactly two of outer_diameter, inner_diameter and turns; found {}",
                     if given.is_empty() { "none".to_string() } else { format!("{} ({})", given.len(), given.join(", ")) }
