@@ -915,7 +915,7 @@ fn read_coil(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
     };
     if wiring == Wiring::ParallelPairs
         && let Some(n) = layers
-        && n % 2 == 1
+        && !n.is_multiple_of(2)
     {
         cx.err(
             t.key("wiring"),
