@@ -26,7 +26,7 @@ use std::process::ExitCode;
 #[command(
     name = "coilwright",
     version,
-    about,
+    about = "Design coils made of printed-circuit copper, check them against fab rules and write fab-ready files.",
     long_about = "Design coils made of printed-circuit copper.\n\n\
         Describe a coil in a TOML design file (start with `coilwright init coil.toml`), \
         check it against your board maker's rules with `coilwright check`, write the \
