@@ -161,28 +161,28 @@ fn catalogue() -> Vec<Case> {
             mutate("shape = \"circle\"", "shape = \"polygon\"\nsides = 2"),
             "coil.sides",
             "sides = |2",
-            "3..=12",
+            "must be 3 to 12",
         ),
         case(
             "polygon with 13 sides",
             mutate("shape = \"circle\"", "shape = \"polygon\"\nsides = 13"),
             "coil.sides",
             "sides = |13",
-            "3..=12",
+            "must be 3 to 12",
         ),
         case(
             "zero layers",
             mutate("layers = 4", "layers = 0"),
             "coil.layers",
             "layers = |0",
-            "1..=32",
+            "must be 1 to 32",
         ),
         case(
             "33 layers",
             mutate("layers = 4", "layers = 33"),
             "coil.layers",
             "layers = |33",
-            "1..=32",
+            "must be 1 to 32",
         ),
         case(
             "turns that do not fit",
@@ -454,4 +454,23 @@ fn usage_errors_exit_2() {
     assert_eq!(o.status.code(), Some(2));
     let o = run(dir.path(), &["--help"]);
     assert_eq!(o.status.code(), Some(0));
+}
+
+#[test]
+fn closed_output_pipe_is_not_an_error() {
+    use std::process::Stdio;
+    let dir = tempfile::tempdir().unwrap();
+    write_base(dir.path());
+    let mut child = Command::new(BIN)
+        .args(["report", "d.toml", "--json"])
+        .current_dir(dir.path())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    // Close the reading end before the report is written.
+    drop(child.stdout.take());
+    let o = child.wait_with_output().unwrap();
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stderr(&o).is_empty(), "{}", stderr(&o));
 }

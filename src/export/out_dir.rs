@@ -25,6 +25,9 @@ pub enum OutDirError {
     /// An output file path is not a plain relative path.
     #[error("output file path `{0}` is not a plain relative path")]
     BadPath(String),
+    /// The target is not a nameable folder (such as `.` or `/`).
+    #[error("cannot use {0} as the output folder; name a new folder, e.g. -o out")]
+    BadTarget(PathBuf),
     /// Two output files have the same path.
     #[error("two output files are both called `{0}`")]
     Duplicate(String),
@@ -102,7 +105,7 @@ pub fn write(dir: &Path, files: &[OutFile], force: bool) -> Result<(), OutDirErr
     }
     let name = dir
         .file_name()
-        .ok_or_else(|| OutDirError::BadPath(dir.display().to_string()))?
+        .ok_or_else(|| OutDirError::BadTarget(dir.to_path_buf()))?
         .to_string_lossy()
         .into_owned();
     let parent = match dir.parent() {

@@ -410,8 +410,8 @@ impl Ctx {
                 self.err(
                     t.key(k),
                     Some(v.span()),
-                    format!("`{}` is {x}, outside {lo}..={hi}", t.key(k)),
-                    Some(allowed.to_string()),
+                    format!("`{}` is {x}, out of range", t.key(k)),
+                    Some(format!("allowed: {allowed}")),
                 );
                 None
             }
@@ -420,7 +420,7 @@ impl Ctx {
                     t.key(k),
                     Some(v.span()),
                     format!("`{}` must be a plain number, found \"{s}\"", t.key(k)),
-                    Some(allowed.to_string()),
+                    Some(format!("allowed: {allowed}")),
                 );
                 None
             }
@@ -440,7 +440,7 @@ impl Ctx {
                         self.err(
                             t.key(k),
                             Some(v.span()),
-                            format!("`{}` is {}, outside {lo}..={hi}", t.key(k), i.as_str()),
+                            format!("`{}` is {}; it must be {lo} to {hi}", t.key(k), i.as_str()),
                             Some(allowed),
                         );
                         None
