@@ -34,7 +34,12 @@ pub fn render_spec_errors(path: &Path, text: &str, errors: &SpecErrors) -> Strin
 }
 
 fn render_one(r: &Renderer, path: &str, text: &str, e: &SpecError) -> String {
-    let title = format!("{}: {}", e.key, e.message);
+    // Messages that already name their key in backticks need no prefix.
+    let title = if e.message.contains(&format!("`{}`", e.key)) {
+        e.message.clone()
+    } else {
+        format!("{}: {}", e.key, e.message)
+    };
     let mut report: Vec<Group> = Vec::new();
     let main = Level::ERROR.primary_title(title.as_str());
     let group = match &e.span {

@@ -412,6 +412,12 @@ impl Quantity for Frequency {
     }
     fn from_text(text: &str) -> Result<Self, UnitError> {
         let (_, unit) = split_number(text, Self::ALLOWED)?;
+        if unit == "mHz" {
+            return Err(UnitError::new(
+                "`mHz` would be millihertz; write MHz for megahertz",
+                Self::ALLOWED,
+            ));
+        }
         // "mHz" (millihertz) is almost always a typo for MHz: refuse it.
         let unit_fixed = match unit.as_str() {
             "hz" | "HZ" => "Hz",
