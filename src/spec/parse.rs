@@ -1433,4 +1433,44 @@ layers = 4
         let e = err(&format!("{BASE}[drive]\nemissivity = 1.5\n"));
         assert_eq!(e.first().key, "drive.emissivity");
     }
+
+    #[test]
+    fn rectangle_with_inner_diameter_and_polygon_with_max_turns() {
+        let rect = BASE
+            .replace(
+                "outer_diameter = \"20mm\"",
+                "shape = \"rectangle\"\nwidth = 30\nheight = 12",
+            )
+            .replace("turns = 10", "inner_diameter = \"3mm\"");
+        let d = parse(&rect).unwrap();
+        assert!((d.coil.inner_diameter - 3.0).abs() < 1e-9);
+        assert!(d.coil.turns > 1.0);
+        let e = err(&rect.replace("width = 30", "width = 30\nouter_diameter = 30"));
+        assert!(e.has_key("coil.outer_diameter"), "{e}");
+        let poly = BASE
+            .replace("turns = 10", "turns = \"max\"")
+            .replace("layers = 4", "layers = 4\nshape = \"polygon\"\nsides = 5");
+        let d = parse(&poly).unwrap();
+        assert!(d.coil.turns > 10.0);
+    }
+
+    #[test]
+    fn absurd_sizes_fail_fast_with_a_key() {
+        let e = err(&BASE.replace("\"20mm\"", "1e9"));
+        assert_eq!(e.first().key, "coil.outer_diameter");
+        let e = err(&BASE
+            .replace("turns = 10", "turns = \"max\"")
+            .replace("\"0.1mm\"", "\"0.5um\""));
+        assert!(e.has_key("coil.trace_width"), "{e}");
+    }
+
+    #[test]
+    fn wrong_types_are_named() {
+        let e = err(&BASE.replace("layers = 4", "layers = \"four\""));
+        assert_eq!(e.first().key, "coil.layers");
+        let e = err(&format!("coil = 3\n{}", BASE.replace("[coil]", "[x]")));
+        assert!(e.has_key("coil"), "{e}");
+        let e = err(&BASE.replace("name = \"t\"", "name = \"a/b\""));
+        assert_eq!(e.first().key, "name");
+    }
 }
