@@ -70,9 +70,7 @@ pub enum FitError {
         max: f64,
     },
     /// The free centre cannot hold the centre vias.
-    #[error(
-        "inner diameter {given:.3} mm is too small for the centre vias; the minimum is {min:.3} mm"
-    )]
+    #[error("inner diameter {given:.3} mm is too small for the centre vias; the minimum is {min:.3} mm")]
     InnerTooSmall {
         /// Given or implied inner diameter, mm.
         given: f64,

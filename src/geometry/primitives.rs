@@ -517,10 +517,6 @@ mod tests {
     fn point_segment_distance() {
         let a = Segment::Arc(Arc::from_start(Point::ORIGIN, Point::new(2.0, 0.0), PI));
         near(distance_point_segment(Point::new(0.0, 3.0), &a), 1.0, 1e-12);
-        near(
-            distance_point_segment(Point::new(0.0, -3.0), &a),
-            13f64.sqrt(),
-            1e-12,
-        );
+        near(distance_point_segment(Point::new(0.0, -3.0), &a), 13f64.sqrt(), 1e-12);
     }
 }

@@ -43,9 +43,7 @@ pub enum SpiralError {
     #[error("the free centre is too small: the innermost turn would reach the axis")]
     NoCentre,
     /// A rounded corner would be larger than the side it joins.
-    #[error(
-        "corner radius {radius} mm is too large for the innermost side (must be below {max} mm)"
-    )]
+    #[error("corner radius {radius} mm is too large for the innermost side (must be below {max} mm)")]
     CornerTooLarge {
         /// Requested radius, mm.
         radius: f64,
@@ -180,11 +178,7 @@ pub fn cut_at_polar_angle(path: &[Segment], target: f64) -> Vec<Segment> {
         for _ in 0..80 {
             let mid = 0.5 * (lo + hi);
             let a = angle_between(start, s.point_at(mid).to_vec2());
-            let a = if a < 0.0 && want > PI / 2.0 {
-                a + TAU
-            } else {
-                a
-            };
+            let a = if a < 0.0 && want > PI / 2.0 { a + TAU } else { a };
             if a < want {
                 lo = mid;
             } else {
@@ -238,11 +232,7 @@ mod tests {
             shape,
             corner,
             pitch: 0.2,
-            inner: if matches!(shape, Shape::Rectangle { .. }) {
-                3.0
-            } else {
-                2.0
-            },
+            inner: if matches!(shape, Shape::Rectangle { .. }) { 3.0 } else { 2.0 },
             turns,
         }
     }

@@ -39,9 +39,7 @@ pub enum GeometryError {
     #[error("layers must be 1 to 32, got {0}")]
     Layers(u8),
     /// The outer slots are too close for the vias and pads.
-    #[error(
-        "too many outside vias for the size: neighbouring slots are {gap:.3} mm apart, {need:.3} mm needed"
-    )]
+    #[error("too many outside vias for the size: neighbouring slots are {gap:.3} mm apart, {need:.3} mm needed")]
     OuterCrowded {
         /// Spacing achieved, mm.
         gap: f64,
@@ -68,9 +66,7 @@ impl Plan {
                 if layers % 2 != 0 {
                     return Err(GeometryError::OddParallel(layers));
                 }
-                (0..layers / 2)
-                    .map(|g| vec![2 * g + 1, 2 * g + 2])
-                    .collect()
+                (0..layers / 2).map(|g| vec![2 * g + 1, 2 * g + 2]).collect()
             }
         };
         Ok(Plan { groups })
@@ -276,29 +272,18 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
         turns: coil.turns,
     }
     .segments()?;
-    let spiral_end = spiral
-        .last()
-        .map(|x| x.end())
-        .unwrap_or(Point::new(inner, 0.0));
+    let spiral_end = spiral.last().map(|x| x.end()).unwrap_or(Point::new(inner, 0.0));
     let outer_end_angle = spiral_end.angle();
 
     // Centre slots.
     let nc = plan.centre_slots();
-    let centre_dmax = if plan.ends_in_centre() {
-        via_d.max(term_d)
-    } else {
-        via_d
-    };
+    let centre_dmax = if plan.ends_in_centre() { via_d.max(term_d) } else { via_d };
     let rc = centre_ring_radius(nc, centre_dmax, s, w);
     let centre_angle = |j: usize| TAU * j as f64 / nc as f64;
     let centre_ring = centre_leads_need_ring(&coil.shape, nc);
     let inner_lead_radius = rc + centre_dmax / 2.0 + s + w / 2.0;
     let centre_point = |j: usize| {
-        if nc == 1 {
-            Point::ORIGIN
-        } else {
-            Point::polar(rc, centre_angle(j))
-        }
+        if nc == 1 { Point::ORIGIN } else { Point::polar(rc, centre_angle(j)) }
     };
 
     // Lead ring one pitch outside the winding, vias one pad further out.
@@ -326,11 +311,7 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
     if no > 1 {
         let need = outer_dmax + s;
         let gap = (0..no)
-            .map(|j| {
-                via_ring
-                    .at(outer_angle(j))
-                    .distance(via_ring.at(outer_angle((j + 1) % no)))
-            })
+            .map(|j| via_ring.at(outer_angle(j)).distance(via_ring.at(outer_angle((j + 1) % no))))
             .fold(f64::INFINITY, f64::min);
         if gap < need {
             return Err(GeometryError::OuterCrowded { gap, need });
@@ -448,63 +429,36 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
         let node_at = layout.node_at(outer_node);
         let ring_a = lead_ring.at(outer_slot_angle);
         let mut outer_lead = vec![Segment::line(node_at, ring_a)];
-        outer_lead.extend(lead_ring.path(
-            ring_a,
-            outer_slot_angle,
-            short_sweep(outer_slot_angle, end_angle),
-        ));
+        outer_lead.extend(lead_ring.path(ring_a, outer_slot_angle, short_sweep(outer_slot_angle, end_angle)));
         let last = outer_lead.last().map(|x| x.end()).unwrap_or(ring_a);
         outer_lead.push(Segment::line(last, outer_end));
 
         let (from, to, chain): (Node, Node, Vec<(Segment, TrackRole)>) = if inward {
             let mut c: Vec<_> = outer_lead.iter().map(|x| (*x, TrackRole::Lead)).collect();
-            c.extend(
-                reversed(&oriented)
-                    .into_iter()
-                    .map(|x| (x, TrackRole::Winding)),
-            );
-            c.extend(
-                reversed(&centre_lead)
-                    .into_iter()
-                    .map(|x| (x, TrackRole::Lead)),
-            );
+            c.extend(reversed(&oriented).into_iter().map(|x| (x, TrackRole::Winding)));
+            c.extend(reversed(&centre_lead).into_iter().map(|x| (x, TrackRole::Lead)));
             (outer_node, centre_node, c)
         } else {
             let mut c: Vec<_> = centre_lead.iter().map(|x| (*x, TrackRole::Lead)).collect();
             c.extend(oriented.iter().map(|x| (*x, TrackRole::Winding)));
-            c.extend(
-                reversed(&outer_lead)
-                    .into_iter()
-                    .map(|x| (x, TrackRole::Lead)),
-            );
+            c.extend(reversed(&outer_lead).into_iter().map(|x| (x, TrackRole::Lead)));
             (centre_node, outer_node, c)
         };
         for &layer in group {
             let start = layout.tracks.len();
-            layout
-                .tracks
-                .extend(
-                    chain
-                        .iter()
-                        .filter(|(x, _)| x.length() > 0.0)
-                        .map(|&(segment, role)| Track {
-                            layer,
-                            segment,
-                            width: w,
-                            role,
-                        }),
-                );
+            layout.tracks.extend(
+                chain
+                    .iter()
+                    .filter(|(x, _)| x.length() > 0.0)
+                    .map(|&(segment, role)| Track { layer, segment, width: w, role }),
+            );
             layout.windings.push(Winding {
                 layer,
                 group: i,
                 tracks: (start, layout.tracks.len()),
                 from,
                 to,
-                direction: if inward {
-                    Direction::Inward
-                } else {
-                    Direction::Outward
-                },
+                direction: if inward { Direction::Inward } else { Direction::Outward },
                 turns: coil.turns,
             });
         }
@@ -529,11 +483,7 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
                 ]
             }
             Ring::Polygon { .. } => {
-                let mut pts: Vec<Point> = edge
-                    .vertex_angles()
-                    .into_iter()
-                    .map(|a| edge.at(a))
-                    .collect();
+                let mut pts: Vec<Point> = edge.vertex_angles().into_iter().map(|a| edge.at(a)).collect();
                 pts.push(pts[0]);
                 pts.windows(2).map(|w| Segment::line(w[0], w[1])).collect()
             }
@@ -566,3 +516,4 @@ fn polygon_ring(spiral: &[Segment], sides: usize, gap: f64) -> Ring {
         .collect();
     Ring::Polygon { normals, dist }
 }
+
