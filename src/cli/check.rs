@@ -153,3 +153,52 @@ pub fn plural(n: usize, word: &str) -> String {
         format!("{n} {word}s")
     }
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::Point;
+    use crate::rules::Item;
+
+    fn v(severity: Severity) -> Violation {
+        Violation {
+            rule: "clearance",
+            severity,
+            measured: 0.08,
+            required: 0.1,
+            layer: Some(2),
+            at: Point::new(1.5, -2.25),
+            items: vec![Item::Track(3), Item::Via(0)],
+            message: "turns too close".into(),
+        }
+    }
+
+    #[test]
+    fn table_lists_every_column_and_counts() {
+        let t = violations_table(&[v(Severity::Error), v(Severity::Warning)]);
+        let lines: Vec<&str> = t.lines().collect();
+        assert!(lines[0].starts_with("rule"));
+        assert!(lines[1].contains("clearance") && lines[1].contains("error"));
+        assert!(lines[1].contains("1.500") && lines[1].contains("-2.250"));
+        assert!(lines[1].contains("0.0800") && lines[1].contains("0.1000"));
+        assert!(lines[1].ends_with("turns too close"));
+        assert_eq!(lines[3], "1 error(s), 1 warning(s)");
+        assert_eq!(violations_table(&[]), "");
+    }
+
+    #[test]
+    fn json_has_the_fixed_fields() {
+        let j: serde_json::Value =
+            serde_json::from_str(&violations_json(&[v(Severity::Warning)])).unwrap();
+        let x = &j["violations"][0];
+        assert_eq!(x["rule"], "clearance");
+        assert_eq!(x["severity"], "warning");
+        assert_eq!(x["layer"], 2);
+        assert_eq!(x["x"], 1.5);
+        assert_eq!(x["y"], -2.25);
+        assert_eq!(x["measured"], 0.08);
+        assert_eq!(x["required"], 0.1);
+        assert_eq!(x["items"][0]["kind"], "track");
+        assert_eq!(x["message"], "turns too close");
+    }
+}
