@@ -1,7 +1,186 @@
-//! The command-line front end: argument types, commands, diagnostics.
+//! The command-line front end: argument types, one file per command,
+//! diagnostics rendering. The only part of coilwright (with
+//! [`crate::export::out_dir`]) that touches the file system.
+//!
+//! Exit codes: 0 success, 1 rule violations found (nothing written),
+//! 2 bad input or failure. A closed output pipe (`| head`) is not an error.
 
-/// Runs the command line; returns the process exit code (0 ok, 1
+mod build;
+mod check;
+mod diagnostics;
+mod init;
+pub mod pipeline;
+mod report;
+
+pub use init::{Template, templates};
+
+use clap::{Parser, Subcommand};
+use std::io::{self, Write};
+use std::path::PathBuf;
+use std::process::ExitCode;
+
+/// Design coils made of printed-circuit copper: from a design file to
+/// fab-ready Gerber, drill and KiCad files, with a rule check and an
+/// engineering report.
+#[derive(Debug, Parser)]
+#[command(
+    name = "coilwright",
+    version,
+    about = "Design coils made of printed-circuit copper, check them against fab rules and write fab-ready files.",
+    long_about = "Design coils made of printed-circuit copper.\n\n\
+        Describe a coil in a TOML design file (start with `coilwright init coil.toml`), \
+        check it against your board maker's rules with `coilwright check`, write the \
+        fab files with `coilwright build`, and read the predicted resistance, \
+        inductance, force and heating with `coilwright report`.",
+    after_help = "Exit status: 0 ok, 1 rule violations found, 2 bad input or failure."
+)]
+pub struct Cli {
+    /// What to do.
+    #[command(subcommand)]
+    pub command: Command,
+}
+
+/// The commands.
+#[derive(Debug, Subcommand)]
+pub enum Command {
+    /// Write a commented starter design file to edit.
+    #[command(
+        after_help = "Examples:\n  coilwright init --list\n  coilwright init my-coil.toml\n  coilwright init --template pickup-coil tacho.toml"
+    )]
+    Init {
+        /// Starter design to copy (see --list).
+        #[arg(long, short, value_name = "NAME", default_value = "fin-actuator")]
+        template: String,
+        /// List the starter designs with a one-line description.
+        #[arg(long, conflicts_with = "file")]
+        list: bool,
+        /// Replace FILE if it exists.
+        #[arg(long)]
+        force: bool,
+        /// Design file to create, e.g. my-coil.toml.
+        #[arg(required_unless_present = "list", value_name = "FILE")]
+        file: Option<PathBuf>,
+    },
+    /// Validate a design file and check the generated copper against the
+    /// fab rules.
+    #[command(after_help = "Exit status: 0 no errors (warnings may be printed), \
+        1 rule violations, 2 the design file has problems.")]
+    Check {
+        /// Design file (TOML).
+        #[arg(value_name = "SPEC")]
+        spec: PathBuf,
+        /// Print the violations as JSON on standard output.
+        #[arg(long)]
+        json: bool,
+    },
+    /// Check the design, then write every output file (Gerber, drill, job,
+    /// KiCad, SVG previews, report, manifest) into a new folder.
+    #[command(after_help = "Nothing is written if the design has problems or \
+        rule violations. The folder is written completely or not at all.")]
+    Build {
+        /// Design file (TOML).
+        #[arg(value_name = "SPEC")]
+        spec: PathBuf,
+        /// Output folder to create.
+        #[arg(short = 'o', long = "out", value_name = "DIR")]
+        out: PathBuf,
+        /// Replace DIR if it exists (the old folder is removed only after
+        /// the new one is complete).
+        #[arg(long)]
+        force: bool,
+    },
+    /// Predict resistance, inductance, field, force on the magnet, heating
+    /// and bending of a design.
+    Report {
+        /// Design file (TOML).
+        #[arg(value_name = "SPEC")]
+        spec: PathBuf,
+        /// Print the report as JSON (SI units in the key names).
+        #[arg(long)]
+        json: bool,
+        /// Write the report to FILE instead of standard output.
+        #[arg(short = 'o', long = "out", value_name = "FILE")]
+        out: Option<PathBuf>,
+        /// Replace FILE if it exists.
+        #[arg(long)]
+        force: bool,
+    },
+}
+
+/// How a command ended.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Exit {
+    /// Success.
+    Ok,
+    /// Rule violations found.
+    Violations,
+}
+
+/// Why a command failed.
+#[derive(Debug)]
+pub enum Failure {
+    /// The design file has problems.
+    Spec {
+        /// Path as the user gave it.
+        path: PathBuf,
+        /// Text of the file.
+        text: String,
+        /// The problems.
+        errors: crate::spec::SpecErrors,
+    },
+    /// Standard output was closed by the reader: stop quietly.
+    BrokenPipe,
+    /// Anything else (I/O, refused overwrite, exporter failure).
+    Other(anyhow::Error),
+}
+
+impl<E: Into<anyhow::Error>> From<E> for Failure {
+    fn from(e: E) -> Failure {
+        Failure::Other(e.into())
+    }
+}
+
+/// Maps an error writing to standard output: a closed pipe stops quietly.
+pub(crate) fn out_err(e: io::Error) -> Failure {
+    if e.kind() == io::ErrorKind::BrokenPipe {
+        Failure::BrokenPipe
+    } else {
+        Failure::Other(anyhow::Error::new(e).context("cannot write to standard output"))
+    }
+}
+
+/// Writes `text` to standard output.
+pub(crate) fn print_out(text: &str) -> Result<(), Failure> {
+    let mut out = io::stdout().lock();
+    out.write_all(text.as_bytes()).map_err(out_err)?;
+    out.flush().map_err(out_err)
+}
+
+/// Runs a parsed command line; returns the process exit code (0 ok, 1
 /// violations, 2 bad input or failure).
-pub fn run() -> std::process::ExitCode {
-    std::process::ExitCode::from(2)
+pub fn run(cli: Cli) -> ExitCode {
+    let result = match cli.command {
+        Command::Init {
+            template,
+            list,
+            force,
+            file,
+        } => init::run(&template, list, force, file.as_deref()),
+        Command::Check { spec, json } => check::run(&spec, json),
+        Command::Build { spec, out, force } => build::run(&spec, &out, force),
+        Command::Report {
+            spec,
+            json,
+            out,
+            force,
+        } => report::run(&spec, json, out.as_deref(), force),
+    };
+    match result {
+        Ok(Exit::Ok) | Err(Failure::BrokenPipe) => ExitCode::SUCCESS,
+        Ok(Exit::Violations) => ExitCode::from(1),
+        Err(f) => {
+            diagnostics::render_failure(&f);
+            ExitCode::from(2)
+        }
+    }
 }

@@ -2,6 +2,7 @@
 //! never compute geometry; coordinates go through
 //! [`crate::geometry::round`].
 
+pub mod out_dir;
 pub mod svg;
 
 use crate::geometry::Layout;

@@ -1,0 +1,204 @@
+//! `coilwright check SPEC [--json]`: validate the design file and check the
+//! generated copper against the fab rules.
+
+use super::pipeline;
+use super::{Exit, Failure, print_out};
+use crate::rules::{Severity, Violation};
+use serde_json::json;
+use std::path::Path;
+
+/// Runs `check`.
+pub fn run(spec: &Path, json: bool) -> Result<Exit, Failure> {
+    let checked = match pipeline::check(spec) {
+        Ok(c) => c,
+        Err(Failure::Spec { path, text, errors }) if json => {
+            // Scripts get the problems as data too; people get them on stderr.
+            let list: Vec<_> = errors
+                .errors
+                .iter()
+                .map(|e| {
+                    let (line, column) = e.line_col(&text).unzip();
+                    json!({"key": e.key, "line": line, "column": column,
+                           "message": e.message, "help": e.help})
+                })
+                .collect();
+            let doc = json!({"errors": list, "violations": []});
+            print_out(&format!("{}\n", serde_json::to_string_pretty(&doc)?))?;
+            return Err(Failure::Spec { path, text, errors });
+        }
+        Err(f) => return Err(f),
+    };
+    if json {
+        print_out(&format!("{}\n", violations_json(&checked.violations)))?;
+    } else {
+        let l = &checked.layout;
+        let mut s = violations_table(&checked.violations);
+        if checked.violations.is_empty() {
+            s.push_str(&format!(
+                "ok: {} is valid and passes the \"{}\" rules ({}, {:.2} turns per layer, {})\n",
+                spec.display(),
+                checked.loaded.design.rules.profile,
+                plural(l.layers as usize, "layer"),
+                l.turns,
+                plural(l.vias.len(), "via")
+            ));
+        }
+        print_out(&s)?;
+    }
+    Ok(if checked.has_errors() {
+        Exit::Violations
+    } else {
+        Exit::Ok
+    })
+}
+
+fn severity_name(s: Severity) -> &'static str {
+    match s {
+        Severity::Error => "error",
+        Severity::Warning => "warning",
+    }
+}
+
+/// `{"violations":[{rule, severity, measured, required, layer, x, y, items, message}]}`.
+pub fn violations_json(violations: &[Violation]) -> String {
+    let list: Vec<_> = violations
+        .iter()
+        .map(|v| {
+            json!({
+                "rule": v.rule,
+                "severity": severity_name(v.severity),
+                "measured": v.measured,
+                "required": v.required,
+                "layer": v.layer,
+                "x": v.at.x,
+                "y": v.at.y,
+                "items": v.items,
+                "message": v.message,
+            })
+        })
+        .collect();
+    serde_json::to_string_pretty(&json!({ "violations": list }))
+        .unwrap_or_else(|_| "{\"violations\":[]}".into())
+}
+
+/// A plain-text table of violations plus a count line; empty for none.
+pub fn violations_table(violations: &[Violation]) -> String {
+    if violations.is_empty() {
+        return String::new();
+    }
+    let header = [
+        "rule",
+        "severity",
+        "layer",
+        "x mm",
+        "y mm",
+        "measured mm",
+        "required mm",
+        "message",
+    ];
+    let rows: Vec<[String; 8]> = violations
+        .iter()
+        .map(|v| {
+            [
+                v.rule.to_string(),
+                severity_name(v.severity).to_string(),
+                v.layer.map_or("all".into(), |l| l.to_string()),
+                format!("{:.3}", v.at.x),
+                format!("{:.3}", v.at.y),
+                format!("{:.4}", v.measured),
+                format!("{:.4}", v.required),
+                v.message.clone(),
+            ]
+        })
+        .collect();
+    let mut width = header.map(str::len);
+    for r in &rows {
+        for (w, c) in width.iter_mut().zip(r) {
+            *w = (*w).max(c.chars().count());
+        }
+    }
+    let line = |cells: &[String]| {
+        let mut s = String::new();
+        for (i, (c, w)) in cells.iter().zip(width).enumerate() {
+            if i + 1 == cells.len() {
+                s.push_str(c);
+            } else if (3..7).contains(&i) {
+                s.push_str(&format!("{c:>w$}  "));
+            } else {
+                s.push_str(&format!("{c:<w$}  "));
+            }
+        }
+        s.trim_end().to_string() + "\n"
+    };
+    let mut out = line(&header.map(String::from));
+    for r in &rows {
+        out.push_str(&line(r));
+    }
+    let errors = violations
+        .iter()
+        .filter(|v| v.severity == Severity::Error)
+        .count();
+    out.push_str(&format!(
+        "{errors} error(s), {} warning(s)\n",
+        violations.len() - errors
+    ));
+    out
+}
+
+/// "1 via", "3 vias".
+pub fn plural(n: usize, word: &str) -> String {
+    if n == 1 {
+        format!("{n} {word}")
+    } else {
+        format!("{n} {word}s")
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::Point;
+    use crate::rules::Item;
+
+    fn v(severity: Severity) -> Violation {
+        Violation {
+            rule: "clearance",
+            severity,
+            measured: 0.08,
+            required: 0.1,
+            layer: Some(2),
+            at: Point::new(1.5, -2.25),
+            items: vec![Item::Track(3), Item::Via(0)],
+            message: "turns too close".into(),
+        }
+    }
+
+    #[test]
+    fn table_lists_every_column_and_counts() {
+        let t = violations_table(&[v(Severity::Error), v(Severity::Warning)]);
+        let lines: Vec<&str> = t.lines().collect();
+        assert!(lines[0].starts_with("rule"));
+        assert!(lines[1].contains("clearance") && lines[1].contains("error"));
+        assert!(lines[1].contains("1.500") && lines[1].contains("-2.250"));
+        assert!(lines[1].contains("0.0800") && lines[1].contains("0.1000"));
+        assert!(lines[1].ends_with("turns too close"));
+        assert_eq!(lines[3], "1 error(s), 1 warning(s)");
+        assert_eq!(violations_table(&[]), "");
+    }
+
+    #[test]
+    fn json_has_the_fixed_fields() {
+        let j: serde_json::Value =
+            serde_json::from_str(&violations_json(&[v(Severity::Warning)])).unwrap();
+        let x = &j["violations"][0];
+        assert_eq!(x["rule"], "clearance");
+        assert_eq!(x["severity"], "warning");
+        assert_eq!(x["layer"], 2);
+        assert_eq!(x["x"], 1.5);
+        assert_eq!(x["y"], -2.25);
+        assert_eq!(x["measured"], 0.08);
+        assert_eq!(x["required"], 0.1);
+        assert_eq!(x["items"][0]["kind"], "track");
+        assert_eq!(x["message"], "turns too close");
+    }
+}

@@ -1,0 +1,80 @@
+//! Rendering problems for people: design-file errors point into the file
+//! (path:line:col, the offending text underlined, a help line).
+
+use super::Failure;
+use crate::spec::{SpecError, SpecErrors};
+use annotate_snippets::{AnnotationKind, Group, Level, Origin, Renderer, Snippet};
+use std::io::{IsTerminal, Write};
+use std::path::Path;
+
+fn renderer() -> Renderer {
+    let color = std::io::stderr().is_terminal() && std::env::var_os("NO_COLOR").is_none();
+    if color {
+        Renderer::styled()
+    } else {
+        Renderer::plain()
+    }
+}
+
+/// Renders design-file problems as text (one block per problem).
+pub fn render_spec_errors(path: &Path, text: &str, errors: &SpecErrors) -> String {
+    let path = path.display().to_string();
+    let r = renderer();
+    let mut out = String::new();
+    for e in &errors.errors {
+        out.push_str(&render_one(&r, &path, text, e));
+        out.push_str("\n\n");
+    }
+    let n = errors.errors.len();
+    out.push_str(&format!(
+        "{n} problem{} in {path}; nothing was written\n",
+        if n == 1 { "" } else { "s" }
+    ));
+    out
+}
+
+fn render_one(r: &Renderer, path: &str, text: &str, e: &SpecError) -> String {
+    // Messages that already name their key in backticks need no prefix.
+    let title = if e.message.contains(&format!("`{}`", e.key)) {
+        e.message.clone()
+    } else {
+        format!("{}: {}", e.key, e.message)
+    };
+    let mut report: Vec<Group> = Vec::new();
+    let main = Level::ERROR.primary_title(title.as_str());
+    let group = match &e.span {
+        Some(span) => {
+            let span = span.start.min(text.len())..span.end.min(text.len());
+            main.element(
+                Snippet::source(text)
+                    .path(path)
+                    .annotation(AnnotationKind::Primary.span(span).label(e.key.as_str())),
+            )
+        }
+        None => main.element(Origin::path(path)),
+    };
+    report.push(group);
+    if let Some(help) = &e.help {
+        report.push(Group::with_title(
+            Level::HELP.secondary_title(help.as_str()),
+        ));
+    }
+    r.render(&report)
+}
+
+/// Prints a failure to standard error.
+pub fn render_failure(f: &Failure) {
+    let text = match f {
+        Failure::Spec { path, text, errors } => render_spec_errors(path, text, errors),
+        Failure::BrokenPipe => return,
+        Failure::Other(e) => {
+            let mut s = format!("error: {e}");
+            for cause in e.chain().skip(1) {
+                s.push_str(&format!("\n  caused by: {cause}"));
+            }
+            s.push('\n');
+            s
+        }
+    };
+    let _ = std::io::stderr().write_all(text.as_bytes());
+}

@@ -1,0 +1,477 @@
+//! The command line end to end: the bad-input catalogue (every case exits 2,
+//! names its key and line:column, writes nothing), overwrite protection,
+//! and the shape of the JSON outputs.
+
+use std::path::{Path, PathBuf};
+use std::process::{Command, Output};
+
+const BIN: &str = env!("CARGO_BIN_EXE_coilwright");
+
+/// A valid four-layer design the catalogue mutates.
+const BASE: &str = r#"name = "catalogue"
+
+[coil]
+shape = "circle"
+outer_diameter = "16mm"
+turns = 20
+trace_width = "0.1mm"
+clearance = "0.1mm"
+layers = 4
+
+[stackup]
+kind = "flex"
+copper = "1oz"
+
+[magnet]
+diameter = "5mm"
+thickness = "2mm"
+remanence = "1.3T"
+gap = "0.5mm"
+
+[drive]
+voltage = "3.3V"
+"#;
+
+fn run(dir: &Path, args: &[&str]) -> Output {
+    Command::new(BIN)
+        .args(args)
+        .current_dir(dir)
+        .env("NO_COLOR", "1")
+        .output()
+        .expect("run coilwright")
+}
+
+fn stderr(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stderr).into_owned()
+}
+
+fn stdout(o: &Output) -> String {
+    String::from_utf8_lossy(&o.stdout).into_owned()
+}
+
+fn entries(dir: &Path) -> Vec<String> {
+    let mut v: Vec<String> = std::fs::read_dir(dir)
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    v.sort();
+    v
+}
+
+/// Replaces `from` (which must occur) by `to` in the base design.
+fn mutate(from: &str, to: &str) -> String {
+    assert!(BASE.contains(from), "{from}");
+    BASE.replacen(from, to, 1)
+}
+
+struct Case {
+    what: &'static str,
+    text: String,
+    key: &'static str,
+    /// Text at which the error must point (its line and column); a `|`
+    /// marks the exact position inside it.
+    at: &'static str,
+    /// Further text the message must contain.
+    says: &'static str,
+}
+
+fn case(
+    what: &'static str,
+    text: String,
+    key: &'static str,
+    at: &'static str,
+    says: &'static str,
+) -> Case {
+    Case {
+        what,
+        text,
+        key,
+        at,
+        says,
+    }
+}
+
+fn catalogue() -> Vec<Case> {
+    vec![
+        case(
+            "negative length",
+            mutate("trace_width = \"0.1mm\"", "trace_width = \"-0.1mm\""),
+            "coil.trace_width",
+            "trace_width = |\"-0.1mm\"",
+            "negative",
+        ),
+        case(
+            "zero clearance",
+            mutate("clearance = \"0.1mm\"", "clearance = 0"),
+            "coil.clearance",
+            "clearance = |0",
+            "greater than zero",
+        ),
+        case(
+            "NaN",
+            mutate("trace_width = \"0.1mm\"", "trace_width = nan"),
+            "coil.trace_width",
+            "trace_width = |nan",
+            "finite",
+        ),
+        case(
+            "infinity",
+            mutate("outer_diameter = \"16mm\"", "outer_diameter = inf"),
+            "coil.outer_diameter",
+            "= |inf",
+            "finite",
+        ),
+        case(
+            "NaN in a string",
+            mutate("gap = \"0.5mm\"", "gap = \"nan mm\""),
+            "magnet.gap",
+            "\"nan mm\"",
+            "finite",
+        ),
+        case(
+            "bad unit",
+            mutate("trace_width = \"0.1mm\"", "trace_width = \"3furlong\""),
+            "coil.trace_width",
+            "\"3furlong\"",
+            "furlong",
+        ),
+        case(
+            "unknown key",
+            mutate("trace_width", "trace_widht"),
+            "coil.trace_widht",
+            "|trace_widht",
+            "did you mean `trace_width`",
+        ),
+        case(
+            "unknown table",
+            mutate("[magnet]", "[magnit]"),
+            "magnit",
+            "[|magnit]",
+            "did you mean `magnet`",
+        ),
+        case(
+            "unknown shape",
+            mutate("shape = \"circle\"", "shape = \"circel\""),
+            "coil.shape",
+            "\"circel\"",
+            "did you mean \"circle\"",
+        ),
+        case(
+            "polygon with 2 sides",
+            mutate("shape = \"circle\"", "shape = \"polygon\"\nsides = 2"),
+            "coil.sides",
+            "sides = |2",
+            "must be 3 to 12",
+        ),
+        case(
+            "polygon with 13 sides",
+            mutate("shape = \"circle\"", "shape = \"polygon\"\nsides = 13"),
+            "coil.sides",
+            "sides = |13",
+            "must be 3 to 12",
+        ),
+        case(
+            "zero layers",
+            mutate("layers = 4", "layers = 0"),
+            "coil.layers",
+            "layers = |0",
+            "must be 1 to 32",
+        ),
+        case(
+            "33 layers",
+            mutate("layers = 4", "layers = 33"),
+            "coil.layers",
+            "layers = |33",
+            "must be 1 to 32",
+        ),
+        case(
+            "turns that do not fit",
+            mutate("turns = 20", "turns = 60"),
+            "coil.turns",
+            "turns = |60",
+            "at most 36.50 fit",
+        ),
+        case(
+            "inner diameter too small for the centre vias",
+            mutate("turns = 20", "inner_diameter = \"0.3mm\""),
+            "coil.inner_diameter",
+            "\"0.3mm\"",
+            "minimum is",
+        ),
+        case(
+            "three of outer, inner and turns",
+            mutate("turns = 20", "turns = 20\ninner_diameter = \"4mm\""),
+            "coil",
+            "\"4mm\"",
+            "exactly two",
+        ),
+        case(
+            "TOML syntax error",
+            mutate("[stackup]", "[stackup"),
+            "syntax",
+            "[stackup|\n",
+            "TOML syntax error",
+        ),
+        case(
+            "parallel-pairs with odd layers",
+            mutate("layers = 4", "layers = 3\nwiring = \"parallel-pairs\""),
+            "coil.wiring",
+            "\"parallel-pairs\"",
+            "even number of layers",
+        ),
+        case(
+            "wrong number of copper values",
+            mutate("copper = \"1oz\"", "copper = [\"1oz\", \"1oz\"]"),
+            "stackup.copper",
+            "[\"1oz\"",
+            "needs 4",
+        ),
+        case(
+            "missing required key",
+            mutate("trace_width = \"0.1mm\"\n", ""),
+            "coil.trace_width",
+            "[|coil]",
+            "required",
+        ),
+        case(
+            "voltage and current",
+            mutate("voltage = \"3.3V\"", "voltage = \"3.3V\"\ncurrent = \"1A\""),
+            "drive.current",
+            "\"1A\"",
+            "not both",
+        ),
+        case(
+            "negative temperature below absolute zero",
+            mutate(
+                "voltage = \"3.3V\"",
+                "voltage = \"3.3V\"\nambient = \"-300C\"",
+            ),
+            "drive.ambient",
+            "\"-300C\"",
+            "absolute zero",
+        ),
+    ]
+}
+
+/// Expected `path:line:col` of the first occurrence of `at` in `text`.
+fn location(path: &Path, text: &str, at: &str) -> String {
+    // `|` marks the position inside the marker (default: its start).
+    let bar = at.find('|').unwrap_or(0);
+    let marker = at.replace('|', "");
+    let offset = text
+        .find(&marker)
+        .unwrap_or_else(|| panic!("`{at}` not in text"))
+        + bar;
+    let (line, col) = coilwright::spec::line_col(text, offset);
+    format!("{}:{line}:{col}", path.display())
+}
+
+#[test]
+fn bad_input_catalogue_exits_2_names_the_key_and_writes_nothing() {
+    for c in catalogue() {
+        let dir = tempfile::tempdir().unwrap();
+        let spec = dir.path().join("design.toml");
+        std::fs::write(&spec, &c.text).unwrap();
+        for args in [
+            vec!["check", "design.toml"],
+            vec!["build", "design.toml", "-o", "out"],
+            vec!["report", "design.toml", "-o", "report.json"],
+        ] {
+            let o = run(dir.path(), &args);
+            let err = stderr(&o);
+            assert_eq!(o.status.code(), Some(2), "{}: {args:?}\n{err}", c.what);
+            assert!(
+                err.lines()
+                    .any(|l| l.starts_with("error") && l.contains(c.key)),
+                "{}: key {} not named\n{err}",
+                c.what,
+                c.key
+            );
+            assert!(
+                err.contains(c.says),
+                "{}: `{}` missing\n{err}",
+                c.what,
+                c.says
+            );
+            let loc = location(Path::new("design.toml"), &c.text, c.at);
+            assert!(err.contains(&loc), "{}: {loc} missing\n{err}", c.what);
+            assert_eq!(entries(dir.path()), vec!["design.toml"], "{}", c.what);
+        }
+    }
+}
+
+#[test]
+fn check_json_lists_problems_for_scripts() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("d.toml"),
+        mutate("layers = 4", "layers = 33"),
+    )
+    .unwrap();
+    let o = run(dir.path(), &["check", "d.toml", "--json"]);
+    assert_eq!(o.status.code(), Some(2));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["errors"][0]["key"], "coil.layers");
+    assert_eq!(v["errors"][0]["line"], 9);
+    assert!(v["violations"].as_array().unwrap().is_empty());
+}
+
+#[test]
+fn valid_design_checks_clean_with_json() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(dir.path().join("d.toml"), BASE).unwrap();
+    let o = run(dir.path(), &["check", "d.toml", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert!(v["violations"].is_array());
+    let o = run(dir.path(), &["check", "d.toml"]);
+    assert_eq!(o.status.code(), Some(0));
+    assert!(stdout(&o).starts_with("ok:"), "{}", stdout(&o));
+}
+
+#[test]
+fn missing_design_file_exits_2() {
+    let dir = tempfile::tempdir().unwrap();
+    let o = run(dir.path(), &["check", "nope.toml"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("nope.toml"));
+}
+
+fn write_base(dir: &Path) -> PathBuf {
+    let p = dir.join("d.toml");
+    std::fs::write(&p, BASE).unwrap();
+    p
+}
+
+#[test]
+fn build_refuses_existing_folder_without_force_and_replaces_it_with_force() {
+    let dir = tempfile::tempdir().unwrap();
+    write_base(dir.path());
+    let out = dir.path().join("out");
+    std::fs::create_dir(&out).unwrap();
+    std::fs::write(out.join("keep.txt"), "mine").unwrap();
+
+    let o = run(dir.path(), &["build", "d.toml", "-o", "out"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("--force"), "{}", stderr(&o));
+    assert_eq!(entries(&out), vec!["keep.txt"]);
+    assert_eq!(
+        std::fs::read_to_string(out.join("keep.txt")).unwrap(),
+        "mine"
+    );
+
+    let o = run(dir.path(), &["build", "d.toml", "-o", "out", "--force"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(out.is_dir());
+    assert!(!out.join("keep.txt").exists(), "old contents replaced");
+    // No temporary or old folders are left next to it.
+    assert_eq!(entries(dir.path()), vec!["d.toml", "out"]);
+    assert!(stdout(&o).contains("built catalogue"), "{}", stdout(&o));
+}
+
+#[test]
+fn build_into_new_folder() {
+    let dir = tempfile::tempdir().unwrap();
+    write_base(dir.path());
+    let o = run(dir.path(), &["build", "d.toml", "-o", "sub/out"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(dir.path().join("sub/out").is_dir());
+    assert_eq!(entries(&dir.path().join("sub")), vec!["out"]);
+}
+
+#[test]
+fn init_writes_a_valid_design_and_refuses_to_overwrite() {
+    let dir = tempfile::tempdir().unwrap();
+    let o = run(dir.path(), &["init", "my-coil.toml"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let text = std::fs::read_to_string(dir.path().join("my-coil.toml")).unwrap();
+    assert!(text.contains("name = \"my-coil\""));
+    coilwright::spec::parse(&text).unwrap();
+
+    std::fs::write(dir.path().join("my-coil.toml"), "# mine\n").unwrap();
+    let o = run(dir.path(), &["init", "my-coil.toml"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("--force"));
+    assert_eq!(
+        std::fs::read_to_string(dir.path().join("my-coil.toml")).unwrap(),
+        "# mine\n"
+    );
+    let o = run(
+        dir.path(),
+        &[
+            "init",
+            "--template",
+            "motor-stator",
+            "--force",
+            "my-coil.toml",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0));
+    let text = std::fs::read_to_string(dir.path().join("my-coil.toml")).unwrap();
+    assert!(text.contains("sides = 6"));
+}
+
+#[test]
+fn init_list_and_unknown_template() {
+    let dir = tempfile::tempdir().unwrap();
+    let o = run(dir.path(), &["init", "--list"]);
+    assert_eq!(o.status.code(), Some(0));
+    for t in coilwright::cli::templates() {
+        assert!(stdout(&o).contains(t.name));
+        assert!(stdout(&o).contains(t.description));
+    }
+    let o = run(dir.path(), &["init", "--template", "pickup", "x.toml"]);
+    assert_eq!(o.status.code(), Some(2));
+    assert!(stderr(&o).contains("pickup-coil"), "{}", stderr(&o));
+    assert!(entries(dir.path()).is_empty());
+}
+
+#[test]
+fn report_json_and_overwrite_protection() {
+    let dir = tempfile::tempdir().unwrap();
+    write_base(dir.path());
+    let o = run(dir.path(), &["report", "d.toml", "--json"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert!(v["trace_length_mm"].as_f64().unwrap() > 100.0);
+
+    let o = run(dir.path(), &["report", "d.toml", "--json", "-o", "r.json"]);
+    assert_eq!(o.status.code(), Some(0));
+    let written = std::fs::read_to_string(dir.path().join("r.json")).unwrap();
+    serde_json::from_str::<serde_json::Value>(&written).unwrap();
+    let o = run(dir.path(), &["report", "d.toml", "-o", "r.json"]);
+    assert_eq!(o.status.code(), Some(2));
+    let o = run(dir.path(), &["report", "d.toml", "-o", "r.json", "--force"]);
+    assert_eq!(o.status.code(), Some(0));
+    assert_eq!(entries(dir.path()), vec!["d.toml", "r.json"]);
+}
+
+#[test]
+fn usage_errors_exit_2() {
+    let dir = tempfile::tempdir().unwrap();
+    let o = run(dir.path(), &["build", "d.toml"]);
+    assert_eq!(o.status.code(), Some(2));
+    let o = run(dir.path(), &["frobnicate"]);
+    assert_eq!(o.status.code(), Some(2));
+    let o = run(dir.path(), &["--help"]);
+    assert_eq!(o.status.code(), Some(0));
+}
+
+#[test]
+fn closed_output_pipe_is_not_an_error() {
+    use std::process::Stdio;
+    let dir = tempfile::tempdir().unwrap();
+    write_base(dir.path());
+    let mut child = Command::new(BIN)
+        .args(["report", "d.toml", "--json"])
+        .current_dir(dir.path())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    // Close the reading end before the report is written.
+    drop(child.stdout.take());
+    let o = child.wait_with_output().unwrap();
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stderr(&o).is_empty(), "{}", stderr(&o));
+}
