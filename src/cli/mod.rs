@@ -11,6 +11,7 @@ mod diagnostics;
 mod init;
 pub mod pipeline;
 mod report;
+mod sweep;
 
 pub use init::{Template, templates};
 
@@ -105,6 +106,52 @@ pub enum Command {
         #[arg(long)]
         force: bool,
     },
+    /// Try many variants of a design and find the best one for a goal.
+    #[command(after_help = "Examples:\n  \
+        coilwright sweep fin.toml --vary layers=2,4,6 --vary turns=4..20 \\\n    \
+        --vary trace_width=0.1mm..0.2mm:0.05mm --require \"temperature_c <= 80\" \\\n    \
+        --require \"outer_diameter_mm <= 20\" --maximize force_per_sqrt_w_n -o sweep\n\n\
+        Metrics are the report's JSON names (see `coilwright report SPEC --json`) plus \
+        outer_diameter_mm, inner_diameter_mm, turns, total_turns, layers, trace_width_mm, \
+        clearance_mm, ambient_c, max_temperature_c, board_width_mm, board_height_mm, \
+        rule_errors, rule_warnings.\n\
+        Every candidate goes through validation, the rule check and the analysis; \
+        invalid and rule-breaking ones stay in the table with the reason.")]
+    Sweep {
+        /// Base design file (TOML); it must be valid.
+        #[arg(value_name = "SPEC")]
+        spec: PathBuf,
+        /// A design key and the values to try: a list (layers=2,4,6), a range
+        /// with step 1 (turns=4..20) or a range with a step
+        /// (trace_width=0.1mm..0.2mm:0.05mm). Repeat for more keys.
+        #[arg(long, value_name = "KEY=VALUES", required = true)]
+        vary: Vec<String>,
+        /// A requirement on a metric, e.g. "temperature_c <= 80". Repeat for more.
+        #[arg(long, value_name = "EXPR")]
+        require: Vec<String>,
+        /// Metric to maximize, e.g. force_per_sqrt_w_n.
+        #[arg(
+            long,
+            value_name = "METRIC",
+            conflicts_with = "minimize",
+            required_unless_present = "minimize"
+        )]
+        maximize: Option<String>,
+        /// Metric to minimize, e.g. resistance_ohm_20c.
+        #[arg(long, value_name = "METRIC")]
+        minimize: Option<String>,
+        /// Second metric of the trade-off plot, with :max if larger is
+        /// better (default: outer_diameter_mm, smaller is better).
+        #[arg(long, value_name = "METRIC[:max]")]
+        versus: Option<String>,
+        /// Folder for the table (CSV, JSON), the trade-off plot and the best
+        /// design file.
+        #[arg(short = 'o', long = "out", value_name = "DIR")]
+        out: Option<PathBuf>,
+        /// Replace DIR if it exists.
+        #[arg(long)]
+        force: bool,
+    },
 }
 
 /// How a command ended.
@@ -174,6 +221,28 @@ pub fn run(cli: Cli) -> ExitCode {
             out,
             force,
         } => report::run(&spec, json, out.as_deref(), force),
+        Command::Sweep {
+            spec,
+            vary,
+            require,
+            maximize,
+            minimize,
+            versus,
+            out,
+            force,
+        } => sweep::run(sweep::Args {
+            spec: &spec,
+            vary: &vary,
+            require: &require,
+            objective: match (maximize, minimize) {
+                (Some(m), _) => (m, true),
+                (None, Some(m)) => (m, false),
+                (None, None) => (String::new(), true),
+            },
+            versus: versus.as_deref(),
+            out: out.as_deref(),
+            force,
+        }),
     };
     match result {
         Ok(Exit::Ok) | Err(Failure::BrokenPipe) => ExitCode::SUCCESS,

@@ -13,10 +13,12 @@
 //! outer_diameter (so "turns within this outer diameter" works from a base
 //! that gives outer and inner diameter).
 
+mod metrics;
 mod pareto;
 mod require;
 mod vary;
 
+pub use metrics::metrics;
 pub use pareto::{PlotPoint, front, plot};
 pub use require::{Op, Requirement, check_metric};
 pub use vary::{Kind, NUMERIC_KEYS, Value, Vary, parse as parse_vary, resolve_key};

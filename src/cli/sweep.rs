@@ -1,0 +1,255 @@
+//! `coilwright sweep SPEC --vary KEY=VALUES ... [--require EXPR ...]
+//! (--maximize|--minimize METRIC) [-o DIR]`: try many variants of a design.
+
+use super::pipeline::{self, Loaded};
+use super::{Exit, Failure, print_out};
+use crate::explore::{self, Evaluation, Objective, Outcome, Requirement, Status, Sweep};
+use crate::export::{OutFile, out_dir};
+use crate::geometry;
+use crate::rules::Severity;
+use crate::spec;
+use anyhow::Context;
+use std::fmt::Write as _;
+use std::io::IsTerminal;
+use std::path::Path;
+
+/// The arguments of `sweep`, after clap.
+pub struct Args<'a> {
+    /// Base design file.
+    pub spec: &'a Path,
+    /// `--vary` arguments.
+    pub vary: &'a [String],
+    /// `--require` arguments.
+    pub require: &'a [String],
+    /// Objective metric and sense.
+    pub objective: (String, bool),
+    /// `--versus METRIC[:max|:min]`.
+    pub versus: Option<&'a str>,
+    /// Output folder.
+    pub out: Option<&'a Path>,
+    /// Replace the output folder.
+    pub force: bool,
+}
+
+/// Evaluates one candidate design file through the whole pipeline.
+fn evaluate(base: &Loaded, text: &str) -> Evaluation {
+    let design = match spec::parse(text) {
+        Ok(d) => d,
+        Err(errors) => {
+            let e = errors.first();
+            return Evaluation::Invalid(format!("{}: {}", e.key, e.message));
+        }
+    };
+    let layout = match geometry::build(&design) {
+        Ok(l) => l,
+        Err(e) => return Evaluation::Invalid(e.to_string()),
+    };
+    let loaded = Loaded {
+        path: base.path.clone(),
+        text: text.to_string(),
+        design,
+    };
+    let violations = match pipeline::violations(&loaded, &layout) {
+        Ok(v) => v,
+        Err(_) => return Evaluation::Invalid("rule profile could not be loaded".into()),
+    };
+    let analysis = crate::physics::analyse(&loaded.design, &layout);
+    let json = serde_json::to_value(&analysis).unwrap_or_default();
+    let m = explore::metrics(&loaded.design, &layout, &violations, &json);
+    let errors: Vec<String> = violations
+        .iter()
+        .filter(|v| v.severity == Severity::Error)
+        .map(|v| {
+            format!(
+                "{} ({:.4} mm, needs {:.4} mm)",
+                v.rule, v.measured, v.required
+            )
+        })
+        .collect();
+    if errors.is_empty() {
+        Evaluation::Metrics(m)
+    } else {
+        let n = errors.len();
+        let mut first: Vec<String> = errors.into_iter().take(3).collect();
+        if n > 3 {
+            first.push(format!("and {} more", n - 3));
+        }
+        Evaluation::RuleViolation(m, format!("rule violation: {}", first.join(", ")))
+    }
+}
+
+/// Runs `sweep`.
+pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
+    if let Some(dir) = a.out
+        && dir.exists()
+        && !a.force
+    {
+        return Err(anyhow::anyhow!("{} exists; pass --force to replace it", dir.display()).into());
+    }
+    let base = pipeline::load(a.spec)?;
+    // The base design must itself be valid: its report names the metrics.
+    let known: Vec<String> = match evaluate(&base, &base.text) {
+        Evaluation::Metrics(m) | Evaluation::RuleViolation(m, _) => m.into_keys().collect(),
+        Evaluation::Invalid(r) => {
+            return Err(anyhow::anyhow!("the base design cannot be analysed: {r}").into());
+        }
+    };
+    let bad = |e: explore::SweepError| Failure::Other(anyhow::Error::new(e));
+    let vary = a
+        .vary
+        .iter()
+        .map(|v| explore::parse_vary(v))
+        .collect::<Result<Vec<_>, _>>()
+        .map_err(bad)?;
+    if vary.is_empty() {
+        return Err(anyhow::anyhow!("give at least one --vary KEY=VALUES").into());
+    }
+    let require = a
+        .require
+        .iter()
+        .map(|r| Requirement::parse(r, &known))
+        .collect::<Result<Vec<_>, _>>()
+        .map_err(bad)?;
+    let versus = a.versus.map(|v| match v.rsplit_once(':') {
+        Some((m, "max")) => (m.to_string(), true),
+        Some((m, "min")) => (m.to_string(), false),
+        _ => (v.to_string(), false),
+    });
+    let sweep = Sweep::new(
+        &base.text,
+        vary,
+        require,
+        Objective {
+            metric: a.objective.0.clone(),
+            maximize: a.objective.1,
+        },
+        versus,
+        &known,
+    )
+    .map_err(bad)?;
+
+    let bar = if std::io::stderr().is_terminal() {
+        indicatif::ProgressBar::new(sweep.len() as u64).with_style(
+            indicatif::ProgressStyle::with_template(
+                "{bar:40} {pos}/{len} candidates, {per_sec}, eta {eta}",
+            )
+            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+        )
+    } else {
+        indicatif::ProgressBar::hidden()
+    };
+    let started = std::time::Instant::now();
+    let outcome = sweep.run(|text| evaluate(&base, text), || bar.inc(1));
+    bar.finish_and_clear();
+    let elapsed = started.elapsed().as_secs_f64();
+
+    print_out(&summary(&outcome, elapsed))?;
+    if let Some(dir) = a.out {
+        let mut files = vec![
+            OutFile {
+                path: "candidates.csv".into(),
+                role: "every candidate: parameters, metrics, status and reason".into(),
+                bytes: outcome.csv().into_bytes(),
+            },
+            OutFile {
+                path: "candidates.json".into(),
+                role: "every candidate as JSON".into(),
+                bytes: serde_json::to_vec_pretty(&outcome).context("cannot write JSON")?,
+            },
+            OutFile {
+                path: "tradeoff.svg".into(),
+                role: "objective against the second metric, Pareto front highlighted".into(),
+                bytes: outcome.plot().into_bytes(),
+            },
+        ];
+        if let Some(b) = outcome.best {
+            let table = sweep.candidate_table(b);
+            let c = &outcome.candidates[b];
+            let mut text = format!(
+                "# Best candidate of `coilwright sweep {}`: {} {} = {}\n# Parameters: {}\n# Build it with: coilwright build best.toml -o best\n\n",
+                a.spec.display(),
+                if outcome.objective.maximize {
+                    "maximum"
+                } else {
+                    "minimum"
+                },
+                outcome.objective.metric,
+                c.metrics
+                    .get(&outcome.objective.metric)
+                    .copied()
+                    .unwrap_or(f64::NAN),
+                c.params
+                    .iter()
+                    .map(|(k, v)| format!("{k} = {v}"))
+                    .collect::<Vec<_>>()
+                    .join(", "),
+            );
+            text.push_str(&toml::to_string_pretty(&table).context("cannot write the best design")?);
+            files.push(OutFile {
+                path: "best.toml".into(),
+                role: "the best candidate as a design file ready for build".into(),
+                bytes: text.into_bytes(),
+            });
+        }
+        out_dir::write(dir, &files, a.force)?;
+        print_out(&format!(
+            "wrote {} files to {}\n",
+            files.len(),
+            dir.display()
+        ))?;
+    }
+    Ok(Exit::Ok)
+}
+
+/// A short text summary: counts, best, and the top ten.
+fn summary(o: &Outcome, seconds: f64) -> String {
+    let n = o.candidates.len();
+    let count = |s: Status| o.candidates.iter().filter(|c| c.status == s).count();
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        "{n} candidates in {seconds:.2} s ({:.0}/s): {} meet the requirements, {} miss a requirement, {} break a fab rule, {} invalid",
+        n as f64 / seconds.max(1e-9),
+        count(Status::Ok),
+        count(Status::FailsRequirement),
+        count(Status::RuleViolation),
+        count(Status::Invalid)
+    );
+    let obj = &o.objective.metric;
+    let mut ranked: Vec<&explore::Candidate> =
+        o.candidates.iter().filter(|c| c.rank.is_some()).collect();
+    ranked.sort_by_key(|c| c.rank);
+    if ranked.is_empty() {
+        let _ = writeln!(s, "no candidate meets every requirement");
+        // Show the most common reasons.
+        for c in o.candidates.iter().take(5) {
+            let _ = writeln!(
+                s,
+                "  {}: {}",
+                c.params
+                    .iter()
+                    .map(|(k, v)| format!("{k}={v}"))
+                    .collect::<Vec<_>>()
+                    .join(" "),
+                c.reason
+            );
+        }
+        return s;
+    }
+    let _ = writeln!(s, "\nrank  {obj:>14}  {:>14}  parameters", o.versus);
+    for c in ranked.iter().take(10) {
+        let _ = writeln!(
+            s,
+            "{:>4}  {:>14.6}  {:>14.6}  {}",
+            c.rank.unwrap_or(0),
+            c.metrics.get(obj).copied().unwrap_or(f64::NAN),
+            c.metrics.get(&o.versus).copied().unwrap_or(f64::NAN),
+            c.params
+                .iter()
+                .map(|(k, v)| format!("{k}={v}"))
+                .collect::<Vec<_>>()
+                .join(" ")
+        );
+    }
+    s
+}
