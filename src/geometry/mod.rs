@@ -13,7 +13,7 @@ pub use layout::{
     Direction, Layout, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding, Wiring,
 };
 pub use primitives::{
-    Arc, Line, Point, Segment, Vec2, angle_between, arc_steps, distance_point_line,
+    Arc, Line, Point, Segment, Vec2, angle_between, arc_steps, closest_point, distance_point_line,
     distance_point_segment,
 };
 pub use spiral::{SpiralError, SpiralSpec, cut_at_polar_angle};

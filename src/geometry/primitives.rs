@@ -346,8 +346,14 @@ impl Segment {
         match self {
             Segment::Line(l) => angle_between(l.start.to_vec2(), l.end.to_vec2()),
             Segment::Arc(a) => {
-                // Split into pieces below pi so each step is unambiguous.
-                let n = (a.sweep.abs() / 1.0).ceil().max(1.0) as usize;
+                // Steps small enough that none sweeps half a turn about the
+                // origin: finer when the origin is close to the arc's circle.
+                let r = a.radius();
+                let gap = (a.center.to_vec2().length() - r)
+                    .abs()
+                    .max(1e-9 * r.max(1.0));
+                let per_step = 0.5 * (gap / r).min(1.0);
+                let n = ((a.sweep.abs() / per_step).ceil() as usize).clamp(1, 1_000_000);
                 let mut total = 0.0;
                 let mut prev = a.start;
                 for i in 1..=n {
@@ -484,6 +490,39 @@ pub fn distance_point_segment(p: Point, s: &Segment) -> f64 {
     }
 }
 
+/// The point of a segment's centre line nearest to `p`, and its fraction
+/// along the segment (0 at the start, 1 at the end).
+pub fn closest_point(p: Point, s: &Segment) -> (Point, f64) {
+    match s {
+        Segment::Line(l) => {
+            let ab = l.end - l.start;
+            let l2 = ab.dot(ab);
+            if l2 == 0.0 {
+                return (l.start, 0.0);
+            }
+            let t = ((p - l.start).dot(ab) / l2).clamp(0.0, 1.0);
+            (l.start + ab * t, t)
+        }
+        Segment::Arc(a) => {
+            let v = p - a.center;
+            if v.length() > 0.0 && a.contains_angle(v.angle()) {
+                let t = angle_between(a.start - a.center, v) / a.sweep;
+                let t = if t < 0.0 {
+                    t + std::f64::consts::TAU / a.sweep.abs()
+                } else {
+                    t
+                };
+                let t = t.clamp(0.0, 1.0);
+                (a.point_at(t), t)
+            } else if p.distance(a.start) <= p.distance(a.end) {
+                (a.start, 0.0)
+            } else {
+                (a.end, 1.0)
+            }
+        }
+    }
+}
+
 /// Shortest distance from `p` to the straight segment `a`-`b`, mm.
 pub fn distance_point_line(p: Point, a: Point, b: Point) -> f64 {
     let ab = b - a;
@@ -519,6 +558,26 @@ mod tests {
         near(m.end().y, -(1.0f64.sin()), 1e-12);
         near(a.swept_about_origin(), 1.0, 1e-12);
         near(m.swept_about_origin(), -1.0, 1e-12);
+    }
+
+    #[test]
+    fn swept_angle_with_axis_near_the_circle() {
+        // Found by the rule check's tests: the axis 0.0 mm from nothing but
+        // close to the circle; the sweep about the origin must follow the
+        // arc point by point.
+        let c = Point::new(1.35836, 0.33827);
+        let a = Arc::from_start(c, c + Vec2::new(1.472, 0.0), 5.207);
+        let exact: f64 = {
+            let n = 200_000;
+            (0..n)
+                .map(|i| {
+                    let p = a.point_at(i as f64 / n as f64).to_vec2();
+                    let q = a.point_at((i + 1) as f64 / n as f64).to_vec2();
+                    angle_between(p, q)
+                })
+                .sum()
+        };
+        near(Segment::Arc(a).swept_about_origin(), exact, 1e-9);
     }
 
     #[test]

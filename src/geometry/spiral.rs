@@ -123,6 +123,20 @@ impl SpiralSpec {
         let lines = (self.turns * n as f64).ceil() as usize + 2;
         let mut out = Vec::with_capacity(2 * lines);
         let mut at = Point::new(bases[0], 0.0);
+        if let Corner::Round { radius } = self.corner {
+            // The first turn's last corner is concentric with a corner that
+            // would come before the start; if that corner's tangent point lies
+            // past the foot of side 0, start there so that the pitch holds.
+            let r = radius - p / n as f64;
+            let (nm, dm) = (Vec2::from_angle(-alpha), bases[n - 1] - p / n as f64);
+            if r > 0.0 && dm > r {
+                let c = intersect(nm, dm - r, normal(0), d(0) - r);
+                let t = c + normal(0) * r;
+                if t.y > 0.0 {
+                    at = Point::new(bases[0], t.y);
+                }
+            }
+        }
         match self.corner {
             Corner::Sharp => {
                 for k in 0..lines {
@@ -150,6 +164,54 @@ impl SpiralSpec {
             }
         }
         Ok(out)
+    }
+}
+
+impl SpiralSpec {
+    /// A closed path one pitch outside a polygon or rectangle spiral built
+    /// by [`SpiralSpec::segments`] (`None` for a circle): the sides of the
+    /// turn after the last, with the same corners (concentric with the
+    /// winding's, so the gap is exactly one pitch), closed by one sharp
+    /// corner away from the spiral's outer end. Starts at that sharp corner
+    /// and runs counter-clockwise.
+    pub fn lead_ring(&self, segs: &[Segment]) -> Option<Vec<Segment>> {
+        let bases = self.sides()?;
+        let n = bases.len();
+        let p = self.pitch;
+        let alpha = TAU / n as f64;
+        let d = |k: usize| bases[k % n] + p * k as f64 / n as f64;
+        let normal = |k: usize| Vec2::from_angle(k as f64 * alpha);
+        let last = segs.len().max(1) - 1;
+        let first = match self.corner {
+            Corner::Sharp => last + 1,
+            Corner::Round { .. } if last % 2 == 0 => last / 2 + 1,
+            Corner::Round { .. } => (last - 1) / 2 + 2,
+        };
+        let close = first + n - 1;
+        let v0 = intersect(normal(close), d(close), normal(first), d(first));
+        let mut out = Vec::with_capacity(2 * n);
+        let mut at = v0;
+        for k in first..close {
+            match self.corner {
+                Corner::Sharp => {
+                    let v = intersect(normal(k), d(k), normal(k + 1), d(k + 1));
+                    out.push(Segment::line(at, v));
+                    at = v;
+                }
+                Corner::Round { radius } => {
+                    let rc = radius + p * k as f64 / n as f64;
+                    let (n1, n2) = (normal(k), normal(k + 1));
+                    let c = intersect(n1, d(k) - rc, n2, d(k + 1) - rc);
+                    let t1 = c + n1 * rc;
+                    out.push(Segment::line(at, t1));
+                    let arc = Arc::from_start(c, t1, alpha);
+                    at = arc.end;
+                    out.push(Segment::Arc(arc));
+                }
+            }
+        }
+        out.push(Segment::line(at, v0));
+        Some(out)
     }
 }
 

@@ -135,6 +135,28 @@ fn centre_leads_need_ring(shape: &Shape, slots: usize) -> bool {
 /// Radius of the circle of centre slots: zero for one slot, otherwise large
 /// enough that neighbouring pads are `clearance` apart and a lead passing a
 /// neighbour keeps `clearance` too.
+/// Polar angle between neighbouring slots on a circle of radius `r` so
+/// that pads of diameter `dmax` keep `clearance` and a lead passing a
+/// neighbour keeps it too (with a little slack for polygon rings).
+fn chord_angle(r: f64, dmax: f64, clearance: f64, trace_width: f64) -> f64 {
+    let chord = 1.05 * (dmax + clearance).max(dmax / 2.0 + trace_width / 2.0 + clearance);
+    if r <= 0.0 {
+        return TAU;
+    }
+    2.0 * (chord / (2.0 * r)).min(1.0).asin()
+}
+
+/// `n` angles `step` apart centred on `at`; evenly around the circle when
+/// they do not fit.
+fn cluster(n: usize, at: f64, step: f64) -> Vec<f64> {
+    if step * n as f64 >= TAU {
+        return (0..n).map(|j| at + TAU * j as f64 / n as f64).collect();
+    }
+    (0..n)
+        .map(|j| at + (j as f64 - (n as f64 - 1.0) / 2.0) * step)
+        .collect()
+}
+
 fn centre_ring_radius(n: usize, dmax: f64, clearance: f64, trace_width: f64) -> f64 {
     if n <= 1 {
         return 0.0;
@@ -268,14 +290,17 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
             _ => r,
         }
     };
-    let spiral = SpiralSpec {
+    let spiral_spec = SpiralSpec {
         shape: coil.shape,
         corner: coil.corner,
         pitch: p,
         inner,
         turns: coil.turns,
-    }
-    .segments()?;
+    };
+    let spiral = spiral_spec.segments()?;
+    // Polygons and rectangles: a lead ring shaped like the next turn (one
+    // pitch out, same corners), so leads meet it square, never in a hairpin.
+    let lead_loop = spiral_spec.lead_ring(&spiral).map(|segs| Loop { segs });
     let spiral_end = spiral
         .last()
         .map(|x| x.end())
@@ -297,14 +322,22 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
     let rc = centre_ring_radius(nc, centre_dmax, s, w)
         .max(coil.inner_diameter / 2.0 - s - centre_dmax / 2.0 - ring_allowance);
     let inner_lead_radius = rc + centre_dmax / 2.0 + s + w / 2.0;
-    let centre_angle = |j: usize| TAU * j as f64 / nc as f64;
+    // Circles turn each layer to face its slot, so slots spread evenly;
+    // other shapes keep every inner end at angle 0, so their slots cluster
+    // there, as close as the clearances allow, to keep the leads short.
+    let centre_angles: Vec<f64> = if centre_ring {
+        cluster(nc, 0.0, chord_angle(rc, centre_dmax, s, w))
+    } else {
+        (0..nc).map(|j| TAU * j as f64 / nc as f64).collect()
+    };
+    let centre_angle = |j: usize| centre_angles[j];
     let centre_point = |j: usize| Point::polar(rc, centre_angle(j));
 
     // Lead ring one pitch outside the winding, vias one pad further out.
-    let lead_ring = match coil.shape {
-        Shape::Circle => Ring::Circle(super::spiral::radial_extent(&spiral).1 + p),
-        Shape::Polygon { sides } => polygon_ring(&spiral, sides as usize, p),
-        Shape::Rectangle { .. } => polygon_ring(&spiral, 4, p),
+    let lead_ring = match (coil.shape, &lead_loop) {
+        (Shape::Polygon { sides }, Some(l)) => polygon_ring(&l.segs, sides as usize, 0.0),
+        (Shape::Rectangle { .. }, Some(l)) => polygon_ring(&l.segs, 4, 0.0),
+        _ => Ring::Circle(super::spiral::radial_extent(&spiral).1 + p),
     };
     let lead_ring = match (&lead_ring, coil.layers > 1) {
         // Mirrored layers reach as far in the mirrored directions.
@@ -331,20 +364,52 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
     } else {
         0.0
     };
-    let outer_angle = |j: usize| {
-        if ends_outside && no > 1 {
-            PI / 2.0 - (TAU - terminal_step) * j as f64 / (no - 1) as f64
-        } else {
-            PI / 2.0 - TAU * j as f64 / no as f64
+    let even_angles: Vec<f64> = (0..no)
+        .map(|j| {
+            if ends_outside && no > 1 {
+                PI / 2.0 - (TAU - terminal_step) * j as f64 / (no - 1) as f64
+            } else {
+                PI / 2.0 - TAU * j as f64 / no as f64
+            }
+        })
+        .collect();
+    let outer_angles: Vec<f64> = match &lead_loop {
+        Some(_) if no > 1 + usize::from(ends_outside) => {
+            // Junction vias next to the layers' outer ends, which sit near
+            // the x axis on both sides (mirrored layers): cluster them on
+            // the axis at the nearer side, terminals stay at the top.
+            let junctions = no - 1 - usize::from(ends_outside);
+            let side = if outer_end_angle.cos() >= 0.0 {
+                0.0
+            } else {
+                PI
+            };
+            let r = via_ring.at(side).radius();
+            let step = chord_angle(r, outer_dmax, s, w);
+            let spread = cluster(junctions, side, step);
+            let span = step * junctions as f64;
+            if span < PI - 2.0 * terminal_step.max(step) {
+                let mut a = vec![PI / 2.0];
+                a.extend(spread);
+                if ends_outside {
+                    a.push(PI / 2.0 + terminal_step);
+                }
+                a
+            } else {
+                even_angles
+            }
         }
+        _ => even_angles,
     };
+    let outer_angle = |j: usize| outer_angles[j];
     if no > 1 {
-        let need = outer_dmax + s;
+        let need = (outer_dmax + s).max(outer_dmax / 2.0 + w / 2.0 + s);
         let gap = (0..no)
-            .map(|j| {
+            .flat_map(|i| (i + 1..no).map(move |j| (i, j)))
+            .map(|(i, j)| {
                 via_ring
-                    .at(outer_angle(j))
-                    .distance(via_ring.at(outer_angle((j + 1) % no)))
+                    .at(outer_angle(i))
+                    .distance(via_ring.at(outer_angle(j)))
             })
             .fold(f64::INFINITY, f64::min);
         if gap < need {
@@ -461,15 +526,24 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
         };
         // Outer lead: node -> lead ring -> along ring -> outer end.
         let node_at = layout.node_at(outer_node);
-        let ring_a = lead_ring.at(outer_slot_angle);
-        let mut outer_lead = vec![Segment::line(node_at, ring_a)];
-        outer_lead.extend(lead_ring.path(
-            ring_a,
-            outer_slot_angle,
-            short_sweep(outer_slot_angle, end_angle),
-        ));
-        let last = outer_lead.last().map(|x| x.end()).unwrap_or(ring_a);
-        outer_lead.push(Segment::line(last, outer_end));
+        let outer_lead = if let Some(canonical) = &lead_loop {
+            // Square onto this layer's own ring from the node, along the
+            // ring, square onto the spiral's outer end.
+            let ring = if inward {
+                canonical.clone()
+            } else {
+                canonical.mirrored()
+            };
+            let q = ring.closest(node_at);
+            let e = ring.closest(outer_end);
+            let mut lead = vec![Segment::line(node_at, q.point)];
+            lead.extend(ring.walk(q, e));
+            let last = lead.last().map(|x| x.end()).unwrap_or(q.point);
+            lead.push(Segment::line(last, outer_end));
+            lead
+        } else {
+            circle_outer_lead(&lead_ring, node_at, outer_slot_angle, end_angle, outer_end)
+        };
 
         let (from, to, chain): (Node, Node, Vec<(Segment, TrackRole)>) = if inward {
             let mut c: Vec<_> = outer_lead.iter().map(|x| (*x, TrackRole::Lead)).collect();
@@ -544,13 +618,21 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
                 ]
             }
             Ring::Polygon { .. } => {
-                let mut pts: Vec<Point> = edge
+                let pts: Vec<Point> = edge
                     .vertex_angles()
                     .into_iter()
                     .map(|a| edge.at(a))
                     .collect();
-                pts.push(pts[0]);
-                pts.windows(2).map(|w| Segment::line(w[0], w[1])).collect()
+                // Cut the corners by a circle that keeps the margin to the
+                // farthest copper: rounded-corner coils get a rounded board.
+                let reach = layout
+                    .tracks
+                    .iter()
+                    .map(|t| t.segment.max_radius() + t.width / 2.0)
+                    .chain(layout.vias.iter().map(|v| v.at.radius() + v.diameter / 2.0))
+                    .chain(layout.pads.iter().map(|p| p.at.radius() + p.diameter / 2.0))
+                    .fold(0.0, f64::max);
+                polygon_in_disc(&pts, reach + design.board.margin)
             }
         },
     };
@@ -559,6 +641,187 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
         a.end = b.start;
     }
     Ok(layout)
+}
+
+/// The boundary of a convex polygon (vertices counter-clockwise about the
+/// origin) intersected with the disc of radius `r` about the origin: the
+/// polygon's sides where they are inside, arcs of the circle elsewhere.
+fn polygon_in_disc(pts: &[Point], r: f64) -> Vec<Segment> {
+    let n = pts.len();
+    // Part of each side inside the disc, as (start, end) or None.
+    let clipped: Vec<Option<(Point, Point)>> = (0..n)
+        .map(|i| {
+            let (a, b) = (pts[i], pts[(i + 1) % n]);
+            let d = b - a;
+            let (qa, qb, qc) = (
+                d.dot(d),
+                2.0 * a.to_vec2().dot(d),
+                a.to_vec2().dot(a.to_vec2()) - r * r,
+            );
+            let disc = qb * qb - 4.0 * qa * qc;
+            if disc <= 0.0 {
+                return None;
+            }
+            let sq = disc.sqrt();
+            let t0 = ((-qb - sq) / (2.0 * qa)).max(0.0);
+            let t1 = ((-qb + sq) / (2.0 * qa)).min(1.0);
+            (t1 - t0 > 1e-9).then(|| (a.lerp(b, t0), a.lerp(b, t1)))
+        })
+        .collect();
+    let inside: Vec<(Point, Point)> = clipped.iter().flatten().copied().collect();
+    if inside.is_empty() {
+        let start = Point::new(r, 0.0);
+        let half = Segment::Arc(Arc::from_start(Point::ORIGIN, start, PI));
+        let rest = Segment::Arc(Arc {
+            center: Point::ORIGIN,
+            start: half.end(),
+            end: start,
+            sweep: PI,
+        });
+        return vec![half, rest];
+    }
+    let mut out = Vec::new();
+    let m = inside.len();
+    for k in 0..m {
+        let (a, b) = inside[k];
+        let start = out.last().map(|s: &Segment| s.end()).unwrap_or(a);
+        out.push(Segment::line(start, b));
+        let next = inside[(k + 1) % m].0;
+        if b.distance(next) > 1e-9 {
+            let sweep = (next.angle() - b.angle()).rem_euclid(TAU);
+            let arc = Arc::from_start(Point::ORIGIN, b, sweep);
+            out.push(Segment::Arc(arc));
+        }
+    }
+    // Close exactly onto the first point.
+    let first = out[0].start();
+    if let Some(last) = out.last_mut() {
+        match last {
+            Segment::Line(l) => l.end = first,
+            Segment::Arc(a) => a.end = first,
+        }
+    }
+    out
+}
+
+/// Outer lead on a circular ring: radially from the node to the ring, along
+/// the ring the short way, radially to the spiral's outer end.
+fn circle_outer_lead(
+    ring: &Ring,
+    node_at: Point,
+    slot_angle: f64,
+    end_angle: f64,
+    outer_end: Point,
+) -> Vec<Segment> {
+    let ring_a = ring.at(slot_angle);
+    let mut lead = vec![Segment::line(node_at, ring_a)];
+    lead.extend(ring.path(ring_a, slot_angle, short_sweep(slot_angle, end_angle)));
+    let last = lead.last().map(|x| x.end()).unwrap_or(ring_a);
+    lead.push(Segment::line(last, outer_end));
+    lead
+}
+
+/// A place on a closed loop: segment index, fraction along it, the point.
+#[derive(Debug, Clone, Copy)]
+struct OnLoop {
+    index: usize,
+    t: f64,
+    point: Point,
+}
+
+/// A closed path of segments, each starting where the previous ends.
+#[derive(Debug, Clone)]
+struct Loop {
+    segs: Vec<Segment>,
+}
+
+impl Loop {
+    /// Mirror image across the x axis.
+    fn mirrored(&self) -> Loop {
+        Loop {
+            segs: self.segs.iter().map(|s| s.mirrored()).collect(),
+        }
+    }
+
+    /// The point of the loop nearest to `p`.
+    fn closest(&self, p: Point) -> OnLoop {
+        let mut best = OnLoop {
+            index: 0,
+            t: 0.0,
+            point: self.segs[0].start(),
+        };
+        let mut dist = f64::INFINITY;
+        for (index, s) in self.segs.iter().enumerate() {
+            let (point, t) = super::closest_point(p, s);
+            let d = point.distance(p);
+            if d < dist {
+                dist = d;
+                best = OnLoop { index, t, point };
+            }
+        }
+        best
+    }
+
+    /// Part of segment `i` from fraction `t0` (starting exactly at `start`)
+    /// to fraction `t1`.
+    fn piece(&self, i: usize, start: Point, t0: f64, t1: f64) -> Segment {
+        match self.segs[i] {
+            Segment::Line(l) => {
+                let end = if t1 >= 1.0 {
+                    l.end
+                } else {
+                    l.start.lerp(l.end, t1)
+                };
+                Segment::line(start, end)
+            }
+            Segment::Arc(a) => Segment::Arc(Arc::from_start(a.center, start, a.sweep * (t1 - t0))),
+        }
+    }
+
+    /// The path along the loop in its own direction from `a` to `b`.
+    fn forward(&self, a: OnLoop, b: OnLoop) -> Vec<Segment> {
+        let n = self.segs.len();
+        let mut out = Vec::new();
+        let mut at = a.point;
+        let (mut i, mut t) = (a.index, a.t);
+        for _ in 0..=n {
+            if i == b.index && b.t >= t {
+                out.push(self.piece(i, at, t, b.t));
+                break;
+            }
+            let s = self.piece(i, at, t, 1.0);
+            at = s.end();
+            out.push(s);
+            i = (i + 1) % n;
+            t = 0.0;
+        }
+        out.retain(|s| s.length() > 1e-9);
+        out
+    }
+
+    /// The shorter path along the loop from `a` to `b` (either direction).
+    fn walk(&self, a: OnLoop, b: OnLoop) -> Vec<Segment> {
+        let fwd = self.forward(a, b);
+        let back = reversed(&self.forward(b, a));
+        let len = |v: &[Segment]| v.iter().map(|s| s.length()).sum::<f64>();
+        let mut path = if len(&fwd) <= len(&back) { fwd } else { back };
+        // Start exactly at `a` whichever way was taken.
+        if let Some(first) = path.first_mut() {
+            *first = match *first {
+                Segment::Line(l) => Segment::line(a.point, l.end),
+                Segment::Arc(x) => Segment::Arc(Arc::from_start(x.center, a.point, x.sweep)),
+            };
+        }
+        // Rejoin consecutive pieces exactly (the first may have moved by rounding).
+        for k in 1..path.len() {
+            let prev = path[k - 1].end();
+            path[k] = match path[k] {
+                Segment::Line(l) => Segment::line(prev, l.end),
+                Segment::Arc(x) => Segment::Arc(Arc::from_start(x.center, prev, x.sweep)),
+            };
+        }
+        path
+    }
 }
 
 /// A polygon ring whose every side is `gap` outside the farthest winding
