@@ -21,7 +21,7 @@
 //! "standard" (0.1 mm): `clearance error L1 ...: 0.090000 < 0.100000 mm
 //! [track 3, track 5]`, for each pair of neighbouring turns.
 
-use super::context::{ADJACENT_CELLS, Context, Piece, grown};
+use super::context::{ADJACENT_CELLS, Context, Piece};
 use super::distance::{Closest, segment_segment};
 use super::{Item, RuleInfo, Severity, Violation, fails};
 use crate::geometry::Segment;
@@ -44,8 +44,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
         let reach = req + ctx.max_hw_on(layer) + 1e-9;
         for &i in ctx.on_layer(layer) {
             let a = &ctx.pieces[i];
-            let (lo, hi) = grown(a.lo, a.hi, reach + a.hw);
-            for j in ctx.near(layer, lo, hi) {
+            for j in ctx.near(layer, &a.polar, reach + a.hw) {
                 if j < i {
                     continue;
                 }

@@ -2,13 +2,20 @@
 //! they lie along the conductor, a spatial index of the pieces per layer,
 //! and the plated holes.
 //!
-//! # Pieces
+//! # Pieces and the index
 //! Each track is cut into pieces (true sub-arcs and sub-lines, no
-//! flattening) short enough that their bounding boxes are tight: the
-//! sagitta of an arc piece is at most one pitch `h` (widest track plus the
-//! required clearance), a piece is at most `16 h` long and an arc piece
-//! sweeps at most a quarter turn. Boxes of pieces go into one R-tree per
-//! layer (rstar), so finding the copper near a piece costs `O(log n)`.
+//! flattening). The index is an R-tree (rstar) per layer over the pieces'
+//! boxes in polar coordinates about the coil axis, (distance from the
+//! axis, polar angle): a coil's turns are nearly circles about the axis,
+//! so a whole half-turn arc is a thin box there and its only neighbours in
+//! the tree are the turns next to it. Pieces are cut so that an arc sweeps
+//! at most a quarter turn and a piece's range of distance from the axis is
+//! at most `4 h` (`h` = widest track plus the required clearance). A
+//! query grows a box by the reach `d` in distance and by `asin(d / r)` in
+//! angle (all angles when the box comes within `d` of the axis), with the
+//! angle taken modulo a full turn; that is conservative, so no pair closer
+//! than the reach is missed. The number of candidates per piece stays
+//! bounded, and the check costs `O(n log n)` in the number of pieces.
 //!
 //! # Along the conductor
 //! Tracks of a winding (`Layout::windings`) form one path from node to
@@ -23,7 +30,8 @@
 use super::Item;
 use super::distance::sub_segment;
 use super::profile::Profile;
-use crate::geometry::{Layout, Node, Point, Segment, arc_steps};
+use crate::geometry::{Layout, Node, Point, Segment, angle_between};
+use std::f64::consts::{FRAC_PI_2, PI, TAU};
 use crate::spec::Design;
 use rstar::primitives::{GeomWithData, Rectangle};
 use rstar::{AABB, RTree};
@@ -75,10 +83,102 @@ pub(crate) struct Piece {
     pub s0: f64,
     /// Position of the piece's end along its path, mm.
     pub s1: f64,
-    /// Bounding box of the centre line.
-    pub lo: [f64; 2],
-    /// Bounding box of the centre line.
-    pub hi: [f64; 2],
+    /// Polar box of the centre line.
+    pub polar: PolarBox,
+}
+
+/// A box in polar coordinates about the axis: distance `r0..r1` (mm),
+/// angle `t0..t1` (radians, `t0` in `[-pi, pi)`, `t1 - t0` below 2 pi), or
+/// every angle (`full`).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct PolarBox {
+    /// Smallest distance from the axis, mm.
+    pub r0: f64,
+    /// Largest distance from the axis, mm.
+    pub r1: f64,
+    /// First angle, radians.
+    pub t0: f64,
+    /// Last angle, radians.
+    pub t1: f64,
+    /// Every angle.
+    pub full: bool,
+}
+
+impl PolarBox {
+    /// The polar box of a point.
+    pub fn point(p: Point) -> PolarBox {
+        let r = p.radius();
+        PolarBox {
+            r0: r,
+            r1: r,
+            t0: if r > 0.0 { p.angle() } else { 0.0 },
+            t1: if r > 0.0 { p.angle() } else { 0.0 },
+            full: r <= 0.0,
+        }
+    }
+
+    /// A conservative polar box of a segment's centre line.
+    pub fn of(seg: &Segment) -> PolarBox {
+        let r0 = seg.min_radius();
+        let r1 = seg.max_radius();
+        let full = PolarBox {
+            r0: r0 - 1e-9,
+            r1: r1 + 1e-9,
+            t0: -PI,
+            t1: 3.0 * PI,
+            full: true,
+        };
+        if r0 <= 1e-9 * (1.0 + r1) {
+            return full;
+        }
+        let (a, b) = match seg {
+            Segment::Line(l) => {
+                let a = l.start.angle();
+                let span = angle_between(l.start.to_vec2(), l.end.to_vec2());
+                (a.min(a + span), a.max(a + span))
+            }
+            Segment::Arc(arc) => {
+                let c = arc.center.to_vec2();
+                let cl = c.length();
+                let r = arc.radius();
+                if cl < r * (1.0 - 1e-9) {
+                    // Axis inside the circle: the polar angle is monotonic.
+                    let a = arc.start.angle();
+                    let span = seg.swept_about_origin();
+                    (a.min(a + span), a.max(a + span))
+                } else if cl > r * (1.0 + 1e-9) {
+                    // Axis outside: angles within asin(r / |c|) of the centre's
+                    // direction; extremes at the ends or the tangent points.
+                    let base = c.angle();
+                    let half = (r / cl).min(1.0).asin();
+                    let mut lo = angle_between(c, arc.start.to_vec2());
+                    let mut hi = lo;
+                    let e = angle_between(c, arc.end.to_vec2());
+                    lo = lo.min(e);
+                    hi = hi.max(e);
+                    let tl = (cl * cl - r * r).max(0.0).sqrt();
+                    for sign in [1.0, -1.0] {
+                        let t = Point::polar(tl, base + sign * half);
+                        if arc.contains_angle((t - arc.center).angle()) {
+                            lo = lo.min(sign * half);
+                            hi = hi.max(sign * half);
+                        }
+                    }
+                    (base + lo, base + hi)
+                } else {
+                    return full;
+                }
+            }
+        };
+        let k = ((a + PI) / TAU).floor();
+        PolarBox {
+            r0: r0 - 1e-9,
+            r1: r1 + 1e-9,
+            t0: a - k * TAU - 1e-9,
+            t1: b - k * TAU + 1e-9,
+            full: false,
+        }
+    }
 }
 
 impl Piece {
@@ -198,11 +298,17 @@ impl<'a> Context<'a> {
         for (i, t) in layout.tracks.iter().enumerate() {
             let (path, s_start) = track_path[i].unwrap_or((0, 0.0));
             let len = t.segment.length();
+            // Quarter turns at most; range of distance from the axis at most 4 h.
             let n = match t.segment {
-                Segment::Line(_) => (len / (16.0 * h)).ceil() as usize,
-                Segment::Arc(a) => arc_steps(a.radius(), a.sweep.abs(), h)
-                    .max((len / (16.0 * h)).ceil() as usize)
-                    .max((a.sweep.abs() / std::f64::consts::FRAC_PI_2).ceil() as usize),
+                Segment::Line(l) => {
+                    let slope = |p: Point| match (l.end - l.start).normalized() {
+                        Some(u) if p.radius() > 0.0 => u.dot(p.to_vec2()).abs() / p.radius(),
+                        _ => 1.0,
+                    };
+                    (len * slope(l.start).max(slope(l.end)) / (4.0 * h)).ceil() as usize
+                }
+                Segment::Arc(a) => ((a.sweep.abs() / FRAC_PI_2).ceil() as usize)
+                    .max(((t.segment.max_radius() - t.segment.min_radius()) / (4.0 * h)).ceil() as usize),
             }
             .max(1);
             for k in 0..n {
@@ -212,7 +318,6 @@ impl<'a> Context<'a> {
                 } else {
                     sub_segment(&t.segment, t0, t1)
                 };
-                let (lo, hi) = seg.bounds();
                 pieces.push(Piece {
                     seg,
                     track: i,
@@ -221,8 +326,7 @@ impl<'a> Context<'a> {
                     path,
                     s0: s_start + len * t0,
                     s1: s_start + len * t1,
-                    lo: [lo.x, lo.y],
-                    hi: [hi.x, hi.y],
+                    polar: PolarBox::of(&seg),
                 });
             }
         }
@@ -244,7 +348,11 @@ impl<'a> Context<'a> {
                         ids.iter()
                             .map(|&i| {
                                 let p = &pieces[i];
-                                GeomWithData::new(Rectangle::from_corners(p.lo, p.hi), i)
+                                let b = p.polar;
+                                GeomWithData::new(
+                                    Rectangle::from_corners([b.r0, b.t0], [b.r1, b.t1]),
+                                    i,
+                                )
                             })
                             .collect(),
                     )
@@ -296,9 +404,10 @@ impl<'a> Context<'a> {
         }
     }
 
-    /// Indices of the pieces on `layer` whose boxes meet the box `lo`..`hi`
-    /// (index), or of every piece on the layer (all pairs). Ascending.
-    pub fn near(&self, layer: u8, lo: [f64; 2], hi: [f64; 2]) -> Vec<usize> {
+    /// Indices of the pieces on `layer` that may come within `reach` (mm)
+    /// of a shape with polar box `q` (index), or of every piece on the
+    /// layer (all pairs). Ascending, without repeats.
+    pub fn near(&self, layer: u8, q: &PolarBox, reach: f64) -> Vec<usize> {
         if layer == 0 || layer as usize > self.by_layer.len() {
             return Vec::new();
         }
@@ -306,11 +415,23 @@ impl<'a> Context<'a> {
         match self.broadphase {
             Broadphase::AllPairs => self.by_layer[l].clone(),
             Broadphase::Index => {
-                let mut v: Vec<usize> = self.trees[l]
-                    .locate_in_envelope_intersecting(AABB::from_corners(lo, hi))
-                    .map(|e| e.data)
-                    .collect();
+                let (r0, r1) = (q.r0 - reach, q.r1 + reach);
+                let mut v: Vec<usize> = Vec::new();
+                if q.full || q.r0 <= reach {
+                    let env = AABB::from_corners([r0, -4.0 * PI], [r1, 4.0 * PI]);
+                    v.extend(self.trees[l].locate_in_envelope_intersecting(env).map(|e| e.data));
+                } else {
+                    let dt = (reach / q.r0).min(1.0).asin() + 1e-9;
+                    for k in [-1.0, 0.0, 1.0] {
+                        let env = AABB::from_corners(
+                            [r0, q.t0 - dt + k * TAU],
+                            [r1, q.t1 + dt + k * TAU],
+                        );
+                        v.extend(self.trees[l].locate_in_envelope_intersecting(env).map(|e| e.data));
+                    }
+                }
                 v.sort_unstable();
+                v.dedup();
                 v
             }
         }
@@ -342,7 +463,3 @@ fn path_info(width: f64, clearance: f64) -> PathInfo {
     }
 }
 
-/// A box grown by `by` on every side.
-pub(crate) fn grown(lo: [f64; 2], hi: [f64; 2], by: f64) -> ([f64; 2], [f64; 2]) {
-    ([lo[0] - by, lo[1] - by], [hi[0] + by, hi[1] + by])
-}

@@ -25,7 +25,7 @@ pub(crate) struct Closest {
 impl Closest {
     fn new(a: Point, b: Point) -> Closest {
         Closest {
-            d: a.distance(b),
+            d: dist(a, b),
             a,
             b,
         }
@@ -57,6 +57,47 @@ impl Closest {
     }
 }
 
+/// Distance between two points, mm (`sqrt`, faster than `hypot` and
+/// accurate enough at board scale).
+#[inline]
+pub(crate) fn dist(a: Point, b: Point) -> f64 {
+    len(a - b)
+}
+
+/// Length of a displacement, mm.
+#[inline]
+pub(crate) fn len(v: Vec2) -> f64 {
+    (v.x * v.x + v.y * v.y).sqrt()
+}
+
+/// Radius of an arc, mm (measured at its start).
+#[inline]
+pub(crate) fn rad(a: &Arc) -> f64 {
+    len(a.start - a.center)
+}
+
+/// Whether the direction `v` (from the arc's centre) lies within the arc's
+/// sweep, ends included. Cross products only (no trigonometry).
+pub(crate) fn arc_contains(a: &Arc, v: Vec2) -> bool {
+    let s = a.start - a.center;
+    let e = a.end - a.center;
+    let sign = if a.sweep >= 0.0 { 1.0 } else { -1.0 };
+    if a.sweep.abs() <= std::f64::consts::PI {
+        let (c1, c2) = (sign * s.cross(v), sign * v.cross(e));
+        if c1 < 0.0 || c2 < 0.0 {
+            return false;
+        }
+        // Opposite to the start: inside only for a half turn.
+        if c1 == 0.0 && s.dot(v) < 0.0 {
+            return a.sweep.abs() >= std::f64::consts::PI - 1e-12;
+        }
+        true
+    } else {
+        // Outside only when strictly inside the complementary arc (below pi).
+        !(sign * e.cross(v) > 0.0 && sign * v.cross(s) > 0.0)
+    }
+}
+
 /// Closest point of a segment's centre line to `p`.
 pub(crate) fn point_segment(p: Point, s: &Segment) -> Closest {
     match s {
@@ -77,11 +118,11 @@ fn closest_on_line(p: Point, a: Point, b: Point) -> Point {
 
 fn closest_on_arc(p: Point, a: &Arc) -> Point {
     let v = p - a.center;
-    let len = v.length();
-    if len > 0.0 && a.contains_angle(v.angle()) {
-        return a.center + v * (a.radius() / len);
+    let lv = len(v);
+    if lv > 0.0 && arc_contains(a, v) {
+        return a.center + v * (rad(a) / lv);
     }
-    if p.distance(a.start) <= p.distance(a.end) {
+    if dist(p, a.start) <= dist(p, a.end) {
         a.start
     } else {
         a.end
@@ -126,17 +167,18 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
     let sa = Segment::Arc(*a);
     let mut best = ends_against(&sl, &sa);
     let dir = l.end - l.start;
-    let len = dir.length();
-    let r = a.radius();
-    let Some(u) = dir.normalized() else {
+    let ll = len(dir);
+    let r = rad(a);
+    if !(ll > 0.0) {
         return best;
-    };
+    }
+    let u = dir * (1.0 / ll);
     // Foot of the perpendicular from the centre onto the infinite line.
     let t = (a.center - l.start).dot(u);
     let foot = l.start + u * t;
     let n = foot - a.center;
-    let nl = n.length();
-    if (0.0..=len).contains(&t) {
+    let nl = len(n);
+    if (0.0..=ll).contains(&t) {
         let nn = if nl > 0.0 {
             n * (1.0 / nl)
         } else {
@@ -144,7 +186,7 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
         };
         for sign in [1.0, -1.0] {
             let q = a.center + nn * (sign * r);
-            if a.contains_angle((q - a.center).angle()) {
+            if arc_contains(a, q - a.center) {
                 best = best.min(Closest::new(foot, q));
             }
         }
@@ -154,9 +196,9 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
         let h = (r * r - nl * nl).max(0.0).sqrt();
         for sign in [1.0, -1.0] {
             let tt = t + sign * h;
-            if (0.0..=len).contains(&tt) {
+            if (0.0..=ll).contains(&tt) {
                 let q = l.start + u * tt;
-                if a.contains_angle((q - a.center).angle()) {
+                if arc_contains(a, q - a.center) {
                     best = best.min(Closest { d: 0.0, a: q, b: q });
                 }
             }
@@ -167,14 +209,14 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
 
 fn arc_arc(x: &Arc, y: &Arc) -> Closest {
     let mut best = ends_against(&Segment::Arc(*x), &Segment::Arc(*y));
-    let (r1, r2) = (x.radius(), y.radius());
+    let (r1, r2) = (rad(x), rad(y));
     let cc: Vec2 = y.center - x.center;
-    let dc = cc.length();
+    let dc = len(cc);
     if dc <= 1e-12 * (r1 + r2).max(1.0) {
         // Concentric: constant gap wherever the angular spans overlap.
-        for ang in [y.start_angle(), x.start_angle()] {
-            if x.contains_angle(ang) && y.contains_angle(ang) {
-                let u = Vec2::from_angle(ang);
+        for u in [y.start - y.center, x.start - x.center] {
+            let Some(u) = u.normalized() else { continue };
+            if arc_contains(x, u) && arc_contains(y, u) {
                 best = best.min(Closest::new(x.center + u * r1, y.center + u * r2));
             }
         }
@@ -183,12 +225,12 @@ fn arc_arc(x: &Arc, y: &Arc) -> Closest {
     let u = cc * (1.0 / dc);
     for s1 in [1.0, -1.0] {
         let p = x.center + u * (s1 * r1);
-        if !x.contains_angle((u * s1).angle()) {
+        if !arc_contains(x, u * s1) {
             continue;
         }
         for s2 in [1.0, -1.0] {
             let q = y.center + u * (s2 * r2);
-            if y.contains_angle((u * s2).angle()) {
+            if arc_contains(y, u * s2) {
                 best = best.min(Closest::new(p, q));
             }
         }
@@ -200,7 +242,7 @@ fn arc_arc(x: &Arc, y: &Arc) -> Closest {
         let base = x.center + u * along;
         for sign in [1.0, -1.0] {
             let q = base + u.perp() * (sign * h);
-            if x.contains_angle((q - x.center).angle()) && y.contains_angle((q - y.center).angle()) {
+            if arc_contains(x, q - x.center) && arc_contains(y, q - y.center) {
                 best = best.min(Closest { d: 0.0, a: q, b: q });
             }
         }
@@ -306,6 +348,17 @@ mod tests {
                 let d = dense(a, b);
                 // Exact is never above the sampled value and within sampling error of it.
                 assert!((e - d).abs() < 1e-5, "{a:?} {b:?}: {e} vs {d}");
+            }
+        }
+    }
+
+    #[test]
+    fn containment_agrees_with_polar_angles() {
+        for (sweep, start) in [(1.0, 0.3), (-2.5, 1.0), (PI, -2.0), (-PI, 0.5), (4.0, 2.0), (-5.5, -1.0)] {
+            let a = Arc::from_start(Point::new(0.2, -0.1), Point::new(0.2, -0.1) + Vec2::from_angle(start), sweep);
+            for k in 0..720 {
+                let ang = k as f64 * PI / 360.0 + 1e-3;
+                assert_eq!(arc_contains(&a, Vec2::from_angle(ang)), a.contains_angle(ang), "{sweep} {start} {ang}");
             }
         }
     }

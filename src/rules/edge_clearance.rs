@@ -35,9 +35,12 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
         return;
     }
     let req = ctx.profile.min_edge_clearance;
-    // Polygon of the outline for the inside test only (0.1 um chords); the
-    // distances themselves are exact.
-    let poly: Vec<Point> = edge.iter().flat_map(|s| s.flatten(1e-4)).collect();
+    // Polygons of the outline for the inside test only; the distances
+    // themselves are exact. The coarse one (10 um chords) decides for
+    // copper farther than 20 um from the edge, the fine one (1 nm) nearer.
+    let coarse: Vec<Point> = edge.iter().flat_map(|s| s.flatten(1e-2)).collect();
+    let fine: Vec<Point> = edge.iter().flat_map(|s| s.flatten(1e-6)).collect();
+    let inside_at = |p: Point, d: f64| inside(if d > 2e-2 { &coarse } else { &fine }, p);
     let mut push = |item: Item, layer: Option<u8>, c: Closest, r: f64, inside: bool| {
         let gap = if inside { c.d - r } else { -(c.d + r) };
         if !fails(gap, req) {
@@ -64,12 +67,12 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
     };
     for (i, t) in ctx.layout.tracks.iter().enumerate() {
         let c = nearest(edge, |s| segment_segment(&t.segment, s));
-        let inside = inside(&poly, t.segment.point_at(0.5)) && c.d > 0.0;
+        let inside = c.d > 0.0 && inside_at(t.segment.point_at(0.5), c.d);
         push(Item::Track(i), Some(t.layer), c, t.width / 2.0, inside);
     }
     for h in &ctx.holes {
         let c = nearest(edge, |s| point_segment(h.at, s));
-        push(h.item, None, c, h.diameter / 2.0, inside(&poly, h.at));
+        push(h.item, None, c, h.diameter / 2.0, inside_at(h.at, c.d));
     }
 }
 

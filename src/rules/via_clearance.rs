@@ -16,7 +16,7 @@
 //! placed where layer 3's innermost turn passes 0.04 mm from its pad:
 //! `via-clearance error L3 ...: 0.040000 < 0.100000 mm [track 120, via 0]`.
 
-use super::context::{Context, Hole, grown};
+use super::context::{Context, Hole, PolarBox};
 use super::distance::{Closest, point_segment};
 use super::{Item, RuleInfo, Severity, Violation, fails};
 use std::collections::BTreeMap;
@@ -55,9 +55,8 @@ pub(super) fn report(
     let req = ctx.profile.min_clearance;
     let r = h.diameter / 2.0;
     let reach = r + req + ctx.max_hw_on(layer) + 1e-9;
-    let (lo, hi) = grown([h.at.x, h.at.y], [h.at.x, h.at.y], reach);
     let mut worst: BTreeMap<usize, Closest> = BTreeMap::new();
-    for j in ctx.near(layer, lo, hi) {
+    for j in ctx.near(layer, &PolarBox::point(h.at), reach) {
         let p = &ctx.pieces[j];
         // The parts of the piece outside every excluded interval.
         let mut parts = vec![(p.s0, p.s1)];
