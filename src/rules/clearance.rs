@@ -75,16 +75,24 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
             }
         }
     }
+    // Where tracks meet (a junction of two arcs), several pairs share one
+    // closest place: report it once, for the first pair.
+    let mut seen = std::collections::BTreeSet::new();
     for ((ta, tb), c) in worst {
         let (a, b) = (&ctx.layout.tracks[ta], &ctx.layout.tracks[tb]);
         let gap = c.d - a.width / 2.0 - b.width / 2.0;
+        let mid = c.a.midpoint(c.b);
+        let place = (a.layer, (mid.x * 1e6).round() as i64, (mid.y * 1e6).round() as i64);
+        if !seen.insert(place) {
+            continue;
+        }
         out.push(Violation {
             rule: ID,
             severity: INFO.severity,
             measured: gap,
             required: req,
             layer: Some(a.layer),
-            at: c.a.midpoint(c.b),
+            at: mid,
             items: if ta == tb {
                 vec![Item::Track(ta)]
             } else {

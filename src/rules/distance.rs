@@ -150,14 +150,18 @@ fn ends_against(a: &Segment, b: &Segment) -> Closest {
 fn line_line(x: &Line, y: &Line) -> Closest {
     let (p, r) = (x.start, x.end - x.start);
     let (q, s) = (y.start, y.end - y.start);
-    let den = r.cross(s);
-    if den != 0.0 {
-        let t = (q - p).cross(s) / den;
-        let u = (q - p).cross(r) / den;
-        if (0.0..=1.0).contains(&t) && (0.0..=1.0).contains(&u) {
-            let at = p + r * t;
-            return Closest { d: 0.0, a: at, b: at };
-        }
+    // Proper crossing: each segment's ends strictly on both sides of the
+    // other. Orientations within rounding noise of zero count as zero (the
+    // end-point distances below then find the touch), so collinear and
+    // nearly parallel pieces never produce a spurious crossing.
+    let scale = 1e-12 * (len(r) + len(s)) * (len(r) + len(s) + len(q - p));
+    let side = |o: f64| if o > scale { 1 } else if o < -scale { -1 } else { 0 };
+    let (o1, o2) = (side(r.cross(q - p)), side(r.cross(y.end - p)));
+    let (o3, o4) = (side(s.cross(p - q)), side(s.cross(x.end - q)));
+    if o1 * o2 < 0 && o3 * o4 < 0 {
+        let t = ((q - p).cross(s) / r.cross(s)).clamp(0.0, 1.0);
+        let at = p + r * t;
+        return Closest { d: 0.0, a: at, b: at };
     }
     ends_against(&Segment::Line(*x), &Segment::Line(*y))
 }
@@ -306,6 +310,21 @@ mod tests {
         let x = segment_segment(&a, &c);
         near(x.d, 0.0);
         near(x.a.x, 1.0);
+    }
+
+    #[test]
+    fn collinear_pieces_do_not_cross() {
+        // Two pieces of one long line (rounding noise in the direction).
+        let a = Segment::line(
+            Point::new(-1.868833333333333, 0.9812067824877696),
+            Point::new(-0.9767499999999996, 1.496251335127348),
+        );
+        let b = Segment::line(
+            Point::new(0.8074166666666671, 2.526340440406505),
+            Point::new(1.6995, 3.041384993046083),
+        );
+        let c = segment_segment(&a, &b);
+        assert!((c.d - a.end().distance(b.start())).abs() < 1e-12, "{c:?}");
     }
 
     #[test]
