@@ -42,10 +42,14 @@ fn split(l: &Layout, n: usize) -> Layout {
             for k in 0..n {
                 let (t0, t1) = (k as f64 / n as f64, (k + 1) as f64 / n as f64);
                 let segment = match t.segment {
-                    Segment::Line(x) => Segment::line(x.start.lerp(x.end, t0), x.start.lerp(x.end, t1)),
-                    Segment::Arc(a) => {
-                        Segment::Arc(Arc::from_start(a.center, a.point_at(t0), a.sweep / n as f64))
+                    Segment::Line(x) => {
+                        Segment::line(x.start.lerp(x.end, t0), x.start.lerp(x.end, t1))
                     }
+                    Segment::Arc(a) => Segment::Arc(Arc::from_start(
+                        a.center,
+                        a.point_at(t0),
+                        a.sweep / n as f64,
+                    )),
                 };
                 out.tracks.push(geometry::Track { segment, ..*t });
             }

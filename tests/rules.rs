@@ -62,7 +62,11 @@ fn trace_width() {
     assert!(of_rule(&rules::check(&d, &l, &standard()), "trace-width").is_empty());
     // One track drawn 0.09 mm.
     l.tracks[5].width = 0.09;
-    once("trace_width", &rules::check(&d, &l, &standard()), "trace-width");
+    once(
+        "trace_width",
+        &rules::check(&d, &l, &standard()),
+        "trace-width",
+    );
 }
 
 /// A stray stub on layer 1 inside the innermost turn: an arc from 80 to 100
@@ -97,8 +101,16 @@ fn clearance() {
     assert!((c.measured - 0.08).abs() < 1e-9, "{}", c.measured);
     // Midway between the edges, between 80 and 100 degrees.
     let rel = c.at - Point::new(-0.05, 0.0);
-    assert!((rel.length() - (8.0 - 0.05 - 0.04)).abs() < 1e-9, "{:?}", c.at);
-    assert!((80.0..=100.0).contains(&rel.angle().to_degrees()), "{:?}", c.at);
+    assert!(
+        (rel.length() - (8.0 - 0.05 - 0.04)).abs() < 1e-9,
+        "{:?}",
+        c.at
+    );
+    assert!(
+        (80.0..=100.0).contains(&rel.angle().to_degrees()),
+        "{:?}",
+        c.at
+    );
 }
 
 #[test]
@@ -114,8 +126,18 @@ fn clearance_one_micrometre_below_the_rule_fails() {
     assert!(v.iter().all(|x| spaced.contains(&x.rule)), "{}", show(&v));
     // Turn to turn exactly 0.099 mm; where a lead leaves the winding, a
     // little more.
-    assert!(v.iter().all(|x| x.measured > 0.099 - 1e-9 && x.measured < 0.1), "{}", show(&v));
-    assert!(v.iter().filter(|x| (x.measured - 0.099).abs() < 1e-9).count() > 40);
+    assert!(
+        v.iter()
+            .all(|x| x.measured > 0.099 - 1e-9 && x.measured < 0.1),
+        "{}",
+        show(&v)
+    );
+    assert!(
+        v.iter()
+            .filter(|x| (x.measured - 0.099).abs() < 1e-9)
+            .count()
+            > 40
+    );
     d.coil.clearance = 0.1;
     assert!(rules::is_clean(&rules::check(&d, &build(&d), &standard())));
 }
@@ -165,7 +187,11 @@ fn via_via_clearance() {
     let mut l = build(&d);
     assert!(of_rule(&rules::check(&d, &l, &standard()), "via-via-clearance").is_empty());
     l.vias[0].at = push_out(l.vias[0].at, -0.02);
-    once("via_via_clearance", &rules::check(&d, &l, &standard()), "via-via-clearance");
+    once(
+        "via_via_clearance",
+        &rules::check(&d, &l, &standard()),
+        "via-via-clearance",
+    );
 }
 
 #[test]
@@ -184,7 +210,11 @@ fn annular_ring() {
     d.via.diameter = 0.4; // ring exactly 0.1 mm
     assert!(rules::is_clean(&rules::check(&d, &build(&d), &standard())));
     d.via.diameter = 0.39;
-    once("annular_ring", &rules::check(&d, &build(&d), &standard()), "annular-ring");
+    once(
+        "annular_ring",
+        &rules::check(&d, &build(&d), &standard()),
+        "annular-ring",
+    );
 }
 
 #[test]
@@ -226,7 +256,11 @@ fn centre_room() {
     let v = rules::check(&d, &build(&d), &standard());
     assert!(rules::is_clean(&v), "{}", show(&v));
     d.coil.inner_diameter = 0.98;
-    once("centre_room", &rules::check(&d, &build(&d), &standard()), "centre-room");
+    once(
+        "centre_room",
+        &rules::check(&d, &build(&d), &standard()),
+        "centre-room",
+    );
 }
 
 #[test]
@@ -288,4 +322,3 @@ fn every_rule_has_a_stable_unique_id() {
         ]
     );
 }
-

@@ -45,9 +45,23 @@ fn knobs_of(
     shapes: std::ops::Range<u8>,
 ) -> impl Strategy<Value = Knobs> {
     (
-        (1..=max_layers, shapes, 3u8..=8, -2.0..2.0f64, prop::option::of(0.05..0.9f64), any::<bool>()),
+        (
+            1..=max_layers,
+            shapes,
+            3u8..=8,
+            -2.0..2.0f64,
+            prop::option::of(0.05..0.9f64),
+            any::<bool>(),
+        ),
         (1.0..max_turns, 0.075..0.25f64, 0.075..0.25f64),
-        (0.15..0.3f64, 0.075..0.15f64, 0.3..0.6f64, 0.1..0.25f64, 0.2..1.0f64, 0.0..3.0f64),
+        (
+            0.15..0.3f64,
+            0.075..0.15f64,
+            0.3..0.6f64,
+            0.1..0.25f64,
+            0.2..1.0f64,
+            0.0..3.0f64,
+        ),
     )
         .prop_map(|(a, b, c)| Knobs {
             layers: a.0,
@@ -80,7 +94,7 @@ fn design(k: &Knobs) -> Design {
             height: 20.0 + k.aspect,
         },
     };
-    c.wiring = if k.parallel && k.layers % 2 == 0 {
+    c.wiring = if k.parallel && k.layers.is_multiple_of(2) {
         Wiring::ParallelPairs
     } else {
         Wiring::Series

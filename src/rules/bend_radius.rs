@@ -33,7 +33,9 @@ pub(super) const INFO: RuleInfo = RuleInfo {
 /// Finished thickness of the board, mm: all copper, all dielectric and the
 /// cover (coverlay or solder mask) on both faces.
 pub fn finished_thickness(stackup: &Stackup) -> f64 {
-    stackup.copper.iter().sum::<f64>() + stackup.dielectric.iter().sum::<f64>() + 2.0 * stackup.cover
+    stackup.copper.iter().sum::<f64>()
+        + stackup.dielectric.iter().sum::<f64>()
+        + 2.0 * stackup.cover
 }
 
 /// Smallest bend radius as a multiple of the finished thickness: 10 for one

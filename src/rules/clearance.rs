@@ -68,10 +68,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
                         },
                     )
                 };
-                worst
-                    .entry(key)
-                    .and_modify(|w| *w = w.min(c))
-                    .or_insert(c);
+                worst.entry(key).and_modify(|w| *w = w.min(c)).or_insert(c);
             }
         }
     }
@@ -82,7 +79,11 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
         let (a, b) = (&ctx.layout.tracks[ta], &ctx.layout.tracks[tb]);
         let gap = c.d - a.width / 2.0 - b.width / 2.0;
         let mid = c.a.midpoint(c.b);
-        let place = (a.layer, (mid.x * 1e6).round() as i64, (mid.y * 1e6).round() as i64);
+        let place = (
+            a.layer,
+            (mid.x * 1e6).round() as i64,
+            (mid.y * 1e6).round() as i64,
+        );
         if !seen.insert(place) {
             continue;
         }

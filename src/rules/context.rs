@@ -31,10 +31,10 @@ use super::Item;
 use super::distance::sub_segment;
 use super::profile::Profile;
 use crate::geometry::{Layout, Node, Point, Segment, angle_between};
-use std::f64::consts::{FRAC_PI_2, PI, TAU};
 use crate::spec::Design;
 use rstar::primitives::{GeomWithData, Rectangle};
 use rstar::{AABB, RTree};
+use std::f64::consts::{FRAC_PI_2, PI, TAU};
 
 /// How candidate pairs are found.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -276,11 +276,16 @@ impl<'a> Context<'a> {
             let id = paths.len();
             let mut s = 0.0;
             let mut wmax: f64 = 0.0;
-            for i in w.tracks.0..w.tracks.1.min(layout.tracks.len()) {
-                if track_path[i].is_none() {
-                    track_path[i] = Some((id, s));
-                    s += layout.tracks[i].segment.length();
-                    wmax = wmax.max(layout.tracks[i].width);
+            let end = w.tracks.1.min(layout.tracks.len());
+            let start = w.tracks.0.min(end);
+            for (slot, t) in track_path[start..end]
+                .iter_mut()
+                .zip(&layout.tracks[start..end])
+            {
+                if slot.is_none() {
+                    *slot = Some((id, s));
+                    s += t.segment.length();
+                    wmax = wmax.max(t.width);
                 }
             }
             paths.push(path_info(wmax, profile.min_clearance));
@@ -307,8 +312,9 @@ impl<'a> Context<'a> {
                     };
                     (len * slope(l.start).max(slope(l.end)) / (4.0 * h)).ceil() as usize
                 }
-                Segment::Arc(a) => ((a.sweep.abs() / FRAC_PI_2).ceil() as usize)
-                    .max(((t.segment.max_radius() - t.segment.min_radius()) / (4.0 * h)).ceil() as usize),
+                Segment::Arc(a) => ((a.sweep.abs() / FRAC_PI_2).ceil() as usize).max(
+                    ((t.segment.max_radius() - t.segment.min_radius()) / (4.0 * h)).ceil() as usize,
+                ),
             }
             .max(1);
             for k in 0..n {
@@ -419,7 +425,11 @@ impl<'a> Context<'a> {
                 let mut v: Vec<usize> = Vec::new();
                 if q.full || q.r0 <= reach {
                     let env = AABB::from_corners([r0, -4.0 * PI], [r1, 4.0 * PI]);
-                    v.extend(self.trees[l].locate_in_envelope_intersecting(env).map(|e| e.data));
+                    v.extend(
+                        self.trees[l]
+                            .locate_in_envelope_intersecting(env)
+                            .map(|e| e.data),
+                    );
                 } else {
                     let dt = (reach / q.r0).min(1.0).asin() + 1e-9;
                     for k in [-1.0, 0.0, 1.0] {
@@ -427,7 +437,11 @@ impl<'a> Context<'a> {
                             [r0, q.t0 - dt + k * TAU],
                             [r1, q.t1 + dt + k * TAU],
                         );
-                        v.extend(self.trees[l].locate_in_envelope_intersecting(env).map(|e| e.data));
+                        v.extend(
+                            self.trees[l]
+                                .locate_in_envelope_intersecting(env)
+                                .map(|e| e.data),
+                        );
                     }
                 }
                 v.sort_unstable();
@@ -462,4 +476,3 @@ fn path_info(width: f64, clearance: f64) -> PathInfo {
         cell: adjacent / ADJACENT_CELLS as f64,
     }
 }
-

@@ -45,14 +45,13 @@ impl Closest {
     pub fn min(self, o: Closest) -> Closest {
         let k = |c: &Closest| (c.d, c.a.x, c.a.y, c.b.x, c.b.y);
         let (x, y) = (k(&self), k(&o));
-        let less = x
-            .0
-            .total_cmp(&y.0)
-            .then(x.1.total_cmp(&y.1))
-            .then(x.2.total_cmp(&y.2))
-            .then(x.3.total_cmp(&y.3))
-            .then(x.4.total_cmp(&y.4))
-            .is_le();
+        let less =
+            x.0.total_cmp(&y.0)
+                .then(x.1.total_cmp(&y.1))
+                .then(x.2.total_cmp(&y.2))
+                .then(x.3.total_cmp(&y.3))
+                .then(x.4.total_cmp(&y.4))
+                .is_le();
         if less { self } else { o }
     }
 }
@@ -155,13 +154,25 @@ fn line_line(x: &Line, y: &Line) -> Closest {
     // end-point distances below then find the touch), so collinear and
     // nearly parallel pieces never produce a spurious crossing.
     let scale = 1e-12 * (len(r) + len(s)) * (len(r) + len(s) + len(q - p));
-    let side = |o: f64| if o > scale { 1 } else if o < -scale { -1 } else { 0 };
+    let side = |o: f64| {
+        if o > scale {
+            1
+        } else if o < -scale {
+            -1
+        } else {
+            0
+        }
+    };
     let (o1, o2) = (side(r.cross(q - p)), side(r.cross(y.end - p)));
     let (o3, o4) = (side(s.cross(p - q)), side(s.cross(x.end - q)));
     if o1 * o2 < 0 && o3 * o4 < 0 {
         let t = ((q - p).cross(s) / r.cross(s)).clamp(0.0, 1.0);
         let at = p + r * t;
-        return Closest { d: 0.0, a: at, b: at };
+        return Closest {
+            d: 0.0,
+            a: at,
+            b: at,
+        };
     }
     ends_against(&Segment::Line(*x), &Segment::Line(*y))
 }
@@ -173,7 +184,7 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
     let dir = l.end - l.start;
     let ll = len(dir);
     let r = rad(a);
-    if !(ll > 0.0) {
+    if ll.is_nan() || ll <= 0.0 {
         return best;
     }
     let u = dir * (1.0 / ll);
@@ -183,11 +194,7 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
     let n = foot - a.center;
     let nl = len(n);
     if (0.0..=ll).contains(&t) {
-        let nn = if nl > 0.0 {
-            n * (1.0 / nl)
-        } else {
-            u.perp()
-        };
+        let nn = if nl > 0.0 { n * (1.0 / nl) } else { u.perp() };
         for sign in [1.0, -1.0] {
             let q = a.center + nn * (sign * r);
             if arc_contains(a, q - a.center) {
@@ -258,9 +265,11 @@ fn arc_arc(x: &Arc, y: &Arc) -> Closest {
 pub(crate) fn sub_segment(s: &Segment, t0: f64, t1: f64) -> Segment {
     match s {
         Segment::Line(l) => Segment::line(l.start.lerp(l.end, t0), l.start.lerp(l.end, t1)),
-        Segment::Arc(a) => {
-            Segment::Arc(Arc::from_start(a.center, a.point_at(t0), a.sweep * (t1 - t0)))
-        }
+        Segment::Arc(a) => Segment::Arc(Arc::from_start(
+            a.center,
+            a.point_at(t0),
+            a.sweep * (t1 - t0),
+        )),
     }
 }
 
@@ -330,7 +339,11 @@ mod tests {
     #[test]
     fn concentric_arcs_keep_their_gap() {
         let a = Segment::Arc(Arc::from_start(Point::ORIGIN, Point::new(2.0, 0.0), PI));
-        let b = Segment::Arc(Arc::from_start(Point::ORIGIN, Point::new(0.0, 2.3), -PI / 4.0));
+        let b = Segment::Arc(Arc::from_start(
+            Point::ORIGIN,
+            Point::new(0.0, 2.3),
+            -PI / 4.0,
+        ));
         near(segment_segment(&a, &b).d, 0.3);
         // No angular overlap: end to end.
         let c = Segment::Arc(Arc::from_start(Point::ORIGIN, Point::new(0.0, -2.3), 0.5));
@@ -355,9 +368,21 @@ mod tests {
     #[test]
     fn exact_distances_match_dense_sampling() {
         let segs = [
-            Segment::Arc(Arc::from_start(Point::new(0.1, 0.2), Point::new(1.3, 0.2), 2.0)),
-            Segment::Arc(Arc::from_start(Point::new(-0.4, 0.0), Point::new(-0.4, 1.1), -1.7)),
-            Segment::Arc(Arc::from_start(Point::new(0.6, -0.9), Point::new(0.6, 0.1), 4.0)),
+            Segment::Arc(Arc::from_start(
+                Point::new(0.1, 0.2),
+                Point::new(1.3, 0.2),
+                2.0,
+            )),
+            Segment::Arc(Arc::from_start(
+                Point::new(-0.4, 0.0),
+                Point::new(-0.4, 1.1),
+                -1.7,
+            )),
+            Segment::Arc(Arc::from_start(
+                Point::new(0.6, -0.9),
+                Point::new(0.6, 0.1),
+                4.0,
+            )),
             Segment::line(Point::new(-1.0, -1.0), Point::new(1.5, 0.4)),
             Segment::line(Point::new(0.2, 1.6), Point::new(0.9, 1.2)),
         ];
@@ -373,11 +398,26 @@ mod tests {
 
     #[test]
     fn containment_agrees_with_polar_angles() {
-        for (sweep, start) in [(1.0, 0.3), (-2.5, 1.0), (PI, -2.0), (-PI, 0.5), (4.0, 2.0), (-5.5, -1.0)] {
-            let a = Arc::from_start(Point::new(0.2, -0.1), Point::new(0.2, -0.1) + Vec2::from_angle(start), sweep);
+        for (sweep, start) in [
+            (1.0, 0.3),
+            (-2.5, 1.0),
+            (PI, -2.0),
+            (-PI, 0.5),
+            (4.0, 2.0),
+            (-5.5, -1.0),
+        ] {
+            let a = Arc::from_start(
+                Point::new(0.2, -0.1),
+                Point::new(0.2, -0.1) + Vec2::from_angle(start),
+                sweep,
+            );
             for k in 0..720 {
                 let ang = k as f64 * PI / 360.0 + 1e-3;
-                assert_eq!(arc_contains(&a, Vec2::from_angle(ang)), a.contains_angle(ang), "{sweep} {start} {ang}");
+                assert_eq!(
+                    arc_contains(&a, Vec2::from_angle(ang)),
+                    a.contains_angle(ang),
+                    "{sweep} {start} {ang}"
+                );
             }
         }
     }

@@ -77,7 +77,10 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
 }
 
 fn nearest(edge: &[Segment], f: impl Fn(&Segment) -> Closest) -> Closest {
-    edge.iter().map(f).reduce(Closest::min).expect("outline is not empty")
+    edge.iter()
+        .map(f)
+        .reduce(Closest::min)
+        .expect("outline is not empty")
 }
 
 /// Even-odd point in polygon.

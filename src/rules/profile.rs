@@ -77,9 +77,15 @@ const KEYS: [&str; 8] = [
 
 /// Built-in profiles: (name, TOML text).
 const BUILTIN: [(&str, &str); 3] = [
-    ("standard", include_str!("../../templates/rules/standard.toml")),
+    (
+        "standard",
+        include_str!("../../templates/rules/standard.toml"),
+    ),
     ("fine", include_str!("../../templates/rules/fine.toml")),
-    ("cautious", include_str!("../../templates/rules/cautious.toml")),
+    (
+        "cautious",
+        include_str!("../../templates/rules/cautious.toml"),
+    ),
 ];
 
 impl Profile {
@@ -176,7 +182,11 @@ fn length(key: &str, v: &toml::Value) -> Result<f64, ProfileError> {
             };
             x * scale
         }
-        _ => return Err(bad("must be a length: a number (mm) or a string such as \"0.1mm\"".into())),
+        _ => {
+            return Err(bad(
+                "must be a length: a number (mm) or a string such as \"0.1mm\"".into(),
+            ));
+        }
     };
     if !(mm.is_finite() && mm >= 0.0) {
         return Err(bad(format!("{mm} mm is not a length of zero or more")));

@@ -32,10 +32,11 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
                 t.layer == layer && fails(t.width, req)
             })
             .collect();
-        let Some(&worst) = bad
-            .iter()
-            .min_by(|&&a, &&b| ctx.layout.tracks[a].width.total_cmp(&ctx.layout.tracks[b].width))
-        else {
+        let Some(&worst) = bad.iter().min_by(|&&a, &&b| {
+            ctx.layout.tracks[a]
+                .width
+                .total_cmp(&ctx.layout.tracks[b].width)
+        }) else {
             continue;
         };
         let t = &ctx.layout.tracks[worst];

@@ -79,7 +79,11 @@ pub(super) fn report(
                 .collect();
         }
         for (a, b) in parts {
-            let seg = if (a, b) == (p.s0, p.s1) { p.seg } else { p.between(a, b) };
+            let seg = if (a, b) == (p.s0, p.s1) {
+                p.seg
+            } else {
+                p.between(a, b)
+            };
             let c = point_segment(h.at, &seg);
             if fails(c.d - r - p.hw, req) {
                 worst
