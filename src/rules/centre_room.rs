@@ -14,10 +14,10 @@
 //! inner diameter or fewer layers in series, which this rule states as a
 //! single number, where the clearance rules list every touching pair.
 //!
-//! **Example.** A four-layer coil with a 0.9 mm free centre whose two
-//! 0.45 mm centre vias sit 0.275 mm off the axis needs
-//! 2 x (0.275 + 0.225 + 0.1) = 1.2 mm:
-//! `centre-room error all ...: 0.900000 < 1.200000 mm [track 12, via 0]`.
+//! **Example.** A one-layer coil ends on a 0.8 mm terminal pad on the axis,
+//! which needs 2 x (0.4 + 0.1) = 1.0 mm; with a 0.98 mm free centre:
+//! `centre-room error all at (0.490000, 0.000000): 0.980000 < 1.000000 mm
+//! [track 22, pad 1]`.
 
 use super::context::Context;
 use super::{Item, RuleInfo, Severity, Violation, fails};

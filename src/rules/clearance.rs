@@ -17,9 +17,10 @@
 //! loses turns, inductance and force, and the bypassed loop carries
 //! induced current.
 //!
-//! **Example.** A 0.1/0.09 mm coil (0.09 mm between turns) checked against
-//! "standard" (0.1 mm): `clearance error L1 ...: 0.090000 < 0.100000 mm
-//! [track 3, track 5]`, for each pair of neighbouring turns.
+//! **Example.** A 0.1/0.099 mm coil (0.099 mm between turns) checked
+//! against "standard" (0.1 mm): `clearance error L1 at (9.840500, 0.000000):
+//! 0.099000 < 0.100000 mm [track 2, track 4]`, and so on for each pair of
+//! neighbouring turns.
 
 use super::context::{ADJACENT_CELLS, Context, Piece};
 use super::distance::{Closest, segment_segment};

@@ -20,7 +20,17 @@
 //!
 //! Distances are exact on the true primitives (lines and arcs, see
 //! `distance.rs`); a value fails when it is more than [`TOLERANCE`] (1 nm)
-//! below the requirement.
+//! below the requirement. Candidate pairs come from an R-tree per layer in
+//! polar coordinates about the coil axis (`context.rs`); [`check_with`]
+//! with [`Broadphase::AllPairs`] is the brute-force oracle it is tested
+//! against.
+//!
+//! # Adding a rule
+//! Add `src/rules/<name>.rs` with a module doc in three parts (what it
+//! checks, why it matters on a real board, an example), `pub const ID`, an
+//! `INFO` and `fn check(ctx: &Context, out: &mut Vec<Violation>)`; list it
+//! in [`RULES`] and in [`check_with`]; add a fixture that breaks it exactly
+//! once and one at the limit to `tests/rules.rs`.
 //!
 //! # Units
 //! Millimetres.

@@ -15,9 +15,10 @@
 //! bypassed. Leads that run past pads (the outer lead ring, the centre
 //! leads) are where this happens.
 //!
-//! **Example.** Terminal 1 of a one-layer coil moved 0.1 mm towards the
-//! winding so that the outermost turn passes 0.03 mm from its pad:
-//! `pad-lead-clearance error L1 ...: 0.030000 < 0.100000 mm [track 40, pad 0]`.
+//! **Example.** Terminal 1 of the sample coil moved along its ring from 90
+//! to 45 degrees and 0.05 mm inwards, over layer 1's own outer lead which
+//! it feeds some 8 mm further along: `pad-lead-clearance error L1 at
+//! (7.230167, 7.230167): 0.050000 < 0.100000 mm [track 1, pad 0]`.
 
 use super::context::Context;
 use super::{RuleInfo, Severity, Violation, via_clearance};

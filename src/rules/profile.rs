@@ -43,6 +43,17 @@ pub enum ProfileError {
     /// A required key is absent.
     #[error("rule profile lacks `{0}`")]
     Missing(&'static str),
+    /// No built-in profile has this name.
+    #[error("no built-in rule profile `{name}`{hint} (built in: standard, fine, cautious)", hint = match suggestion {
+        Some(s) => format!("; did you mean `{s}`?"),
+        None => String::new(),
+    })]
+    UnknownProfile {
+        /// The name asked for.
+        name: String,
+        /// The closest built-in name, if one is close.
+        suggestion: Option<&'static str>,
+    },
     /// A value is not a usable length.
     #[error("`{key}` in rule profile: {reason}")]
     BadValue {
@@ -103,6 +114,20 @@ impl Profile {
     pub fn builtin(name: &str) -> Option<Profile> {
         // The built-in files are tested to parse; a failure here is a bug.
         Self::builtin_text(name).and_then(|t| Profile::from_toml(t).ok())
+    }
+
+    /// A built-in profile by name, or an error naming the closest built-in
+    /// name. (A design's `[rules] profile` may also be a path; reading the
+    /// file is the command line's job, then [`Profile::from_toml`].)
+    pub fn named(name: &str) -> Result<Profile, ProfileError> {
+        Self::builtin(name).ok_or_else(|| ProfileError::UnknownProfile {
+            name: name.to_string(),
+            suggestion: Self::builtin_names()
+                .map(|n| (strsim::jaro_winkler(n, name), n))
+                .filter(|(score, _)| *score > 0.8)
+                .max_by(|a, b| a.0.total_cmp(&b.0))
+                .map(|(_, n)| n),
+        })
     }
 
     /// Parses a profile file. Every length key is required; unknown keys
@@ -213,6 +238,15 @@ mod tests {
         let c = Profile::builtin("cautious").unwrap();
         assert_eq!((c.min_trace_width, c.min_clearance), (0.15, 0.15));
         assert!(Profile::builtin("nonesuch").is_none());
+    }
+
+    #[test]
+    fn unknown_profile_suggests_a_name() {
+        let e = Profile::named("standart").unwrap_err();
+        assert!(e.to_string().contains("did you mean `standard`"), "{e}");
+        let e = Profile::named("zzz").unwrap_err();
+        assert!(!e.to_string().contains("did you mean"), "{e}");
+        assert_eq!(Profile::named("fine").unwrap().min_clearance, 0.075);
     }
 
     #[test]

@@ -12,9 +12,10 @@
 //! between two layers to the middle of a third layer's winding, skipping
 //! turns (or whole layers).
 //!
-//! **Example.** The centre via joining layers 1 and 2 of a four-layer coil
-//! placed where layer 3's innermost turn passes 0.04 mm from its pad:
-//! `via-clearance error L3 ...: 0.040000 < 0.100000 mm [track 120, via 0]`.
+//! **Example.** Terminal 2 of the four-layer sample (it joins layer 4)
+//! moved 0.02 mm towards the axis, over layer 3's outer lead:
+//! `via-clearance error L3 at (-8.868100, -5.120000): 0.080000 < 0.100000
+//! mm [track 49, pad 1]`.
 
 use super::context::{Context, Hole, PolarBox};
 use super::distance::{Closest, point_segment};
