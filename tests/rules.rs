@@ -294,7 +294,11 @@ fn violations_serialise_with_rule_severity_and_place() {
     assert_eq!(x["rule"], "clearance");
     assert_eq!(x["severity"], "error");
     assert_eq!(x["layer"], 1);
-    assert!(x["at"]["x"].is_f64() && x["measured"].is_f64() && x["required"].is_f64());
+    // The shape `check --json` promises: rule, severity, measured,
+    // required, layer, x, y, items.
+    assert!((x["x"].as_f64().unwrap() + 0.05).abs() < 1e-9);
+    assert!((x["y"].as_f64().unwrap() - 7.91).abs() < 1e-9);
+    assert!(x["measured"].is_f64() && x["required"].is_f64());
     assert_eq!(x["items"][0]["kind"], "track");
 }
 

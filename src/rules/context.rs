@@ -142,9 +142,13 @@ impl PolarBox {
                 let cl = c.length();
                 let r = arc.radius();
                 if cl < r * (1.0 - 1e-9) {
-                    // Axis inside the circle: the polar angle is monotonic.
+                    // Axis inside the circle: the polar angle is monotonic,
+                    // in the arc's sense, and a part of a circle sweeps less
+                    // than a full turn about any point inside it.
                     let a = arc.start.angle();
-                    let span = seg.swept_about_origin();
+                    let sign = arc.sweep.signum();
+                    let turn = angle_between(arc.start.to_vec2(), arc.end.to_vec2());
+                    let span = sign * (sign * turn).rem_euclid(TAU);
                     (a.min(a + span), a.max(a + span))
                 } else if cl > r * (1.0 + 1e-9) {
                     // Axis outside: angles within asin(r / |c|) of the centre's
@@ -474,5 +478,52 @@ fn path_info(width: f64, clearance: f64) -> PathInfo {
     PathInfo {
         adjacent,
         cell: adjacent / ADJACENT_CELLS as f64,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::Arc;
+    use proptest::prelude::*;
+
+    /// Whether a point lies in a polar box (angle modulo a full turn).
+    fn holds(b: &PolarBox, p: Point) -> bool {
+        let r = p.radius();
+        if r < b.r0 - 1e-12 || r > b.r1 + 1e-12 {
+            return false;
+        }
+        if b.full {
+            return true;
+        }
+        let t = p.angle();
+        (-2..=2).any(|k| {
+            let t = t + k as f64 * TAU;
+            t >= b.t0 - 1e-12 && t <= b.t1 + 1e-12
+        })
+    }
+
+    proptest! {
+        /// Every point of a line or arc lies in its polar box, wherever the
+        /// axis is (inside, outside or near the circle, behind a line).
+        #[test]
+        fn polar_boxes_hold_their_segments(
+            cx in -3.0..3.0f64, cy in -3.0..3.0f64, r in 0.01..4.0f64,
+            a0 in -4.0..4.0f64, sweep in -6.2..6.2f64, arc in any::<bool>(),
+            ex in -3.0..3.0f64, ey in -3.0..3.0f64,
+        ) {
+            let c = Point::new(cx, cy);
+            let start = c + crate::geometry::Vec2::from_angle(a0) * r;
+            let seg = if arc {
+                Segment::Arc(Arc::from_start(c, start, sweep))
+            } else {
+                Segment::line(start, Point::new(ex, ey))
+            };
+            let b = PolarBox::of(&seg);
+            for i in 0..=400 {
+                let p = seg.point_at(i as f64 / 400.0);
+                prop_assert!(holds(&b, p), "{seg:?} {b:?} {p:?}");
+            }
+        }
     }
 }

@@ -99,7 +99,8 @@ pub struct Violation {
     /// for holes (which pass every layer) and whole-board rules.
     pub layer: Option<u8>,
     /// Where, mm: midway between the closest points for distances, the
-    /// item's centre otherwise.
+    /// item's centre otherwise. Serialised as top-level `x` and `y`.
+    #[serde(flatten)]
     pub at: Point,
     /// The items involved.
     pub items: Vec<Item>,
