@@ -195,6 +195,29 @@ proptest! {
         }
     }
 
+    /// Every random valid design passes the rule check under a profile made
+    /// of its own values (the generator never makes copper it cannot keep).
+    #[test]
+    fn passes_its_own_rule_check(d in designs()) {
+        let l = build(&d);
+        let p = coilwright::rules::Profile {
+            name: "own".into(),
+            min_trace_width: d.coil.trace_width,
+            min_clearance: d.coil.clearance,
+            min_drill: d.via.drill.min(d.terminal.drill),
+            min_annular_ring: ((d.via.diameter - d.via.drill) / 2.0)
+                .min((d.terminal.diameter - d.terminal.drill) / 2.0),
+            min_hole_spacing: d.coil.clearance,
+            min_edge_clearance: d.board.margin,
+        };
+        let v = coilwright::rules::check(&d, &l, &p);
+        prop_assert!(
+            coilwright::rules::is_clean(&v),
+            "{}",
+            v.iter().map(|x| format!("{x}\n")).collect::<String>()
+        );
+    }
+
     /// Pitch is exact: every point of the spiral is exactly one pitch (centre
     /// to centre) from the nearest point of the neighbouring turn.
     #[test]

@@ -70,7 +70,59 @@ pub fn layout(loaded: &Loaded) -> Result<Layout, Failure> {
 /// profile (a built-in name or a path relative to the design file) and
 /// checks the layout.
 pub fn violations(loaded: &Loaded, layout: &Layout) -> Result<Vec<Violation>, Failure> {
-    Ok(rules::check(&loaded.design, layout))
+    let profile = profile(loaded)?;
+    Ok(rules::check(&loaded.design, layout, &profile))
+}
+
+/// The design's rule profile with its overrides: a built-in name, or a TOML
+/// file (a value ending in `.toml` or containing a path separator) found
+/// relative to the design file.
+pub fn profile(loaded: &Loaded) -> Result<rules::Profile, Failure> {
+    let name = &loaded.design.rules.profile;
+    let fail = |message: String, help: Option<String>| {
+        let needle = format!("\"{name}\"");
+        let span = loaded.text.find(&needle).map(|i| i..i + needle.len());
+        Failure::Spec {
+            path: loaded.path.clone(),
+            text: loaded.text.clone(),
+            errors: spec::SpecError {
+                key: "rules.profile".into(),
+                span,
+                message,
+                help,
+            }
+            .into(),
+        }
+    };
+    let looks_like_path = name.ends_with(".toml") || name.contains('/') || name.contains('\\');
+    let base = if looks_like_path {
+        let path = loaded
+            .path
+            .parent()
+            .map(|d| d.join(name))
+            .unwrap_or_else(|| PathBuf::from(name));
+        let text = std::fs::read_to_string(&path).map_err(|e| {
+            fail(
+                format!("cannot read rule profile {}: {e}", path.display()),
+                Some("give a built-in profile (standard, fine, cautious) or a path to a TOML profile relative to the design file".into()),
+            )
+        })?;
+        rules::Profile::from_toml(&text)
+            .map_err(|e| fail(format!("{}: {e}", path.display()), None))?
+    } else {
+        rules::Profile::named(name).map_err(|e| {
+            fail(
+                e.to_string(),
+                Some(format!(
+                    "built-in profiles: {}; or a path to a TOML profile",
+                    rules::Profile::builtin_names()
+                        .collect::<Vec<_>>()
+                        .join(", ")
+                )),
+            )
+        })?
+    };
+    Ok(base.with_overrides(&loaded.design.rules.overrides))
 }
 
 /// Loads, builds and checks a design file.

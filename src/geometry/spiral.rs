@@ -184,7 +184,7 @@ impl SpiralSpec {
         let last = segs.len().max(1) - 1;
         let first = match self.corner {
             Corner::Sharp => last + 1,
-            Corner::Round { .. } if last % 2 == 0 => last / 2 + 1,
+            Corner::Round { .. } if last.is_multiple_of(2) => last / 2 + 1,
             Corner::Round { .. } => (last - 1) / 2 + 2,
         };
         let close = first + n - 1;

@@ -146,6 +146,37 @@ fn chord_angle(r: f64, dmax: f64, clearance: f64, trace_width: f64) -> f64 {
     2.0 * (chord / (2.0 * r)).min(1.0).asin()
 }
 
+/// `n` polar angles of points on `ring`, consecutive points `need` apart
+/// (straight-line distance), the group centred on angle `at`.
+fn cluster_on(ring: &Ring, n: usize, at: f64, need: f64) -> Vec<f64> {
+    let walk = |start: f64| {
+        let mut out = vec![start];
+        for _ in 1..n {
+            let prev = *out.last().unwrap_or(&start);
+            let p = ring.at(prev);
+            // Smallest increment reaching `need`, by doubling then bisection.
+            let (mut lo, mut hi) = (0.0, 1e-3);
+            while p.distance(ring.at(prev + hi)) < need && hi < TAU {
+                lo = hi;
+                hi *= 2.0;
+            }
+            for _ in 0..50 {
+                let mid = 0.5 * (lo + hi);
+                if p.distance(ring.at(prev + mid)) < need {
+                    lo = mid;
+                } else {
+                    hi = mid;
+                }
+            }
+            out.push(prev + hi);
+        }
+        out
+    };
+    let first = walk(at);
+    let span = first.last().copied().unwrap_or(at) - at;
+    walk(at - span / 2.0)
+}
+
 /// `n` angles `step` apart centred on `at`; evenly around the circle when
 /// they do not fit.
 fn cluster(n: usize, at: f64, step: f64) -> Vec<f64> {
@@ -384,20 +415,18 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
             } else {
                 PI
             };
-            let r = via_ring.at(side).radius();
-            let step = chord_angle(r, outer_dmax, s, w);
-            let spread = cluster(junctions, side, step);
-            let span = step * junctions as f64;
-            if span < PI - 2.0 * terminal_step.max(step) {
-                let mut a = vec![PI / 2.0];
-                a.extend(spread);
-                if ends_outside {
-                    a.push(PI / 2.0 + terminal_step);
-                }
-                a
-            } else {
-                even_angles
+            let need = 1.02 * (outer_dmax + s).max(outer_dmax / 2.0 + w / 2.0 + s);
+            let spread = cluster_on(&via_ring, junctions, side, need);
+            let mut a = vec![PI / 2.0];
+            a.extend(spread);
+            if ends_outside {
+                a.push(PI / 2.0 + terminal_step);
             }
+            // Keep the cluster only where every pair of slots has room.
+            let fits = (0..a.len()).all(|i| {
+                (i + 1..a.len()).all(|j| via_ring.at(a[i]).distance(via_ring.at(a[j])) >= need)
+            });
+            if fits { a } else { even_angles }
         }
         _ => even_angles,
     };

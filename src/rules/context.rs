@@ -1,0 +1,529 @@
+//! What every rule needs: the copper cut into short pieces that know where
+//! they lie along the conductor, a spatial index of the pieces per layer,
+//! and the plated holes.
+//!
+//! # Pieces and the index
+//! Each track is cut into pieces (true sub-arcs and sub-lines, no
+//! flattening). The index is an R-tree (rstar) per layer over the pieces'
+//! boxes in polar coordinates about the coil axis, (distance from the
+//! axis, polar angle): a coil's turns are nearly circles about the axis,
+//! so a whole half-turn arc is a thin box there and its only neighbours in
+//! the tree are the turns next to it. Pieces are cut so that an arc sweeps
+//! at most a quarter turn and a piece's range of distance from the axis is
+//! at most `4 h` (`h` = widest track plus the required clearance). A
+//! query grows a box by the reach `d` in distance and by `asin(d / r)` in
+//! angle (all angles when the box comes within `d` of the axis), with the
+//! angle taken modulo a full turn; that is conservative, so no pair closer
+//! than the reach is missed. The number of candidates per piece stays
+//! bounded, and the check costs `O(n log n)` in the number of pieces.
+//!
+//! # Along the conductor
+//! Tracks of a winding (`Layout::windings`) form one path from node to
+//! node; each piece knows its path and its position `s` (mm from the
+//! path's start) so rules can tell neighbours along the conductor from
+//! copper that only comes close across the coil (turn to turn). A track in
+//! no winding is a path of its own.
+//!
+//! # Units
+//! Millimetres.
+
+use super::Item;
+use super::distance::sub_segment;
+use super::profile::Profile;
+use crate::geometry::{Layout, Node, Point, Segment, angle_between};
+use crate::spec::Design;
+use rstar::primitives::{GeomWithData, Rectangle};
+use rstar::{AABB, RTree};
+use std::f64::consts::{FRAC_PI_2, PI, TAU};
+
+/// How candidate pairs are found.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Broadphase {
+    /// Spatial index (R-tree of piece boxes per layer): the normal check.
+    Index,
+    /// Every pair of pieces on a layer: the slow oracle the index is tested
+    /// against.
+    AllPairs,
+}
+
+/// Verdict tolerance, mm (1 nm, the grid every exporter rounds to): a value
+/// fails only when it is more than this below the requirement, so a layout
+/// exactly at a limit passes despite floating-point noise.
+pub const TOLERANCE: f64 = 1e-6;
+
+/// Neighbours along the conductor: points of one path closer than
+/// `ADJACENT_PITCHES * (widest track of the path + required clearance)`
+/// along the path are the same piece of conductor and are never checked
+/// against each other. (Common practice, no source: a short between them
+/// removes no turn.)
+pub const ADJACENT_PITCHES: f64 = 3.0;
+
+/// The adjacency length is measured in cells of `1 / ADJACENT_CELLS` of it,
+/// counted from the path's start, so the verdict does not depend on how
+/// tracks are cut into pieces: points more than `ADJACENT_CELLS` cells apart
+/// are checked (they are more than the adjacency length apart), points in
+/// cells at most that far apart are not (they are less than 1.25 times
+/// the adjacency length apart).
+pub(crate) const ADJACENT_CELLS: i64 = 4;
+
+/// A short piece of one track.
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct Piece {
+    /// Centre line of the piece.
+    pub seg: Segment,
+    /// Index into `Layout::tracks`.
+    pub track: usize,
+    /// Copper layer.
+    pub layer: u8,
+    /// Half the track width, mm.
+    pub hw: f64,
+    /// Path (conductor) the piece belongs to.
+    pub path: usize,
+    /// Position of the piece's start along its path, mm.
+    pub s0: f64,
+    /// Position of the piece's end along its path, mm.
+    pub s1: f64,
+    /// Polar box of the centre line.
+    pub polar: PolarBox,
+}
+
+/// A box in polar coordinates about the axis: distance `r0..r1` (mm),
+/// angle `t0..t1` (radians, `t0` in `[-pi, pi)`, `t1 - t0` below 2 pi), or
+/// every angle (`full`).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub(crate) struct PolarBox {
+    /// Smallest distance from the axis, mm.
+    pub r0: f64,
+    /// Largest distance from the axis, mm.
+    pub r1: f64,
+    /// First angle, radians.
+    pub t0: f64,
+    /// Last angle, radians.
+    pub t1: f64,
+    /// Every angle.
+    pub full: bool,
+}
+
+impl PolarBox {
+    /// The polar box of a point.
+    pub fn point(p: Point) -> PolarBox {
+        let r = p.radius();
+        PolarBox {
+            r0: r,
+            r1: r,
+            t0: if r > 0.0 { p.angle() } else { 0.0 },
+            t1: if r > 0.0 { p.angle() } else { 0.0 },
+            full: r <= 0.0,
+        }
+    }
+
+    /// A conservative polar box of a segment's centre line.
+    pub fn of(seg: &Segment) -> PolarBox {
+        let r0 = seg.min_radius();
+        let r1 = seg.max_radius();
+        let full = PolarBox {
+            r0: r0 - 1e-9,
+            r1: r1 + 1e-9,
+            t0: -PI,
+            t1: 3.0 * PI,
+            full: true,
+        };
+        if r0 <= 1e-9 * (1.0 + r1) {
+            return full;
+        }
+        let (a, b) = match seg {
+            Segment::Line(l) => {
+                let a = l.start.angle();
+                let span = angle_between(l.start.to_vec2(), l.end.to_vec2());
+                (a.min(a + span), a.max(a + span))
+            }
+            Segment::Arc(arc) => {
+                let c = arc.center.to_vec2();
+                let cl = c.length();
+                let r = arc.radius();
+                if cl < r * (1.0 - 1e-9) {
+                    // Axis inside the circle: the polar angle is monotonic,
+                    // in the arc's sense, and a part of a circle sweeps less
+                    // than a full turn about any point inside it.
+                    let a = arc.start.angle();
+                    let sign = arc.sweep.signum();
+                    let turn = angle_between(arc.start.to_vec2(), arc.end.to_vec2());
+                    let span = sign * (sign * turn).rem_euclid(TAU);
+                    (a.min(a + span), a.max(a + span))
+                } else if cl > r * (1.0 + 1e-9) {
+                    // Axis outside: angles within asin(r / |c|) of the centre's
+                    // direction; extremes at the ends or the tangent points.
+                    let base = c.angle();
+                    let half = (r / cl).min(1.0).asin();
+                    let mut lo = angle_between(c, arc.start.to_vec2());
+                    let mut hi = lo;
+                    let e = angle_between(c, arc.end.to_vec2());
+                    lo = lo.min(e);
+                    hi = hi.max(e);
+                    let tl = (cl * cl - r * r).max(0.0).sqrt();
+                    for sign in [1.0, -1.0] {
+                        let t = Point::polar(tl, base + sign * half);
+                        if arc.contains_angle((t - arc.center).angle()) {
+                            lo = lo.min(sign * half);
+                            hi = hi.max(sign * half);
+                        }
+                    }
+                    (base + lo, base + hi)
+                } else {
+                    return full;
+                }
+            }
+        };
+        let k = ((a + PI) / TAU).floor();
+        PolarBox {
+            r0: r0 - 1e-9,
+            r1: r1 + 1e-9,
+            t0: a - k * TAU - 1e-9,
+            t1: b - k * TAU + 1e-9,
+            full: false,
+        }
+    }
+}
+
+impl Piece {
+    /// The part of this piece between path positions `a` and `b`.
+    pub fn between(&self, a: f64, b: f64) -> Segment {
+        let len = self.s1 - self.s0;
+        if len <= 0.0 {
+            return self.seg;
+        }
+        let t0 = ((a - self.s0) / len).clamp(0.0, 1.0);
+        let t1 = ((b - self.s0) / len).clamp(0.0, 1.0);
+        if t0 == 0.0 && t1 == 1.0 {
+            self.seg
+        } else {
+            sub_segment(&self.seg, t0, t1)
+        }
+    }
+}
+
+/// One conductor path (a winding, or a lone track).
+#[derive(Debug, Clone, Copy)]
+pub(crate) struct PathInfo {
+    /// Adjacency length along the path, mm.
+    pub adjacent: f64,
+    /// Cell size, mm (`adjacent / ADJACENT_CELLS`).
+    pub cell: f64,
+}
+
+/// A plated hole: a via or a terminal pad.
+#[derive(Debug, Clone)]
+pub(crate) struct Hole {
+    /// `Item::Via(i)` or `Item::Pad(i)`.
+    pub item: Item,
+    /// Centre.
+    pub at: Point,
+    /// Finished hole diameter, mm.
+    pub drill: f64,
+    /// Pad diameter, mm.
+    pub diameter: f64,
+    /// Layers whose copper it joins.
+    pub joins: Vec<u8>,
+    /// (path, position) of every path end at this hole.
+    pub ends: Vec<(usize, f64)>,
+}
+
+type Entry = GeomWithData<Rectangle<[f64; 2]>, usize>;
+
+/// Everything the rules share.
+pub(crate) struct Context<'a> {
+    /// The design.
+    pub design: &'a Design,
+    /// The layout under test.
+    pub layout: &'a Layout,
+    /// The rule values.
+    pub profile: &'a Profile,
+    /// All pieces of all tracks.
+    pub pieces: Vec<Piece>,
+    /// Conductor paths.
+    pub paths: Vec<PathInfo>,
+    /// Plated holes (vias first, then pads).
+    pub holes: Vec<Hole>,
+    /// Number of copper layers (at least `Layout::layers`).
+    pub layers: u8,
+    /// Largest half width of a track per layer (index `layer - 1`).
+    pub max_hw: Vec<f64>,
+    by_layer: Vec<Vec<usize>>,
+    trees: Vec<RTree<Entry>>,
+    broadphase: Broadphase,
+}
+
+impl<'a> Context<'a> {
+    /// Cuts, indexes and collects.
+    pub fn new(
+        design: &'a Design,
+        layout: &'a Layout,
+        profile: &'a Profile,
+        broadphase: Broadphase,
+    ) -> Context<'a> {
+        let layers = layout
+            .tracks
+            .iter()
+            .map(|t| t.layer)
+            .chain(layout.vias.iter().flat_map(|v| v.joins.iter().copied()))
+            .chain(layout.pads.iter().flat_map(|p| p.joins.iter().copied()))
+            .fold(layout.layers, u8::max)
+            .max(1);
+        let widest = layout.tracks.iter().map(|t| t.width).fold(0.0, f64::max);
+        let h = (widest + profile.min_clearance).max(1e-3);
+
+        // Paths: windings first, then lone tracks.
+        let mut track_path: Vec<Option<(usize, f64)>> = vec![None; layout.tracks.len()];
+        let mut paths = Vec::new();
+        let mut ends: Vec<(Node, usize, f64)> = Vec::new();
+        for w in &layout.windings {
+            let id = paths.len();
+            let mut s = 0.0;
+            let mut wmax: f64 = 0.0;
+            let end = w.tracks.1.min(layout.tracks.len());
+            let start = w.tracks.0.min(end);
+            for (slot, t) in track_path[start..end]
+                .iter_mut()
+                .zip(&layout.tracks[start..end])
+            {
+                if slot.is_none() {
+                    *slot = Some((id, s));
+                    s += t.segment.length();
+                    wmax = wmax.max(t.width);
+                }
+            }
+            paths.push(path_info(wmax, profile.min_clearance));
+            ends.push((w.from, id, 0.0));
+            ends.push((w.to, id, s));
+        }
+        for (i, t) in layout.tracks.iter().enumerate() {
+            if track_path[i].is_none() {
+                track_path[i] = Some((paths.len(), 0.0));
+                paths.push(path_info(t.width, profile.min_clearance));
+            }
+        }
+
+        let mut pieces = Vec::new();
+        for (i, t) in layout.tracks.iter().enumerate() {
+            let (path, s_start) = track_path[i].unwrap_or((0, 0.0));
+            let len = t.segment.length();
+            // Quarter turns at most; range of distance from the axis at most 4 h.
+            let n = match t.segment {
+                Segment::Line(l) => {
+                    let slope = |p: Point| match (l.end - l.start).normalized() {
+                        Some(u) if p.radius() > 0.0 => u.dot(p.to_vec2()).abs() / p.radius(),
+                        _ => 1.0,
+                    };
+                    (len * slope(l.start).max(slope(l.end)) / (4.0 * h)).ceil() as usize
+                }
+                Segment::Arc(a) => ((a.sweep.abs() / FRAC_PI_2).ceil() as usize).max(
+                    ((t.segment.max_radius() - t.segment.min_radius()) / (4.0 * h)).ceil() as usize,
+                ),
+            }
+            .max(1);
+            for k in 0..n {
+                let (t0, t1) = (k as f64 / n as f64, (k + 1) as f64 / n as f64);
+                let seg = if n == 1 {
+                    t.segment
+                } else {
+                    sub_segment(&t.segment, t0, t1)
+                };
+                pieces.push(Piece {
+                    seg,
+                    track: i,
+                    layer: t.layer,
+                    hw: t.width / 2.0,
+                    path,
+                    s0: s_start + len * t0,
+                    s1: s_start + len * t1,
+                    polar: PolarBox::of(&seg),
+                });
+            }
+        }
+
+        let mut by_layer = vec![Vec::new(); layers as usize];
+        let mut max_hw = vec![0.0f64; layers as usize];
+        for (i, p) in pieces.iter().enumerate() {
+            if p.layer >= 1 {
+                let l = p.layer as usize - 1;
+                by_layer[l].push(i);
+                max_hw[l] = max_hw[l].max(p.hw);
+            }
+        }
+        let trees = match broadphase {
+            Broadphase::Index => by_layer
+                .iter()
+                .map(|ids| {
+                    RTree::bulk_load(
+                        ids.iter()
+                            .map(|&i| {
+                                let p = &pieces[i];
+                                let b = p.polar;
+                                GeomWithData::new(
+                                    Rectangle::from_corners([b.r0, b.t0], [b.r1, b.t1]),
+                                    i,
+                                )
+                            })
+                            .collect(),
+                    )
+                })
+                .collect(),
+            Broadphase::AllPairs => Vec::new(),
+        };
+
+        let mut holes = Vec::new();
+        let node_ends = |n: Node| -> Vec<(usize, f64)> {
+            ends.iter()
+                .filter(|(m, _, _)| *m == n)
+                .map(|&(_, p, s)| (p, s))
+                .collect()
+        };
+        for (i, v) in layout.vias.iter().enumerate() {
+            holes.push(Hole {
+                item: Item::Via(i),
+                at: v.at,
+                drill: v.drill,
+                diameter: v.diameter,
+                joins: v.joins.clone(),
+                ends: node_ends(Node::Via(i)),
+            });
+        }
+        for (i, p) in layout.pads.iter().enumerate() {
+            holes.push(Hole {
+                item: Item::Pad(i),
+                at: p.at,
+                drill: p.drill,
+                diameter: p.diameter,
+                joins: p.joins.clone(),
+                ends: node_ends(Node::Pad(i)),
+            });
+        }
+
+        Context {
+            design,
+            layout,
+            profile,
+            pieces,
+            paths,
+            holes,
+            layers,
+            max_hw,
+            by_layer,
+            trees,
+            broadphase,
+        }
+    }
+
+    /// Indices of the pieces on `layer` that may come within `reach` (mm)
+    /// of a shape with polar box `q` (index), or of every piece on the
+    /// layer (all pairs). Ascending, without repeats.
+    pub fn near(&self, layer: u8, q: &PolarBox, reach: f64) -> Vec<usize> {
+        if layer == 0 || layer as usize > self.by_layer.len() {
+            return Vec::new();
+        }
+        let l = layer as usize - 1;
+        match self.broadphase {
+            Broadphase::AllPairs => self.by_layer[l].clone(),
+            Broadphase::Index => {
+                let (r0, r1) = (q.r0 - reach, q.r1 + reach);
+                let mut v: Vec<usize> = Vec::new();
+                if q.full || q.r0 <= reach {
+                    let env = AABB::from_corners([r0, -4.0 * PI], [r1, 4.0 * PI]);
+                    v.extend(
+                        self.trees[l]
+                            .locate_in_envelope_intersecting(env)
+                            .map(|e| e.data),
+                    );
+                } else {
+                    let dt = (reach / q.r0).min(1.0).asin() + 1e-9;
+                    for k in [-1.0, 0.0, 1.0] {
+                        let env = AABB::from_corners(
+                            [r0, q.t0 - dt + k * TAU],
+                            [r1, q.t1 + dt + k * TAU],
+                        );
+                        v.extend(
+                            self.trees[l]
+                                .locate_in_envelope_intersecting(env)
+                                .map(|e| e.data),
+                        );
+                    }
+                }
+                v.sort_unstable();
+                v.dedup();
+                v
+            }
+        }
+    }
+
+    /// Pieces on `layer` (ascending).
+    pub fn on_layer(&self, layer: u8) -> &[usize] {
+        if layer == 0 || layer as usize > self.by_layer.len() {
+            return &[];
+        }
+        &self.by_layer[layer as usize - 1]
+    }
+
+    /// Largest half track width on `layer`, mm.
+    pub fn max_hw_on(&self, layer: u8) -> f64 {
+        if layer == 0 || layer as usize > self.max_hw.len() {
+            0.0
+        } else {
+            self.max_hw[layer as usize - 1]
+        }
+    }
+}
+
+fn path_info(width: f64, clearance: f64) -> PathInfo {
+    let adjacent = (ADJACENT_PITCHES * (width + clearance)).max(1e-6);
+    PathInfo {
+        adjacent,
+        cell: adjacent / ADJACENT_CELLS as f64,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::Arc;
+    use proptest::prelude::*;
+
+    /// Whether a point lies in a polar box (angle modulo a full turn).
+    fn holds(b: &PolarBox, p: Point) -> bool {
+        let r = p.radius();
+        if r < b.r0 - 1e-12 || r > b.r1 + 1e-12 {
+            return false;
+        }
+        if b.full {
+            return true;
+        }
+        let t = p.angle();
+        (-2..=2).any(|k| {
+            let t = t + k as f64 * TAU;
+            t >= b.t0 - 1e-12 && t <= b.t1 + 1e-12
+        })
+    }
+
+    proptest! {
+        /// Every point of a line or arc lies in its polar box, wherever the
+        /// axis is (inside, outside or near the circle, behind a line).
+        #[test]
+        fn polar_boxes_hold_their_segments(
+            cx in -3.0..3.0f64, cy in -3.0..3.0f64, r in 0.01..4.0f64,
+            a0 in -4.0..4.0f64, sweep in -6.2..6.2f64, arc in any::<bool>(),
+            ex in -3.0..3.0f64, ey in -3.0..3.0f64,
+        ) {
+            let c = Point::new(cx, cy);
+            let start = c + crate::geometry::Vec2::from_angle(a0) * r;
+            let seg = if arc {
+                Segment::Arc(Arc::from_start(c, start, sweep))
+            } else {
+                Segment::line(start, Point::new(ex, ey))
+            };
+            let b = PolarBox::of(&seg);
+            for i in 0..=400 {
+                let p = seg.point_at(i as f64 / 400.0);
+                prop_assert!(holds(&b, p), "{seg:?} {b:?} {p:?}");
+            }
+        }
+    }
+}

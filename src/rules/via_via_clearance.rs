@@ -1,0 +1,54 @@
+//! `via-via-clearance`: the copper pads of two holes.
+//!
+//! **What it checks.** For every pair of plated holes (vias and terminal
+//! pads), the gap between their pads, `|c1 - c2| - (D1 + D2) / 2`, is at
+//! least the profile's `min_clearance`. Pads are taken to be on every layer
+//! (through holes).
+//!
+//! **Why it matters.** The coil is one net, but two junctions that touch
+//! short out every turn between them along the conductor (for two centre
+//! vias, whole layers), so the coil quietly loses turns and field.
+//!
+//! **Example.** Two 0.45 mm via pads with centres 0.5 mm apart leave 0.05 mm;
+//! under "standard" (0.1 mm):
+//! `via-via-clearance error all ...: 0.050000 < 0.100000 mm [via 0, via 1]`.
+
+use super::context::Context;
+use super::{RuleInfo, Severity, Violation, fails};
+
+/// Stable id.
+pub const ID: &str = "via-via-clearance";
+
+pub(super) const INFO: RuleInfo = RuleInfo {
+    id: ID,
+    severity: Severity::Error,
+    summary: "pad copper of two vias or terminal pads",
+};
+
+pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
+    let req = ctx.profile.min_clearance;
+    let hs = &ctx.holes;
+    for i in 0..hs.len() {
+        for j in i + 1..hs.len() {
+            let (a, b) = (&hs[i], &hs[j]);
+            let d = a.at.distance(b.at);
+            let gap = d - (a.diameter + b.diameter) / 2.0;
+            if fails(gap, req) {
+                let at = match (b.at - a.at).normalized() {
+                    Some(u) => a.at + u * (a.diameter / 2.0 + gap / 2.0),
+                    None => a.at,
+                };
+                out.push(Violation {
+                    rule: ID,
+                    severity: INFO.severity,
+                    measured: gap,
+                    required: req,
+                    layer: None,
+                    at,
+                    items: vec![a.item, b.item],
+                    message: format!("pads {gap:.4} mm apart"),
+                });
+            }
+        }
+    }
+}
