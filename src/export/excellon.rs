@@ -75,7 +75,7 @@ fn write_file(name: &str, file_function: &str, tool_prefix: &str, hits: &[Hit]) 
     );
     let _ = writeln!(s, "; #@! TF.FileFunction,{file_function}");
     let _ = writeln!(s, "; #@! TF.FilePolarity,Positive");
-    let _ = writeln!(s, "; #@! TF.SameCoordinates");
+    let _ = writeln!(s, "; #@! TF.SameCoordinates,{}", super::gerber::file_stem(name));
     let _ = writeln!(s, "; FORMAT={{-:-/ absolute / metric / decimal}}");
     let _ = writeln!(s, "FMAT,2");
     let _ = writeln!(s, "METRIC");
@@ -84,7 +84,6 @@ fn write_file(name: &str, file_function: &str, tool_prefix: &str, hits: &[Hit]) 
         let _ = writeln!(s, "T{}C{}", i + 1, dec(*d));
     }
     let _ = writeln!(s, "%");
-    let _ = writeln!(s, "G90");
     let _ = writeln!(s, "G05");
     for (i, tool) in tools.iter().enumerate() {
         let _ = writeln!(s, "T{}", i + 1);

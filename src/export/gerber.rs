@@ -138,7 +138,7 @@ struct Writer {
 }
 
 impl Writer {
-    fn new(function: FileFunction, comment: &str) -> Writer {
+    fn new(function: FileFunction, same_coordinates: &str, comment: &str) -> Writer {
         let mut w = Writer {
             cmds: Vec::new(),
             apertures: Vec::new(),
@@ -156,7 +156,10 @@ impl Writer {
         w.file_attr(FileAttribute::Part(Part::Single));
         w.file_attr(FileAttribute::FileFunction(function));
         w.file_attr(FileAttribute::FilePolarity(FilePolarity::Positive));
-        w.file_attr(FileAttribute::SameCoordinates(None));
+        // With an identifier: gerbonara 1.5 rejects the bare attribute.
+        w.file_attr(FileAttribute::SameCoordinates(Some(gerber_types::Ident::Name(
+            same_coordinates.to_string(),
+        ))));
         w.cmds.push(ExtendedCode::CoordinateFormat(fmt()).into());
         w.cmds.push(ExtendedCode::Unit(Unit::Millimeters).into());
         w.cmds
@@ -352,6 +355,7 @@ pub fn copper(design: &Design, layout: &Layout, layer: u8) -> Result<Vec<u8>, Ex
             pos,
             copper_type: None,
         },
+        &file_stem(&design.name),
         &format!("{} copper layer {layer} of {}", design.name, layout.layers),
     );
     w.set_net(Some(NET_1));
@@ -387,6 +391,7 @@ pub fn mask(design: &Design, layout: &Layout, side: Side) -> Result<Vec<u8>, Exp
     };
     let mut w = Writer::new(
         FileFunction::SolderMask { pos, index: None },
+        &file_stem(&design.name),
         &format!("{} {what} openings, {pos} (terminal pads only)", design.name),
     );
     for p in &layout.pads {
@@ -402,6 +407,7 @@ pub fn mask(design: &Design, layout: &Layout, side: Side) -> Result<Vec<u8>, Exp
 pub fn profile(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
     let mut w = Writer::new(
         FileFunction::Profile(Some(Profile::NonPlated)),
+        &file_stem(&design.name),
         &format!("{} board profile", design.name),
     );
     w.aperture(Some(ApertureFunction::Profile), PROFILE_STROKE);
@@ -422,6 +428,7 @@ pub fn legend(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> 
             pos: Position::Top,
             index: None,
         },
+        &file_stem(&design.name),
         &format!("{} legend: pin 1 ring, pin 2 bar", design.name),
     );
     w.aperture(None, LEGEND_STROKE);

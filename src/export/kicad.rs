@@ -22,9 +22,11 @@
 //! # Coordinates
 //! Our frame has y up, KiCad's y down: y is negated (on the nanometre
 //! integers from [`crate::geometry::round::to_nm`], so exactly). KiCad 6
-//! draws an arc shape clockwise on screen from its start to its end (the mid
-//! point does not choose the side), so every arc is written in the order
-//! that runs clockwise on screen, i.e. counter-clockwise in our frame.
+//! draws an arc shape (`fp_arc`, `gr_arc`) clockwise on screen from its
+//! start to its end (the mid point does not choose the side), so every arc
+//! is written in the order that runs clockwise on screen. The flip of y and
+//! the y-down screen cancel, so that is the order that runs clockwise in our
+//! frame too: arcs with a positive sweep are written end first.
 
 use super::ExportError;
 use super::gerber::{NET_1, NET_2, REFDES};
@@ -76,9 +78,11 @@ fn copper_layer_id(layer: u8, layers: u8) -> u8 {
     if layer == layers && layer != 1 { 31 } else { layer - 1 }
 }
 
-/// Copper layers KiCad needs for the coil: at least two.
+/// Copper layers of the KiCad board for a coil of `layers`: KiCad boards
+/// have an even count, two at least (an odd coil leaves one inner layer
+/// empty, the coil's last layer stays on B.Cu).
 pub fn board_copper_layers(layers: u8) -> u8 {
-    layers.max(2)
+    (layers + layers % 2).max(2)
 }
 
 /// A frame: translation applied after the y flip, nm.
@@ -98,7 +102,9 @@ impl Frame {
 
     /// `(start ..) (mid ..) (end ..)` of an arc, clockwise on screen.
     fn arc(self, a: &crate::geometry::Arc) -> String {
-        let (s, e) = if a.sweep >= 0.0 { (a.start, a.end) } else { (a.end, a.start) };
+        // The y flip and KiCad's y-down screen cancel: what is clockwise in
+        // our frame (negative sweep) is clockwise on KiCad's screen.
+        let (s, e) = if a.sweep <= 0.0 { (a.start, a.end) } else { (a.end, a.start) };
         format!(
             "(start {}) (mid {}) (end {})",
             self.xy(s),
@@ -382,7 +388,7 @@ pub fn board(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
         let _ = writeln!(o, "  {}", graphic("gr", f, s, "Edge.Cuts", DRAWING_WIDTH));
     }
     for t in &layout.tracks {
-        let layer = copper_layer_name(t.layer, kl);
+        let layer = copper_layer_name(t.layer, n);
         let w = mm(t.width);
         let _ = match &t.segment {
             Segment::Line(l) => writeln!(

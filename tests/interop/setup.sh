@@ -26,7 +26,7 @@ venv="$root/.venv-interop"
 if [ ! -x "$venv/bin/python" ]; then
     /usr/bin/python3 -m venv "$venv"
 fi
-pins=(gerbonara==1.5.0 pygerber==2.4.3 shapely==2.0.7 numpy==2.2.6 magpylib==5.1.1 scipy==1.15.3 pillow==11.2.1)
+pins=(gerbonara==1.5.0 pygerber==2.4.3 shapely==2.2.0 numpy==2.4.6 magpylib==6.3.0 scipy==1.17.1 pillow==13.0.0)
 if ! "$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, PIL' >/dev/null 2>&1; then
     "$venv/bin/pip" install --disable-pip-version-check -q "${pins[@]}"
 fi
