@@ -62,24 +62,25 @@ def cu_name(layer, layers):
 
 
 def check_arcs(shapes, file_arcs, offset, where):
-    """Each loaded arc shape must have the mid point written in the file for
-    the arc with the same end points (KiCad 6 may load an arc as its
+    """Each loaded arc shape must be one of the file's arcs: same start, end
+    and mid point, each file arc used once (KiCad 6 may load an arc as its
     complement: same ends, other side). Returns the number checked."""
     n = 0
     ox, oy = offset
+    unused = list(file_arcs)
     for g in shapes:
         st = (pcbnew.ToMM(g.GetStart().x) - ox, pcbnew.ToMM(g.GetStart().y) - oy)
         en = (pcbnew.ToMM(g.GetEnd().x) - ox, pcbnew.ToMM(g.GetEnd().y) - oy)
         m = g.GetArcMid()
         mid = (pcbnew.ToMM(m.x) - ox, pcbnew.ToMM(m.y) - oy)
-        same = [a for a in file_arcs
-                if (math.dist(a[0], st) < 0.002 and math.dist(a[2], en) < 0.002)
-                or (math.dist(a[0], en) < 0.002 and math.dist(a[2], st) < 0.002)]
-        if not same:
-            fail(f"{where}: arc {st} .. {en} is not in the file")
-        elif not any(math.dist(a[1], mid) < 0.002 for a in same):
-            fail(f"{where}: arc {st} .. {en} loads with mid {mid}, the file says "
-                 f"{same[0][1]}: KiCad drew its complement (other side)")
+        k = next((i for i, a in enumerate(unused)
+                  if math.dist(a[0], st) < 0.002 and math.dist(a[2], en) < 0.002
+                  and math.dist(a[1], mid) < 0.002), None)
+        if k is None:
+            fail(f"{where}: arc {st} .. {en} loads with mid {mid}, which no arc of the file "
+                 f"has: KiCad drew an arc on its other side")
+        else:
+            unused.pop(k)
         n += 1
     if n != len(file_arcs):
         fail(f"{where}: {len(file_arcs)} arcs in the file, {n} loaded")
