@@ -15,7 +15,12 @@ use std::io::BufReader;
 fn designs() -> Vec<Design> {
     let mut out = vec![Design::sample()];
     for (layers, shape, corner, wiring) in [
-        (1u8, Shape::Polygon { sides: 6 }, Corner::Sharp, Wiring::Series),
+        (
+            1u8,
+            Shape::Polygon { sides: 6 },
+            Corner::Sharp,
+            Wiring::Series,
+        ),
         (
             3,
             Shape::Rectangle {
@@ -26,7 +31,12 @@ fn designs() -> Vec<Design> {
             Wiring::Series,
         ),
         (6, Shape::Circle, Corner::Sharp, Wiring::ParallelPairs),
-        (8, Shape::Polygon { sides: 5 }, Corner::Round { radius: 0.3 }, Wiring::Series),
+        (
+            8,
+            Shape::Polygon { sides: 5 },
+            Corner::Round { radius: 0.3 },
+            Wiring::Series,
+        ),
     ] {
         let mut d = Design::sample();
         d.name = format!("readback-{layers}");
@@ -56,10 +66,12 @@ fn bundle(d: &Design) -> (Layout, Vec<OutFile>) {
 }
 
 fn file<'a>(files: &'a [OutFile], path: &str) -> &'a OutFile {
-    files
-        .iter()
-        .find(|f| f.path == path)
-        .unwrap_or_else(|| panic!("no {path} in {:?}", files.iter().map(|f| &f.path).collect::<Vec<_>>()))
+    files.iter().find(|f| f.path == path).unwrap_or_else(|| {
+        panic!(
+            "no {path} in {:?}",
+            files.iter().map(|f| &f.path).collect::<Vec<_>>()
+        )
+    })
 }
 
 fn nm(c: Option<CoordinateNumber>) -> Option<i64> {
@@ -88,7 +100,7 @@ fn read(bytes: &[u8]) -> Read {
     };
     let mut cur = (0i64, 0i64);
     let mut mode = InterpolationMode::Linear;
-    let mut grow = |p: (i64, i64), r: &mut Read| {
+    let grow = |p: (i64, i64), r: &mut Read| {
         r.lo = (r.lo.0.min(p.0), r.lo.1.min(p.1));
         r.hi = (r.hi.0.max(p.0), r.hi.1.max(p.1));
     };
@@ -101,10 +113,12 @@ fn read(bytes: &[u8]) -> Read {
             }
             Command::FunctionCode(FunctionCode::GCode(GCode::InterpolationMode(m))) => mode = *m,
             Command::FunctionCode(FunctionCode::DCode(DCode::Operation(op))) => {
-                let to = |c: &Option<gerber_parser::gerber_types::Coordinates>, cur: (i64, i64)| match c {
-                    Some(c) => (nm(c.x).unwrap_or(cur.0), nm(c.y).unwrap_or(cur.1)),
-                    None => cur,
-                };
+                let to =
+                    |c: &Option<gerber_parser::gerber_types::Coordinates>, cur: (i64, i64)| match c
+                    {
+                        Some(c) => (nm(c.x).unwrap_or(cur.0), nm(c.y).unwrap_or(cur.1)),
+                        None => cur,
+                    };
                 match op {
                     Operation::Move(c) => cur = to(c, cur),
                     Operation::Flash(c) => {
@@ -126,7 +140,8 @@ fn read(bytes: &[u8]) -> Read {
                             let r0 = ((i as f64).hypot(j as f64)).round() as i64;
                             let r1 = (((end.0 - centre.0) as f64).hypot((end.1 - centre.1) as f64))
                                 .round() as i64;
-                            r.worst_radius_mismatch_nm = r.worst_radius_mismatch_nm.max((r0 - r1).abs());
+                            r.worst_radius_mismatch_nm =
+                                r.worst_radius_mismatch_nm.max((r0 - r1).abs());
                         }
                         cur = end;
                     }
@@ -145,10 +160,16 @@ fn copper_layers_read_back_like_the_layout() {
         let (l, files) = bundle(&d);
         let stem = export::gerber::file_stem(&d.name);
         for layer in 1..=l.layers {
-            let f = file(&files, &export::gerber::copper_file_name(&stem, layer, l.layers));
+            let f = file(
+                &files,
+                &export::gerber::copper_file_name(&stem, layer, l.layers),
+            );
             let got = read(&f.bytes);
             let tracks: Vec<_> = l.tracks_on(layer).collect();
-            let lines = tracks.iter().filter(|t| matches!(t.segment, Segment::Line(_))).count();
+            let lines = tracks
+                .iter()
+                .filter(|t| matches!(t.segment, Segment::Line(_)))
+                .count();
             let arcs = tracks.len() - lines;
             let flashes = l.vias.iter().filter(|v| v.joins.contains(&layer)).count() + l.pads.len();
             assert_eq!(
@@ -176,7 +197,12 @@ fn copper_layers_read_back_like_the_layout() {
             for p in &l.pads {
                 grow(p.at);
             }
-            assert_eq!((got.lo, got.hi), (lo, hi), "{} layer {layer}: extents", d.name);
+            assert_eq!(
+                (got.lo, got.hi),
+                (lo, hi),
+                "{} layer {layer}: extents",
+                d.name
+            );
             assert!(
                 got.worst_radius_mismatch_nm <= 2,
                 "{} layer {layer}: arc radius differs by {} nm between its ends",
@@ -193,12 +219,30 @@ fn other_gerbers_parse_and_hold_what_they_should() {
         let (l, files) = bundle(&d);
         let stem = export::gerber::file_stem(&d.name);
         for side in [export::gerber::Side::Top, export::gerber::Side::Bottom] {
-            let m = read(&file(&files, &export::gerber::mask_file_name(&stem, d.stackup.kind, side)).bytes);
-            assert_eq!((m.lines, m.arcs, m.flashes), (0, 0, l.pads.len()), "mask openings");
+            let m = read(
+                &file(
+                    &files,
+                    &export::gerber::mask_file_name(&stem, d.stackup.kind, side),
+                )
+                .bytes,
+            );
+            assert_eq!(
+                (m.lines, m.arcs, m.flashes),
+                (0, 0, l.pads.len()),
+                "mask openings"
+            );
         }
         let p = read(&file(&files, &export::gerber::profile_file_name(&stem)).bytes);
-        let lines = l.outline.segments.iter().filter(|s| matches!(s, Segment::Line(_))).count();
-        assert_eq!((p.lines, p.arcs, p.flashes), (lines, l.outline.segments.len() - lines, 0));
+        let lines = l
+            .outline
+            .segments
+            .iter()
+            .filter(|s| matches!(s, Segment::Line(_)))
+            .count();
+        assert_eq!(
+            (p.lines, p.arcs, p.flashes),
+            (lines, l.outline.segments.len() - lines, 0)
+        );
         let (lo, hi) = l.outline_bounds();
         // Outline arcs bulge past their end points; lines reach the bounds.
         assert!(p.lo.0 >= to_nm(lo.x) && p.hi.0 <= to_nm(hi.x));
@@ -214,7 +258,12 @@ fn drill_file_has_every_hole_at_the_same_nanometres() {
     for d in designs() {
         let (l, files) = bundle(&d);
         let stem = export::gerber::file_stem(&d.name);
-        let text = String::from_utf8(file(&files, &export::excellon::plated_file_name(&stem)).bytes.clone()).unwrap();
+        let text = String::from_utf8(
+            file(&files, &export::excellon::plated_file_name(&stem))
+                .bytes
+                .clone(),
+        )
+        .unwrap();
         assert!(text.starts_with("M48\n") && text.trim_end().ends_with("M30"));
         assert!(text.contains("\nMETRIC\n"));
         let hits: Vec<(i64, i64)> = text
@@ -280,12 +329,20 @@ fn golden_files_of_a_small_design() {
     let (_, files) = bundle(&small());
     let version = env!("CARGO_PKG_VERSION");
     for f in &files {
-        let mut text = String::from_utf8(f.bytes.clone()).unwrap().replace(version, "[version]");
+        let mut text = String::from_utf8(f.bytes.clone())
+            .unwrap()
+            .replace(version, "[version]");
         if f.path == "manifest.json" {
             // Checksums cover files that name the version: checked above.
             text = text
                 .lines()
-                .map(|l| if l.contains("\"sha256\"") { "      \"sha256\": \"[sha256]\"," } else { l })
+                .map(|l| {
+                    if l.contains("\"sha256\"") {
+                        "      \"sha256\": \"[sha256]\","
+                    } else {
+                        l
+                    }
+                })
                 .collect::<Vec<_>>()
                 .join("\n");
         }

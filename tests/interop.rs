@@ -111,7 +111,9 @@ pub fn random_design(i: usize) -> Design {
     } else {
         BoardKind::Rigid
     };
-    d.stackup.copper = (0..layers).map(|_| [0.018, 0.035, 0.07][r.pick(3)]).collect();
+    d.stackup.copper = (0..layers)
+        .map(|_| [0.018, 0.035, 0.07][r.pick(3)])
+        .collect();
     d.stackup.dielectric = (1..layers).map(|_| r.len(0.025, 0.2)).collect();
     if d.stackup.kind == BoardKind::Rigid {
         d.stackup.dielectric_material = "FR4".into();
@@ -146,13 +148,19 @@ fn require_tools() -> PathBuf {
         .status()
         .map(|s| s.success())
         .unwrap_or(false);
-    assert!(ok, "the interop venv lacks gerbonara/pygerber/shapely: {hint}");
+    assert!(
+        ok,
+        "the interop venv lacks gerbonara/pygerber/shapely: {hint}"
+    );
     let ok = Command::new("/usr/bin/python3")
         .args(["-c", "import pcbnew"])
         .output()
         .map(|o| o.status.success())
         .unwrap_or(false);
-    assert!(ok, "Debian's /usr/bin/python3 cannot import pcbnew (KiCad 6): {hint}");
+    assert!(
+        ok,
+        "Debian's /usr/bin/python3 cannot import pcbnew (KiCad 6): {hint}"
+    );
     let ok = Command::new("gerbv")
         .arg("--version")
         .output()
@@ -295,6 +303,9 @@ fn random_designs_pass_real_readers_and_kicad() {
             }
         }
     }
-    assert!(failed.is_empty(), "designs failing interop checks: {failed:?}");
+    assert!(
+        failed.is_empty(),
+        "designs failing interop checks: {failed:?}"
+    );
     assert!(results.len() >= only.len(), "not every design was checked");
 }

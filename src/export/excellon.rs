@@ -58,11 +58,17 @@ pub fn plated(layout: &Layout) -> Vec<u8> {
         drill_nm: to_nm(p.drill),
         function: "ComponentDrill",
     }));
-    write_file(&layout.name, &plated_function(layout.layers), "Plated,PTH", &hits)
+    write_file(
+        &layout.name,
+        &plated_function(layout.layers),
+        "Plated,PTH",
+        &hits,
+    )
 }
 
 fn write_file(name: &str, file_function: &str, tool_prefix: &str, hits: &[Hit]) -> Vec<u8> {
-    let mut tools: Vec<(i64, &'static str)> = hits.iter().map(|h| (h.drill_nm, h.function)).collect();
+    let mut tools: Vec<(i64, &'static str)> =
+        hits.iter().map(|h| (h.drill_nm, h.function)).collect();
     tools.sort();
     tools.dedup();
     let mut s = String::new();
@@ -75,7 +81,11 @@ fn write_file(name: &str, file_function: &str, tool_prefix: &str, hits: &[Hit]) 
     );
     let _ = writeln!(s, "; #@! TF.FileFunction,{file_function}");
     let _ = writeln!(s, "; #@! TF.FilePolarity,Positive");
-    let _ = writeln!(s, "; #@! TF.SameCoordinates,{}", super::gerber::file_stem(name));
+    let _ = writeln!(
+        s,
+        "; #@! TF.SameCoordinates,{}",
+        super::gerber::file_stem(name)
+    );
     let _ = writeln!(s, "; FORMAT={{-:-/ absolute / metric / decimal}}");
     let _ = writeln!(s, "FMAT,2");
     let _ = writeln!(s, "METRIC");

@@ -22,10 +22,9 @@ use crate::spec::{BoardKind, Design};
 use gerber_types::{
     Aperture, ApertureAttribute, ApertureDefinition, ApertureFunction, Circle, Command,
     CommentContent, CoordinateFormat, CoordinateMode, CoordinateNumber, CoordinateOffset,
-    Coordinates, DCode, ExtendedCode, ExtendedPosition, FileAttribute, FileFunction,
-    FilePolarity, FunctionCode, GCode, GenerationSoftware, GerberCode, InterpolationMode, MCode,
-    Net, ObjectAttribute, Operation, Part, Pin, Position, Profile, QuadrantMode, Unit,
-    ZeroOmission,
+    Coordinates, DCode, ExtendedCode, ExtendedPosition, FileAttribute, FileFunction, FilePolarity,
+    FunctionCode, GCode, GenerationSoftware, GerberCode, InterpolationMode, MCode, Net,
+    ObjectAttribute, Operation, Part, Pin, Position, Profile, QuadrantMode, Unit, ZeroOmission,
 };
 
 /// Net name of terminal "1" (where the current enters) and of all coil
@@ -79,7 +78,10 @@ fn side_word(layer: u8, layers: u8) -> &'static str {
 
 /// Path of the copper Gerber of `layer` (1 = top) in the output folder.
 pub fn copper_file_name(stem: &str, layer: u8, layers: u8) -> String {
-    format!("fab/{stem}-L{layer}-copper-{}.gbr", side_word(layer, layers))
+    format!(
+        "fab/{stem}-L{layer}-copper-{}.gbr",
+        side_word(layer, layers)
+    )
 }
 
 /// Path of the solder mask (rigid) or coverlay (flex) Gerber of one face.
@@ -157,9 +159,9 @@ impl Writer {
         w.file_attr(FileAttribute::FileFunction(function));
         w.file_attr(FileAttribute::FilePolarity(FilePolarity::Positive));
         // With an identifier: gerbonara 1.5 rejects the bare attribute.
-        w.file_attr(FileAttribute::SameCoordinates(Some(gerber_types::Ident::Name(
-            same_coordinates.to_string(),
-        ))));
+        w.file_attr(FileAttribute::SameCoordinates(Some(
+            gerber_types::Ident::Name(same_coordinates.to_string()),
+        )));
         w.cmds.push(ExtendedCode::CoordinateFormat(fmt()).into());
         w.cmds.push(ExtendedCode::Unit(Unit::Millimeters).into());
         w.cmds
@@ -218,7 +220,8 @@ impl Writer {
             }
         };
         if self.current_aperture != Some(code) {
-            self.cmds.push(FunctionCode::DCode(DCode::SelectAperture(code)).into());
+            self.cmds
+                .push(FunctionCode::DCode(DCode::SelectAperture(code)).into());
             self.current_aperture = Some(code);
         }
     }
@@ -275,8 +278,9 @@ impl Writer {
     fn move_to(&mut self, p: Point) {
         let nm = point_nm(p);
         if self.current_point != Some(nm) {
-            self.cmds
-                .push(FunctionCode::DCode(DCode::Operation(Operation::Move(Some(coords(p))))).into());
+            self.cmds.push(
+                FunctionCode::DCode(DCode::Operation(Operation::Move(Some(coords(p))))).into(),
+            );
             self.current_point = Some(nm);
         }
     }
@@ -392,7 +396,10 @@ pub fn mask(design: &Design, layout: &Layout, side: Side) -> Result<Vec<u8>, Exp
     let mut w = Writer::new(
         FileFunction::SolderMask { pos, index: None },
         &file_stem(&design.name),
-        &format!("{} {what} openings, {pos} (terminal pads only)", design.name),
+        &format!(
+            "{} {what} openings, {pos} (terminal pads only)",
+            design.name
+        ),
     );
     for p in &layout.pads {
         w.aperture(Some(ApertureFunction::ComponentPad), p.diameter);

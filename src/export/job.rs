@@ -47,7 +47,11 @@ pub fn job(design: &Design, layout: &Layout, files: &[JobEntry]) -> Result<Vec<u
     let (lo, hi) = layout.outline_bounds();
     let flex = s.kind == BoardKind::Flex;
     let cover_type = if flex { "Coverlay" } else { "SolderMask" };
-    let cover_material = if flex { "Polyimide coverlay" } else { "Liquid photoimageable" };
+    let cover_material = if flex {
+        "Polyimide coverlay"
+    } else {
+        "Liquid photoimageable"
+    };
 
     let mut stack: Vec<Value> = Vec::new();
     stack.push(json!({
@@ -110,5 +114,6 @@ pub fn job(design: &Design, layout: &Layout, files: &[JobEntry]) -> Result<Vec<u
         "FilesAttributes": files,
         "MaterialStackup": stack,
     });
-    serde_json::to_vec_pretty(&v).map_err(|e| ExportError::Unrepresentable(format!("job file: {e}")))
+    serde_json::to_vec_pretty(&v)
+        .map_err(|e| ExportError::Unrepresentable(format!("job file: {e}")))
 }

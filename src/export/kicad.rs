@@ -75,7 +75,11 @@ pub fn copper_layer_name(layer: u8, layers: u8) -> String {
 
 /// KiCad's internal number of a copper layer (F.Cu 0, In1.Cu 1, B.Cu 31).
 fn copper_layer_id(layer: u8, layers: u8) -> u8 {
-    if layer == layers && layer != 1 { 31 } else { layer - 1 }
+    if layer == layers && layer != 1 {
+        31
+    } else {
+        layer - 1
+    }
 }
 
 /// Copper layers of the KiCad board for a coil of `layers`: KiCad boards
@@ -104,7 +108,11 @@ impl Frame {
     fn arc(self, a: &crate::geometry::Arc) -> String {
         // The y flip and KiCad's y-down screen cancel: what is clockwise in
         // our frame (negative sweep) is clockwise on KiCad's screen.
-        let (s, e) = if a.sweep <= 0.0 { (a.start, a.end) } else { (a.end, a.start) };
+        let (s, e) = if a.sweep <= 0.0 {
+            (a.start, a.end)
+        } else {
+            (a.end, a.start)
+        };
         format!(
             "(start {}) (mid {}) (end {})",
             self.xy(s),
@@ -371,7 +379,11 @@ pub fn board(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
         quote(&stem)
     );
     for p in &layout.pads {
-        let (id, net) = if p.name == "2" { (2, NET_2) } else { (1, NET_1) };
+        let (id, net) = if p.name == "2" {
+            (2, NET_2)
+        } else {
+            (1, NET_1)
+        };
         let _ = writeln!(
             o,
             "    (pad {} thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\" \"*.Mask\") (net {id} {}))",

@@ -36,7 +36,8 @@ pub fn manifest(name: &str, files: &[OutFile]) -> Result<Vec<u8>, ExportError> {
         "generator": format!("coilwright {}", env!("CARGO_PKG_VERSION")),
         "files": list,
     });
-    serde_json::to_vec_pretty(&v).map_err(|e| ExportError::Unrepresentable(format!("manifest: {e}")))
+    serde_json::to_vec_pretty(&v)
+        .map_err(|e| ExportError::Unrepresentable(format!("manifest: {e}")))
 }
 
 #[cfg(test)]

@@ -65,14 +65,15 @@ pub fn fab_files(
     let stem = gerber::file_stem(&design.name);
     let n = layout.layers;
     let mut job_list = Vec::new();
-    let mut add = |files: &mut Vec<OutFile>, path: String, role: String, function: String, bytes| {
-        job_list.push(job::JobEntry {
-            path: path.trim_start_matches("fab/").to_string(),
-            function,
-            polarity: "Positive".into(),
-        });
-        files.push(OutFile { path, role, bytes });
-    };
+    let mut add =
+        |files: &mut Vec<OutFile>, path: String, role: String, function: String, bytes| {
+            job_list.push(job::JobEntry {
+                path: path.trim_start_matches("fab/").to_string(),
+                function,
+                polarity: "Positive".into(),
+            });
+            files.push(OutFile { path, role, bytes });
+        };
     for layer in 1..=n {
         add(
             files,
