@@ -104,21 +104,29 @@ impl Frame {
         format!("{} {}", format_mm(x + self.dx), format_mm(-y + self.dy))
     }
 
+    /// A point in this frame, integer nm (y flipped).
+    fn nm(self, p: Point) -> (i64, i64) {
+        let (x, y) = point_nm(p);
+        (x + self.dx, -y + self.dy)
+    }
+
     /// `(start ..) (mid ..) (end ..)` of an arc, clockwise on screen.
+    ///
+    /// KiCad 6 finds the centre from the three points and divides by the
+    /// slope of the start-to-mid chord: when that chord is exactly
+    /// horizontal the centre comes out at infinity (observed with pcbnew
+    /// 6.0.11: dangling tracks and lost pad arcs). The mid point is then
+    /// written 1 nm lower, which moves the centre by about a nanometre.
     fn arc(self, a: &crate::geometry::Arc) -> String {
         // The y flip and KiCad's y-down screen cancel: what is clockwise in
         // our frame (negative sweep) is clockwise on KiCad's screen.
-        let (s, e) = if a.sweep <= 0.0 {
-            (a.start, a.end)
-        } else {
-            (a.end, a.start)
-        };
-        format!(
-            "(start {}) (mid {}) (end {})",
-            self.xy(s),
-            self.xy(a.mid()),
-            self.xy(e)
-        )
+        let (s, e) = if a.sweep <= 0.0 { (a.start, a.end) } else { (a.end, a.start) };
+        let (s, mut m, e) = (self.nm(s), self.nm(a.mid()), self.nm(e));
+        if m.1 == s.1 {
+            m.1 += 1;
+        }
+        let f = |p: (i64, i64)| format!("{} {}", format_mm(p.0), format_mm(p.1));
+        format!("(start {}) (mid {}) (end {})", f(s), f(m), f(e))
     }
 }
 

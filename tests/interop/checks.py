@@ -292,6 +292,20 @@ def raster(d, kdir):
             if a.shape != b.shape:
                 fail("gerbv", f"layer {layer}: image sizes differ {a.shape} {b.shape}")
                 continue
+            # KiCad 6.0 plots via lands on every layer although the vias keep
+            # them only on connected layers (remove_unused_layers; pcbnew's
+            # FlashLayer() is false there): blank those discs in both images.
+            h, w = a.shape
+            yy, xx = np.mgrid[0:h, 0:w]
+            for v in lay["vias"]:
+                if layer in v["joins"]:
+                    continue
+                px = (v["at"]["x"] - (lo[0] - m)) / 25.4 * dpi
+                py = h - (v["at"]["y"] - (lo[1] - m)) / 25.4 * dpi
+                rad = v["diameter"] / 2 / 25.4 * dpi + 2
+                disc = (xx - px) ** 2 + (yy - py) ** 2 <= rad * rad
+                a = a & ~disc
+                b = b & ~disc
             union = np.count_nonzero(a | b)
             diff = np.count_nonzero(a ^ b)
             frac = diff / max(union, 1)

@@ -263,6 +263,9 @@ def plot(d, out):
     if b is None:
         return
     os.makedirs(out, exist_ok=True)
+    # Vias keep lands only on connected layers (remove_unused_layers); the
+    # plotter asks the connectivity, which KiCad's editor builds on opening.
+    b.BuildConnectivity()
     pc = pcbnew.PLOT_CONTROLLER(b)
     po = pc.GetPlotOptions()
     po.SetOutputDirectory(out)
