@@ -461,3 +461,40 @@ pub fn legend(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> 
     }
     w.finish()
 }
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn file_names_follow_the_scheme() {
+        assert_eq!(file_stem("fin actuator/v2"), "fin_actuator_v2");
+        assert_eq!(file_stem(""), "coil");
+        assert_eq!(copper_file_name("c", 1, 4), "fab/c-L1-copper-top.gbr");
+        assert_eq!(copper_file_name("c", 3, 4), "fab/c-L3-copper-inner.gbr");
+        assert_eq!(copper_file_name("c", 4, 4), "fab/c-L4-copper-bottom.gbr");
+        assert_eq!(copper_function(1, 1), "Copper,L1,Top");
+        assert_eq!(copper_function(2, 3), "Copper,L2,Inr");
+        assert_eq!(
+            mask_file_name("c", BoardKind::Flex, Side::Bottom),
+            "fab/c-coverlay-bottom.gbr"
+        );
+    }
+
+    #[test]
+    fn arcs_use_ij_from_the_rounded_centre() {
+        // Centre and start off the nanometre grid: I/J is the difference of
+        // the rounded values, so the radius at both ends agrees to 1 nm.
+        let a = crate::geometry::Arc::from_start(
+            Point::new(0.1 + 0.2, 0.0000004),
+            Point::new(1.3000006, 0.0),
+            std::f64::consts::FRAC_PI_2,
+        );
+        let mut w = Writer::new(FileFunction::Profile(None), "t", "t");
+        w.aperture(None, 0.1);
+        w.draw(&Segment::Arc(a));
+        let text = String::from_utf8(w.finish().unwrap()).unwrap();
+        assert!(text.contains("G03*\n"), "{text}");
+        assert!(text.contains("I-1000001J0D01*"), "{text}");
+    }
+}

@@ -120,7 +120,11 @@ impl Frame {
     fn arc(self, a: &crate::geometry::Arc) -> String {
         // The y flip and KiCad's y-down screen cancel: what is clockwise in
         // our frame (negative sweep) is clockwise on KiCad's screen.
-        let (s, e) = if a.sweep <= 0.0 { (a.start, a.end) } else { (a.end, a.start) };
+        let (s, e) = if a.sweep <= 0.0 {
+            (a.start, a.end)
+        } else {
+            (a.end, a.start)
+        };
         let (s, mut m, e) = (self.nm(s), self.nm(a.mid()), self.nm(e));
         if m.1 == s.1 {
             m.1 += 1;
@@ -496,4 +500,59 @@ pub fn project(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError>
     });
     serde_json::to_vec_pretty(&v)
         .map_err(|e| ExportError::Unrepresentable(format!("kicad project: {e}")))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::Arc;
+
+    #[test]
+    fn arcs_are_written_clockwise_on_screen() {
+        // Counter-clockwise in our frame (y up) from (1, 0) to (0, 1): KiCad
+        // draws start -> end clockwise on its y-down screen, so the file
+        // starts at the end point, flipped: (0, -1), then (1, 0).
+        let ccw = Arc::from_start(
+            Point::ORIGIN,
+            Point::new(1.0, 0.0),
+            std::f64::consts::FRAC_PI_2,
+        );
+        assert_eq!(
+            Frame::LOCAL.arc(&ccw),
+            "(start 0 -1) (mid 0.707107 -0.707107) (end 1 0)"
+        );
+        let cw = Arc::from_start(
+            Point::ORIGIN,
+            Point::new(0.0, 1.0),
+            -std::f64::consts::FRAC_PI_2,
+        );
+        assert_eq!(
+            Frame::LOCAL.arc(&cw),
+            "(start 0 -1) (mid 0.707107 -0.707107) (end 1 0)"
+        );
+    }
+
+    #[test]
+    fn horizontal_start_mid_chord_is_nudged_by_one_nanometre() {
+        // From 120 deg clockwise to 0 deg: start and mid (60 deg) share y.
+        let a = Arc::from_start(
+            Point::ORIGIN,
+            Point::polar(1.0, 2.0 * std::f64::consts::FRAC_PI_3),
+            -2.0 * std::f64::consts::FRAC_PI_3,
+        );
+        assert_eq!(
+            Frame::LOCAL.arc(&a),
+            "(start -0.5 -0.866025) (mid 0.5 -0.866024) (end 1 0)"
+        );
+    }
+
+    #[test]
+    fn layer_names() {
+        assert_eq!(copper_layer_name(1, 1), "F.Cu");
+        assert_eq!(copper_layer_name(2, 2), "B.Cu");
+        assert_eq!(copper_layer_name(3, 5), "In2.Cu");
+        assert_eq!(board_copper_layers(1), 2);
+        assert_eq!(board_copper_layers(3), 4);
+        assert_eq!(board_copper_layers(8), 8);
+    }
 }
