@@ -32,4 +32,4 @@ if ! "$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy
 fi
 "$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy; print("interop venv ready")'
 /usr/bin/python3 -c 'import pcbnew; print("KiCad pcbnew", pcbnew.Version())'
-gerbv --version | head -1
+dpkg-query -W -f="gerbv \${Version}\n" gerbv
