@@ -39,6 +39,8 @@ pub const REFDES: &str = "L1";
 const PROFILE_STROKE: f64 = 0.1;
 /// Width of the legend strokes, mm.
 const LEGEND_STROKE: f64 = 0.15;
+/// Capital height of legend text, mm.
+pub const LEGEND_TEXT_HEIGHT: f64 = 1.0;
 
 /// Which face of the board.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -424,8 +426,10 @@ pub fn profile(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError>
     w.finish()
 }
 
-/// Top legend: a pin-1 mark (a ring around terminal "1") and a bar beside
-/// terminal "2", drawn outside the terminal lands.
+/// Top legend: the design name in capitals of [`LEGEND_TEXT_HEIGHT`] mm
+/// (smaller when the board is narrow) under the coil centre (printed over the covered winding, clear of the
+/// terminal lands), a pin-1 mark (a ring around terminal "1") and a bar
+/// under terminal "2".
 ///
 /// The ring and bar are translations of the pad data (centre and diameter),
 /// not derived geometry.
@@ -436,9 +440,29 @@ pub fn legend(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> 
             index: None,
         },
         &file_stem(&design.name),
-        &format!("{} legend: pin 1 ring, pin 2 bar", design.name),
+        &format!("{} legend: name, pin 1 ring, pin 2 bar", design.name),
     );
     w.aperture(None, LEGEND_STROKE);
+    // The name sits half-way between the axis and the outline's bottom,
+    // unless a terminal land is there (then it goes above).
+    let (lo, hi) = layout.outline_bounds();
+    let clear = |y: f64| {
+        layout
+            .pads
+            .iter()
+            .all(|p| (p.at.y - y).abs() > p.diameter / 2.0 + LEGEND_TEXT_HEIGHT)
+    };
+    let y = [lo.y / 2.0, hi.y / 2.0, lo.y / 4.0, hi.y / 4.0]
+        .into_iter()
+        .find(|&y| clear(y))
+        .unwrap_or(lo.y / 2.0);
+    let name = file_stem(&design.name);
+    // Each character advances one text height: keep the name within 80 %
+    // of the board width.
+    let height = LEGEND_TEXT_HEIGHT.min(0.8 * (hi.x - lo.x) / name.chars().count() as f64);
+    for s in super::font::text_strokes(&name, Point::new(0.0, y), height) {
+        w.draw(&s);
+    }
     for p in &layout.pads {
         let r = p.diameter / 2.0 + LEGEND_STROKE;
         if p.name == "1" {

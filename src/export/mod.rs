@@ -3,6 +3,7 @@
 //! [`crate::geometry::round`].
 
 pub mod excellon;
+pub mod font;
 pub mod gerber;
 pub mod job;
 pub mod kicad;
