@@ -350,3 +350,43 @@ fn golden_files_of_a_small_design() {
         insta::assert_snapshot!(name, text);
     }
 }
+
+#[test]
+fn job_file_lists_the_fab_files_and_the_stackup() {
+    for d in designs() {
+        let (l, files) = bundle(&d);
+        let stem = export::gerber::file_stem(&d.name);
+        let job: serde_json::Value =
+            serde_json::from_slice(&file(&files, &export::job::file_name(&stem)).bytes).unwrap();
+        let listed: Vec<String> = job["FilesAttributes"]
+            .as_array()
+            .unwrap()
+            .iter()
+            .map(|f| format!("fab/{}", f["Path"].as_str().unwrap()))
+            .collect();
+        let fab: Vec<&str> = files
+            .iter()
+            .map(|f| f.path.as_str())
+            .filter(|p| p.starts_with("fab/") && !p.ends_with(".gbrjob"))
+            .collect();
+        assert_eq!(listed, fab, "{}", d.name);
+        let stack = job["MaterialStackup"].as_array().unwrap();
+        let copper: Vec<f64> = stack
+            .iter()
+            .filter(|m| m["Type"] == "Copper")
+            .map(|m| m["Thickness"].as_f64().unwrap())
+            .collect();
+        let dielectric: Vec<f64> = stack
+            .iter()
+            .filter(|m| m["Type"] == "Dielectric")
+            .map(|m| m["Thickness"].as_f64().unwrap())
+            .collect();
+        assert_eq!(copper, d.stackup.copper);
+        assert_eq!(dielectric, d.stackup.dielectric);
+        assert_eq!(job["GeneralSpecs"]["LayerNumber"], l.layers);
+        let total: f64 =
+            copper.iter().sum::<f64>() + dielectric.iter().sum::<f64>() + 2.0 * d.stackup.cover;
+        let t = job["GeneralSpecs"]["BoardThickness"].as_f64().unwrap();
+        assert!((t - total).abs() < 1e-6, "{t} vs {total}");
+    }
+}

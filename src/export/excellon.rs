@@ -89,6 +89,17 @@ fn write_file(name: &str, file_function: &str, tool_prefix: &str, hits: &[Hit]) 
     let _ = writeln!(s, "; FORMAT={{-:-/ absolute / metric / decimal}}");
     let _ = writeln!(s, "FMAT,2");
     let _ = writeln!(s, "METRIC");
+    // Plain comment that CAM readers (gerbonara among them) take as the
+    // plating of the tools that follow.
+    let _ = writeln!(
+        s,
+        ";TYPE={}",
+        if tool_prefix.starts_with("Plated") {
+            "PLATED"
+        } else {
+            "NON_PLATED"
+        }
+    );
     for (i, (d, f)) in tools.iter().enumerate() {
         let _ = writeln!(s, "; #@! TA.AperFunction,{tool_prefix},{f}");
         let _ = writeln!(s, "T{}C{}", i + 1, dec(*d));

@@ -100,6 +100,10 @@ def readers(d):
             e = ExcellonFile.open(p)
             if not list(e.drills()):
                 fail("gerbonara", f"{name}: no drill hits")
+            want_plated = "nonplated" not in name
+            if (e.is_plated if want_plated else e.is_nonplated) is not True:
+                fail("gerbonara", f"{name}: holes not read as "
+                     f"{'plated' if want_plated else 'non-plated'}")
         except Exception as ex:  # noqa: BLE001
             fail("gerbonara", f"{name}: {type(ex).__name__}: {ex}")
     print(f"readers: {len(gerbers)} Gerber files read by gerbonara and pygerber, "
