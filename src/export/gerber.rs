@@ -373,12 +373,18 @@ pub fn copper(design: &Design, layout: &Layout, layer: u8) -> Result<Vec<u8>, Ex
         w.aperture(Some(ApertureFunction::ViaPad), v.diameter);
         w.flash(v.at);
     }
+    // Pin attributes belong to component pads on the outer layers.
+    let outer = layer == 1 || layer == layout.layers;
     for p in &layout.pads {
         w.set_net(Some(if p.name == "2" { NET_2 } else { NET_1 }));
         w.aperture(Some(ApertureFunction::ComponentPad), p.diameter);
-        w.pin(Some(&p.name));
+        if outer {
+            w.pin(Some(&p.name));
+        }
         w.flash(p.at);
-        w.pin(None);
+        if outer {
+            w.pin(None);
+        }
     }
     w.finish()
 }
@@ -405,9 +411,7 @@ pub fn mask(design: &Design, layout: &Layout, side: Side) -> Result<Vec<u8>, Exp
     );
     for p in &layout.pads {
         w.aperture(Some(ApertureFunction::ComponentPad), p.diameter);
-        w.pin(Some(&p.name));
         w.flash(p.at);
-        w.pin(None);
     }
     w.finish()
 }
