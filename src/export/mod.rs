@@ -2,6 +2,12 @@
 //! never compute geometry; coordinates go through
 //! [`crate::geometry::round`].
 
+pub mod excellon;
+pub mod font;
+pub mod gerber;
+pub mod job;
+pub mod kicad;
+pub mod manifest;
 pub mod out_dir;
 pub mod svg;
 
@@ -29,14 +35,133 @@ pub enum ExportError {
 }
 
 /// Everything `build` writes, in a fixed order.
+///
+/// Fab files go to `fab/` (Gerber `.gbr`, Excellon `.drl`, job `.gbrjob`),
+/// KiCad files to `kicad/`, and `manifest.json` (checksums of all the
+/// others) comes last. File names: see [`gerber`], [`excellon`], [`job`],
+/// [`kicad`].
 pub fn bundle(
-    _design: &Design,
+    design: &Design,
     layout: &Layout,
     _analysis: &Analysis,
 ) -> Result<Vec<OutFile>, ExportError> {
-    let mut out = Vec::new();
-    out.extend(previews(layout, &[]));
-    Ok(out)
+    let mut files = Vec::new();
+    fab_files(design, layout, &mut files)?;
+    kicad_files(design, layout, &mut files)?;
+    files.extend(previews(layout, &[]));
+    let m = manifest::manifest(&design.name, &files)?;
+    files.push(OutFile {
+        path: manifest::FILE_NAME.into(),
+        role: "manifest: SHA-256 of every other file".into(),
+        bytes: m,
+    });
+    Ok(files)
+}
+
+/// Appends the fab files: copper, mask/coverlay, legend, profile, drill and
+/// the job file that lists them.
+pub fn fab_files(
+    design: &Design,
+    layout: &Layout,
+    files: &mut Vec<OutFile>,
+) -> Result<(), ExportError> {
+    use crate::spec::BoardKind;
+    let stem = gerber::file_stem(&design.name);
+    let n = layout.layers;
+    let mut job_list = Vec::new();
+    let mut add =
+        |files: &mut Vec<OutFile>, path: String, role: String, function: String, bytes| {
+            job_list.push(job::JobEntry {
+                path: path.trim_start_matches("fab/").to_string(),
+                function,
+                polarity: "Positive".into(),
+            });
+            files.push(OutFile { path, role, bytes });
+        };
+    for layer in 1..=n {
+        add(
+            files,
+            gerber::copper_file_name(&stem, layer, n),
+            format!("gerber: copper layer {layer} of {n}"),
+            gerber::copper_function(layer, n),
+            gerber::copper(design, layout, layer)?,
+        );
+    }
+    let cover = match design.stackup.kind {
+        BoardKind::Rigid => "solder mask",
+        BoardKind::Flex => "coverlay",
+    };
+    for (side, pos) in [(gerber::Side::Top, "Top"), (gerber::Side::Bottom, "Bot")] {
+        add(
+            files,
+            gerber::mask_file_name(&stem, design.stackup.kind, side),
+            format!("gerber: {cover} openings, {}", pos.to_lowercase()),
+            format!("Soldermask,{pos}"),
+            gerber::mask(design, layout, side)?,
+        );
+    }
+    add(
+        files,
+        gerber::legend_file_name(&stem),
+        "gerber: legend, top (pin marks)".into(),
+        "Legend,Top".into(),
+        gerber::legend(design, layout)?,
+    );
+    add(
+        files,
+        gerber::profile_file_name(&stem),
+        "gerber: board profile (outline)".into(),
+        "Profile,NP".into(),
+        gerber::profile(design, layout)?,
+    );
+    add(
+        files,
+        excellon::plated_file_name(&stem),
+        "excellon: plated through holes (vias, terminals)".into(),
+        excellon::plated_function(n),
+        excellon::plated(layout),
+    );
+    if let Some(b) = excellon::non_plated(layout) {
+        add(
+            files,
+            excellon::non_plated_file_name(&stem),
+            "excellon: non-plated holes".into(),
+            format!("NonPlated,1,{n},NPTH"),
+            b,
+        );
+    }
+    let j = job::job(design, layout, &job_list)?;
+    files.push(OutFile {
+        path: job::file_name(&stem),
+        role: "gerber job file: stack-up and file list".into(),
+        bytes: j,
+    });
+    Ok(())
+}
+
+/// Appends the KiCad footprint, board and project files.
+pub fn kicad_files(
+    design: &Design,
+    layout: &Layout,
+    files: &mut Vec<OutFile>,
+) -> Result<(), ExportError> {
+    let stem = gerber::file_stem(&design.name);
+    files.push(OutFile {
+        path: kicad::footprint_file_name(&stem),
+        role: "kicad 6 footprint".into(),
+        bytes: kicad::footprint(design, layout)?,
+    });
+    files.push(OutFile {
+        path: kicad::board_file_name(&stem),
+        role: "kicad 6 board: coil as tracks and vias".into(),
+        bytes: kicad::board(design, layout)?,
+    });
+    files.push(OutFile {
+        path: kicad::project_file_name(&stem),
+        role: "kicad 6 project: design rules of the board".into(),
+        bytes: kicad::project(design, layout)?,
+    });
+    Ok(())
 }
 
 /// The SVG previews: `preview/stack.svg` and `preview/layer-N.svg`, with

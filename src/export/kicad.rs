@@ -1,0 +1,558 @@
+//! KiCad outputs in the KiCad 6 file format (version 20211014, which newer
+//! KiCad opens too), written by us as text:
+//!
+//! - a footprint `kicad/<name>.pretty/<name>.kicad_mod` to drop the coil into
+//!   a board of one's own, and
+//! - a board `kicad/<name>.kicad_pcb` (with its project file holding the
+//!   design rules) where the coil is ordinary tracks and vias, so that
+//!   KiCad's rule check sees it as copper and can plot it.
+//!
+//! # Footprint
+//! Anchored at the coil centre. Each layer's copper is one custom pad named
+//! "1" whose primitives are the tracks: it carries the net of terminal "1",
+//! so KiCad checks that the winding, the via pads (through-hole pads "1"
+//! that keep their land only on layers with a connection) and the terminals
+//! are connected; a via off its copper shows as unconnected. Terminals are
+//! through-hole pads "1" and "2". The footprint is a net tie (keywords
+//! beginning with "net tie"): the coil joins its two terminals. A rule area
+//! forbids copper pour over the coil on its layers (a pour in the centre or
+//! the gaps would form a shorted turn). Courtyard and fab outline follow the
+//! board outline.
+//!
+//! # Coordinates
+//! Our frame has y up, KiCad's y down: y is negated (on the nanometre
+//! integers from [`crate::geometry::round::to_nm`], so exactly). KiCad 6
+//! draws an arc shape (`fp_arc`, `gr_arc`) clockwise on screen from its
+//! start to its end (the mid point does not choose the side), so every arc
+//! is written in the order that runs clockwise on screen. The flip of y and
+//! the y-down screen cancel, so that is the order that runs clockwise in our
+//! frame too: arcs with a positive sweep are written end first.
+
+use super::ExportError;
+use super::gerber::{NET_1, NET_2, REFDES};
+use crate::geometry::round::{format_mm, point_nm, to_nm};
+use crate::geometry::{Layout, Point, Segment};
+use crate::spec::Design;
+use std::fmt::Write as _;
+
+/// Where the coil centre sits on the board, KiCad coordinates, nm.
+const BOARD_ORIGIN_NM: (i64, i64) = (100_000_000, 100_000_000);
+/// Chord tolerance for the rule-area polygon, mm.
+const KEEPOUT_TOLERANCE: f64 = 0.005;
+/// Line width of courtyard, fab and edge drawings, mm.
+const DRAWING_WIDTH: &str = "0.05";
+
+/// Path of the footprint library folder.
+pub fn library_dir(stem: &str) -> String {
+    format!("kicad/{stem}.pretty")
+}
+
+/// Path of the footprint file.
+pub fn footprint_file_name(stem: &str) -> String {
+    format!("kicad/{stem}.pretty/{stem}.kicad_mod")
+}
+
+/// Path of the board file.
+pub fn board_file_name(stem: &str) -> String {
+    format!("kicad/{stem}.kicad_pcb")
+}
+
+/// Path of the board's project file (design rules).
+pub fn project_file_name(stem: &str) -> String {
+    format!("kicad/{stem}.kicad_pro")
+}
+
+/// KiCad name of copper layer `layer` (1 = top) of `layers`.
+pub fn copper_layer_name(layer: u8, layers: u8) -> String {
+    if layer == 1 {
+        "F.Cu".into()
+    } else if layer == layers {
+        "B.Cu".into()
+    } else {
+        format!("In{}.Cu", layer - 1)
+    }
+}
+
+/// KiCad's internal number of a copper layer (F.Cu 0, In1.Cu 1, B.Cu 31).
+fn copper_layer_id(layer: u8, layers: u8) -> u8 {
+    if layer == layers && layer != 1 {
+        31
+    } else {
+        layer - 1
+    }
+}
+
+/// Copper layers of the KiCad board for a coil of `layers`: KiCad boards
+/// have an even count, two at least (an odd coil leaves one inner layer
+/// empty, the coil's last layer stays on B.Cu).
+pub fn board_copper_layers(layers: u8) -> u8 {
+    (layers + layers % 2).max(2)
+}
+
+/// A frame: translation applied after the y flip, nm.
+#[derive(Clone, Copy)]
+struct Frame {
+    dx: i64,
+    dy: i64,
+}
+
+impl Frame {
+    const LOCAL: Frame = Frame { dx: 0, dy: 0 };
+
+    fn xy(self, p: Point) -> String {
+        let (x, y) = point_nm(p);
+        format!("{} {}", format_mm(x + self.dx), format_mm(-y + self.dy))
+    }
+
+    /// A point in this frame, integer nm (y flipped).
+    fn nm(self, p: Point) -> (i64, i64) {
+        let (x, y) = point_nm(p);
+        (x + self.dx, -y + self.dy)
+    }
+
+    /// `(start ..) (mid ..) (end ..)` of an arc, clockwise on screen.
+    ///
+    /// KiCad 6 finds the centre from the three points and divides by the
+    /// slope of the start-to-mid chord: when that chord is exactly
+    /// horizontal the centre comes out at infinity (observed with pcbnew
+    /// 6.0.11: dangling tracks and lost pad arcs). The mid point is then
+    /// written 1 nm lower, which moves the centre by about a nanometre.
+    fn arc(self, a: &crate::geometry::Arc) -> String {
+        // The y flip and KiCad's y-down screen cancel: what is clockwise in
+        // our frame (negative sweep) is clockwise on KiCad's screen.
+        let (s, e) = if a.sweep <= 0.0 {
+            (a.start, a.end)
+        } else {
+            (a.end, a.start)
+        };
+        let (s, mut m, e) = (self.nm(s), self.nm(a.mid()), self.nm(e));
+        if m.1 == s.1 {
+            m.1 += 1;
+        }
+        let f = |p: (i64, i64)| format!("{} {}", format_mm(p.0), format_mm(p.1));
+        format!("(start {}) (mid {}) (end {})", f(s), f(m), f(e))
+    }
+}
+
+fn mm(x: f64) -> String {
+    format_mm(to_nm(x))
+}
+
+fn quote(s: &str) -> String {
+    let mut o = String::from("\"");
+    for c in s.chars() {
+        match c {
+            '"' => o.push_str("\\\""),
+            '\\' => o.push_str("\\\\"),
+            '\n' => o.push(' '),
+            c => o.push(c),
+        }
+    }
+    o.push('"');
+    o
+}
+
+/// A graphic line or arc: `kind` is "fp" or "gr".
+fn graphic(kind: &str, f: Frame, s: &Segment, layer: &str, width: &str) -> String {
+    match s {
+        Segment::Line(l) => format!(
+            "({kind}_line (start {}) (end {}) (layer \"{layer}\") (width {width}))",
+            f.xy(l.start),
+            f.xy(l.end)
+        ),
+        Segment::Arc(a) => format!(
+            "({kind}_arc {} (layer \"{layer}\") (width {width}))",
+            f.arc(a)
+        ),
+    }
+}
+
+fn all_copper_layers(layers: u8) -> String {
+    (1..=layers)
+        .map(|l| quote(&copper_layer_name(l, layers)))
+        .collect::<Vec<_>>()
+        .join(" ")
+}
+
+/// The rule area (keep-out of copper pour) polygon: the outline flattened.
+fn keepout_zone(layout: &Layout, f: Frame, indent: &str) -> String {
+    let mut pts: Vec<Point> = Vec::new();
+    for s in &layout.outline.segments {
+        let flat = s.flatten(KEEPOUT_TOLERANCE);
+        pts.extend(&flat[..flat.len() - 1]);
+    }
+    let mut o = String::new();
+    let _ = writeln!(
+        o,
+        "{indent}(zone (net 0) (net_name \"\") (layers {}) (hatch edge 0.508)",
+        all_copper_layers(layout.layers)
+    );
+    let _ = writeln!(o, "{indent}  (connect_pads (clearance 0))");
+    let _ = writeln!(o, "{indent}  (min_thickness 0.254)");
+    let _ = writeln!(
+        o,
+        "{indent}  (keepout (tracks allowed) (vias allowed) (pads allowed) (copperpour not_allowed) (footprints allowed))"
+    );
+    let _ = writeln!(
+        o,
+        "{indent}  (fill (thermal_gap 0.508) (thermal_bridge_width 0.508))"
+    );
+    let _ = writeln!(o, "{indent}  (polygon");
+    let _ = writeln!(o, "{indent}    (pts");
+    for p in pts {
+        let _ = writeln!(o, "{indent}      (xy {})", f.xy(p));
+    }
+    let _ = writeln!(o, "{indent}    )");
+    let _ = writeln!(o, "{indent}  )");
+    let _ = writeln!(o, "{indent})");
+    o
+}
+
+/// The footprint file (`.kicad_mod`) of the coil.
+pub fn footprint(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
+    let stem = super::gerber::file_stem(&design.name);
+    let f = Frame::LOCAL;
+    let (lo, hi) = layout.outline_bounds();
+    let mut o = String::new();
+    let _ = writeln!(
+        o,
+        "(footprint {} (version 20211014) (generator coilwright)",
+        quote(&stem)
+    );
+    let _ = writeln!(o, "  (layer \"F.Cu\")");
+    let _ = writeln!(
+        o,
+        "  (descr {})",
+        quote(&format!(
+            "Printed coil {}: {} layers, {} turns per layer, trace {} mm, clearance {} mm (coilwright)",
+            design.name,
+            layout.layers,
+            layout.turns,
+            mm(layout.trace_width),
+            mm(layout.clearance)
+        ))
+    );
+    let _ = writeln!(o, "  (tags \"net tie coil printed inductor\")");
+    let _ = writeln!(o, "  (attr through_hole)");
+    let _ = writeln!(
+        o,
+        "  (fp_text reference \"{REFDES}\" (at {}) (layer \"F.Fab\")\n    (effects (font (size 1 1) (thickness 0.15)))\n  )",
+        f.xy(Point::new(0.0, hi.y + 1.0))
+    );
+    let _ = writeln!(
+        o,
+        "  (fp_text value {} (at {}) (layer \"F.Fab\")\n    (effects (font (size 1 1) (thickness 0.15)))\n  )",
+        quote(&stem),
+        f.xy(Point::new(0.0, lo.y - 1.0))
+    );
+    for s in &layout.outline.segments {
+        let _ = writeln!(o, "  {}", graphic("fp", f, s, "F.CrtYd", DRAWING_WIDTH));
+        let _ = writeln!(o, "  {}", graphic("fp", f, s, "F.Fab", "0.1"));
+    }
+    // Terminals.
+    for p in &layout.pads {
+        let _ = writeln!(
+            o,
+            "  (pad {} thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\" \"*.Mask\"))",
+            quote(&p.name),
+            f.xy(p.at),
+            mm(p.drill),
+            d = mm(p.diameter)
+        );
+    }
+    // Vias: through-hole pads of net 1 that keep their land only where a
+    // layer's copper connects to them.
+    for v in &layout.vias {
+        let _ = writeln!(
+            o,
+            "  (pad \"1\" thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\") (remove_unused_layers))",
+            f.xy(v.at),
+            mm(v.drill),
+            d = mm(v.diameter)
+        );
+    }
+    // Copper: one custom pad per layer.
+    for layer in 1..=layout.layers {
+        let tracks: Vec<_> = layout.tracks_on(layer).collect();
+        let Some(first) = tracks.first() else {
+            continue;
+        };
+        let anchor = first.segment.start();
+        let (ax, ay) = point_nm(anchor);
+        let rel = Frame { dx: -ax, dy: ay };
+        let _ = writeln!(
+            o,
+            "  (pad \"1\" smd custom (at {}) (size {w} {w}) (layers {})\n    (options (clearance outline) (anchor circle))\n    (primitives",
+            f.xy(anchor),
+            quote(&copper_layer_name(layer, layout.layers)),
+            w = mm(first.width)
+        );
+        for t in &tracks {
+            let g = match &t.segment {
+                Segment::Line(l) => format!(
+                    "(gr_line (start {}) (end {}) (width {}))",
+                    rel.xy(l.start),
+                    rel.xy(l.end),
+                    mm(t.width)
+                ),
+                Segment::Arc(a) => format!("(gr_arc {} (width {}))", rel.arc(a), mm(t.width)),
+            };
+            let _ = writeln!(o, "      {g}");
+        }
+        let _ = writeln!(o, "    ))");
+    }
+    o.push_str(&keepout_zone(layout, f, "  "));
+    let _ = writeln!(o, ")");
+    Ok(o.into_bytes())
+}
+
+/// The board file (`.kicad_pcb`): the coil centred at (100, 100) mm (also
+/// the auxiliary origin, so plots in aux-origin coordinates share our
+/// frame), its copper as tracks and arcs of net [`NET_1`], vias of net
+/// [`NET_1`] with lands only on connected layers, the terminals in a small
+/// net-tie footprint (pad "1" on [`NET_1`], pad "2" on [`NET_2`]) and the
+/// board outline on Edge.Cuts.
+pub fn board(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
+    let stem = super::gerber::file_stem(&design.name);
+    let n = layout.layers;
+    let kl = board_copper_layers(n);
+    let f = Frame {
+        dx: BOARD_ORIGIN_NM.0,
+        dy: BOARD_ORIGIN_NM.1,
+    };
+    let origin = format!(
+        "{} {}",
+        format_mm(BOARD_ORIGIN_NM.0),
+        format_mm(BOARD_ORIGIN_NM.1)
+    );
+    let thickness = super::job::finished_thickness(design);
+    let mut o = String::new();
+    let _ = writeln!(o, "(kicad_pcb (version 20211014) (generator coilwright)");
+    let _ = writeln!(o, "  (general (thickness {}))", mm(thickness));
+    let _ = writeln!(o, "  (paper \"A4\")");
+    let _ = writeln!(o, "  (layers");
+    for l in 1..=kl {
+        let _ = writeln!(
+            o,
+            "    ({} {} signal)",
+            copper_layer_id(l, kl),
+            quote(&copper_layer_name(l, kl))
+        );
+    }
+    for (id, name) in [
+        (32, "B.Adhes"),
+        (33, "F.Adhes"),
+        (34, "B.Paste"),
+        (35, "F.Paste"),
+        (36, "B.SilkS"),
+        (37, "F.SilkS"),
+        (38, "B.Mask"),
+        (39, "F.Mask"),
+        (40, "Dwgs.User"),
+        (41, "Cmts.User"),
+        (44, "Edge.Cuts"),
+        (45, "Margin"),
+        (46, "B.CrtYd"),
+        (47, "F.CrtYd"),
+        (48, "B.Fab"),
+        (49, "F.Fab"),
+    ] {
+        let _ = writeln!(o, "    ({id} \"{name}\" user)");
+    }
+    let _ = writeln!(o, "  )");
+    let _ = writeln!(o, "  (setup");
+    let _ = writeln!(o, "    (pad_to_mask_clearance 0)");
+    let _ = writeln!(o, "    (aux_axis_origin {origin})");
+    let _ = writeln!(o, "    (grid_origin {origin})");
+    let _ = writeln!(o, "  )");
+    let _ = writeln!(o, "  (net 0 \"\")");
+    let _ = writeln!(o, "  (net 1 {})", quote(NET_1));
+    let _ = writeln!(o, "  (net 2 {})", quote(NET_2));
+
+    // Terminals: a net-tie footprint at the coil centre.
+    let _ = writeln!(
+        o,
+        "  (footprint {} (layer \"F.Cu\") (at {origin})",
+        quote(&format!("coilwright:{stem}_terminals"))
+    );
+    let _ = writeln!(
+        o,
+        "    (descr \"Terminals of the printed coil; the coil tracks tie the two nets\")"
+    );
+    let _ = writeln!(o, "    (tags \"net tie coil terminals\")");
+    let _ = writeln!(o, "    (attr through_hole)");
+    let _ = writeln!(
+        o,
+        "    (fp_text reference \"{REFDES}\" (at 0 0) (layer \"F.Fab\")\n      (effects (font (size 1 1) (thickness 0.15)))\n    )"
+    );
+    let _ = writeln!(
+        o,
+        "    (fp_text value {} (at 0 2) (layer \"F.Fab\")\n      (effects (font (size 1 1) (thickness 0.15)))\n    )",
+        quote(&stem)
+    );
+    for p in &layout.pads {
+        let (id, net) = if p.name == "2" {
+            (2, NET_2)
+        } else {
+            (1, NET_1)
+        };
+        let _ = writeln!(
+            o,
+            "    (pad {} thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\" \"*.Mask\") (net {id} {}))",
+            quote(&p.name),
+            Frame::LOCAL.xy(p.at),
+            mm(p.drill),
+            quote(net),
+            d = mm(p.diameter)
+        );
+    }
+    let _ = writeln!(o, "  )");
+
+    for s in &layout.outline.segments {
+        let _ = writeln!(o, "  {}", graphic("gr", f, s, "Edge.Cuts", DRAWING_WIDTH));
+    }
+    for t in &layout.tracks {
+        let layer = copper_layer_name(t.layer, n);
+        let w = mm(t.width);
+        let _ = match &t.segment {
+            Segment::Line(l) => writeln!(
+                o,
+                "  (segment (start {}) (end {}) (width {w}) (layer \"{layer}\") (net 1))",
+                f.xy(l.start),
+                f.xy(l.end)
+            ),
+            Segment::Arc(a) => writeln!(
+                o,
+                "  (arc {} (width {w}) (layer \"{layer}\") (net 1))",
+                f.arc(a)
+            ),
+        };
+    }
+    for v in &layout.vias {
+        let _ = writeln!(
+            o,
+            "  (via (at {}) (size {}) (drill {}) (layers \"F.Cu\" \"B.Cu\") (remove_unused_layers) (net 1))",
+            f.xy(v.at),
+            mm(v.diameter),
+            mm(v.drill)
+        );
+    }
+    let _ = writeln!(o, ")");
+    Ok(o.into_bytes())
+}
+
+/// The board's project file (`.kicad_pro`, JSON): the design rules of the
+/// board are the coil's own sizes (track width, clearance, via and hole
+/// sizes), so KiCad's rule check measures the copper against them; the fab's
+/// limits are checked by coilwright's own rule check.
+pub fn project(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
+    let stem = super::gerber::file_stem(&design.name);
+    let r = |x: f64| crate::geometry::round::nm_to_mm(to_nm(x));
+    let min_drill = layout
+        .vias
+        .iter()
+        .map(|v| v.drill)
+        .chain(layout.pads.iter().map(|p| p.drill))
+        .fold(f64::INFINITY, f64::min);
+    let min_via = layout
+        .vias
+        .iter()
+        .map(|v| v.diameter)
+        .fold(design.via.diameter, f64::min);
+    let min_ring = layout
+        .vias
+        .iter()
+        .map(|v| (v.diameter - v.drill) / 2.0)
+        .fold((design.via.diameter - design.via.drill) / 2.0, f64::min);
+    let v = serde_json::json!({
+        "board": {
+            "design_settings": {
+                "rules": {
+                    "min_clearance": r(layout.clearance),
+                    "min_track_width": r(layout.trace_width),
+                    "min_through_hole_diameter": r(min_drill),
+                    "min_via_diameter": r(min_via),
+                    "min_via_annular_width": r(min_ring),
+                    "min_hole_to_hole": r(layout.clearance),
+                    "min_hole_clearance": r(layout.clearance),
+                    "min_copper_edge_clearance": 0.0,
+                    "min_microvia_diameter": r(min_via),
+                    "min_microvia_drill": r(min_drill),
+                    "allow_blind_buried_vias": false,
+                    "allow_microvias": false,
+                    "max_error": 0.005,
+                },
+            },
+        },
+        "meta": { "filename": format!("{stem}.kicad_pro"), "version": 1 },
+        "net_settings": {
+            "classes": [{
+                "name": "Default",
+                "clearance": r(layout.clearance),
+                "track_width": r(layout.trace_width),
+                "via_diameter": r(design.via.diameter),
+                "via_drill": r(design.via.drill),
+                "microvia_diameter": r(design.via.diameter),
+                "microvia_drill": r(design.via.drill),
+            }],
+            "meta": { "version": 2 },
+        },
+    });
+    serde_json::to_vec_pretty(&v)
+        .map_err(|e| ExportError::Unrepresentable(format!("kicad project: {e}")))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::Arc;
+
+    #[test]
+    fn arcs_are_written_clockwise_on_screen() {
+        // Counter-clockwise in our frame (y up) from (1, 0) to (0, 1): KiCad
+        // draws start -> end clockwise on its y-down screen, so the file
+        // starts at the end point, flipped: (0, -1), then (1, 0).
+        let ccw = Arc::from_start(
+            Point::ORIGIN,
+            Point::new(1.0, 0.0),
+            std::f64::consts::FRAC_PI_2,
+        );
+        assert_eq!(
+            Frame::LOCAL.arc(&ccw),
+            "(start 0 -1) (mid 0.707107 -0.707107) (end 1 0)"
+        );
+        let cw = Arc::from_start(
+            Point::ORIGIN,
+            Point::new(0.0, 1.0),
+            -std::f64::consts::FRAC_PI_2,
+        );
+        assert_eq!(
+            Frame::LOCAL.arc(&cw),
+            "(start 0 -1) (mid 0.707107 -0.707107) (end 1 0)"
+        );
+    }
+
+    #[test]
+    fn horizontal_start_mid_chord_is_nudged_by_one_nanometre() {
+        // From 120 deg clockwise to 0 deg: start and mid (60 deg) share y.
+        let a = Arc::from_start(
+            Point::ORIGIN,
+            Point::polar(1.0, 2.0 * std::f64::consts::FRAC_PI_3),
+            -2.0 * std::f64::consts::FRAC_PI_3,
+        );
+        assert_eq!(
+            Frame::LOCAL.arc(&a),
+            "(start -0.5 -0.866025) (mid 0.5 -0.866024) (end 1 0)"
+        );
+    }
+
+    #[test]
+    fn layer_names() {
+        assert_eq!(copper_layer_name(1, 1), "F.Cu");
+        assert_eq!(copper_layer_name(2, 2), "B.Cu");
+        assert_eq!(copper_layer_name(3, 5), "In2.Cu");
+        assert_eq!(board_copper_layers(1), 2);
+        assert_eq!(board_copper_layers(3), 4);
+        assert_eq!(board_copper_layers(8), 8);
+    }
+}

@@ -1,0 +1,339 @@
+"""Checks of a coilwright output folder with independent readers.
+
+Run with the interop venv (.venv-interop/bin/python, see setup.sh):
+
+    checks.py readers DIR      gerbonara + pygerber read every Gerber,
+                               gerbonara every Excellon, no warning allowed
+    checks.py geometry DIR     shapely on the parsed Gerbers/Excellon:
+                               turn-to-turn gap, drill hits on copper
+    checks.py raster DIR KDIR  gerbv renders our copper Gerbers and the ones
+                               KiCad plotted from our board (in KDIR) in the
+                               same frame; copper pixels must agree
+
+DIR holds the bundle plus `expect.json` ({"design": ..., "layout": ...},
+written by tests/interop.rs). Each failure is printed as
+"FAIL [source] message" and the exit status is 1.
+"""
+
+import glob
+import json
+import math
+import os
+import subprocess
+import sys
+import tempfile
+import warnings
+
+FAILS = []
+
+
+def fail(source, msg):
+    FAILS.append(f"FAIL [{source}] {msg}")
+
+
+def load_expect(d):
+    with open(os.path.join(d, "expect.json")) as f:
+        return json.load(f)
+
+
+def copper_files(d, layers):
+    out = {}
+    for layer in range(1, layers + 1):
+        hits = glob.glob(os.path.join(d, "fab", f"*-L{layer}-copper-*.gbr"))
+        if len(hits) != 1:
+            fail("bundle", f"expected one copper file for layer {layer}, found {hits}")
+            continue
+        out[layer] = hits[0]
+    return out
+
+
+def strict_warnings():
+    """Every warning of the readers becomes an error; deprecation notices
+    about the readers' own use of their dependencies are not about our
+    files and stay silent."""
+    import pyparsing
+
+    warnings.resetwarnings()
+    warnings.simplefilter("error")
+    warnings.simplefilter("ignore", DeprecationWarning)
+    warnings.simplefilter("ignore", PendingDeprecationWarning)
+    pdw = getattr(getattr(pyparsing, "warnings", None), "PyparsingDeprecationWarning", None)
+    if pdw is not None:
+        warnings.simplefilter("ignore", pdw)
+
+
+# ---------------------------------------------------------------- readers
+
+
+def readers(d):
+    from gerbonara import ExcellonFile, GerberFile
+    from gerbonara.graphic_objects import Arc
+    from pygerber.gerberx3.api.v2 import GerberFile as PyGerberFile
+    from pygerber.gerberx3.api.v2 import OnParserErrorEnum
+
+    strict_warnings()
+    gerbers = sorted(glob.glob(os.path.join(d, "fab", "*.gbr")))
+    drills = sorted(glob.glob(os.path.join(d, "fab", "*.drl")))
+    if not gerbers or not drills:
+        fail("bundle", f"no Gerber or drill files in {d}/fab")
+    for p in gerbers:
+        name = os.path.basename(p)
+        try:
+            g = GerberFile.open(p)
+        except Exception as e:  # noqa: BLE001 - report any reader failure
+            fail("gerbonara", f"{name}: {type(e).__name__}: {e}")
+            continue
+        # Neither reader checks that I/J match the radius at both ends.
+        for o in g.objects:
+            if isinstance(o, Arc):
+                r1 = math.hypot(o.cx, o.cy)
+                r2 = math.hypot(o.x1 + o.cx - o.x2, o.y1 + o.cy - o.y2)
+                if abs(r1 - r2) > 2e-6:
+                    fail("gerbonara", f"{name}: arc radius {r1:.7f} at start, {r2:.7f} at end")
+        try:
+            PyGerberFile.from_file(p).parse(on_parser_error=OnParserErrorEnum.Raise)
+        except Exception as e:  # noqa: BLE001
+            fail("pygerber", f"{name}: {type(e).__name__}: {e}")
+    for p in drills:
+        name = os.path.basename(p)
+        try:
+            e = ExcellonFile.open(p)
+            if not list(e.drills()):
+                fail("gerbonara", f"{name}: no drill hits")
+            want_plated = "nonplated" not in name
+            if (e.is_plated if want_plated else e.is_nonplated) is not True:
+                fail("gerbonara", f"{name}: holes not read as "
+                     f"{'plated' if want_plated else 'non-plated'}")
+        except Exception as ex:  # noqa: BLE001
+            fail("gerbonara", f"{name}: {type(ex).__name__}: {ex}")
+    print(f"readers: {len(gerbers)} Gerber files read by gerbonara and pygerber, "
+          f"{len(drills)} Excellon files by gerbonara")
+
+
+# ---------------------------------------------------------------- geometry
+
+FLATTEN_TOL = 0.0002  # mm chord error; chords lie inside arcs, so gaps only shrink
+
+
+def arc_points(x1, y1, x2, y2, cx, cy, clockwise):
+    r = math.hypot(x1 - cx, y1 - cy)
+    a1 = math.atan2(y1 - cy, x1 - cx)
+    a2 = math.atan2(y2 - cy, x2 - cx)
+    sweep = a2 - a1
+    if clockwise:
+        while sweep >= 0:
+            sweep -= 2 * math.pi
+    else:
+        while sweep <= 0:
+            sweep += 2 * math.pi
+    step = 2 * math.sqrt(max(2 * FLATTEN_TOL / max(r, 1e-9), 1e-12))
+    n = max(2, int(math.ceil(abs(sweep) / min(step, 0.5))))
+    pts = [(cx + r * math.cos(a1 + sweep * i / n), cy + r * math.sin(a1 + sweep * i / n)) for i in range(n)]
+    pts.append((x2, y2))
+    return pts, r * abs(sweep)
+
+
+def parse_copper(path):
+    """Pieces (centre lines with width) and flashes of one copper file."""
+    from gerbonara import GerberFile
+    from gerbonara.graphic_objects import Arc, Flash, Line
+
+    g = GerberFile.open(path)
+    pieces, flashes = [], []
+    for o in g.objects:
+        if isinstance(o, Line):
+            pts = [(o.x1, o.y1), (o.x2, o.y2)]
+            pieces.append({"pts": pts, "len": math.dist(*pts), "w": o.aperture.diameter})
+        elif isinstance(o, Arc):
+            pts, length = arc_points(o.x1, o.y1, o.x2, o.y2, o.x1 + o.cx, o.y1 + o.cy, o.clockwise)
+            pieces.append({"pts": pts, "len": length, "w": o.aperture.diameter})
+        elif isinstance(o, Flash):
+            flashes.append({"at": (o.x, o.y), "d": o.aperture.diameter})
+        else:
+            fail("gerbonara", f"{os.path.basename(path)}: unexpected object {type(o).__name__}")
+    return pieces, flashes
+
+
+def geometry(d):
+    import numpy as np
+    import shapely
+    from gerbonara import ExcellonFile
+
+    exp = load_expect(d)
+    lay = exp["layout"]
+    layers = lay["layers"]
+    clearance = lay["clearance"]
+    pitch = lay["pitch"]
+    tol = 0.001  # 1 um
+    files = copper_files(d, layers)
+    worst = math.inf
+    copper = {}
+    for layer, path in files.items():
+        pieces, flashes = parse_copper(path)
+        # Position along the conductor: consecutive pieces that meet form a chain.
+        chain, pos = [], []
+        c, s = 0, 0.0
+        for i, p in enumerate(pieces):
+            if i > 0 and math.dist(pieces[i - 1]["pts"][-1], p["pts"][0]) > 1e-6:
+                c, s = c + 1, 0.0
+            chain.append(c)
+            pos.append((s, s + p["len"]))
+            s += p["len"]
+        geoms = [shapely.LineString(p["pts"]) for p in pieces]
+        widths = np.array([p["w"] for p in pieces])
+        copper[layer] = (pieces, flashes, geoms)
+        # Turn to turn: pieces farther apart along the conductor than three
+        # pitches are different turns (or leads) and must keep the clearance.
+        tree = shapely.STRtree(geoms)
+        reach = 2 * max(widths.max() if len(widths) else 0, 0) + clearance
+        i_idx, j_idx = tree.query(geoms, predicate="dwithin", distance=reach)
+        keep = i_idx < j_idx
+        i_idx, j_idx = i_idx[keep], j_idx[keep]
+        if len(i_idx):
+            along = np.array([
+                math.inf if chain[i] != chain[j] else pos[j][0] - pos[i][1]
+                for i, j in zip(i_idx, j_idx)
+            ])
+            far = along > 3 * pitch
+            i_idx, j_idx = i_idx[far], j_idx[far]
+            if len(i_idx):
+                gap = shapely.distance(
+                    np.array(geoms, dtype=object)[i_idx], np.array(geoms, dtype=object)[j_idx]
+                ) - (widths[i_idx] + widths[j_idx]) / 2
+                k = int(np.argmin(gap))
+                worst = min(worst, float(gap[k]))
+                if gap[k] < clearance - tol:
+                    a, b = pieces[i_idx[k]]["pts"], pieces[j_idx[k]]["pts"]
+                    fail("shapely", f"layer {layer}: turn-to-turn gap {gap[k]*1000:.2f} um < "
+                         f"clearance {clearance*1000:.1f} um between pieces {i_idx[k]} "
+                         f"({a[0]}..{a[-1]}) and {j_idx[k]} ({b[0]}..{b[-1]})")
+    # Drill hits: copper of exactly the joined layers.
+    nodes = [("via", v["at"], v["joins"], v["drill"]) for v in lay["vias"]]
+    nodes += [("pad " + p["name"], p["at"], p["joins"], p["drill"]) for p in lay["pads"]]
+    hits = []
+    for path in glob.glob(os.path.join(d, "fab", "*.drl")):
+        for o in ExcellonFile.open(path).drills():
+            hits.append((o.x, o.y, o.aperture.diameter))
+    if len(hits) != len(nodes):
+        fail("gerbonara", f"{len(hits)} drill hits in the Excellon files, layout has {len(nodes)} holes")
+    for x, y, dia in hits:
+        match = [n for n in nodes if math.dist((n[1]["x"], n[1]["y"]), (x, y)) < 1e-6]
+        if len(match) != 1:
+            fail("gerbonara", f"drill hit at ({x}, {y}) matches {len(match)} layout holes")
+            continue
+        kind, _, joins, drill = match[0]
+        if abs(dia - drill) > 1e-6:
+            fail("gerbonara", f"{kind} at ({x}, {y}): drill {dia} in file, {drill} in layout")
+        track_layers, land_layers = [], []
+        for layer, (pieces, flashes, geoms) in copper.items():
+            garr = np.array(geoms, dtype=object)
+            warr = np.array([p["w"] for p in pieces])
+            dist_c = shapely.distance(garr, shapely.Point(x, y)) if len(geoms) else np.array([])
+            touches_track = bool(np.any(dist_c < warr / 2 + dia / 2))
+            on_land = any(math.dist(f["at"], (x, y)) < 1e-6 and f["d"] > dia for f in flashes)
+            if touches_track:
+                track_layers.append(layer)
+            if on_land:
+                land_layers.append(layer)
+            if layer not in joins and touches_track:
+                fail("shapely", f"{kind} at ({x:.4f}, {y:.4f}) touches copper of layer {layer}, "
+                     f"which it does not join {joins}")
+            if layer not in joins:
+                # The plated barrel of the hole must clear foreign copper.
+                dmin = float(np.min(dist_c - dia / 2 - warr / 2)) if len(geoms) else math.inf
+                if dmin < clearance - tol:
+                    fail("shapely", f"{kind} at ({x:.4f}, {y:.4f}): hole is {dmin*1000:.1f} um from "
+                         f"copper of layer {layer} (not joined), clearance {clearance*1000:.1f} um")
+        if sorted(track_layers) != sorted(joins):
+            fail("shapely", f"{kind} at ({x:.4f}, {y:.4f}): tracks reach it on layers {track_layers}, "
+                 f"it joins {joins}")
+        want_land = list(range(1, layers + 1)) if kind.startswith("pad") else sorted(joins)
+        if sorted(land_layers) != want_land:
+            fail("shapely", f"{kind} at ({x:.4f}, {y:.4f}): lands on layers {land_layers}, expected {want_land}")
+    print(f"geometry: smallest turn-to-turn gap {worst*1000:.2f} um "
+          f"(clearance {clearance*1000:.1f} um), {len(hits)} drill hits checked")
+
+
+# ---------------------------------------------------------------- raster
+
+def render(gbr, origin, size, dpi, out):
+    subprocess.run(
+        ["gerbv", "-x", "png", "-D", str(dpi), "-B", "0",
+         "-O", f"{origin[0]:.6f}x{origin[1]:.6f}", "-W", f"{size[0]:.6f}x{size[1]:.6f}",
+         "-b", "#FFFFFF", "-f", "#000000FF", "-o", out, gbr],
+        check=True, capture_output=True,
+    )
+    if not os.path.exists(out) or os.path.getsize(out) == 0:
+        raise RuntimeError(f"gerbv wrote no image for {gbr}")
+
+
+def raster(d, kdir):
+    import numpy as np
+    from PIL import Image
+
+    exp = load_expect(d)
+    lay = exp["layout"]
+    layers = lay["layers"]
+    ours = copper_files(d, layers)
+    # Frame: the outline bounds plus 1 mm, in inches from the lower left.
+    lo, hi = exp["outline_bounds"]
+    m = 1.0
+    origin = ((lo[0] - m) / 25.4, (lo[1] - m) / 25.4)
+    size = ((hi[0] - lo[0] + 2 * m) / 25.4, (hi[1] - lo[1] + 2 * m) / 25.4)
+    dpi = int(min(4000, max(1000, 2500 / max(size))))
+    worst = 0.0
+    with tempfile.TemporaryDirectory() as t:
+        for layer in range(1, layers + 1):
+            kf = os.path.join(kdir, f"L{layer}.gbr")
+            if layer not in ours or not os.path.exists(kf):
+                fail("KiCad 6 pcbnew", f"no KiCad plot for layer {layer}")
+                continue
+            a_png, b_png = os.path.join(t, "a.png"), os.path.join(t, "b.png")
+            render(ours[layer], origin, size, dpi, a_png)
+            render(kf, origin, size, dpi, b_png)
+            a = np.asarray(Image.open(a_png).convert("L")) < 128
+            b = np.asarray(Image.open(b_png).convert("L")) < 128
+            if a.shape != b.shape:
+                fail("gerbv", f"layer {layer}: image sizes differ {a.shape} {b.shape}")
+                continue
+            # KiCad 6.0 plots via lands on every layer although the vias keep
+            # them only on connected layers (remove_unused_layers; pcbnew's
+            # FlashLayer() is false there): blank those discs in both images.
+            h, w = a.shape
+            yy, xx = np.mgrid[0:h, 0:w]
+            for v in lay["vias"]:
+                if layer in v["joins"]:
+                    continue
+                px = (v["at"]["x"] - (lo[0] - m)) / 25.4 * dpi
+                py = h - (v["at"]["y"] - (lo[1] - m)) / 25.4 * dpi
+                rad = v["diameter"] / 2 / 25.4 * dpi + 2
+                disc = (xx - px) ** 2 + (yy - py) ** 2 <= rad * rad
+                a = a & ~disc
+                b = b & ~disc
+            union = np.count_nonzero(a | b)
+            diff = np.count_nonzero(a ^ b)
+            frac = diff / max(union, 1)
+            worst = max(worst, frac)
+            if union == 0 or frac > 0.005:
+                fail("gerbv", f"layer {layer}: {diff} of {union} copper pixels differ "
+                     f"({frac*100:.3f} %) between our Gerber and KiCad's plot of our board")
+    print(f"raster: {layers} layers at {dpi} dpi, worst difference {worst*100:.3f} % of copper pixels")
+
+
+def main():
+    cmd, d = sys.argv[1], sys.argv[2]
+    if cmd == "readers":
+        readers(d)
+    elif cmd == "geometry":
+        geometry(d)
+    elif cmd == "raster":
+        raster(d, sys.argv[3])
+    else:
+        raise SystemExit(f"unknown command {cmd}")
+    for f in FAILS:
+        print(f)
+    sys.exit(1 if FAILS else 0)
+
+
+if __name__ == "__main__":
+    main()

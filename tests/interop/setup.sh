@@ -1,0 +1,35 @@
+#!/usr/bin/env bash
+# Installs everything the interop tests (tests/interop.rs) need:
+#   - Debian packages: kicad (6.0, its Python module `pcbnew` for Debian's
+#     /usr/bin/python3), gerbv, python3-venv;
+#   - a virtual environment .venv-interop at the repository root with the
+#     Gerber/Excellon readers and geometry/physics reference libraries.
+# Idempotent: a second run changes nothing and finishes quickly.
+# Run as root on Debian 12 (bookworm).
+set -euo pipefail
+root="$(cd "$(dirname "${BASH_SOURCE[0]}")/../.." && pwd)"
+cd "$root"
+
+need_apt=0
+[ -x /usr/bin/gerbv ] || need_apt=1
+/usr/bin/python3 -c 'import pcbnew' >/dev/null 2>&1 || need_apt=1
+/usr/bin/python3 -c 'import ensurepip, venv' >/dev/null 2>&1 || need_apt=1
+if [ "$need_apt" = 1 ]; then
+    SUDO=""
+    [ "$(id -u)" = 0 ] || SUDO="sudo"
+    $SUDO apt-get update
+    DEBIAN_FRONTEND=noninteractive $SUDO apt-get install -y --no-install-recommends \
+        kicad gerbv python3-venv python3-wxgtk4.0
+fi
+
+venv="$root/.venv-interop"
+if [ ! -x "$venv/bin/python" ]; then
+    /usr/bin/python3 -m venv "$venv"
+fi
+pins=(gerbonara==1.5.0 pygerber==2.4.3 shapely==2.2.0 numpy==2.4.6 magpylib==6.3.0 scipy==1.17.1 pillow==13.0.0)
+if ! "$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, PIL' >/dev/null 2>&1; then
+    "$venv/bin/pip" install --disable-pip-version-check -q "${pins[@]}"
+fi
+"$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy; print("interop venv ready")'
+/usr/bin/python3 -c 'import pcbnew; print("KiCad pcbnew", pcbnew.Version())'
+dpkg-query -W -f="gerbv \${Version}\n" gerbv
