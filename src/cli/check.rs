@@ -8,7 +8,15 @@ use serde_json::json;
 use std::path::Path;
 
 /// Runs `check`.
-pub fn run(spec: &Path, json: bool) -> Result<Exit, Failure> {
+pub fn run(spec: &Path, json: bool, svg: Option<&Path>, force: bool) -> Result<Exit, Failure> {
+    if let Some(file) = svg
+        && file.exists()
+        && !force
+    {
+        return Err(
+            anyhow::anyhow!("{} exists; pass --force to replace it", file.display()).into(),
+        );
+    }
     let checked = match pipeline::check(spec) {
         Ok(c) => c,
         Err(Failure::Spec { path, text, errors }) if json => {
@@ -44,6 +52,14 @@ pub fn run(spec: &Path, json: bool) -> Result<Exit, Failure> {
             ));
         }
         print_out(&s)?;
+    }
+    if let Some(file) = svg {
+        let doc = crate::export::svg::preview(
+            &checked.layout,
+            crate::export::svg::View::Stack,
+            &checked.violations,
+        );
+        super::report::write_file(file, doc.as_bytes(), force)?;
     }
     Ok(if checked.has_errors() {
         Exit::Violations

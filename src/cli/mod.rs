@@ -73,6 +73,13 @@ pub enum Command {
         /// Print the violations as JSON on standard output.
         #[arg(long)]
         json: bool,
+        /// Also write a stacked SVG preview with every violation circled
+        /// and labelled with its rule id.
+        #[arg(long, value_name = "FILE.svg")]
+        svg: Option<PathBuf>,
+        /// Replace the SVG file if it exists.
+        #[arg(long)]
+        force: bool,
     },
     /// Check the design, then write every output file (Gerber, drill, job,
     /// KiCad, SVG previews, report, manifest) into a new folder.
@@ -213,7 +220,12 @@ pub fn run(cli: Cli) -> ExitCode {
             force,
             file,
         } => init::run(&template, list, force, file.as_deref()),
-        Command::Check { spec, json } => check::run(&spec, json),
+        Command::Check {
+            spec,
+            json,
+            svg,
+            force,
+        } => check::run(&spec, json, svg.as_deref(), force),
         Command::Build { spec, out, force } => build::run(&spec, &out, force),
         Command::Report {
             spec,

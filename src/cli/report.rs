@@ -29,7 +29,7 @@ pub fn run(spec: &Path, _json: bool, out: Option<&Path>, force: bool) -> Result<
 
 /// Writes `bytes` to `file` through a temporary file in the same folder
 /// and a rename, so a reader never sees half a file.
-fn write_file(file: &Path, bytes: &[u8], force: bool) -> anyhow::Result<()> {
+pub(crate) fn write_file(file: &Path, bytes: &[u8], force: bool) -> anyhow::Result<()> {
     if file.exists() && !force {
         bail!("{} exists; pass --force to replace it", file.display());
     }

@@ -38,6 +38,16 @@ pub enum GeometryError {
     /// Layer count outside 1..=32.
     #[error("layers must be 1 to 32, got {0}")]
     Layers(u8),
+    /// The free centre cannot hold the centre vias.
+    #[error(
+        "inner diameter {given:.3} mm is too small for the centre vias; the minimum is {min:.3} mm"
+    )]
+    InnerTooSmall {
+        /// Given, mm.
+        given: f64,
+        /// Minimum, mm.
+        min: f64,
+    },
     /// The outer slots are too close for the vias and pads.
     #[error(
         "too many outside vias for the size: neighbouring slots are {gap:.3} mm apart, {need:.3} mm needed"
@@ -312,6 +322,13 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
     let p = coil.pitch();
     let via_d = design.via.diameter;
     let term_d = design.terminal.diameter;
+    let min_id = min_inner_diameter(&coil.shape, coil.layers, coil.wiring, s, w, via_d, term_d);
+    if coil.inner_diameter < min_id - 1e-9 {
+        return Err(GeometryError::InnerTooSmall {
+            given: coil.inner_diameter,
+            min: min_id,
+        });
+    }
 
     // Canonical spiral: inner end on +x, outward counter-clockwise.
     let inner = {

@@ -693,10 +693,15 @@ pub fn parse(text: &str) -> Result<Design, SpecErrors> {
                 ),
             ),
             GeometryError::Spiral(_) => ("coil", None),
+            GeometryError::InnerTooSmall { .. } => (
+                "coil.inner_diameter",
+                Some("make the free centre larger, or use smaller vias or terminal pads".to_string()),
+            ),
         };
         let span = match key {
             "coil.layers" => coil_t.span_of("layers"),
             "coil.wiring" => coil_t.span_of("wiring"),
+            "coil.inner_diameter" => coil_t.span_of("inner_diameter").or(coil_t.span.clone()),
             _ => coil_t.span.clone(),
         };
         return Err(SpecError {
