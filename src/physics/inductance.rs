@@ -287,7 +287,7 @@ fn adapt(f: &dyn Fn(f64) -> f64, a: f64, b: f64, whole: f64, depth: u32) -> f64 
     };
     let m = (a + b) / 2.0;
     let (l, r) = (g(a, m), g(m, b));
-    if depth == 0 || (l + r - whole).abs() <= 1e-9 * (l + r).abs().max(1e-30) {
+    if depth == 0 || (l + r - whole).abs() <= 1e-7 * (l + r).abs().max(1e-30) {
         l + r
     } else {
         adapt(f, a, m, l, depth - 1) + adapt(f, m, b, r, depth - 1)
@@ -350,7 +350,7 @@ fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
     let far = norm(sub(pm, qm)) > 2.0 * (lp + lq);
     let (x, w) = rule(if far { 4 } else { 8 });
     let whole = x.iter().zip(w).map(|(x, w)| w * f(lp / 2.0 * (1.0 + x))).sum::<f64>() * lp / 2.0;
-    let val = if far { whole } else { adapt(&f, 0.0, lp, whole, 14) };
+    let val = if far { whole } else { adapt(&f, 0.0, lp, whole, 10) };
     c * val
 }
 

@@ -35,7 +35,7 @@ pub const MU0: f64 = 4e-7 * std::f64::consts::PI;
 /// Relative chord sagitta for the field (on-axis error below 1e-4).
 pub const FIELD_SAGITTA: f64 = 1.5e-4;
 /// Relative chord sagitta for the Lorentz force (midpoint rule per chord).
-pub const FORCE_SAGITTA: f64 = 2e-3;
+pub const FORCE_SAGITTA: f64 = 5e-3;
 
 /// Why a layout cannot be analysed.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -78,7 +78,7 @@ pub struct FieldReport {
     /// Height of the radial profile above the top copper surface, mm.
     pub radial_height_mm: f64,
     /// Bz against the distance from the axis at that height (average of
-    /// four directions 45 degrees apart).
+    /// two directions 45 degrees apart).
     pub radial: Vec<ProfilePoint>,
     /// Radius where Bz at that height first falls to 90 % of its value on
     /// the axis, mm.
@@ -337,7 +337,7 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
     let r_out = m(layout.outer_radius);
     let b0 = segs.field_at([0.0, 0.0, 0.0])[2];
     let sign = if b0 < 0.0 { -1.0 } else { 1.0 };
-    let n_ax = 61;
+    let n_ax = 41;
     let z_max = 2.0 * r_out;
     let ax_pts: Vec<[f64; 3]> =
         (0..n_ax).map(|i| [0.0, 0.0, z_max * i as f64 / (n_ax - 1) as f64]).collect();
@@ -350,8 +350,8 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
     let h = design.magnet.map_or(0.5, |mg| mg.gap);
     let (lo, hi) = layout.outline_bounds();
     let r_edge = m(lo.x.abs().max(lo.y.abs()).max(hi.x).max(hi.y)).max(1.2 * r_out);
-    let n_r = 121;
-    let dirs = 4;
+    let n_r = 101;
+    let dirs = 2;
     let mut rad_pts = Vec::with_capacity(n_r * dirs);
     for i in 0..n_r {
         let r = r_edge * i as f64 / (n_r - 1) as f64;
