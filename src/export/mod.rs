@@ -6,6 +6,8 @@ use crate::geometry::Layout;
 use crate::physics::Analysis;
 use crate::spec::Design;
 
+pub mod report;
+
 /// One output file, not yet written.
 #[derive(Debug, Clone, PartialEq)]
 pub struct OutFile {
@@ -27,9 +29,11 @@ pub enum ExportError {
 
 /// Everything `build` writes, in a fixed order.
 pub fn bundle(
-    _design: &Design,
+    design: &Design,
     _layout: &Layout,
-    _analysis: &Analysis,
+    analysis: &Analysis,
 ) -> Result<Vec<OutFile>, ExportError> {
-    Ok(Vec::new())
+    let mut out = Vec::new();
+    out.extend(report::files(design, analysis)?);
+    Ok(out)
 }
