@@ -6,7 +6,7 @@
 //! away from the board (towards a magnet above it); layer `k` has its copper
 //! centre at `-(sum over layers above of copper + dielectric) - t_k / 2`.
 
-use crate::geometry::{Layout, Segment, Wiring};
+use crate::geometry::{Layout, Segment, TrackRole, Wiring};
 use crate::spec::Design;
 
 /// Millimetres to metres: the one place where the factor 1000 lives.
@@ -35,6 +35,8 @@ pub struct Piece {
     /// Share of the terminal current flowing here (1 in series, 1/2 in a
     /// parallel pair).
     pub weight: f64,
+    /// Spiral or lead.
+    pub role: TrackRole,
 }
 
 /// A straight current filament in 3-D, metres.
@@ -95,6 +97,7 @@ impl Conductor {
                     width: m(t.width),
                     thickness: layer_t[li],
                     weight: share,
+                    role: t.role,
                 });
             }
         }
@@ -131,6 +134,16 @@ impl Conductor {
             }
         }
         out
+    }
+
+    /// Only the spiral pieces (leads left out), for comparisons with
+    /// formulas that know only the turns.
+    pub fn without_leads(&self) -> Conductor {
+        Conductor {
+            pieces: self.pieces.iter().filter(|p| p.role == TrackRole::Winding).copied().collect(),
+            layer_z: self.layer_z.clone(),
+            layer_t: self.layer_t.clone(),
+        }
     }
 
     /// Only the pieces on `layer`, with the full current (for single-layer

@@ -22,7 +22,8 @@
 //! face points away; flip the magnet or the current to attract.
 
 use super::MU0;
-use super::conductor::{Filament, Ring};
+use super::conductor::{Filament, Piece, Ring, m};
+use crate::geometry::Segment;
 use super::elliptic::rule;
 use super::field::loop_field;
 use super::inductance::maxwell_mutual;
@@ -85,41 +86,85 @@ impl Cylinder {
     }
 }
 
-/// Method A: axial force on the magnet from the filaments carrying
-/// `current` amperes at the terminals, newton. Each filament is cut into
-/// pieces no longer than a fifth of its distance from the magnet's lower
-/// edge (and at least a tenth of the magnet radius) and integrated with
-/// 2-point Gauss-Legendre per piece.
-pub fn force_lorentz(f: &[Filament], current: f64, mag: &Cylinder) -> f64 {
-    let g = 0.5 / 3f64.sqrt();
-    let fz: f64 = f
+/// Axial force on the magnet from current elements: `items` gives, per
+/// element, a point (m) and `I dl` (A m) in the plane of the element; the
+/// result is minus the z component of the Lorentz force on them, newton.
+fn force_on_magnet(points: &[([f64; 3], [f64; 2])], mag: &Cylinder) -> f64 {
+    let fz: f64 = points
         .par_iter()
-        .map(|s| {
-            let d = [s.b[0] - s.a[0], s.b[1] - s.a[1]];
-            let len = d[0].hypot(d[1]);
-            let rho_mid = ((s.a[0] + s.b[0]) / 2.0).hypot((s.a[1] + s.b[1]) / 2.0);
-            let edge = (rho_mid - mag.radius).hypot(mag.gap - s.a[2]);
-            let max_len = (edge / 5.0).max(mag.radius / 10.0);
-            let n = (len / max_len).ceil().max(1.0) as usize;
-            let mut acc = 0.0;
-            for i in 0..n {
-                for off in [0.5 - g, 0.5 + g] {
-                    let t = (i as f64 + off) / n as f64;
-                    let p = [s.a[0] + d[0] * t, s.a[1] + d[1] * t];
-                    let rho = p[0].hypot(p[1]);
-                    if rho < 1e-12 {
-                        continue;
-                    }
-                    let (brho, _) = mag.field(rho, s.a[2]);
-                    let (bx, by) = (brho * p[0] / rho, brho * p[1] / rho);
-                    // (dl x B)_z = dl_x B_y - dl_y B_x, dl = d / (2n) per Gauss point.
-                    acc += (d[0] * by - d[1] * bx) / (2 * n) as f64;
-                }
+        .map(|(p, idl)| {
+            let rho = p[0].hypot(p[1]);
+            if rho < 1e-12 {
+                return 0.0;
             }
-            current * s.weight * acc
+            let (brho, _) = mag.field(rho, p[2]);
+            let (bx, by) = (brho * p[0] / rho, brho * p[1] / rho);
+            // (dl x B)_z = dl_x B_y - dl_y B_x.
+            idl[0] * by - idl[1] * bx
         })
         .sum();
     -fz
+}
+
+/// Length limit for one integration piece at distance `edge` from the
+/// magnet's lower edge, m.
+fn piece_len(edge: f64, mag: &Cylinder) -> f64 {
+    (edge / 5.0).max(mag.radius / 10.0)
+}
+
+/// Method A on straight filaments carrying `current` amperes at the
+/// terminals, newton. Each filament is cut into pieces no longer than a
+/// fifth of its distance from the magnet's lower edge (and at least a
+/// tenth of the magnet radius), with 2-point Gauss-Legendre per piece.
+pub fn force_lorentz(f: &[Filament], current: f64, mag: &Cylinder) -> f64 {
+    let g = 0.5 / 3f64.sqrt();
+    let mut pts = Vec::new();
+    for s in f {
+        let d = [s.b[0] - s.a[0], s.b[1] - s.a[1]];
+        let len = d[0].hypot(d[1]);
+        let rho_mid = ((s.a[0] + s.b[0]) / 2.0).hypot((s.a[1] + s.b[1]) / 2.0);
+        let edge = (rho_mid - mag.radius).hypot(mag.gap - s.a[2]);
+        let n = (len / piece_len(edge, mag)).ceil().max(1.0) as usize;
+        let c = current * s.weight / (2 * n) as f64;
+        for i in 0..n {
+            for off in [0.5 - g, 0.5 + g] {
+                let t = (i as f64 + off) / n as f64;
+                pts.push(([s.a[0] + d[0] * t, s.a[1] + d[1] * t, s.a[2]], [c * d[0], c * d[1]]));
+            }
+        }
+    }
+    force_on_magnet(&pts, mag)
+}
+
+/// Method A on the exact pieces (true arcs, no flattening), newton: the
+/// same integration with the points and tangents of the arcs themselves.
+pub fn force_lorentz_pieces(pieces: &[Piece], current: f64, mag: &Cylinder) -> f64 {
+    let g = 0.5 / 3f64.sqrt();
+    let mut pts = Vec::new();
+    for p in pieces {
+        let len = m(p.segment.length());
+        let mid = p.segment.point_at(0.5);
+        let edge = (m(mid.radius()) - mag.radius).hypot(mag.gap - p.z);
+        let n = (len / piece_len(edge, mag)).ceil().max(1.0) as usize;
+        let c = current * p.weight;
+        for i in 0..n {
+            for off in [0.5 - g, 0.5 + g] {
+                let t = (i as f64 + off) / n as f64;
+                let q = p.segment.point_at(t);
+                // Tangent times length of this Gauss point's share.
+                let dl = match p.segment {
+                    Segment::Line(l) => [m(l.end.x - l.start.x), m(l.end.y - l.start.y)],
+                    Segment::Arc(a) => {
+                        let r = q - a.center;
+                        [m(-r.y * a.sweep), m(r.x * a.sweep)]
+                    }
+                };
+                let w = c / (2 * n) as f64;
+                pts.push(([m(q.x), m(q.y), p.z], [w * dl[0], w * dl[1]]));
+            }
+        }
+    }
+    force_on_magnet(&pts, mag)
 }
 
 /// Method B: axial force on the magnet with the conductor as coaxial ring

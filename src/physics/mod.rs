@@ -34,8 +34,6 @@ pub const MU0: f64 = 4e-7 * std::f64::consts::PI;
 
 /// Relative chord sagitta for the field (on-axis error below 1e-4).
 pub const FIELD_SAGITTA: f64 = 1.5e-4;
-/// Relative chord sagitta for the Lorentz force (midpoint rule per chord).
-pub const FORCE_SAGITTA: f64 = 5e-3;
 
 /// Why a layout cannot be analysed.
 #[derive(Debug, Clone, PartialEq, thiserror::Error)]
@@ -438,8 +436,7 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
             remanence: mg.remanence,
             gap: m(mg.gap),
         };
-        let ff = cond.filaments(FORCE_SAGITTA);
-        let fa = magnet::force_lorentz(&ff, 1.0, &cyl);
+        let fa = magnet::force_lorentz_pieces(&cond.pieces, 1.0, &cyl);
         let rings = cond.rings();
         let fb = magnet::force_rings(&rings, 1.0, &cyl);
         let diff = if fa != 0.0 { ((fa - fb) / fa).abs() } else { 0.0 };
@@ -610,12 +607,15 @@ fn published_estimates(design: &Design, layout: &Layout, method: InductanceMetho
         Shape::Rectangle { .. } => (None, 1.0),
     };
     // Outer size across flats from the circumscribed diameter; the inner
-    // one is the free circle's diameter (already across flats).
+    // one is the free circle's diameter (already across flats). A spiral of
+    // n turns reaches half a pitch further in and out than n concentric
+    // turns (which the formulas assume) of the same mean size: use those.
+    let p = layout.pitch;
     let d_out = match design.coil.shape {
         Shape::Circle => 2.0 * layout.outer_radius,
         _ => 2.0 * layout.outer_radius * flats,
-    };
-    let d_in = 2.0 * layout.inner_radius;
+    } - p;
+    let d_in = 2.0 * layout.inner_radius + p;
     let (mw, cs, wh) = match shape {
         Some(s) if d_out > d_in && d_in > 0.0 => (
             closed_forms::mohan_modified_wheeler(s, n, m(d_out), m(d_in)),
