@@ -161,35 +161,65 @@ impl Conductor {
         }
     }
 
-    /// The pieces as coaxial ring elements: each piece counts as the
-    /// fraction `swept / 2 pi` of a circular loop about the axis at its mean
-    /// distance from the axis (Simpson average of start, middle and end).
-    /// Exact for arcs about the axis; for the circular spiral, whose
-    /// half-turns are centred a quarter pitch off the axis, the error is of
+    /// The conductor as coaxial rings, one per turn: consecutive pieces of
+    /// a layer are gathered (each counting as the fraction `swept / 2 pi` of
+    /// a loop, at its mean distance from the axis: Simpson average of start,
+    /// middle and end) until they make a whole turn, and the turn becomes
+    /// one loop at the fraction-weighted mean radius. A piece that completes
+    /// a turn is split by fraction. The rest of a layer is a partial ring.
+    ///
+    /// Exact for arcs about the axis; the circular spiral (half-turns
+    /// centred a quarter pitch off the axis) differs from its rings by
     /// order (pitch / radius)^2.
     pub fn rings(&self) -> Vec<Ring> {
-        self.pieces
-            .iter()
-            .filter_map(|p| {
-                let frac = p.segment.swept_about_origin() / std::f64::consts::TAU;
-                if frac.abs() < 1e-12 {
-                    return None;
+        let mut out = Vec::new();
+        let mut acc: Option<(Ring, f64)> = None; // (ring so far, sum |f| r)
+        let flush = |acc: &mut Option<(Ring, f64)>, out: &mut Vec<Ring>| {
+            if let Some((mut r, fr)) = acc.take() {
+                let total = r.frac.abs();
+                if total > 1e-12 {
+                    r.radius = fr / total;
+                    out.push(r);
                 }
-                let r = (p.segment.start().radius()
-                    + 4.0 * p.segment.point_at(0.5).radius()
-                    + p.segment.end().radius())
-                    / 6.0;
-                Some(Ring {
-                    radius: m(r),
-                    z: p.z,
-                    frac,
-                    width: p.width,
-                    thickness: p.thickness,
-                    weight: p.weight,
-                    layer: p.layer,
-                })
-            })
-            .collect()
+            }
+        };
+        for p in &self.pieces {
+            let frac = p.segment.swept_about_origin() / std::f64::consts::TAU;
+            if frac.abs() < 1e-12 {
+                continue;
+            }
+            let r = m((p.segment.start().radius() + 4.0 * p.segment.point_at(0.5).radius() + p.segment.end().radius()) / 6.0);
+            if let Some((ring, _)) = &acc
+                && (ring.layer != p.layer || ring.weight != p.weight)
+            {
+                flush(&mut acc, &mut out);
+            }
+            let mut left = frac;
+            while left.abs() > 1e-12 {
+                let (ring, fr) = acc.get_or_insert((
+                    Ring {
+                        radius: r,
+                        z: p.z,
+                        frac: 0.0,
+                        width: p.width,
+                        thickness: p.thickness,
+                        weight: p.weight,
+                        layer: p.layer,
+                    },
+                    0.0,
+                ));
+                let room = 1.0 - ring.frac.abs();
+                let take = left.abs().min(room) * left.signum();
+                ring.frac += take;
+                *fr += take.abs() * r;
+                left -= take;
+                if ring.frac.abs() >= 1.0 - 1e-12 {
+                    flush(&mut acc, &mut out);
+                }
+            }
+        }
+        flush(&mut acc, &mut out);
+        out
     }
 }
 
