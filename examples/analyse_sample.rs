@@ -17,7 +17,12 @@ fn main() {
     match args.get(3).map(|s| s.as_str()) {
         Some("hex") => d.coil.shape = Shape::Polygon { sides: 6 },
         Some("square") => d.coil.shape = Shape::Polygon { sides: 4 },
-        Some("rect") => d.coil.shape = Shape::Rectangle { width: 30.0, height: 20.0 },
+        Some("rect") => {
+            d.coil.shape = Shape::Rectangle {
+                width: 30.0,
+                height: 20.0,
+            }
+        }
         _ => {}
     }
     let layout = coilwright::geometry::build(&d).expect("layout");

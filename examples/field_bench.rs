@@ -11,7 +11,12 @@ use std::time::Instant;
 
 fn main() -> Result<(), Box<dyn std::error::Error>> {
     let args: Vec<String> = std::env::args().collect();
-    let get = |k: &str| args.iter().position(|a| a == k).and_then(|i| args.get(i + 1)).cloned();
+    let get = |k: &str| {
+        args.iter()
+            .position(|a| a == k)
+            .and_then(|i| args.get(i + 1))
+            .cloned()
+    };
     let n: usize = get("--n").map_or(Ok(10_000), |s| s.parse())?;
     // A flat spiral of 100 turns (like a coil), 100 segments per turn.
     let verts: Vec<[f64; 3]> = (0..=n)
@@ -30,7 +35,11 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     let points: Vec<[f64; 3]> = (0..n)
         .map(|k| {
             let (i, j) = (k % side, k / side);
-            [-0.015 + 0.03 * i as f64 / side as f64, -0.015 + 0.03 * j as f64 / side as f64, 0.001]
+            [
+                -0.015 + 0.03 * i as f64 / side as f64,
+                -0.015 + 0.03 * j as f64 / side as f64,
+                0.001,
+            ]
         })
         .collect();
     let t = Instant::now();

@@ -3,7 +3,11 @@
 use coilwright::spec::Design;
 
 fn main() -> Result<(), Box<dyn std::error::Error>> {
-    let dir = std::path::PathBuf::from(std::env::args().nth(1).unwrap_or_else(|| "out-report".into()));
+    let dir = std::path::PathBuf::from(
+        std::env::args()
+            .nth(1)
+            .unwrap_or_else(|| "out-report".into()),
+    );
     let d = Design::sample();
     let layout = coilwright::geometry::build(&d)?;
     let a = coilwright::physics::analyse(&d, &layout)?;

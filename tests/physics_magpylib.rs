@@ -10,8 +10,11 @@ use coilwright::physics::{FIELD_SAGITTA, analyse, conductor::Conductor, field::S
 use serde_json::Value;
 
 fn fixture() -> Value {
-    let text = std::fs::read_to_string(concat!(env!("CARGO_MANIFEST_DIR"), "/tests/fixtures/magpylib_reference.json"))
-        .expect("fixture");
+    let text = std::fs::read_to_string(concat!(
+        env!("CARGO_MANIFEST_DIR"),
+        "/tests/fixtures/magpylib_reference.json"
+    ))
+    .expect("fixture");
     serde_json::from_str(&text).expect("fixture json")
 }
 
@@ -19,7 +22,10 @@ fn fixture() -> Value {
 fn field_matches_magpylib_polylines() {
     let fx = fixture();
     assert!(fx["magpylib_version"].as_str().is_some());
-    for ((name, d), case) in designs::cases().into_iter().zip(fx["cases"].as_array().unwrap()) {
+    for ((name, d), case) in designs::cases()
+        .into_iter()
+        .zip(fx["cases"].as_array().unwrap())
+    {
         assert_eq!(case["name"], name);
         let layout = coilwright::geometry::build(&d).unwrap();
         let cond = Conductor::new(&d, &layout);
@@ -27,14 +33,20 @@ fn field_matches_magpylib_polylines() {
         let segs = Segments::new(&fil, 1.0);
         let refb: Vec<[f64; 3]> = serde_json::from_value(case["b_t_per_a"].clone()).unwrap();
         let pts: Vec<[f64; 3]> = serde_json::from_value(case["points_m"].clone()).unwrap();
-        let scale = refb.iter().flat_map(|b| b.iter()).fold(0.0f64, |m, v| m.max(v.abs()));
+        let scale = refb
+            .iter()
+            .flat_map(|b| b.iter())
+            .fold(0.0f64, |m, v| m.max(v.abs()));
         for (p, rb) in pts.iter().zip(&refb) {
             let b = segs.field_at(*p);
             for k in 0..3 {
                 // Same polylines, exact formulas on both sides: agreement to
                 // 1e-7 of the largest value (magpylib's mu0 is CODATA 2022,
                 // 1.3e-10 off ours).
-                assert!((b[k] - rb[k]).abs() < 1e-7 * scale, "{name} at {p:?}: {b:?} vs magpylib {rb:?}");
+                assert!(
+                    (b[k] - rb[k]).abs() < 1e-7 * scale,
+                    "{name} at {p:?}: {b:?} vs magpylib {rb:?}"
+                );
             }
         }
     }
@@ -43,8 +55,13 @@ fn field_matches_magpylib_polylines() {
 #[test]
 fn force_matches_magpylib_cylinder_field() {
     let fx = fixture();
-    for ((name, d), case) in designs::cases().into_iter().zip(fx["cases"].as_array().unwrap()) {
-        let Some(reference) = case["force_n_per_a"].as_f64() else { continue };
+    for ((name, d), case) in designs::cases()
+        .into_iter()
+        .zip(fx["cases"].as_array().unwrap())
+    {
+        let Some(reference) = case["force_n_per_a"].as_f64() else {
+            continue;
+        };
         let layout = coilwright::geometry::build(&d).unwrap();
         let a = analyse(&d, &layout).unwrap();
         let m = a.magnet.expect("magnet");
@@ -58,7 +75,11 @@ fn force_matches_magpylib_cylinder_field() {
         assert!((a.force_per_a_n.unwrap() - m.lorentz_n_per_a).abs() < 1e-15);
         // Method B (coaxial rings) is a cross-check for round shapes.
         if name.starts_with("circle") || name.starts_with("hexagon") {
-            assert!((m.rings_n_per_a / reference - 1.0).abs() < 0.03, "{name}: rings {}", m.rings_n_per_a);
+            assert!(
+                (m.rings_n_per_a / reference - 1.0).abs() < 0.03,
+                "{name}: rings {}",
+                m.rings_n_per_a
+            );
         }
     }
 }

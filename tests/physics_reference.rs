@@ -49,10 +49,17 @@ fn single_layer_circle_against_published_formulas_and_grover_sum() {
     let mut grover = 0.0;
     for (i, a) in radii.iter().enumerate() {
         for (j, b) in radii.iter().enumerate() {
-            grover += if i == j { closed_forms::ring_self(*a, w, t) } else { maxwell_mutual(*a, *b, 0.0) };
+            grover += if i == j {
+                closed_forms::ring_self(*a, w, t)
+            } else {
+                maxwell_mutual(*a, *b, 0.0)
+            };
         }
     }
-    assert!((l / grover - 1.0).abs() < 0.01, "L {l} vs Grover sum {grover}");
+    assert!(
+        (l / grover - 1.0).abs() < 0.01,
+        "L {l} vs Grover sum {grover}"
+    );
     // The report's single-layer value includes the leads: a little more.
     let a = analyse(&d, &layout).unwrap();
     assert!(a.inductance.single_layer_h > l && a.inductance.single_layer_h < 1.15 * l);
@@ -86,7 +93,11 @@ fn field_of_a_real_spiral_against_flat_spiral_closed_form() {
     let r2 = (layout.outer_radius - layout.pitch / 2.0 + layout.trace_width / 2.0) * 1e-3;
     let z = 0.035e-3 / 2.0; // top surface is half a copper thickness above the copper centre
     let exact = closed_forms::spiral_on_axis(1.0, 10.0, r1, r2, z);
-    assert!((a.field_center_t_per_a / exact - 1.0).abs() < 0.02, "{} vs {exact}", a.field_center_t_per_a);
+    assert!(
+        (a.field_center_t_per_a / exact - 1.0).abs() < 0.02,
+        "{} vs {exact}",
+        a.field_center_t_per_a
+    );
 }
 
 #[test]
@@ -95,17 +106,27 @@ fn resistance_of_a_layout_is_the_iacs_hand_calculation() {
     let d = Design::sample();
     let layout = build(&d).unwrap();
     let a = analyse(&d, &layout).unwrap();
-    let hand: f64 = a.layers.iter().map(|l| 1.7241e-8 * l.length_mm * 1e-3 / (0.1e-3 * 35e-6)).sum();
+    let hand: f64 = a
+        .layers
+        .iter()
+        .map(|l| 1.7241e-8 * l.length_mm * 1e-3 / (0.1e-3 * 35e-6))
+        .sum();
     assert!((a.resistance_ohm_20c - a.vias_ohm_20c - hand).abs() < 1e-9 * hand);
     let total_len: f64 = a.layers.iter().map(|l| l.length_mm).sum();
     assert!((total_len - a.trace_length_mm).abs() < 1e-9);
     let t = a.temperature_c.unwrap();
-    assert!((a.resistance_ohm_hot - resistance::at_temperature(a.resistance_ohm_20c, t)).abs() < 1e-12);
+    assert!(
+        (a.resistance_ohm_hot - resistance::at_temperature(a.resistance_ohm_20c, t)).abs() < 1e-12
+    );
 }
 
 #[test]
 fn heating_satisfies_its_energy_balance() {
-    for src in [Source::Voltage(3.3), Source::Current(0.2), Source::Voltage(1.0)] {
+    for src in [
+        Source::Voltage(3.3),
+        Source::Current(0.2),
+        Source::Voltage(1.0),
+    ] {
         let mut d = Design::sample();
         d.drive.source = src;
         let layout = build(&d).unwrap();
@@ -113,10 +134,15 @@ fn heating_satisfies_its_energy_balance() {
         let t = a.temperature_c.unwrap();
         // Electrical power at the solved temperature equals the heat leaving
         // both faces (convection up and down plus radiation).
-        assert!((a.power_w / a.thermal.losses.power_w - 1.0).abs() < 1e-8, "{src:?}");
+        assert!(
+            (a.power_w / a.thermal.losses.power_w - 1.0).abs() < 1e-8,
+            "{src:?}"
+        );
         let h = &a.thermal.losses;
         let area = a.thermal.area_mm2 * 1e-6;
-        let out = area * (h.h_top_w_per_m2k + h.h_bottom_w_per_m2k + 2.0 * h.h_radiation_w_per_m2k) * (t - 25.0);
+        let out = area
+            * (h.h_top_w_per_m2k + h.h_bottom_w_per_m2k + 2.0 * h.h_radiation_w_per_m2k)
+            * (t - 25.0);
         assert!((out / a.power_w - 1.0).abs() < 1e-8);
         // At the limits the temperature is max_temperature.
         let b = thermal::Board {
@@ -140,7 +166,11 @@ fn overdriven_coil_warns() {
     let layout = build(&d).unwrap();
     let a = analyse(&d, &layout).unwrap();
     assert!(a.temperature_c.unwrap() > 80.0);
-    assert!(a.warnings[0].contains("exceeds max_temperature 80 C"), "{:?}", a.warnings);
+    assert!(
+        a.warnings[0].contains("exceeds max_temperature 80 C"),
+        "{:?}",
+        a.warnings
+    );
     assert!(a.thermal.pulse_s.unwrap() > 0.0);
     let md = coilwright::export::report::markdown(&d, &a);
     assert!(md.find("## Warnings").unwrap() < md.find("## At the drive").unwrap());

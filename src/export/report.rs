@@ -24,10 +24,18 @@ pub fn files(design: &Design, analysis: &Analysis) -> Result<Vec<OutFile>, Expor
             role: "engineering report".into(),
             bytes: markdown(design, analysis).into_bytes(),
         },
-        OutFile { path: "report.json".into(), role: "engineering report (JSON, SI units)".into(), bytes: json },
+        OutFile {
+            path: "report.json".into(),
+            role: "engineering report (JSON, SI units)".into(),
+            bytes: json,
+        },
     ];
     for (name, role, svg) in plots(analysis) {
-        out.push(OutFile { path: format!("plots/{name}"), role: role.into(), bytes: svg.into_bytes() });
+        out.push(OutFile {
+            path: format!("plots/{name}"),
+            role: role.into(),
+            bytes: svg.into_bytes(),
+        });
     }
     Ok(out)
 }
@@ -49,7 +57,10 @@ pub fn plots(a: &Analysis) -> Vec<(String, &'static str, String)> {
             "field_radial.svg".to_string(),
             "plot: field across the coil",
             line_plot(
-                &format!("Bz across the coil, {:.2} mm above the top copper (per ampere)", a.field.radial_height_mm),
+                &format!(
+                    "Bz across the coil, {:.2} mm above the top copper (per ampere)",
+                    a.field.radial_height_mm
+                ),
                 "distance from axis (mm)",
                 "Bz (mT/A)",
                 &[("Bz", to_xy(&a.field.radial, 1e3))],
@@ -57,7 +68,11 @@ pub fn plots(a: &Analysis) -> Vec<(String, &'static str, String)> {
         ),
     ];
     if let Some(m) = &a.magnet {
-        let pts: Vec<(f64, f64)> = m.force_vs_gap.iter().map(|p| (p.gap_mm, p.force_n_per_a * 1e3)).collect();
+        let pts: Vec<(f64, f64)> = m
+            .force_vs_gap
+            .iter()
+            .map(|p| (p.gap_mm, p.force_n_per_a * 1e3))
+            .collect();
         v.push((
             "force_gap.svg".to_string(),
             "plot: force on the magnet against gap",
@@ -82,12 +97,20 @@ fn ticks(lo: f64, hi: f64, n: usize) -> (f64, f64, f64) {
     let span = (hi - lo).abs().max(1e-12);
     let raw = span / n as f64;
     let p = 10f64.powf(raw.log10().floor());
-    let step = [1.0, 2.0, 5.0, 10.0].iter().map(|m| m * p).find(|s| *s >= raw).unwrap_or(10.0 * p);
+    let step = [1.0, 2.0, 5.0, 10.0]
+        .iter()
+        .map(|m| m * p)
+        .find(|s| *s >= raw)
+        .unwrap_or(10.0 * p);
     ((lo / step).floor() * step, (hi / step).ceil() * step, step)
 }
 
 fn fmt_tick(v: f64, step: f64) -> String {
-    let dec = if step >= 1.0 { 0 } else { (-step.log10().floor()) as usize };
+    let dec = if step >= 1.0 {
+        0
+    } else {
+        (-step.log10().floor()) as usize
+    };
     let s = format!("{v:.dec$}");
     if s == "-0" || s.starts_with("-0.") && s.trim_start_matches("-0.").chars().all(|c| c == '0') {
         s.trim_start_matches('-').to_string()
@@ -97,15 +120,27 @@ fn fmt_tick(v: f64, step: f64) -> String {
 }
 
 fn esc(s: &str) -> String {
-    s.replace('&', "&amp;").replace('<', "&lt;").replace('>', "&gt;")
+    s.replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;")
 }
 
 /// A line plot with axes, ticks, grid, labels and a legend, as SVG text.
-pub fn line_plot(title: &str, xlabel: &str, ylabel: &str, series: &[(&str, Vec<(f64, f64)>)]) -> String {
+pub fn line_plot(
+    title: &str,
+    xlabel: &str,
+    ylabel: &str,
+    series: &[(&str, Vec<(f64, f64)>)],
+) -> String {
     let (w, h) = (640.0, 400.0);
     let (l, r, t, b) = (78.0, 20.0, 40.0, 56.0);
     let all = series.iter().flat_map(|s| s.1.iter());
-    let (mut x0, mut x1, mut y0, mut y1) = (f64::INFINITY, f64::NEG_INFINITY, f64::INFINITY, f64::NEG_INFINITY);
+    let (mut x0, mut x1, mut y0, mut y1) = (
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+    );
     for &(x, y) in all {
         if x.is_finite() && y.is_finite() {
             x0 = x0.min(x);
@@ -133,27 +168,73 @@ pub fn line_plot(title: &str, xlabel: &str, ylabel: &str, series: &[(&str, Vec<(
         s,
         r#"<svg xmlns="http://www.w3.org/2000/svg" width="{w}" height="{h}" viewBox="0 0 {w} {h}" font-family="DejaVu Sans, Arial, sans-serif" font-size="12">"#
     );
-    let _ = writeln!(s, r##"<rect x="0" y="0" width="{w}" height="{h}" fill="#ffffff"/>"##);
-    let _ = writeln!(s, r##"<text x="{}" y="22" text-anchor="middle" font-size="14" fill="#1a1a1a">{}</text>"##, w / 2.0, esc(title));
+    let _ = writeln!(
+        s,
+        r##"<rect x="0" y="0" width="{w}" height="{h}" fill="#ffffff"/>"##
+    );
+    let _ = writeln!(
+        s,
+        r##"<text x="{}" y="22" text-anchor="middle" font-size="14" fill="#1a1a1a">{}</text>"##,
+        w / 2.0,
+        esc(title)
+    );
     // Grid and ticks.
     let mut x = xa;
     while x <= xb + xs * 1e-9 {
         let gx = px(x);
-        let _ = writeln!(s, r##"<line x1="{gx:.2}" y1="{:.2}" x2="{gx:.2}" y2="{:.2}" stroke="#e4e4e4"/>"##, py(ya), py(yb));
-        let _ = writeln!(s, r##"<line x1="{gx:.2}" y1="{:.2}" x2="{gx:.2}" y2="{:.2}" stroke="#333333"/>"##, py(ya), py(ya) + 5.0);
-        let _ = writeln!(s, r##"<text x="{gx:.2}" y="{:.2}" text-anchor="middle" fill="#333333">{}</text>"##, py(ya) + 18.0, fmt_tick(x, xs));
+        let _ = writeln!(
+            s,
+            r##"<line x1="{gx:.2}" y1="{:.2}" x2="{gx:.2}" y2="{:.2}" stroke="#e4e4e4"/>"##,
+            py(ya),
+            py(yb)
+        );
+        let _ = writeln!(
+            s,
+            r##"<line x1="{gx:.2}" y1="{:.2}" x2="{gx:.2}" y2="{:.2}" stroke="#333333"/>"##,
+            py(ya),
+            py(ya) + 5.0
+        );
+        let _ = writeln!(
+            s,
+            r##"<text x="{gx:.2}" y="{:.2}" text-anchor="middle" fill="#333333">{}</text>"##,
+            py(ya) + 18.0,
+            fmt_tick(x, xs)
+        );
         x += xs;
     }
     let mut y = ya;
     while y <= yb + ys * 1e-9 {
         let gy = py(y);
-        let _ = writeln!(s, r##"<line x1="{:.2}" y1="{gy:.2}" x2="{:.2}" y2="{gy:.2}" stroke="#e4e4e4"/>"##, px(xa), px(xb));
-        let _ = writeln!(s, r##"<line x1="{:.2}" y1="{gy:.2}" x2="{:.2}" y2="{gy:.2}" stroke="#333333"/>"##, px(xa) - 5.0, px(xa));
-        let _ = writeln!(s, r##"<text x="{:.2}" y="{:.2}" text-anchor="end" fill="#333333">{}</text>"##, px(xa) - 8.0, gy + 4.0, fmt_tick(y, ys));
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{gy:.2}" x2="{:.2}" y2="{gy:.2}" stroke="#e4e4e4"/>"##,
+            px(xa),
+            px(xb)
+        );
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{gy:.2}" x2="{:.2}" y2="{gy:.2}" stroke="#333333"/>"##,
+            px(xa) - 5.0,
+            px(xa)
+        );
+        let _ = writeln!(
+            s,
+            r##"<text x="{:.2}" y="{:.2}" text-anchor="end" fill="#333333">{}</text>"##,
+            px(xa) - 8.0,
+            gy + 4.0,
+            fmt_tick(y, ys)
+        );
         y += ys;
     }
     if ya < 0.0 && yb > 0.0 {
-        let _ = writeln!(s, r##"<line x1="{:.2}" y1="{:.2}" x2="{:.2}" y2="{:.2}" stroke="#999999" stroke-dasharray="4 3"/>"##, px(xa), py(0.0), px(xb), py(0.0));
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{:.2}" x2="{:.2}" y2="{:.2}" stroke="#999999" stroke-dasharray="4 3"/>"##,
+            px(xa),
+            py(0.0),
+            px(xb),
+            py(0.0)
+        );
     }
     // Axes.
     let _ = writeln!(
@@ -166,7 +247,13 @@ pub fn line_plot(title: &str, xlabel: &str, ylabel: &str, series: &[(&str, Vec<(
         px(xb),
         py(ya)
     );
-    let _ = writeln!(s, r##"<text x="{:.2}" y="{:.2}" text-anchor="middle" fill="#1a1a1a">{}</text>"##, (px(xa) + px(xb)) / 2.0, h - 14.0, esc(xlabel));
+    let _ = writeln!(
+        s,
+        r##"<text x="{:.2}" y="{:.2}" text-anchor="middle" fill="#1a1a1a">{}</text>"##,
+        (px(xa) + px(xb)) / 2.0,
+        h - 14.0,
+        esc(xlabel)
+    );
     let _ = writeln!(
         s,
         r##"<text x="18" y="{:.2}" text-anchor="middle" fill="#1a1a1a" transform="rotate(-90 18 {:.2})">{}</text>"##,
@@ -181,14 +268,35 @@ pub fn line_plot(title: &str, xlabel: &str, ylabel: &str, series: &[(&str, Vec<(
             .iter()
             .filter(|p| p.0.is_finite() && p.1.is_finite())
             .enumerate()
-            .map(|(k, &(x, y))| format!("{}{:.2},{:.2}", if k == 0 { "M" } else { "L" }, px(x), py(y)))
+            .map(|(k, &(x, y))| {
+                format!(
+                    "{}{:.2},{:.2}",
+                    if k == 0 { "M" } else { "L" },
+                    px(x),
+                    py(y)
+                )
+            })
             .collect();
-        let _ = writeln!(s, r#"<path d="{}" fill="none" stroke="{c}" stroke-width="2"/>"#, d.join(" "));
+        let _ = writeln!(
+            s,
+            r#"<path d="{}" fill="none" stroke="{c}" stroke-width="2"/>"#,
+            d.join(" ")
+        );
         if series.len() > 1 {
             let ly = t + 14.0 + 16.0 * i as f64;
             let lx = w - r - 150.0;
-            let _ = writeln!(s, r#"<line x1="{lx}" y1="{ly}" x2="{}" y2="{ly}" stroke="{c}" stroke-width="2"/>"#, lx + 20.0);
-            let _ = writeln!(s, r##"<text x="{}" y="{}" fill="#1a1a1a">{}</text>"##, lx + 26.0, ly + 4.0, esc(name));
+            let _ = writeln!(
+                s,
+                r#"<line x1="{lx}" y1="{ly}" x2="{}" y2="{ly}" stroke="{c}" stroke-width="2"/>"#,
+                lx + 20.0
+            );
+            let _ = writeln!(
+                s,
+                r##"<text x="{}" y="{}" fill="#1a1a1a">{}</text>"##,
+                lx + 26.0,
+                ly + 4.0,
+                esc(name)
+            );
         }
     }
     s.push_str("</svg>\n");
@@ -240,58 +348,128 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         Source::Voltage(v) => format!("{v} V"),
         Source::Current(i) => format!("{i} A"),
     };
-    let _ = writeln!(s, "## At the drive ({drive}, ambient {} C)\n", a.inputs.ambient_c);
+    let _ = writeln!(
+        s,
+        "## At the drive ({drive}, ambient {} C)\n",
+        a.inputs.ambient_c
+    );
     let _ = writeln!(s, "| quantity | value |\n|---|---|");
-    let temp = a.temperature_c.map_or("no steady state (burns out)".to_string(), |t| format!("{t:.1} C"));
+    let temp = a
+        .temperature_c
+        .map_or("no steady state (burns out)".to_string(), |t| {
+            format!("{t:.1} C")
+        });
     let rows = [
         ("current", format!("{:.4} A", a.current_a)),
         ("voltage", format!("{:.4} V", a.voltage_v)),
         ("power", format!("{:.4} W", a.power_w)),
         ("steady temperature", temp),
-        ("resistance at 20 C", format!("{:.4} ohm", a.resistance_ohm_20c)),
-        ("resistance at operating temperature", format!("{:.4} ohm", a.resistance_ohm_hot)),
+        (
+            "resistance at 20 C",
+            format!("{:.4} ohm", a.resistance_ohm_20c),
+        ),
+        (
+            "resistance at operating temperature",
+            format!("{:.4} ohm", a.resistance_ohm_hot),
+        ),
         ("inductance", si(a.inductance_h, "H")),
-        ("field at the centre of the top copper, per ampere", format!("{:.4} mT/A", a.field_center_t_per_a * 1e3)),
-        ("field at the centre at the drive", format!("{:.4} mT", a.field.center_at_drive_t * 1e3)),
+        (
+            "field at the centre of the top copper, per ampere",
+            format!("{:.4} mT/A", a.field_center_t_per_a * 1e3),
+        ),
+        (
+            "field at the centre at the drive",
+            format!("{:.4} mT", a.field.center_at_drive_t * 1e3),
+        ),
         (
             "max current / voltage for max_temperature",
-            format!("{:.4} A / {:.4} V (at {} C)", a.max_current_a, a.max_voltage_v, a.inputs.max_temperature_c),
+            format!(
+                "{:.4} A / {:.4} V (at {} C)",
+                a.max_current_a, a.max_voltage_v, a.inputs.max_temperature_c
+            ),
         ),
         ("trace length", format!("{:.1} mm", a.trace_length_mm)),
         ("finished thickness", format!("{:.3} mm", a.thickness_mm)),
-        ("min bend radius, static / dynamic", format!("{:.2} mm / {:.2} mm", a.bend_radius_min_mm, a.bend_radius_dynamic_mm)),
+        (
+            "min bend radius, static / dynamic",
+            format!(
+                "{:.2} mm / {:.2} mm",
+                a.bend_radius_min_mm, a.bend_radius_dynamic_mm
+            ),
+        ),
     ];
     for (k, v) in rows {
         let _ = writeln!(s, "| {k} | {v} |");
     }
     if let Some(m) = &a.magnet {
-        let _ = writeln!(s, "| force on the magnet at the drive | {:.4} mN |", m.force_n * 1e3);
-        let _ = writeln!(s, "| force per ampere | {:.4} mN/A |", m.force_per_a_n * 1e3);
-        let _ = writeln!(s, "| force per square-root watt | {:.4} mN/sqrt(W) |", m.force_per_sqrt_w_n * 1e3);
+        let _ = writeln!(
+            s,
+            "| force on the magnet at the drive | {:.4} mN |",
+            m.force_n * 1e3
+        );
+        let _ = writeln!(
+            s,
+            "| force per ampere | {:.4} mN/A |",
+            m.force_per_a_n * 1e3
+        );
+        let _ = writeln!(
+            s,
+            "| force per square-root watt | {:.4} mN/sqrt(W) |",
+            m.force_per_sqrt_w_n * 1e3
+        );
     }
     let _ = writeln!(s);
 
-    let _ = writeln!(s, "## Layers\n\n| layer | group | length (mm) | copper (um) | R at 20 C (ohm) |\n|---|---|---|---|---|");
+    let _ = writeln!(
+        s,
+        "## Layers\n\n| layer | group | length (mm) | copper (um) | R at 20 C (ohm) |\n|---|---|---|---|---|"
+    );
     for l in &a.layers {
-        let _ = writeln!(s, "| {} | {} | {:.1} | {:.1} | {:.4} |", l.layer, l.group, l.length_mm, l.copper_um, l.resistance_ohm_20c);
+        let _ = writeln!(
+            s,
+            "| {} | {} | {:.1} | {:.1} | {:.4} |",
+            l.layer, l.group, l.length_mm, l.copper_um, l.resistance_ohm_20c
+        );
     }
     let _ = writeln!(s, "\nVia barrels: {:.5} ohm at 20 C.\n", a.vias_ohm_20c);
 
     let i = &a.inductance;
     let _ = writeln!(s, "## Inductance\n");
     let _ = writeln!(s, "- computed (all layers): {}", si(a.inductance_h, "H"));
-    let _ = writeln!(s, "- computed, top layer alone: {}", si(i.single_layer_h, "H"));
-    let _ = writeln!(s, "- published single-layer estimates (d_out {:.3} mm, d_in {:.3} mm):", i.d_out_mm, i.d_in_mm);
+    let _ = writeln!(
+        s,
+        "- computed, top layer alone: {}",
+        si(i.single_layer_h, "H")
+    );
+    let _ = writeln!(
+        s,
+        "- published single-layer estimates (d_out {:.3} mm, d_in {:.3} mm):",
+        i.d_out_mm, i.d_in_mm
+    );
     let est = [
-        ("Mohan et al. 1999, modified Wheeler", i.mohan_modified_wheeler_h),
-        ("Mohan et al. 1999, current sheet (typically within 2-3 %)", i.mohan_current_sheet_h),
-        ("Wheeler 1928 flat spiral (within 5 % for depth > 0.2 mean radius)", i.wheeler_1928_h),
+        (
+            "Mohan et al. 1999, modified Wheeler",
+            i.mohan_modified_wheeler_h,
+        ),
+        (
+            "Mohan et al. 1999, current sheet (typically within 2-3 %)",
+            i.mohan_current_sheet_h,
+        ),
+        (
+            "Wheeler 1928 flat spiral (within 5 % for depth > 0.2 mean radius)",
+            i.wheeler_1928_h,
+        ),
     ];
     let mut any = false;
     for (k, v) in est {
         if let Some(v) = v {
             any = true;
-            let _ = writeln!(s, "  - {k}: {} ({:+.1} % from the computed single layer)", si(v, "H"), 100.0 * (v / i.single_layer_h - 1.0));
+            let _ = writeln!(
+                s,
+                "  - {k}: {} ({:+.1} % from the computed single layer)",
+                si(v, "H"),
+                100.0 * (v / i.single_layer_h - 1.0)
+            );
         }
     }
     if !any {
@@ -308,7 +486,11 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
 
     let f = &a.field;
     let _ = writeln!(s, "## Field\n");
-    let _ = writeln!(s, "- on the axis at the top copper surface: {:.4} mT/A (pointing into the board for current entering terminal 1)", f.center_t_per_a * 1e3);
+    let _ = writeln!(
+        s,
+        "- on the axis at the top copper surface: {:.4} mT/A (pointing into the board for current entering terminal 1)",
+        f.center_t_per_a * 1e3
+    );
     let r = |x: Option<f64>| x.map_or("not reached".to_string(), |v| format!("{v:.2} mm"));
     let _ = writeln!(
         s,
@@ -324,7 +506,10 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         f.chord_sagitta_relative,
         f.chord_sagitta_relative * 2.0 / 3.0
     );
-    let _ = writeln!(s, "\n![field on the axis](plots/field_axis.svg)\n\n![field across the coil](plots/field_radial.svg)\n");
+    let _ = writeln!(
+        s,
+        "\n![field on the axis](plots/field_axis.svg)\n\n![field across the coil](plots/field_radial.svg)\n"
+    );
 
     if let (Some(m), Some(mg)) = (&a.magnet, &design.magnet) {
         let _ = writeln!(s, "## Force on the magnet\n");
@@ -333,28 +518,56 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
             "Cylinder {:.2} mm x {:.2} mm, Br {:.2} T, {:.2} mm above the top copper, magnetised away from the coil. Positive force pushes the magnet away; flip the magnet or the current to pull.\n",
             mg.diameter, mg.thickness, mg.remanence, mg.gap
         );
-        let _ = writeln!(s, "- Lorentz force on the real conductor in the magnet's field (magnet as surface current Br/mu0, Derby & Olbert 2010): {:.4} mN/A", m.lorentz_n_per_a * 1e3);
-        let _ = writeln!(s, "- cross-check, coil as coaxial loops with Maxwell's mutual inductance: {:.4} mN/A ({:.1} % apart)", m.rings_n_per_a * 1e3, 100.0 * m.methods_difference);
-        let _ = writeln!(s, "- the magnet's own field at the coil centre: {:.1} mT", m.magnet_field_at_coil_t * 1e3);
+        let _ = writeln!(
+            s,
+            "- Lorentz force on the real conductor in the magnet's field (magnet as surface current Br/mu0, Derby & Olbert 2010): {:.4} mN/A",
+            m.lorentz_n_per_a * 1e3
+        );
+        let _ = writeln!(
+            s,
+            "- cross-check, coil as coaxial loops with Maxwell's mutual inductance: {:.4} mN/A ({:.1} % apart)",
+            m.rings_n_per_a * 1e3,
+            100.0 * m.methods_difference
+        );
+        let _ = writeln!(
+            s,
+            "- the magnet's own field at the coil centre: {:.1} mT",
+            m.magnet_field_at_coil_t * 1e3
+        );
         let _ = writeln!(s, "\n![force against gap](plots/force_gap.svg)\n");
     }
 
     let t = &a.thermal;
     let _ = writeln!(s, "## Heating\n");
-    let _ = writeln!(s, "- board face {:.1} mm^2, characteristic length {:.2} mm, heat capacity {:.4} J/K", t.area_mm2, t.char_length_mm, t.heat_capacity_j_per_k);
+    let _ = writeln!(
+        s,
+        "- board face {:.1} mm^2, characteristic length {:.2} mm, heat capacity {:.4} J/K",
+        t.area_mm2, t.char_length_mm, t.heat_capacity_j_per_k
+    );
     let _ = writeln!(
         s,
         "- at the operating temperature: convection top {:.2}, bottom {:.2}, radiation {:.2} W/(m^2 K); Rayleigh number {:.0}",
-        t.losses.h_top_w_per_m2k, t.losses.h_bottom_w_per_m2k, t.losses.h_radiation_w_per_m2k, t.losses.rayleigh
+        t.losses.h_top_w_per_m2k,
+        t.losses.h_bottom_w_per_m2k,
+        t.losses.h_radiation_w_per_m2k,
+        t.losses.rayleigh
     );
     let _ = writeln!(s, "- convection: {}", t.convection_source);
     let _ = writeln!(s, "- thermal time constant {:.2} s", t.time_constant_s);
     match t.pulse_s {
         Some(p) => {
-            let _ = writeln!(s, "- from ambient, the drive may last {p:.3} s before the coil reaches {} C", a.inputs.max_temperature_c);
+            let _ = writeln!(
+                s,
+                "- from ambient, the drive may last {p:.3} s before the coil reaches {} C",
+                a.inputs.max_temperature_c
+            );
         }
         None => {
-            let _ = writeln!(s, "- the drive may stay on indefinitely (steady temperature below {} C)", a.inputs.max_temperature_c);
+            let _ = writeln!(
+                s,
+                "- the drive may stay on indefinitely (steady temperature below {} C)",
+                a.inputs.max_temperature_c
+            );
         }
     }
     let _ = writeln!(s, "\n## Bending\n");
@@ -373,10 +586,22 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         let _ = writeln!(s, "- {n}");
     }
     let _ = writeln!(s, "\n## Cautions\n");
-    let _ = writeln!(s, "- These are estimates from models; measure a prototype before relying on them.");
-    let _ = writeln!(s, "- Copper thickness, trace width and dielectric vary from fab to fab (copper +-10 % is common): check your fab's stack-up.");
-    let _ = writeln!(s, "- Above about 80 C a coil burns skin on touch, and adhesives and dielectrics age; keep well below the dielectric's rating.");
-    let _ = writeln!(s, "- Heating assumes still air around a board lying flat; an enclosure, a heat sink or nearby parts change it a lot.");
+    let _ = writeln!(
+        s,
+        "- These are estimates from models; measure a prototype before relying on them."
+    );
+    let _ = writeln!(
+        s,
+        "- Copper thickness, trace width and dielectric vary from fab to fab (copper +-10 % is common): check your fab's stack-up."
+    );
+    let _ = writeln!(
+        s,
+        "- Above about 80 C a coil burns skin on touch, and adhesives and dielectrics age; keep well below the dielectric's rating."
+    );
+    let _ = writeln!(
+        s,
+        "- Heating assumes still air around a board lying flat; an enclosure, a heat sink or nearby parts change it a lot."
+    );
     s
 }
 

@@ -20,7 +20,11 @@ pub fn loop_on_axis(current: f64, radius: f64, z: f64) -> f64 {
 pub fn spiral_on_axis(current: f64, turns: f64, r1: f64, r2: f64, z: f64) -> f64 {
     let s1 = (r1 * r1 + z * z).sqrt();
     let s2 = (r2 * r2 + z * z).sqrt();
-    let log = if z == 0.0 { (r2 / r1).ln() } else { ((r2 + s2) / (r1 + s1)).ln() };
+    let log = if z == 0.0 {
+        (r2 / r1).ln()
+    } else {
+        ((r2 + s2) / (r1 + s1)).ln()
+    };
     MU0 * turns * current / (2.0 * (r2 - r1)) * (log - r2 / s2 + r1 / s1)
 }
 
@@ -29,7 +33,8 @@ pub fn spiral_on_axis(current: f64, turns: f64, r1: f64, r2: f64, z: f64) -> f64
 /// `B = Br/2 ((z+L)/sqrt(R^2+(z+L)^2) - z/sqrt(R^2+z^2))`, tesla.
 pub fn magnet_on_axis(remanence: f64, radius: f64, length: f64, z: f64) -> f64 {
     let zl = z + length;
-    remanence / 2.0 * (zl / (radius * radius + zl * zl).sqrt() - z / (radius * radius + z * z).sqrt())
+    remanence / 2.0
+        * (zl / (radius * radius + zl * zl).sqrt() - z / (radius * radius + z * z).sqrt())
 }
 
 /// Self inductance of a circular ring of rectangular cross-section

@@ -85,7 +85,11 @@ impl Conductor {
             let share = match layout.wiring {
                 Wiring::Series => 1.0,
                 Wiring::ParallelPairs => {
-                    1.0 / layout.windings.iter().filter(|o| o.group == w.group).count() as f64
+                    1.0 / layout
+                        .windings
+                        .iter()
+                        .filter(|o| o.group == w.group)
+                        .count() as f64
                 }
             };
             let li = (w.layer as usize).saturating_sub(1).min(n - 1);
@@ -101,7 +105,11 @@ impl Conductor {
                 });
             }
         }
-        Conductor { pieces, layer_z, layer_t }
+        Conductor {
+            pieces,
+            layer_z,
+            layer_t,
+        }
     }
 
     /// The pieces flattened into straight filaments; each arc becomes
@@ -121,7 +129,11 @@ impl Conductor {
             };
             let mut prev = p.segment.start();
             for i in 1..=n {
-                let q = if i == n { p.segment.end() } else { p.segment.point_at(i as f64 / n as f64) };
+                let q = if i == n {
+                    p.segment.end()
+                } else {
+                    p.segment.point_at(i as f64 / n as f64)
+                };
                 out.push(Filament {
                     a: [m(prev.x), m(prev.y), p.z],
                     b: [m(q.x), m(q.y), p.z],
@@ -140,7 +152,12 @@ impl Conductor {
     /// formulas that know only the turns.
     pub fn without_leads(&self) -> Conductor {
         Conductor {
-            pieces: self.pieces.iter().filter(|p| p.role == TrackRole::Winding).copied().collect(),
+            pieces: self
+                .pieces
+                .iter()
+                .filter(|p| p.role == TrackRole::Winding)
+                .copied()
+                .collect(),
             layer_z: self.layer_z.clone(),
             layer_t: self.layer_t.clone(),
         }
@@ -188,7 +205,10 @@ impl Conductor {
             if frac.abs() < 1e-12 {
                 continue;
             }
-            let r = m((p.segment.start().radius() + 4.0 * p.segment.point_at(0.5).radius() + p.segment.end().radius()) / 6.0);
+            let r = m((p.segment.start().radius()
+                + 4.0 * p.segment.point_at(0.5).radius()
+                + p.segment.end().radius())
+                / 6.0);
             if let Some((ring, _)) = &acc
                 && (ring.layer != p.layer || ring.weight != p.weight)
             {

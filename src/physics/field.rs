@@ -45,7 +45,8 @@ impl Segments {
     /// Adds a segment from `a` to `b` (m) carrying `current` (A).
     pub fn push(&mut self, a: [f64; 3], b: [f64; 3], current: f64) {
         let n = self.vx.len();
-        let joined = n > 0 && self.vx[n - 1] == a[0] && self.vy[n - 1] == a[1] && self.vz[n - 1] == a[2];
+        let joined =
+            n > 0 && self.vx[n - 1] == a[0] && self.vy[n - 1] == a[1] && self.vz[n - 1] == a[2];
         if !joined {
             if n > 0 {
                 self.cur.push(0.0);
@@ -78,7 +79,9 @@ impl Segments {
     pub fn field_at(&self, p: [f64; 3]) -> [f64; 3] {
         #[cfg(target_arch = "x86_64")]
         {
-            if std::arch::is_x86_feature_detected!("avx2") && std::arch::is_x86_feature_detected!("fma") {
+            if std::arch::is_x86_feature_detected!("avx2")
+                && std::arch::is_x86_feature_detected!("fma")
+            {
                 // SAFETY: the CPU supports AVX2 and FMA (checked just above).
                 return unsafe { sum_avx2(self, p) };
             }
@@ -119,7 +122,11 @@ fn sum(s: &Segments, p: [f64; 3]) -> [f64; 3] {
         let m = (nseg - start).min(BLOCK);
         // Vertices start ..= start + m.
         let nv = m + 1;
-        let (vx, vy, vz) = (&s.vx[start..start + nv], &s.vy[start..start + nv], &s.vz[start..start + nv]);
+        let (vx, vy, vz) = (
+            &s.vx[start..start + nv],
+            &s.vy[start..start + nv],
+            &s.vz[start..start + nv],
+        );
         let (ox, oy, oz, ol) = (&mut rx[..nv], &mut ry[..nv], &mut rz[..nv], &mut rl[..nv]);
         for k in 0..nv {
             let (x, y, z) = (vx[k] - p[0], vy[k] - p[1], vz[k] - p[2]);
@@ -161,7 +168,11 @@ fn sum(s: &Segments, p: [f64; 3]) -> [f64; 3] {
         start += m;
     }
     let k = MU0 / (4.0 * PI);
-    [k * sx.iter().sum::<f64>(), k * sy.iter().sum::<f64>(), k * sz.iter().sum::<f64>()]
+    [
+        k * sx.iter().sum::<f64>(),
+        k * sy.iter().sum::<f64>(),
+        k * sz.iter().sum::<f64>(),
+    ]
 }
 
 /// [`sum`] compiled for AVX2 and FMA.
@@ -205,7 +216,11 @@ mod tests {
         for i in 0..n {
             let t0 = 2.0 * PI * i as f64 / n as f64;
             let t1 = 2.0 * PI * (i + 1) as f64 / n as f64;
-            s.push([r * t0.cos(), r * t0.sin(), z], [r * t1.cos(), r * t1.sin(), z], current);
+            s.push(
+                [r * t0.cos(), r * t0.sin(), z],
+                [r * t1.cos(), r * t1.sin(), z],
+                current,
+            );
         }
     }
 
@@ -254,11 +269,22 @@ mod tests {
     fn elliptic_loop_field_agrees_with_biot_savart() {
         let mut s = Segments::default();
         polygon_loop(0.004, 20000, 0.0, 2.0, &mut s);
-        for (rho, z) in [(0.0, 0.002), (0.002, 0.001), (0.0035, -0.0005), (0.009, 0.003)] {
+        for (rho, z) in [
+            (0.0, 0.002),
+            (0.002, 0.001),
+            (0.0035, -0.0005),
+            (0.009, 0.003),
+        ] {
             let (br, bz) = loop_field(2.0, 0.004, rho, z);
             let b = s.field_at([rho, 0.0, z]);
-            assert!((b[2] - bz).abs() < 1e-6 * bz.abs().max(1e-6), "{rho} {z}: {b:?} {bz}");
-            assert!((b[0] - br).abs() < 1e-6 * b[0].abs().max(1e-6) + 1e-12, "{rho} {z}: {b:?} {br}");
+            assert!(
+                (b[2] - bz).abs() < 1e-6 * bz.abs().max(1e-6),
+                "{rho} {z}: {b:?} {bz}"
+            );
+            assert!(
+                (b[0] - br).abs() < 1e-6 * b[0].abs().max(1e-6) + 1e-12,
+                "{rho} {z}: {b:?} {br}"
+            );
         }
     }
 }

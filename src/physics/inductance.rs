@@ -204,7 +204,8 @@ fn ring_pair(p: &Ring, q: &Ring, cache: &GmdCache) -> f64 {
     let dz = q.z - p.z;
     let dist = dr.hypot(dz);
     let size = p.width.max(p.thickness).max(q.width).max(q.thickness);
-    let overlap = dr.abs() < (p.width + q.width) / 2.0 && dz.abs() < (p.thickness + q.thickness) / 2.0;
+    let overlap =
+        dr.abs() < (p.width + q.width) / 2.0 && dz.abs() < (p.thickness + q.thickness) / 2.0;
     let am = (p.radius + q.radius) / 2.0;
     if overlap {
         // Parts of one turn: a ring of the mean radius with the GMD of the
@@ -313,7 +314,11 @@ fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
     let cross = up[0] * uq[1] - up[1] * uq[0];
     // In-plane normal of p, lateral and vertical offset of q's middle.
     let n = [-up[1], up[0], 0.0];
-    let qm = [(q.a[0] + q.b[0]) / 2.0, (q.a[1] + q.b[1]) / 2.0, (q.a[2] + q.b[2]) / 2.0];
+    let qm = [
+        (q.a[0] + q.b[0]) / 2.0,
+        (q.a[1] + q.b[1]) / 2.0,
+        (q.a[2] + q.b[2]) / 2.0,
+    ];
     let rel = sub(qm, p.a);
     let lat = dot(rel, n);
     let dz = q.a[2] - p.a[2];
@@ -349,8 +354,18 @@ fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
     let pm = [(p.a[0] + p.b[0]) / 2.0, (p.a[1] + p.b[1]) / 2.0, p.a[2]];
     let far = norm(sub(pm, qm)) > 2.0 * (lp + lq);
     let (x, w) = rule(if far { 4 } else { 8 });
-    let whole = x.iter().zip(w).map(|(x, w)| w * f(lp / 2.0 * (1.0 + x))).sum::<f64>() * lp / 2.0;
-    let val = if far { whole } else { adapt(&f, 0.0, lp, whole, 10) };
+    let whole = x
+        .iter()
+        .zip(w)
+        .map(|(x, w)| w * f(lp / 2.0 * (1.0 + x)))
+        .sum::<f64>()
+        * lp
+        / 2.0;
+    let val = if far {
+        whole
+    } else {
+        adapt(&f, 0.0, lp, whole, 10)
+    };
     c * val
 }
 
@@ -449,7 +464,15 @@ mod tests {
     }
 
     fn ring(r: f64, z: f64, w: f64, t: f64) -> Ring {
-        Ring { radius: r, z, frac: 1.0, width: w, thickness: t, weight: 1.0, layer: 1 }
+        Ring {
+            radius: r,
+            z,
+            frac: 1.0,
+            width: w,
+            thickness: t,
+            weight: 1.0,
+            layer: 1,
+        }
     }
 
     #[test]

@@ -23,10 +23,10 @@
 
 use super::MU0;
 use super::conductor::{Filament, Piece, Ring, m};
-use crate::geometry::Segment;
 use super::elliptic::rule;
 use super::field::loop_field;
 use super::inductance::maxwell_mutual;
+use crate::geometry::Segment;
 use rayon::prelude::*;
 
 /// A cylinder magnet in SI units.
@@ -55,7 +55,11 @@ impl Cylinder {
     /// magnet's edge.
     pub fn field(&self, rho: f64, z: f64) -> (f64, f64) {
         let (z0, z1) = (self.gap, self.gap + self.length);
-        let near = if (z - z0).abs() < (z - z1).abs() { z0 } else { z1 };
+        let near = if (z - z0).abs() < (z - z1).abs() {
+            z0
+        } else {
+            z1
+        };
         let delta = ((z - near).abs()).max((rho - self.radius).abs()).max(1e-7);
         // Breakpoints graded from the near face.
         let mut br = vec![near];
@@ -129,7 +133,10 @@ pub fn force_lorentz(f: &[Filament], current: f64, mag: &Cylinder) -> f64 {
         for i in 0..n {
             for off in [0.5 - g, 0.5 + g] {
                 let t = (i as f64 + off) / n as f64;
-                pts.push(([s.a[0] + d[0] * t, s.a[1] + d[1] * t, s.a[2]], [c * d[0], c * d[1]]));
+                pts.push((
+                    [s.a[0] + d[0] * t, s.a[1] + d[1] * t, s.a[2]],
+                    [c * d[0], c * d[1]],
+                ));
             }
         }
     }
@@ -190,7 +197,12 @@ mod tests {
     #[test]
     fn sheet_field_on_axis_matches_closed_form() {
         // Derby & Olbert 2010 / textbook on-axis field of the cylinder.
-        let m = Cylinder { radius: 2.5e-3, length: 2e-3, remanence: 1.3, gap: 0.5e-3 };
+        let m = Cylinder {
+            radius: 2.5e-3,
+            length: 2e-3,
+            remanence: 1.3,
+            gap: 0.5e-3,
+        };
         for z in [0.0, -0.3e-3, 0.2e-3, -5e-3, 4e-3] {
             let (_, bz) = m.field(0.0, z);
             let exact = if z < m.gap {
@@ -206,7 +218,12 @@ mod tests {
     fn methods_agree_for_a_loop() {
         // One loop of radius 3 mm at z = 0 as 2000 chords vs as one ring:
         // both methods must give the same force (independent formulas).
-        let mag = Cylinder { radius: 2.5e-3, length: 2e-3, remanence: 1.3, gap: 0.5e-3 };
+        let mag = Cylinder {
+            radius: 2.5e-3,
+            length: 2e-3,
+            remanence: 1.3,
+            gap: 0.5e-3,
+        };
         let n = 2000;
         let r = 3e-3;
         let f: Vec<Filament> = (0..n)
@@ -223,7 +240,15 @@ mod tests {
                 }
             })
             .collect();
-        let ring = Ring { radius: r, z: 0.0, frac: -1.0, width: 1e-4, thickness: 35e-6, weight: 1.0, layer: 1 };
+        let ring = Ring {
+            radius: r,
+            z: 0.0,
+            frac: -1.0,
+            width: 1e-4,
+            thickness: 35e-6,
+            weight: 1.0,
+            layer: 1,
+        };
         let fa = force_lorentz(&f, 1.0, &mag);
         let fb = force_rings(&[ring], 1.0, &mag);
         assert!(fa > 0.0, "clockwise current repels a north-up magnet");

@@ -32,8 +32,12 @@ pub fn mechanics(design: &Design) -> Mechanics {
     let static_ratio = if design.coil.layers <= 2 { 10.0 } else { 20.0 };
     let dynamic_ratio = 100.0;
     let source = match s.kind {
-        BoardKind::Flex => "ratios commonly quoted from IPC-2223 (common practice, no single source)",
-        BoardKind::Rigid => "rigid board: not meant to bend; flex ratios from IPC-2223 shown for comparison only (common practice)",
+        BoardKind::Flex => {
+            "ratios commonly quoted from IPC-2223 (common practice, no single source)"
+        }
+        BoardKind::Rigid => {
+            "rigid board: not meant to bend; flex ratios from IPC-2223 shown for comparison only (common practice)"
+        }
     };
     Mechanics {
         thickness_mm: thickness,

@@ -312,7 +312,10 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
         return Err(AnalysisError::Empty);
     }
     if design.stackup.copper.len() < layout.layers as usize {
-        return Err(AnalysisError::Stackup { given: design.stackup.copper.len(), layers: layout.layers });
+        return Err(AnalysisError::Stackup {
+            given: design.stackup.copper.len(),
+            layers: layout.layers,
+        });
     }
     let mut warnings = Vec::new();
     let mut notes = Vec::new();
@@ -337,13 +340,17 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
     let sign = if b0 < 0.0 { -1.0 } else { 1.0 };
     let n_ax = 41;
     let z_max = 2.0 * r_out;
-    let ax_pts: Vec<[f64; 3]> =
-        (0..n_ax).map(|i| [0.0, 0.0, z_max * i as f64 / (n_ax - 1) as f64]).collect();
+    let ax_pts: Vec<[f64; 3]> = (0..n_ax)
+        .map(|i| [0.0, 0.0, z_max * i as f64 / (n_ax - 1) as f64])
+        .collect();
     let axial: Vec<ProfilePoint> = segs
         .field(&ax_pts)
         .iter()
         .zip(&ax_pts)
-        .map(|(b, p)| ProfilePoint { at_mm: to_mm(p[2]), b_t_per_a: sign * b[2] })
+        .map(|(b, p)| ProfilePoint {
+            at_mm: to_mm(p[2]),
+            b_t_per_a: sign * b[2],
+        })
         .collect();
     let h = design.magnet.map_or(0.5, |mg| mg.gap);
     let (lo, hi) = layout.outline_bounds();
@@ -362,7 +369,12 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
     let radial: Vec<ProfilePoint> = (0..n_r)
         .map(|i| ProfilePoint {
             at_mm: to_mm(r_edge * i as f64 / (n_r - 1) as f64),
-            b_t_per_a: sign * rb[i * dirs..(i + 1) * dirs].iter().map(|b| b[2]).sum::<f64>() / dirs as f64,
+            b_t_per_a: sign
+                * rb[i * dirs..(i + 1) * dirs]
+                    .iter()
+                    .map(|b| b[2])
+                    .sum::<f64>()
+                / dirs as f64,
         })
         .collect();
 
@@ -425,7 +437,9 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
         ));
     }
     if let Some(p) = pulse {
-        notes.push(format!("at the drive the board reaches max_temperature after {p:.3} s from ambient"));
+        notes.push(format!(
+            "at the drive the board reaches max_temperature after {p:.3} s from ambient"
+        ));
     }
 
     // Force on the magnet.
@@ -439,24 +453,40 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
         let fa = magnet::force_lorentz_pieces(&cond.pieces, 1.0, &cyl);
         let rings = cond.rings();
         let fb = magnet::force_rings(&rings, 1.0, &cyl);
-        let diff = if fa != 0.0 { ((fa - fb) / fa).abs() } else { 0.0 };
+        let diff = if fa != 0.0 {
+            ((fa - fb) / fa).abs()
+        } else {
+            0.0
+        };
         let gap_max = (3.0 * mg.gap).max(mg.diameter).max(1.0);
         let curve = (0..41)
             .map(|i| {
                 let g = gap_max * i as f64 / 40.0;
                 let c = magnet::Cylinder { gap: m(g), ..cyl };
-                GapPoint { gap_mm: g, force_n_per_a: magnet::force_rings(&rings, 1.0, &c) }
+                GapPoint {
+                    gap_mm: g,
+                    force_n_per_a: magnet::force_rings(&rings, 1.0, &c),
+                }
             })
             .collect();
         MagnetReport {
             force_n: fa * current,
             force_per_a_n: fa,
-            force_per_sqrt_w_n: if power > 0.0 { fa * current / power.sqrt() } else { 0.0 },
+            force_per_sqrt_w_n: if power > 0.0 {
+                fa * current / power.sqrt()
+            } else {
+                0.0
+            },
             lorentz_n_per_a: fa,
             rings_n_per_a: fb,
             methods_difference: diff,
             force_vs_gap: curve,
-            magnet_field_at_coil_t: closed_forms::magnet_on_axis(mg.remanence, cyl.radius, cyl.length, cyl.gap),
+            magnet_field_at_coil_t: closed_forms::magnet_on_axis(
+                mg.remanence,
+                cyl.radius,
+                cyl.length,
+                cyl.gap,
+            ),
         }
     });
     if let Some(mr) = &magnet
@@ -588,7 +618,12 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
 }
 
 /// The published single-layer estimates that apply to the design's shape.
-fn published_estimates(design: &Design, layout: &Layout, method: InductanceMethod, l1: f64) -> InductanceReport {
+fn published_estimates(
+    design: &Design,
+    layout: &Layout,
+    method: InductanceMethod,
+    l1: f64,
+) -> InductanceReport {
     let n = layout.turns;
     let (shape, flats) = match design.coil.shape {
         Shape::Circle => (Some(MohanShape::Circle), 1.0),

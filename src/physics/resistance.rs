@@ -62,7 +62,11 @@ pub fn resistance(design: &Design, layout: &Layout, cond: &Conductor) -> Resista
     for w in &layout.windings {
         let li = (w.layer as usize - 1).min(cond.layer_t.len() - 1);
         let t = cond.layer_t[li];
-        let len: f64 = layout.winding_tracks(w).iter().map(|t| t.segment.length()).sum();
+        let len: f64 = layout
+            .winding_tracks(w)
+            .iter()
+            .map(|t| t.segment.length())
+            .sum();
         let r: f64 = layout
             .winding_tracks(w)
             .iter()
@@ -104,7 +108,11 @@ pub fn resistance(design: &Design, layout: &Layout, cond: &Conductor) -> Resista
             - zs.iter().cloned().fold(f64::INFINITY, f64::min);
         let ri = m(v.drill) / 2.0;
         let area = PI * ((ri + plating).powi(2) - ri * ri);
-        let r = if area > 0.0 { RHO_20 * span / area } else { 0.0 };
+        let r = if area > 0.0 {
+            RHO_20 * span / area
+        } else {
+            0.0
+        };
         // In parallel-pairs wiring the current meets the via from two
         // layers and leaves to two: about half the span in series.
         vias += match layout.wiring {
@@ -112,7 +120,11 @@ pub fn resistance(design: &Design, layout: &Layout, cond: &Conductor) -> Resista
             Wiring::ParallelPairs => r / 2.0,
         };
     }
-    Resistance { layers, vias_ohm_20c: vias, total_ohm_20c: total + vias }
+    Resistance {
+        layers,
+        vias_ohm_20c: vias,
+        total_ohm_20c: total + vias,
+    }
 }
 
 #[cfg(test)]

@@ -106,13 +106,21 @@ impl Board {
         let (h_up, h_down) = match self.convection {
             Some(h) => (h, h),
             None => {
-                let up = if ra <= 1e7 { 0.54 * ra.powf(0.25) } else { 0.15 * ra.powf(1.0 / 3.0) };
+                let up = if ra <= 1e7 {
+                    0.54 * ra.powf(0.25)
+                } else {
+                    0.15 * ra.powf(1.0 / 3.0)
+                };
                 let down = 0.27 * ra.powf(0.25);
                 (up * k / l, down * k / l)
             }
         };
         let rad = self.emissivity * SIGMA * (tk.powi(4) - tak.powi(4));
-        let h_rad = if dt > 0.0 { rad / dt } else { 4.0 * self.emissivity * SIGMA * tak.powi(3) };
+        let h_rad = if dt > 0.0 {
+            rad / dt
+        } else {
+            4.0 * self.emissivity * SIGMA * tak.powi(3)
+        };
         Losses {
             rayleigh: ra,
             h_top_w_per_m2k: h_up,
@@ -168,7 +176,11 @@ impl Board {
     /// Thermal time constant `C / G` with `G` the secant conductance
     /// between ambient and `t` (C), s.
     pub fn time_constant(&self, t: f64) -> f64 {
-        let t = if t - self.ambient < 0.5 { self.ambient + 0.5 } else { t };
+        let t = if t - self.ambient < 0.5 {
+            self.ambient + 0.5
+        } else {
+            t
+        };
         let g = self.losses(t).power_w / (t - self.ambient);
         self.heat_capacity / g
     }
@@ -182,7 +194,8 @@ impl Board {
         {
             return None;
         }
-        let rate = |t: f64| (self.power_in(source, t) - self.losses(t).power_w) / self.heat_capacity;
+        let rate =
+            |t: f64| (self.power_in(source, t) - self.losses(t).power_w) / self.heat_capacity;
         // Step: a small fraction of the time to t_max at the starting rate.
         let r0 = rate(self.ambient).max(1e-12);
         let dt = ((t_max - self.ambient) / r0 / 2000.0).max(1e-9);
@@ -276,6 +289,9 @@ mod tests {
         let dt = tmax - b.ambient;
         let t_cold = -tau * (1.0 - g * dt / p_cold).ln();
         let t_hot = -tau * (1.0 - g * dt / p_hot).ln();
-        assert!(t <= t_cold * 1.0001 && t >= t_hot * 0.9999, "{t_hot} {t} {t_cold}");
+        assert!(
+            t <= t_cold * 1.0001 && t >= t_hot * 0.9999,
+            "{t_hot} {t} {t_cold}"
+        );
     }
 }

@@ -17,12 +17,20 @@ pub fn cases() -> Vec<(&'static str, Design)> {
     d.coil.inner_diameter = 6.0;
     d.stackup.copper = vec![0.035; 2];
     d.stackup.dielectric = vec![0.1];
-    d.magnet = Some(Magnet { diameter: 6.0, thickness: 3.0, remanence: 1.2, gap: 0.3 });
+    d.magnet = Some(Magnet {
+        diameter: 6.0,
+        thickness: 3.0,
+        remanence: 1.2,
+        gap: 0.3,
+    });
     out.push(("hexagon-2-layer", d));
     // 3. One-layer rectangle, rounded corners, 18 um copper, no magnet
     //    replaced by a small one far off.
     let mut d = Design::sample();
-    d.coil.shape = Shape::Rectangle { width: 24.0, height: 16.0 };
+    d.coil.shape = Shape::Rectangle {
+        width: 24.0,
+        height: 16.0,
+    };
     d.coil.corner = coilwright::spec::Corner::Round { radius: 0.5 };
     d.coil.layers = 1;
     d.coil.turns = 6.5;
@@ -31,7 +39,12 @@ pub fn cases() -> Vec<(&'static str, Design)> {
     d.coil.clearance = 0.15;
     d.stackup.copper = vec![0.018];
     d.stackup.dielectric = vec![];
-    d.magnet = Some(Magnet { diameter: 3.0, thickness: 1.5, remanence: 1.4, gap: 1.0 });
+    d.magnet = Some(Magnet {
+        diameter: 3.0,
+        thickness: 1.5,
+        remanence: 1.4,
+        gap: 1.0,
+    });
     out.push(("rectangle-1-layer", d));
     out
 }
