@@ -33,6 +33,19 @@ fn field_matches_magpylib_polylines() {
         let segs = Segments::new(&fil, 1.0);
         let refb: Vec<[f64; 3]> = serde_json::from_value(case["b_t_per_a"].clone()).unwrap();
         let pts: Vec<[f64; 3]> = serde_json::from_value(case["points_m"].clone()).unwrap();
+        // Same points as the script used (serde_json may read the last digit 1 ulp off).
+        let here = designs::points();
+        assert_eq!(pts.len(), here.len());
+        for (a, b) in pts.iter().zip(&here) {
+            assert!(
+                (0..3).all(|k| (a[k] - b[k]).abs() < 1e-15),
+                "fixture made from other points: rerun the script"
+            );
+        }
+        assert_eq!(
+            case["vertices"].as_u64().unwrap() as usize,
+            segs.len() + layout.windings.len()
+        );
         let scale = refb
             .iter()
             .flat_map(|b| b.iter())

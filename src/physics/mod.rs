@@ -492,10 +492,15 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
     if let Some(mr) = &magnet
         && mr.methods_difference > 0.05
     {
-        warnings.push(format!(
-            "the two force methods differ by {:.1} % (coaxial-ring model vs real conductor): treat the force as rough",
+        let msg = format!(
+            "the two force methods differ by {:.1} % (coaxial-ring model vs real conductor)",
             100.0 * mr.methods_difference
-        ));
+        );
+        if matches!(design.coil.shape, Shape::Rectangle { .. }) {
+            notes.push(format!("{msg}: expected for a rectangle, whose sides are far from circles; the real-conductor value is used"));
+        } else {
+            warnings.push(format!("{msg}: treat the force as rough"));
+        }
     }
 
     // Impedance.
