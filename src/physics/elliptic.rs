@@ -24,7 +24,7 @@ pub fn ke(k: f64) -> (f64, f64) {
     let mut sum = 0.5 * c * c;
     let mut pow = 0.5;
     for _ in 0..40 {
-        if c.abs() < 1e-17 * a {
+        if c.abs() <= 1e-15 * a {
             break;
         }
         let an = 0.5 * (a + b);

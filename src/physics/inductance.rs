@@ -42,15 +42,14 @@ pub fn maxwell_mutual(a: f64, b: f64, d: f64) -> f64 {
         // f = pi/2 sum_{m>=1} k^(2m+1) (c_{m+1} 4(m+1)/(2m+1) - c_m),
         // c_n = ((2n)! / (2^(2n) n!^2))^2, from the series of K and E
         // (A&S 17.3.11-12).
-        let mut c = vec![1.0f64];
-        for n in 1..40 {
-            let r = (2 * n - 1) as f64 / (2 * n) as f64;
-            c.push(c[n - 1] * r * r);
-        }
+        let mut cm = 0.25; // c_1
         let mut s = 0.0;
         let mut p = k2 * k;
-        for mm in 1..38 {
-            s += p * (c[mm + 1] * 4.0 * (mm + 1) as f64 / (2 * mm + 1) as f64 - c[mm]);
+        for mm in 1..60 {
+            let r = (2 * mm + 1) as f64 / (2 * mm + 2) as f64;
+            let cn = cm * r * r; // c_{m+1}
+            s += p * (cn * 4.0 * (mm + 1) as f64 / (2 * mm + 1) as f64 - cm);
+            cm = cn;
             p *= k2;
             if p < 1e-18 * s.abs() {
                 break;

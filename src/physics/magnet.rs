@@ -113,13 +113,13 @@ fn force_on_magnet(points: &[([f64; 3], [f64; 2])], mag: &Cylinder) -> f64 {
 /// Length limit for one integration piece at distance `edge` from the
 /// magnet's lower edge, m.
 fn piece_len(edge: f64, mag: &Cylinder) -> f64 {
-    (edge / 5.0).max(mag.radius / 10.0)
+    (edge / 4.0).max(mag.radius / 8.0)
 }
 
 /// Method A on straight filaments carrying `current` amperes at the
 /// terminals, newton. Each filament is cut into pieces no longer than a
-/// fifth of its distance from the magnet's lower edge (and at least a
-/// tenth of the magnet radius), with 2-point Gauss-Legendre per piece.
+/// quarter of its distance from the magnet's lower edge (and at least an
+/// eighth of the magnet radius), with 2-point Gauss-Legendre per piece.
 pub fn force_lorentz(f: &[Filament], current: f64, mag: &Cylinder) -> f64 {
     let g = 0.5 / 3f64.sqrt();
     let mut pts = Vec::new();

@@ -75,8 +75,7 @@ pub struct FieldReport {
     pub axial: Vec<ProfilePoint>,
     /// Height of the radial profile above the top copper surface, mm.
     pub radial_height_mm: f64,
-    /// Bz against the distance from the axis at that height (average of
-    /// two directions 45 degrees apart).
+    /// Bz against the distance from the axis at that height (for polygons and rectangles the mean of two directions 45 degrees apart).
     pub radial: Vec<ProfilePoint>,
     /// Radius where Bz at that height first falls to 90 % of its value on
     /// the axis, mm.
@@ -356,7 +355,8 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
     let (lo, hi) = layout.outline_bounds();
     let r_edge = m(lo.x.abs().max(lo.y.abs()).max(hi.x).max(hi.y)).max(1.2 * r_out);
     let n_r = 101;
-    let dirs = 2;
+    // Circles are round: one direction; other shapes: the mean of two.
+    let dirs = if circular { 1 } else { 2 };
     let mut rad_pts = Vec::with_capacity(n_r * dirs);
     for i in 0..n_r {
         let r = r_edge * i as f64 / (n_r - 1) as f64;
