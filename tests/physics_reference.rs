@@ -83,6 +83,32 @@ fn neumann_filaments_agree_with_maxwell_rings_on_a_real_layout() {
 }
 
 #[test]
+fn coupling_between_close_layers_stays_below_one() {
+    // Layers 25 um apart with 0.3 mm traces: closer than the trace width.
+    // Centre-line filaments would overestimate the coupling (REFERENCES.md
+    // pitfall); with the GMD of the sections k = M / sqrt(L1 L2) < 1.
+    let mut d = Design::sample();
+    d.coil.layers = 2;
+    d.coil.trace_width = 0.3;
+    d.coil.turns = 5.0;
+    d.coil.inner_diameter = 8.0;
+    d.stackup.copper = vec![0.035; 2];
+    d.stackup.dielectric = vec![0.025];
+    let layout = build(&d).unwrap();
+    let cond = Conductor::new(&d, &layout);
+    let r1 = cond.only_layer(1).rings();
+    let r2 = cond.only_layer(2).rings();
+    let (l1, l2) = (
+        inductance::rings_inductance(&r1),
+        inductance::rings_inductance(&r2),
+    );
+    let k = inductance::rings_mutual(&r1, &r2) / (l1 * l2).sqrt();
+    assert!(k > 0.9 && k < 1.0, "k = {k}");
+    let a = analyse(&d, &layout).unwrap();
+    assert!(a.inductance_h < 4.0 * l1.max(l2));
+}
+
+#[test]
 fn field_of_a_real_spiral_against_flat_spiral_closed_form() {
     // Textbook flat spiral (N turns spread evenly from r1 to r2): the real
     // one-layer spiral with its leads agrees to about a percent.

@@ -438,7 +438,7 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
     let _ = writeln!(s, "- computed (all layers): {}", si(a.inductance_h, "H"));
     let _ = writeln!(
         s,
-        "- computed, top layer alone: {}",
+        "- computed, top layer alone (with its leads): {}",
         si(i.single_layer_h, "H")
     );
     let _ = writeln!(

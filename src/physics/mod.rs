@@ -550,7 +550,7 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
     notes.push(format!(
         "inductance by {}; self terms and close pieces by the geometric mean distance of the rectangular sections (Grover)",
         match method {
-            InductanceMethod::MaxwellRings => "coaxial rings with Maxwell's formula (each piece as a fraction of a loop at its mean radius)",
+            InductanceMethod::MaxwellRings => "coaxial rings with Maxwell's formula (each turn as one loop at its mean radius, partial turns as fractions)",
             InductanceMethod::NeumannFilaments => "Neumann's formula on straight filaments along the conductor",
         }
     ));
