@@ -429,6 +429,26 @@ mod tests {
         assert!((m2 - m3).abs() < 1e-12);
     }
 
+    proptest::proptest! {
+        #[test]
+        fn maxwell_is_symmetric_and_below_the_geometric_mean(
+            a in 1e-4f64..0.05, b in 1e-4f64..0.05, d in 1e-5f64..0.05
+        ) {
+            // Reciprocity M(a, b) = M(b, a) (Neumann's formula is symmetric),
+            // and coupling below 1 against the Grover self inductance of
+            // 0.1 mm x 35 um rings whenever the filaments are apart.
+            let m1 = maxwell_mutual(a, b, d);
+            let m2 = maxwell_mutual(b, a, d);
+            proptest::prop_assert!((m1 - m2).abs() <= 1e-12 * m1.abs());
+            proptest::prop_assert!(m1 > 0.0);
+            let la = crate::physics::closed_forms::ring_self(a, 0.1e-3, 35e-6);
+            let lb = crate::physics::closed_forms::ring_self(b, 0.1e-3, 35e-6);
+            if (a - b).abs().hypot(d) > 0.2e-3 {
+                proptest::prop_assert!(m1 < (la * lb).sqrt());
+            }
+        }
+    }
+
     #[test]
     fn maxwell_series_matches_elliptic_branch() {
         // Both branches meet at k = 0.3; far apart the dipole limit
