@@ -250,3 +250,28 @@ fn json_has_the_contract_keys() {
     assert!(a.inductance.mohan_modified_wheeler_h.is_some());
     let _ = MU0;
 }
+
+#[test]
+fn parallel_pairs_behave_like_one_layer_of_double_copper() {
+    // Two identical layers in parallel carry half the current each: the
+    // pair's resistance is half a layer's, its inductance close to one
+    // layer's (the layers are tightly coupled), its field per ampere that
+    // of one layer (Ohm's law; flux linkage with equal current split).
+    let mut d = one_layer();
+    d.coil.layers = 2;
+    d.stackup.copper = vec![0.035; 2];
+    d.stackup.dielectric = vec![0.05];
+    let series = analyse(&d, &build(&d).unwrap()).unwrap();
+    d.coil.wiring = coilwright::spec::Wiring::ParallelPairs;
+    let layout = build(&d).unwrap();
+    let par = analyse(&d, &layout).unwrap();
+    let r1 = par.layers[0].resistance_ohm_20c;
+    let r2 = par.layers[1].resistance_ohm_20c;
+    let vias = par.vias_ohm_20c;
+    assert!((par.resistance_ohm_20c - vias - r1 * r2 / (r1 + r2)).abs() < 1e-12);
+    // L_series = L1 + L2 + 2M ~ 4 L_pair when the coupling is near 1.
+    let ratio = series.inductance_h / par.inductance_h;
+    assert!(ratio > 3.5 && ratio < 4.0, "{ratio}");
+    let fr = series.field_center_t_per_a / par.field_center_t_per_a;
+    assert!((fr - 2.0).abs() < 0.05, "{fr}");
+}
