@@ -325,15 +325,26 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "# Coil report: {}\n", design.name);
     let c = &design.coil;
+    let size = match c.shape {
+        crate::spec::Shape::Rectangle { width, height } => {
+            format!("rectangle {width:.3} x {height:.3} mm")
+        }
+        crate::spec::Shape::Polygon { sides } => {
+            format!(
+                "{sides}-sided polygon, {:.3} mm across corners",
+                c.outer_diameter
+            )
+        }
+        crate::spec::Shape::Circle => format!("circle, {:.3} mm outside", c.outer_diameter),
+    };
     let _ = writeln!(
         s,
-        "{} layer(s), {} turns per layer, trace {:.3} mm, clearance {:.3} mm, outer {:.3} mm, inner {:.3} mm, {:?} wiring, {:?} board.\n",
+        "{size}, free centre {:.3} mm; {} layer(s), {} turns per layer, trace {:.3} mm, clearance {:.3} mm, {:?} wiring, {:?} board.\n",
+        c.inner_diameter,
         c.layers,
         c.turns,
         c.trace_width,
         c.clearance,
-        c.outer_diameter,
-        c.inner_diameter,
         c.wiring,
         design.stackup.kind
     );
