@@ -278,20 +278,19 @@ fn line_potential(p: [f64; 3], qa: [f64; 3], u: [f64; 3], len: f64) -> f64 {
     ((len - s) / rho).asinh() + (s / rho).asinh()
 }
 
-/// Adaptive Gauss-Legendre integral of `f` on `[a, b]`.
-fn adapt(f: &dyn Fn(f64) -> f64, a: f64, b: f64, whole: f64, depth: u32) -> f64 {
-    let (x, w) = rule(8);
-    let g = |a: f64, b: f64| {
-        let (h, c) = ((b - a) / 2.0, (b + a) / 2.0);
-        x.iter().zip(w).map(|(x, w)| w * f(c + h * x)).sum::<f64>() * h
-    };
-    let m = (a + b) / 2.0;
-    let (l, r) = (g(a, m), g(m, b));
-    if depth == 0 || (l + r - whole).abs() <= 1e-7 * (l + r).abs().max(1e-30) {
-        l + r
+/// Distance from point `p` to the segment `a`-`b`, m.
+fn point_seg(p: [f64; 3], a: [f64; 3], b: [f64; 3]) -> f64 {
+    let ab = sub(b, a);
+    let l2 = dot(ab, ab);
+    let t = if l2 > 0.0 {
+        (dot(sub(p, a), ab) / l2).clamp(0.0, 1.0)
     } else {
-        adapt(f, a, m, l, depth - 1) + adapt(f, m, b, r, depth - 1)
-    }
+        0.0
+    };
+    norm(sub(
+        p,
+        [a[0] + ab[0] * t, a[1] + ab[1] * t, a[2] + ab[2] * t],
+    ))
 }
 
 /// Neumann integral `int int dl_p . dl_q / r` of two straight filaments
@@ -350,20 +349,72 @@ fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
         let pt = [p.a[0] + up[0] * t, p.a[1] + up[1] * t, p.a[2] + up[2] * t];
         line_potential(pt, qa, uq, lq)
     };
-    let pm = [(p.a[0] + p.b[0]) / 2.0, (p.a[1] + p.b[1]) / 2.0, p.a[2]];
-    let far = norm(sub(pm, qm)) > 2.0 * (lp + lq);
-    let (x, w) = rule(if far { 4 } else { 8 });
-    let whole = x
-        .iter()
-        .zip(w)
-        .map(|(x, w)| w * f(lp / 2.0 * (1.0 + x)))
-        .sum::<f64>()
-        * lp
-        / 2.0;
-    let val = if far {
-        whole
+    // Closest approach (the pieces do not cross: endpoint distances bound
+    // it) decides the quadrature: fixed Gauss rules where the integrand is
+    // smooth, adaptive near a shared corner.
+    let qa3 = qa;
+    let qb3 = [q.b[0], q.b[1], q.b[2] + shift];
+    let dmin = point_seg(p.a, qa3, qb3)
+        .min(point_seg(p.b, qa3, qb3))
+        .min(point_seg(qa3, p.a, p.b))
+        .min(point_seg(qb3, p.a, p.b));
+    let lmax = lp.max(lq);
+    let order = if dmin > 2.0 * lmax {
+        4
+    } else if dmin > 0.3 * lmax {
+        8
     } else {
-        adapt(&f, 0.0, lp, whole, 10)
+        0
+    };
+    let gauss = |n: usize| {
+        let (x, w) = rule(n);
+        x.iter()
+            .zip(w)
+            .map(|(x, w)| w * f(lp / 2.0 * (1.0 + x)))
+            .sum::<f64>()
+            * lp
+            / 2.0
+    };
+    let val = if order > 0 {
+        gauss(order)
+    } else {
+        // Panels graded geometrically (ratio 2) away from the point of p
+        // nearest to q, 8-point Gauss-Legendre on each.
+        let cands = [
+            0.0,
+            lp,
+            dot(sub(qa3, p.a), up).clamp(0.0, lp),
+            dot(sub(qb3, p.a), up).clamp(0.0, lp),
+        ];
+        let at = |t: f64| [p.a[0] + up[0] * t, p.a[1] + up[1] * t, p.a[2] + up[2] * t];
+        let ts = cands
+            .iter()
+            .copied()
+            .min_by(|x, y| point_seg(at(*x), qa3, qb3).total_cmp(&point_seg(at(*y), qa3, qb3)))
+            .unwrap_or(0.0);
+        let mut br = vec![0.0, lp, ts];
+        let mut h = dmin.max(lp * 1e-9);
+        while h < lp {
+            for t in [ts - h, ts + h] {
+                if t > 0.0 && t < lp {
+                    br.push(t);
+                }
+            }
+            h *= 2.0;
+        }
+        br.sort_by(f64::total_cmp);
+        br.dedup();
+        let (x, w) = rule(8);
+        br.windows(2)
+            .map(|b| {
+                let (hh, cc) = ((b[1] - b[0]) / 2.0, (b[1] + b[0]) / 2.0);
+                x.iter()
+                    .zip(w)
+                    .map(|(x, w)| w * f(cc + hh * x))
+                    .sum::<f64>()
+                    * hh
+            })
+            .sum()
     };
     c * val
 }
