@@ -275,3 +275,26 @@ fn parallel_pairs_behave_like_one_layer_of_double_copper() {
     let fr = series.field_center_t_per_a / par.field_center_t_per_a;
     assert!((fr - 2.0).abs() < 0.05, "{fr}");
 }
+
+#[test]
+fn single_layer_square_against_mohan() {
+    // Mohan et al. 1999: modified Wheeler and current sheet for a square
+    // spiral, stated typical error 2-3 % (later comparisons found larger
+    // errors, Aebischer 2018): checked within 5 %.
+    let mut d = one_layer();
+    d.coil.shape = Shape::Polygon { sides: 4 };
+    d.coil.inner_diameter = 9.5;
+    let layout = build(&d).unwrap();
+    let cond = Conductor::new(&d, &layout).without_leads();
+    let l = inductance::filaments_inductance(&cond.filaments(inductance::NEUMANN_SAGITTA));
+    let a = analyse(&d, &layout).unwrap();
+    let i = &a.inductance;
+    let (d_out, d_in) = (i.d_out_mm * 1e-3, i.d_in_mm * 1e-3);
+    let mw = closed_forms::mohan_modified_wheeler(MohanShape::Square, 10.0, d_out, d_in).unwrap();
+    let cs = closed_forms::mohan_current_sheet(MohanShape::Square, 10.0, d_out, d_in);
+    assert!(
+        (l / mw - 1.0).abs() < 0.05,
+        "L {l} vs modified Wheeler {mw}"
+    );
+    assert!((l / cs - 1.0).abs() < 0.05, "L {l} vs current sheet {cs}");
+}
