@@ -298,3 +298,51 @@ fn single_layer_square_against_mohan() {
     );
     assert!((l / cs - 1.0).abs() < 0.05, "L {l} vs current sheet {cs}");
 }
+
+#[test]
+fn every_shape_and_wiring_gives_finite_results() {
+    for layers in [1u8, 2, 3, 4] {
+        for shape in [
+            Shape::Circle,
+            Shape::Polygon { sides: 5 },
+            Shape::Rectangle {
+                width: 26.0,
+                height: 18.0,
+            },
+        ] {
+            for parallel in [false, true] {
+                if parallel && layers % 2 == 1 {
+                    continue;
+                }
+                let mut d = Design::sample();
+                d.coil.layers = layers;
+                d.coil.shape = shape;
+                d.coil.inner_diameter = 6.0;
+                d.coil.turns = 5.5;
+                d.coil.corner = coilwright::spec::Corner::Round { radius: 0.4 };
+                if parallel {
+                    d.coil.wiring = coilwright::spec::Wiring::ParallelPairs;
+                }
+                d.stackup.copper = vec![0.035; layers as usize];
+                d.stackup.dielectric = vec![0.05; layers as usize - 1];
+                let layout = build(&d).unwrap();
+                let a = analyse(&d, &layout).unwrap();
+                let v = serde_json::to_value(&a).unwrap();
+                for k in [
+                    "resistance_ohm_20c",
+                    "inductance_h",
+                    "field_center_t_per_a",
+                    "force_n",
+                    "max_current_a",
+                ] {
+                    let x = v[k].as_f64().unwrap_or(f64::NAN);
+                    assert!(
+                        x.is_finite() && x > 0.0,
+                        "{layers} {shape:?} {parallel}: {k} = {x}"
+                    );
+                }
+                assert!(a.field.radius_50_mm.is_some());
+            }
+        }
+    }
+}

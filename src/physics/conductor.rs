@@ -190,14 +190,13 @@ impl Conductor {
     /// order (pitch / radius)^2.
     pub fn rings(&self) -> Vec<Ring> {
         let mut out = Vec::new();
-        let mut acc: Option<(Ring, f64)> = None; // (ring so far, sum |f| r)
-        let flush = |acc: &mut Option<(Ring, f64)>, out: &mut Vec<Ring>| {
-            if let Some((mut r, fr)) = acc.take() {
-                let total = r.frac.abs();
-                if total > 1e-12 {
-                    r.radius = fr / total;
-                    out.push(r);
-                }
+        let mut acc: Option<(Ring, f64, f64)> = None; // (ring so far, sum |f| r, sum |f|)
+        let flush = |acc: &mut Option<(Ring, f64, f64)>, out: &mut Vec<Ring>| {
+            if let Some((mut r, fr, fa)) = acc.take()
+                && r.frac.abs() > 1e-12
+            {
+                r.radius = fr / fa;
+                out.push(r);
             }
         };
         for p in &self.pieces {
@@ -209,14 +208,14 @@ impl Conductor {
                 + 4.0 * p.segment.point_at(0.5).radius()
                 + p.segment.end().radius())
                 / 6.0);
-            if let Some((ring, _)) = &acc
+            if let Some((ring, _, _)) = &acc
                 && (ring.layer != p.layer || ring.weight != p.weight)
             {
                 flush(&mut acc, &mut out);
             }
             let mut left = frac;
             while left.abs() > 1e-12 {
-                let (ring, fr) = acc.get_or_insert((
+                let (ring, fr, fa) = acc.get_or_insert((
                     Ring {
                         radius: r,
                         z: p.z,
@@ -227,11 +226,13 @@ impl Conductor {
                         layer: p.layer,
                     },
                     0.0,
+                    0.0,
                 ));
                 let room = 1.0 - ring.frac.abs();
                 let take = left.abs().min(room) * left.signum();
                 ring.frac += take;
                 *fr += take.abs() * r;
+                *fa += take.abs();
                 left -= take;
                 if ring.frac.abs() >= 1.0 - 1e-12 {
                     flush(&mut acc, &mut out);

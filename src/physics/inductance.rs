@@ -447,7 +447,7 @@ pub enum InductanceMethod {
 }
 
 /// Relative chord sagitta for flattening arcs in the Neumann method.
-pub const NEUMANN_SAGITTA: f64 = 2e-4;
+pub const NEUMANN_SAGITTA: f64 = 5e-3;
 
 /// Inductance of the whole conductor, henry: coaxial rings for circular
 /// coils, Neumann filaments otherwise.
