@@ -66,7 +66,7 @@ pub enum MohanShape {
 
 /// Modified Wheeler formula (Mohan, Hershenson, Boyd, Lee, IEEE JSSC 34(10),
 /// 1999): `L = K1 mu0 n^2 d_avg / (1 + K2 rho)`, henry. Coefficients recalled
-/// from memory (REFERENCES.md [M]): square 2.34/2.75, hexagon 2.33/3.82,
+/// from memory (REFERENCES.md, tag M): square 2.34/2.75, hexagon 2.33/3.82,
 /// octagon 2.25/3.55. `None` for a circle (not covered).
 ///
 /// # Units
@@ -85,7 +85,7 @@ pub fn mohan_modified_wheeler(shape: MohanShape, n: f64, d_out: f64, d_in: f64) 
 
 /// Current-sheet formula (Mohan et al. 1999):
 /// `L = mu0 n^2 d_avg c1/2 (ln(c2/rho) + c3 rho + c4 rho^2)`, henry.
-/// Coefficients recalled from memory (REFERENCES.md [M]).
+/// Coefficients recalled from memory (REFERENCES.md, tag M).
 pub fn mohan_current_sheet(shape: MohanShape, n: f64, d_out: f64, d_in: f64) -> f64 {
     let (c1, c2, c3, c4) = match shape {
         MohanShape::Square => (1.27, 2.07, 0.18, 0.13),

@@ -10,6 +10,19 @@
 //! paths in SI units).
 //!
 //! All results are estimates: see the cautions in the report.
+//!
+//! # Accuracy against outside references (tests name the sources)
+//! * Biot-Savart: loop and flat-spiral closed forms to 1e-6; magpylib on the
+//!   same polylines to 1e-7 of the largest value (tests/physics_magpylib.rs).
+//! * Mutual inductance: Maxwell's formula to the scipy values of
+//!   REFERENCES.md (30.0288 nH, 5.02280 nH); Grover's ring 66.96 nH.
+//! * One-layer 20 mm, 10-turn circular coil: within 0.3 % of a Grover sum of
+//!   concentric rings, 1.1 % of Mohan's current sheet, 2.2 % of Wheeler 1928;
+//!   square coil within 0.6 % / 1.7 % of Mohan's current sheet / modified
+//!   Wheeler; Neumann filaments and Maxwell rings agree within 0.5 %.
+//! * Force on a magnet: real conductor within 0.1 % of magpylib's cylinder
+//!   field; the coaxial-ring cross-check within 0.1 % for circles and 2 %
+//!   for hexagons (rectangles are far from circles: tens of percent).
 
 pub mod closed_forms;
 pub mod conductor;

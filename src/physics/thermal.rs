@@ -8,7 +8,7 @@
 //! length `L = area / perimeter`): up `Nu = 0.54 Ra^(1/4)` (1e4..1e7) and
 //! `0.15 Ra^(1/3)` (1e7..1e11), down `Nu = 0.27 Ra^(1/4)`; the coefficients
 //! and the air properties (Incropera Table A.4) are recalled from memory
-//! ([M] in REFERENCES.md). Small coils sit below `Ra = 1e4`: the
+//! (tag M in REFERENCES.md). Small coils sit below `Ra = 1e4`: the
 //! correlations are then extrapolated and the report says so. A
 //! `drive.convection` value replaces both faces' coefficient. Radiation:
 //! `eps sigma (T^4 - Ta^4)` from each face. Copper resistance rises by
@@ -218,7 +218,7 @@ impl Board {
 
 /// Density (kg/m^3) and specific heat (J/(kg K)) of copper and of the
 /// dielectric (polyimide for flex, FR-4 for rigid), recalled from memory
-/// [M]: copper 8960 / 385 (Incropera Table A.1), polyimide 1420 / 1090,
+/// (tag M): copper 8960 / 385 (Incropera Table A.1), polyimide 1420 / 1090,
 /// FR-4 1850 / 1100.
 pub fn heat_capacities(kind: BoardKind) -> ((f64, f64), (f64, f64)) {
     let copper = (8960.0, 385.0);
