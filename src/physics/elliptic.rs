@@ -81,12 +81,14 @@ pub fn gauss_legendre(n: usize) -> (Vec<f64>, Vec<f64>) {
 
 /// Cached Gauss-Legendre rules of a few fixed orders.
 pub fn rule(n: usize) -> &'static (Vec<f64>, Vec<f64>) {
+    static R2: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
     static R4: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
     static R8: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
     static R16: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
     static R24: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
     match n {
-        0..=4 => R4.get_or_init(|| gauss_legendre(4)),
+        0..=2 => R2.get_or_init(|| gauss_legendre(2)),
+        3..=4 => R4.get_or_init(|| gauss_legendre(4)),
         5..=8 => R8.get_or_init(|| gauss_legendre(8)),
         9..=16 => R16.get_or_init(|| gauss_legendre(16)),
         _ => R24.get_or_init(|| gauss_legendre(24)),
