@@ -12,6 +12,10 @@ computes with magpylib (PyPI, SI units):
   integrated with 4-point Gauss-Legendre on pieces of at most 0.1 mm, negated
   (force on the magnet, positive away from the coil).
 
+and, with scipy (PyPI), Maxwell's mutual inductance of coaxial circles
+M = mu0 sqrt(ab) ((2/k - k) K(k) - (2/k) E(k)) for a few geometries
+(scipy.special.ellipk/ellipe take the parameter m = k^2).
+
 Writes tests/fixtures/magpylib_reference.json. Run from the repository root
 with the interop venv:  .venv-interop/bin/python tests/reference/make_magpylib_fixtures.py
 Pass --check to compare with the stored fixture instead of writing it.
@@ -23,6 +27,8 @@ from pathlib import Path
 
 import magpylib as magpy
 import numpy as np
+import scipy
+from scipy.special import ellipe, ellipk
 
 ROOT = Path(__file__).resolve().parents[2]
 FIXTURE = ROOT / "tests" / "fixtures" / "magpylib_reference.json"
@@ -70,6 +76,17 @@ def force(case):
     return float(-f_coil[2])
 
 
+def maxwell(a, b, d):
+    m = 4 * a * b / ((a + b) ** 2 + d ** 2)
+    k = np.sqrt(m)
+    mu0 = 4e-7 * np.pi
+    return float(mu0 * np.sqrt(a * b) * ((2 / k - k) * ellipk(m) - 2 / k * ellipe(m)))
+
+
+MAXWELL_CASES = [(0.010, 0.010, 0.001), (0.010, 0.005, 0.002), (0.003, 0.0031, 0.0001),
+                 (0.02, 0.001, 0.0), (0.0045, 0.0045, 8.5e-5), (0.005, 0.012, 0.03)]
+
+
 def main():
     data = export()
     cases = []
@@ -86,7 +103,9 @@ def main():
         "source": "magpylib (PyPI) via tests/reference/make_magpylib_fixtures.py",
         "magpylib_version": magpy.__version__,
         "numpy_version": np.__version__,
+        "scipy_version": scipy.__version__,
         "cases": cases,
+        "maxwell_h": [{"a_m": a, "b_m": b, "d_m": d, "m_h": maxwell(a, b, d)} for a, b, d in MAXWELL_CASES],
     }
     if "--check" in sys.argv:
         ref = json.loads(FIXTURE.read_text())
