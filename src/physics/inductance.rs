@@ -518,7 +518,12 @@ mod tests {
     fn line_potential_matches_asinh_form() {
         // int dl / r along a segment = asinh((L-s)/rho) + asinh(s/rho) (textbook).
         let u = [0.6, 0.8, 0.0];
-        for p in [[0.3, -0.2, 0.1], [-2.0, -2.0, 0.01], [5.0, 6.0, -0.2], [0.6, 0.8, 1e-3]] {
+        for p in [
+            [0.3, -0.2, 0.1],
+            [-2.0, -2.0, 0.01],
+            [5.0, 6.0, -0.2],
+            [0.6, 0.8, 1e-3],
+        ] {
             let r = sub(p, [0.0; 3]);
             let s = dot(r, u);
             let rho = (dot(r, r) - s * s).sqrt();

@@ -182,7 +182,9 @@ pub struct ThermalReport {
     pub heat_capacity_j_per_k: f64,
     /// Loss coefficients at the operating temperature.
     pub losses: thermal::Losses,
-    /// Thermal time constant C/G, s.
+    /// Thermal time constant C/G, s, with G the heat loss per kelvin
+    /// between ambient and the operating temperature (at most
+    /// max_temperature).
     pub time_constant_s: f64,
     /// How long the drive may last from ambient before reaching
     /// max_temperature, s (`None`: indefinitely).
