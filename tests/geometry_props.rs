@@ -64,18 +64,30 @@ fn designs() -> impl Strategy<Value = Design> {
                         height: height + grow,
                     };
                 }
-                let fit = FitInput {
-                    shape: d.coil.shape,
-                    corner: d.coil.corner,
-                    trace_width: w,
-                    clearance: s,
-                    outer_diameter: None,
-                    inner_diameter: (!rectangle).then_some(d.coil.inner_diameter),
-                    turns: Some(TurnsRequest::Count(d.coil.turns)),
-                    min_inner_diameter: min_id,
-                }
-                .resolve()
-                .expect("fit");
+                // Rectangles: grow the outer size until the turns fit.
+                let fit = loop {
+                    let r = FitInput {
+                        shape: d.coil.shape,
+                        corner: d.coil.corner,
+                        trace_width: w,
+                        clearance: s,
+                        outer_diameter: None,
+                        inner_diameter: (!rectangle).then_some(d.coil.inner_diameter),
+                        turns: Some(TurnsRequest::Count(d.coil.turns)),
+                        min_inner_diameter: min_id,
+                    }
+                    .resolve();
+                    match (r, d.coil.shape) {
+                        (Ok(f), _) => break f,
+                        (Err(_), Shape::Rectangle { width, height }) => {
+                            d.coil.shape = Shape::Rectangle {
+                                width: width + 1.0,
+                                height: height + 1.0,
+                            }
+                        }
+                        (Err(e), _) => panic!("fit: {e}"),
+                    }
+                };
                 d.coil.outer_diameter = fit.outer_diameter;
                 d.coil.inner_diameter = fit.inner_diameter;
                 d

@@ -73,14 +73,14 @@ pub fn random_design(i: usize) -> Design {
             }
         }
     };
-    d.coil.corner = if (i / 3) % 2 == 0 {
+    d.coil.corner = if (i / 3).is_multiple_of(2) {
         Corner::Sharp
     } else {
         Corner::Round {
             radius: r.len(0.2, 1.0),
         }
     };
-    d.coil.wiring = if layers % 2 == 0 && r.pick(2) == 0 {
+    d.coil.wiring = if layers.is_multiple_of(2) && r.pick(2) == 0 {
         Wiring::ParallelPairs
     } else {
         Wiring::Series
@@ -174,7 +174,7 @@ fn require_tools() -> PathBuf {
 /// with) into `dir`.
 fn write_bundle(d: &Design, dir: &Path) {
     let layout = geometry::build(d).unwrap_or_else(|e| panic!("{}: {e}", d.name));
-    let analysis = coilwright::physics::analyse(d, &layout);
+    let analysis = coilwright::physics::analyse(d, &layout).expect("analysis");
     for f in export::bundle(d, &layout, &analysis).unwrap() {
         let p = dir.join(&f.path);
         std::fs::create_dir_all(p.parent().unwrap()).unwrap();

@@ -26,7 +26,7 @@ pub fn run(spec: &Path, out: &Path, force: bool) -> Result<Exit, Failure> {
         ))?;
         return Ok(Exit::Violations);
     }
-    let analysis = pipeline::analysis(&checked);
+    let analysis = pipeline::analysis(&checked)?;
     let design = &checked.loaded.design;
     let files = export::bundle(design, &checked.layout, &analysis)
         .map_err(|e| anyhow!("cannot produce the output files: {e}"))?;

@@ -138,6 +138,8 @@ pub fn check(path: &Path) -> Result<Checked, Failure> {
 }
 
 /// The engineering analysis of a checked design.
-pub fn analysis(checked: &Checked) -> Analysis {
+pub fn analysis(checked: &Checked) -> Result<Analysis, Failure> {
     physics::analyse(&checked.loaded.design, &checked.layout)
+        .with_context(|| format!("cannot analyse {}", checked.loaded.path.display()))
+        .map_err(Failure::from)
 }

@@ -7,7 +7,7 @@ use std::io::Write;
 use std::path::Path;
 
 /// Runs `report`.
-pub fn run(spec: &Path, _json: bool, out: Option<&Path>, force: bool) -> Result<Exit, Failure> {
+pub fn run(spec: &Path, json: bool, out: Option<&Path>, force: bool) -> Result<Exit, Failure> {
     if let Some(file) = out
         && file.exists()
         && !force
@@ -17,9 +17,19 @@ pub fn run(spec: &Path, _json: bool, out: Option<&Path>, force: bool) -> Result<
         );
     }
     let checked = pipeline::check(spec)?;
-    let analysis = pipeline::analysis(&checked);
-    // The Markdown rendering comes with the report exporter; JSON for now.
-    let text = format!("{}\n", serde_json::to_string_pretty(&analysis)?);
+    let analysis = pipeline::analysis(&checked)?;
+    let text = if json {
+        format!("{}\n", serde_json::to_string_pretty(&analysis)?)
+    } else {
+        crate::export::report::markdown(&checked.loaded.design, &analysis)
+    };
+    // When the report goes to a file, limits exceeded (temperature,
+    // current) are also said on the terminal.
+    if out.is_some() {
+        for w in &analysis.warnings {
+            eprintln!("warning: {w}");
+        }
+    }
     match out {
         None => print_out(&text)?,
         Some(file) => write_file(file, text.as_bytes(), force)?,

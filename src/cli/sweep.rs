@@ -53,7 +53,14 @@ fn evaluate(base: &Loaded, text: &str) -> Evaluation {
         Ok(v) => v,
         Err(_) => return Evaluation::Invalid("rule profile could not be loaded".into()),
     };
-    let analysis = crate::physics::analyse(&loaded.design, &layout);
+    let analysis = match crate::physics::analyse_with(
+        &loaded.design,
+        &layout,
+        crate::physics::Detail::Metrics,
+    ) {
+        Ok(a) => a,
+        Err(e) => return Evaluation::Invalid(format!("analysis: {e}")),
+    };
     let json = serde_json::to_value(&analysis).unwrap_or_default();
     let m = explore::metrics(&loaded.design, &layout, &violations, &json);
     let errors: Vec<String> = violations

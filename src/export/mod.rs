@@ -9,6 +9,7 @@ pub mod job;
 pub mod kicad;
 pub mod manifest;
 pub mod out_dir;
+pub mod report;
 pub mod svg;
 
 use crate::geometry::Layout;
@@ -43,12 +44,13 @@ pub enum ExportError {
 pub fn bundle(
     design: &Design,
     layout: &Layout,
-    _analysis: &Analysis,
+    analysis: &Analysis,
 ) -> Result<Vec<OutFile>, ExportError> {
     let mut files = Vec::new();
     fab_files(design, layout, &mut files)?;
     kicad_files(design, layout, &mut files)?;
     files.extend(previews(layout, &[]));
+    files.extend(report::files(design, analysis)?);
     let m = manifest::manifest(&design.name, &files)?;
     files.push(OutFile {
         path: manifest::FILE_NAME.into(),

@@ -182,11 +182,15 @@ impl SpiralSpec {
         let d = |k: usize| bases[k % n] + p * k as f64 / n as f64;
         let normal = |k: usize| Vec2::from_angle(k as f64 * alpha);
         let last = segs.len().max(1) - 1;
-        let first = match self.corner {
-            Corner::Sharp => last + 1,
-            Corner::Round { .. } if last.is_multiple_of(2) => last / 2 + 1,
-            Corner::Round { .. } => (last - 1) / 2 + 2,
+        // The spiral ends on side `k` (or on the corner after it); the ring
+        // side facing it is `k + n`. Start the ring at side `k + 2` so that
+        // both corners next to the facing side are regular (concentric) and
+        // the one sharp closing corner lies a full side away from the end.
+        let k = match self.corner {
+            Corner::Sharp => last,
+            Corner::Round { .. } => last / 2,
         };
+        let first = k + 2;
         let close = first + n - 1;
         let v0 = intersect(normal(close), d(close), normal(first), d(first));
         let mut out = Vec::with_capacity(2 * n);

@@ -1,0 +1,63 @@
+//! Benchmarks of the analysis: the Biot-Savart sum (10,000 segments x
+//! 10,000 points) and the full analysis of an 8-layer, 100-turn coil
+//! (target under 1 s).
+
+use coilwright::physics::field::Segments;
+use coilwright::spec::Design;
+use criterion::{Criterion, criterion_group, criterion_main};
+use std::hint::black_box;
+use std::time::Duration;
+
+fn biot_savart(c: &mut Criterion) {
+    let n = 10_000;
+    let mut segs = Segments::default();
+    let verts: Vec<[f64; 3]> = (0..=n)
+        .map(|i| {
+            let t = i as f64 / 100.0 * std::f64::consts::TAU;
+            let r = 0.002 + 0.01 * i as f64 / n as f64;
+            [r * t.cos(), r * t.sin(), 0.0]
+        })
+        .collect();
+    for w in verts.windows(2) {
+        segs.push(w[0], w[1], 1.0);
+    }
+    let points: Vec<[f64; 3]> = (0..n)
+        .map(|k| {
+            [
+                -0.015 + 0.03 * (k % 100) as f64 / 100.0,
+                -0.015 + 0.03 * (k / 100) as f64 / 100.0,
+                0.001,
+            ]
+        })
+        .collect();
+    let mut g = c.benchmark_group("biot_savart");
+    g.sample_size(10).measurement_time(Duration::from_secs(10));
+    g.bench_function("10k_segments_x_10k_points", |b| {
+        b.iter(|| black_box(segs.field(black_box(&points))))
+    });
+    g.finish();
+}
+
+fn report_8_layer_100_turns(c: &mut Criterion) {
+    let mut d = Design::sample();
+    d.coil.layers = 8;
+    d.stackup.copper = vec![0.035; 8];
+    d.stackup.dielectric = vec![0.05; 7];
+    d.coil.turns = 100.0;
+    d.coil.inner_diameter = 6.0;
+    d.coil.outer_diameter = 6.0 + 2.0 * (100.0 * d.coil.pitch() + d.coil.clearance);
+    let layout = coilwright::geometry::build(&d).expect("layout");
+    let mut g = c.benchmark_group("report");
+    g.sample_size(10).measurement_time(Duration::from_secs(10));
+    g.bench_function("8_layers_100_turns", |b| {
+        b.iter(|| {
+            let a =
+                coilwright::physics::analyse(black_box(&d), black_box(&layout)).expect("analysis");
+            black_box(coilwright::export::report::files(&d, &a).expect("report"))
+        })
+    });
+    g.finish();
+}
+
+criterion_group!(benches, biot_savart, report_8_layer_100_turns);
+criterion_main!(benches);

@@ -1,0 +1,68 @@
+//! One full sweep candidate (parse, geometry, rule check, analysis at
+//! `Detail::Metrics`, metrics) for a 4-layer, 20-turn circular coil, and a
+//! 64-candidate batch through `Sweep::run` (parallel, all cores), so the
+//! candidates-per-second figure of issue 6 can be read off.
+use coilwright::explore::{self, Evaluation, Objective, Sweep};
+use coilwright::{geometry, physics, rules, spec};
+use criterion::{Criterion, criterion_group, criterion_main};
+use std::hint::black_box;
+
+const BASE: &str = r#"
+name = "bench"
+[coil]
+outer_diameter = "20mm"
+turns = 20
+trace_width = "0.15mm"
+clearance = "0.1mm"
+layers = 4
+[magnet]
+diameter = "5mm"
+thickness = "2mm"
+remanence = "1.3T"
+gap = "0.5mm"
+[drive]
+voltage = "3.3V"
+"#;
+
+fn evaluate(text: &str) -> Evaluation {
+    let d = match spec::parse(text) {
+        Ok(d) => d,
+        Err(e) => return Evaluation::Invalid(e.to_string()),
+    };
+    let l = geometry::build(&d).expect("parse builds");
+    let profile = rules::Profile::builtin("standard").expect("built-in profile");
+    let v = rules::check(&d, &l, &profile);
+    let a = physics::analyse_with(&d, &l, physics::Detail::Metrics).expect("analysis");
+    let json = serde_json::to_value(&a).expect("json");
+    Evaluation::Metrics(explore::metrics(&d, &l, &v, &json))
+}
+
+fn bench(c: &mut Criterion) {
+    c.bench_function("sweep candidate 4 layers x 20 turns (one core)", |b| {
+        b.iter(|| evaluate(black_box(BASE)))
+    });
+    let known: Vec<String> = match evaluate(BASE) {
+        Evaluation::Metrics(m) => m.into_keys().collect(),
+        _ => panic!("base design must evaluate"),
+    };
+    let sweep = Sweep::new(
+        BASE,
+        vec![explore::parse_vary("turns=17..20:0.05").expect("vary")],
+        vec![],
+        Objective {
+            metric: "force_per_sqrt_w_n".into(),
+            maximize: true,
+        },
+        None,
+        &known,
+    )
+    .expect("sweep");
+    assert_eq!(sweep.len(), 61);
+    let mut g = c.benchmark_group("sweep batch");
+    g.sample_size(10);
+    g.bench_function("61 candidates, all cores", |b| b.iter(|| sweep.run(evaluate, || {})));
+    g.finish();
+}
+
+criterion_group!(benches, bench);
+criterion_main!(benches);

@@ -1,0 +1,630 @@
+//! The engineering report: `report.md` (for people), `report.json` (the
+//! [`Analysis`] as JSON) and SVG plots (field on the axis, field across the
+//! coil, force against gap). Translates the analysis; computes nothing new.
+
+use super::{ExportError, OutFile};
+use crate::physics::{Analysis, ProfilePoint};
+use crate::spec::{Design, Source};
+use std::fmt::Write as _;
+
+/// Line colours sampled from the viridis colour map (perceptually uniform,
+/// readable in grey): dark blue, teal, green.
+const COLOURS: [&str; 3] = ["#3b528b", "#21918c", "#5ec962"];
+
+/// `report.md`, `report.json` and the plots, in a fixed order.
+///
+/// # Errors
+/// [`ExportError::Unrepresentable`] if the analysis cannot be written as JSON.
+pub fn files(design: &Design, analysis: &Analysis) -> Result<Vec<OutFile>, ExportError> {
+    let json = serde_json::to_vec_pretty(analysis)
+        .map_err(|e| ExportError::Unrepresentable(format!("report.json: {e}")))?;
+    let mut out = vec![
+        OutFile {
+            path: "report.md".into(),
+            role: "engineering report".into(),
+            bytes: markdown(design, analysis).into_bytes(),
+        },
+        OutFile {
+            path: "report.json".into(),
+            role: "engineering report (JSON, SI units)".into(),
+            bytes: json,
+        },
+    ];
+    for (name, role, svg) in plots(analysis) {
+        out.push(OutFile {
+            path: format!("plots/{name}"),
+            role: role.into(),
+            bytes: svg.into_bytes(),
+        });
+    }
+    Ok(out)
+}
+
+/// The plots as (file name, role, SVG text).
+pub fn plots(a: &Analysis) -> Vec<(String, &'static str, String)> {
+    let mut v = vec![
+        (
+            "field_axis.svg".to_string(),
+            "plot: field on the axis",
+            line_plot(
+                "Field on the coil axis (per ampere)",
+                "height above top copper (mm)",
+                "B (mT/A)",
+                &[("B on axis", to_xy(&a.field.axial, 1e3))],
+            ),
+        ),
+        (
+            "field_radial.svg".to_string(),
+            "plot: field across the coil",
+            line_plot(
+                &format!(
+                    "Bz across the coil, {:.2} mm above the top copper (per ampere)",
+                    a.field.radial_height_mm
+                ),
+                "distance from axis (mm)",
+                "Bz (mT/A)",
+                &[("Bz", to_xy(&a.field.radial, 1e3))],
+            ),
+        ),
+    ];
+    if let Some(m) = &a.magnet {
+        let pts: Vec<(f64, f64)> = m
+            .force_vs_gap
+            .iter()
+            .map(|p| (p.gap_mm, p.force_n_per_a * 1e3))
+            .collect();
+        v.push((
+            "force_gap.svg".to_string(),
+            "plot: force on the magnet against gap",
+            line_plot(
+                "Axial force on the magnet against gap (per ampere)",
+                "gap from top copper to magnet (mm)",
+                "force (mN/A)",
+                &[("force", pts)],
+            ),
+        ));
+    }
+    v
+}
+
+fn to_xy(p: &[ProfilePoint], scale: f64) -> Vec<(f64, f64)> {
+    p.iter().map(|q| (q.at_mm, q.b_t_per_a * scale)).collect()
+}
+
+/// "Nice" tick positions (steps of 1, 2 or 5 times a power of ten)
+/// covering `lo..hi` with about `n` ticks.
+fn ticks(lo: f64, hi: f64, n: usize) -> (f64, f64, f64) {
+    let span = (hi - lo).abs().max(1e-12);
+    let raw = span / n as f64;
+    let p = 10f64.powf(raw.log10().floor());
+    let step = [1.0, 2.0, 5.0, 10.0]
+        .iter()
+        .map(|m| m * p)
+        .find(|s| *s >= raw)
+        .unwrap_or(10.0 * p);
+    ((lo / step).floor() * step, (hi / step).ceil() * step, step)
+}
+
+fn fmt_tick(v: f64, step: f64) -> String {
+    let dec = if step >= 1.0 {
+        0
+    } else {
+        (-step.log10().floor()) as usize
+    };
+    let s = format!("{v:.dec$}");
+    if s == "-0" || s.starts_with("-0.") && s.trim_start_matches("-0.").chars().all(|c| c == '0') {
+        s.trim_start_matches('-').to_string()
+    } else {
+        s
+    }
+}
+
+fn esc(s: &str) -> String {
+    s.replace('&', "&amp;")
+        .replace('<', "&lt;")
+        .replace('>', "&gt;")
+}
+
+/// A line plot with axes, ticks, grid, labels and a legend, as SVG text.
+pub fn line_plot(
+    title: &str,
+    xlabel: &str,
+    ylabel: &str,
+    series: &[(&str, Vec<(f64, f64)>)],
+) -> String {
+    let (w, h) = (640.0, 400.0);
+    let (l, r, t, b) = (78.0, 20.0, 40.0, 56.0);
+    let all = series.iter().flat_map(|s| s.1.iter());
+    let (mut x0, mut x1, mut y0, mut y1) = (
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+    );
+    for &(x, y) in all {
+        if x.is_finite() && y.is_finite() {
+            x0 = x0.min(x);
+            x1 = x1.max(x);
+            y0 = y0.min(y);
+            y1 = y1.max(y);
+        }
+    }
+    if !x0.is_finite() {
+        (x0, x1, y0, y1) = (0.0, 1.0, 0.0, 1.0);
+    }
+    y0 = y0.min(0.0);
+    if y1 <= y0 {
+        y1 = y0 + 1.0;
+    }
+    if x1 <= x0 {
+        x1 = x0 + 1.0;
+    }
+    let (xa, xb, xs) = ticks(x0, x1, 8);
+    let (ya, yb, ys) = ticks(y0, y1, 6);
+    let px = |x: f64| l + (x - xa) / (xb - xa) * (w - l - r);
+    let py = |y: f64| h - b - (y - ya) / (yb - ya) * (h - t - b);
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" width="{w}" height="{h}" viewBox="0 0 {w} {h}" font-family="DejaVu Sans, Arial, sans-serif" font-size="12">"#
+    );
+    let _ = writeln!(
+        s,
+        r##"<rect x="0" y="0" width="{w}" height="{h}" fill="#ffffff"/>"##
+    );
+    let _ = writeln!(
+        s,
+        r##"<text x="{}" y="22" text-anchor="middle" font-size="14" fill="#1a1a1a">{}</text>"##,
+        w / 2.0,
+        esc(title)
+    );
+    // Grid and ticks.
+    let mut x = xa;
+    while x <= xb + xs * 1e-9 {
+        let gx = px(x);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{gx:.2}" y1="{:.2}" x2="{gx:.2}" y2="{:.2}" stroke="#e4e4e4"/>"##,
+            py(ya),
+            py(yb)
+        );
+        let _ = writeln!(
+            s,
+            r##"<line x1="{gx:.2}" y1="{:.2}" x2="{gx:.2}" y2="{:.2}" stroke="#333333"/>"##,
+            py(ya),
+            py(ya) + 5.0
+        );
+        let _ = writeln!(
+            s,
+            r##"<text x="{gx:.2}" y="{:.2}" text-anchor="middle" fill="#333333">{}</text>"##,
+            py(ya) + 18.0,
+            fmt_tick(x, xs)
+        );
+        x += xs;
+    }
+    let mut y = ya;
+    while y <= yb + ys * 1e-9 {
+        let gy = py(y);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{gy:.2}" x2="{:.2}" y2="{gy:.2}" stroke="#e4e4e4"/>"##,
+            px(xa),
+            px(xb)
+        );
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{gy:.2}" x2="{:.2}" y2="{gy:.2}" stroke="#333333"/>"##,
+            px(xa) - 5.0,
+            px(xa)
+        );
+        let _ = writeln!(
+            s,
+            r##"<text x="{:.2}" y="{:.2}" text-anchor="end" fill="#333333">{}</text>"##,
+            px(xa) - 8.0,
+            gy + 4.0,
+            fmt_tick(y, ys)
+        );
+        y += ys;
+    }
+    if ya < 0.0 && yb > 0.0 {
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{:.2}" x2="{:.2}" y2="{:.2}" stroke="#999999" stroke-dasharray="4 3"/>"##,
+            px(xa),
+            py(0.0),
+            px(xb),
+            py(0.0)
+        );
+    }
+    // Axes.
+    let _ = writeln!(
+        s,
+        r##"<path d="M{:.2},{:.2} L{:.2},{:.2} L{:.2},{:.2}" fill="none" stroke="#333333"/>"##,
+        px(xa),
+        py(yb),
+        px(xa),
+        py(ya),
+        px(xb),
+        py(ya)
+    );
+    let _ = writeln!(
+        s,
+        r##"<text x="{:.2}" y="{:.2}" text-anchor="middle" fill="#1a1a1a">{}</text>"##,
+        (px(xa) + px(xb)) / 2.0,
+        h - 14.0,
+        esc(xlabel)
+    );
+    let _ = writeln!(
+        s,
+        r##"<text x="18" y="{:.2}" text-anchor="middle" fill="#1a1a1a" transform="rotate(-90 18 {:.2})">{}</text>"##,
+        (py(ya) + py(yb)) / 2.0,
+        (py(ya) + py(yb)) / 2.0,
+        esc(ylabel)
+    );
+    // Series.
+    for (i, (name, pts)) in series.iter().enumerate() {
+        let c = COLOURS[i % COLOURS.len()];
+        let d: Vec<String> = pts
+            .iter()
+            .filter(|p| p.0.is_finite() && p.1.is_finite())
+            .enumerate()
+            .map(|(k, &(x, y))| {
+                format!(
+                    "{}{:.2},{:.2}",
+                    if k == 0 { "M" } else { "L" },
+                    px(x),
+                    py(y)
+                )
+            })
+            .collect();
+        let _ = writeln!(
+            s,
+            r#"<path d="{}" fill="none" stroke="{c}" stroke-width="2"/>"#,
+            d.join(" ")
+        );
+        if series.len() > 1 {
+            let ly = t + 14.0 + 16.0 * i as f64;
+            let lx = w - r - 150.0;
+            let _ = writeln!(
+                s,
+                r#"<line x1="{lx}" y1="{ly}" x2="{}" y2="{ly}" stroke="{c}" stroke-width="2"/>"#,
+                lx + 20.0
+            );
+            let _ = writeln!(
+                s,
+                r##"<text x="{}" y="{}" fill="#1a1a1a">{}</text>"##,
+                lx + 26.0,
+                ly + 4.0,
+                esc(name)
+            );
+        }
+    }
+    s.push_str("</svg>\n");
+    s
+}
+
+fn si(v: f64, unit: &str) -> String {
+    let a = v.abs();
+    let (f, p) = if a == 0.0 {
+        (1.0, "")
+    } else if a < 1e-6 {
+        (1e9, "n")
+    } else if a < 1e-3 {
+        (1e6, "u")
+    } else if a < 1.0 {
+        (1e3, "m")
+    } else {
+        (1.0, "")
+    };
+    format!("{:.4} {p}{unit}", v * f)
+}
+
+/// The report for people, in Markdown: warnings first, then the numbers
+/// with units, the published estimates, the assumptions and cautions.
+pub fn markdown(design: &Design, a: &Analysis) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "# Coil report: {}\n", design.name);
+    let c = &design.coil;
+    let size = match c.shape {
+        crate::spec::Shape::Rectangle { width, height } => {
+            format!("rectangle {width:.3} x {height:.3} mm")
+        }
+        crate::spec::Shape::Polygon { sides } => {
+            format!(
+                "{sides}-sided polygon, {:.3} mm across corners",
+                c.outer_diameter
+            )
+        }
+        crate::spec::Shape::Circle => format!("circle, {:.3} mm outside", c.outer_diameter),
+    };
+    let _ = writeln!(
+        s,
+        "{size}, free centre {:.3} mm; {} layer(s), {} turns per layer, trace {:.3} mm, clearance {:.3} mm, {:?} wiring, {:?} board.\n",
+        c.inner_diameter,
+        c.layers,
+        c.turns,
+        c.trace_width,
+        c.clearance,
+        c.wiring,
+        design.stackup.kind
+    );
+    if !a.warnings.is_empty() {
+        let _ = writeln!(s, "## Warnings\n");
+        for w in &a.warnings {
+            let _ = writeln!(s, "- **{w}**");
+        }
+        let _ = writeln!(s);
+    }
+    let drive = match a.inputs.drive {
+        Source::Voltage(v) => format!("{v} V"),
+        Source::Current(i) => format!("{i} A"),
+    };
+    let _ = writeln!(
+        s,
+        "## At the drive ({drive}, ambient {} C)\n",
+        a.inputs.ambient_c
+    );
+    let _ = writeln!(s, "| quantity | value |\n|---|---|");
+    let temp = a
+        .temperature_c
+        .map_or("no steady state (burns out)".to_string(), |t| {
+            format!("{t:.1} C")
+        });
+    let rows = [
+        ("current", format!("{:.4} A", a.current_a)),
+        ("voltage", format!("{:.4} V", a.voltage_v)),
+        ("power", format!("{:.4} W", a.power_w)),
+        ("steady temperature", temp),
+        (
+            "resistance at 20 C",
+            format!("{:.4} ohm", a.resistance_ohm_20c),
+        ),
+        (
+            "resistance at operating temperature",
+            format!("{:.4} ohm", a.resistance_ohm_hot),
+        ),
+        ("inductance", si(a.inductance_h, "H")),
+        (
+            "field at the centre of the top copper, per ampere",
+            format!("{:.4} mT/A", a.field_center_t_per_a * 1e3),
+        ),
+        (
+            "field at the centre at the drive",
+            format!("{:.4} mT", a.field.center_at_drive_t * 1e3),
+        ),
+        (
+            "max current / voltage for max_temperature",
+            format!(
+                "{:.4} A / {:.4} V (at {} C)",
+                a.max_current_a, a.max_voltage_v, a.inputs.max_temperature_c
+            ),
+        ),
+        ("trace length", format!("{:.1} mm", a.trace_length_mm)),
+        ("finished thickness", format!("{:.3} mm", a.thickness_mm)),
+        (
+            "min bend radius, static / dynamic",
+            format!(
+                "{:.2} mm / {:.2} mm",
+                a.bend_radius_min_mm, a.bend_radius_dynamic_mm
+            ),
+        ),
+    ];
+    for (k, v) in rows {
+        let _ = writeln!(s, "| {k} | {v} |");
+    }
+    if let Some(m) = &a.magnet {
+        let _ = writeln!(
+            s,
+            "| force on the magnet at the drive | {:.4} mN |",
+            m.force_n * 1e3
+        );
+        let _ = writeln!(
+            s,
+            "| force per ampere | {:.4} mN/A |",
+            m.force_per_a_n * 1e3
+        );
+        let _ = writeln!(
+            s,
+            "| force per square-root watt | {:.4} mN/sqrt(W) |",
+            m.force_per_sqrt_w_n * 1e3
+        );
+    }
+    let _ = writeln!(s);
+
+    let _ = writeln!(
+        s,
+        "## Layers\n\n| layer | group | length (mm) | copper (um) | R at 20 C (ohm) |\n|---|---|---|---|---|"
+    );
+    for l in &a.layers {
+        let _ = writeln!(
+            s,
+            "| {} | {} | {:.1} | {:.1} | {:.4} |",
+            l.layer, l.group, l.length_mm, l.copper_um, l.resistance_ohm_20c
+        );
+    }
+    let _ = writeln!(s, "\nVia barrels: {:.5} ohm at 20 C.\n", a.vias_ohm_20c);
+
+    let i = &a.inductance;
+    let _ = writeln!(s, "## Inductance\n");
+    let _ = writeln!(s, "- computed (all layers): {}", si(a.inductance_h, "H"));
+    let _ = writeln!(
+        s,
+        "- computed, top layer alone (with its leads): {}",
+        si(i.single_layer_h, "H")
+    );
+    let _ = writeln!(
+        s,
+        "- published single-layer estimates (d_out {:.3} mm, d_in {:.3} mm):",
+        i.d_out_mm, i.d_in_mm
+    );
+    let est = [
+        (
+            "Mohan et al. 1999, modified Wheeler",
+            i.mohan_modified_wheeler_h,
+        ),
+        (
+            "Mohan et al. 1999, current sheet (typically within 2-3 %)",
+            i.mohan_current_sheet_h,
+        ),
+        (
+            "Wheeler 1928 flat spiral (within 5 % for depth > 0.2 mean radius)",
+            i.wheeler_1928_h,
+        ),
+    ];
+    let mut any = false;
+    for (k, v) in est {
+        if let Some(v) = v {
+            any = true;
+            let _ = writeln!(
+                s,
+                "  - {k}: {} ({:+.1} % from the computed single layer)",
+                si(v, "H"),
+                100.0 * (v / i.single_layer_h - 1.0)
+            );
+        }
+    }
+    if !any {
+        let _ = writeln!(s, "  - none applies to this shape");
+    }
+    if let Some(z) = &a.impedance {
+        let _ = writeln!(
+            s,
+            "- at {} Hz: reactance {:.4} ohm, |Z| {:.4} ohm, Q {:.3}; skin depth {:.1} um",
+            z.frequency_hz, z.reactance_ohm, z.impedance_ohm, z.q, z.skin_depth_um
+        );
+    }
+    let _ = writeln!(s);
+
+    let f = &a.field;
+    let _ = writeln!(s, "## Field\n");
+    let _ = writeln!(
+        s,
+        "- on the axis at the top copper surface: {:.4} mT/A (pointing into the board for current entering terminal 1)",
+        f.center_t_per_a * 1e3
+    );
+    let r = |x: Option<f64>| x.map_or("not reached".to_string(), |v| format!("{v:.2} mm"));
+    let _ = writeln!(
+        s,
+        "- {:.2} mm above the top copper, Bz falls to 90 % of its axis value at {} and to 50 % at {} from the axis",
+        f.radial_height_mm,
+        r(f.radius_90_mm),
+        r(f.radius_50_mm)
+    );
+    let _ = writeln!(
+        s,
+        "- Biot-Savart on {} straight filaments; arcs as chords with sagitta at most {:.1e} of their radius (on-axis error below about {:.0e})",
+        f.filaments,
+        f.chord_sagitta_relative,
+        f.chord_sagitta_relative * 2.0 / 3.0
+    );
+    let _ = writeln!(
+        s,
+        "\n![field on the axis](plots/field_axis.svg)\n\n![field across the coil](plots/field_radial.svg)\n"
+    );
+
+    if let (Some(m), Some(mg)) = (&a.magnet, &design.magnet) {
+        let _ = writeln!(s, "## Force on the magnet\n");
+        let _ = writeln!(
+            s,
+            "Cylinder {:.2} mm x {:.2} mm, Br {:.2} T, {:.2} mm above the top copper, magnetised away from the coil. Positive force pushes the magnet away; flip the magnet or the current to pull.\n",
+            mg.diameter, mg.thickness, mg.remanence, mg.gap
+        );
+        let _ = writeln!(
+            s,
+            "- Lorentz force on the real conductor in the magnet's field (magnet as surface current Br/mu0, Derby & Olbert 2010): {:.4} mN/A",
+            m.lorentz_n_per_a * 1e3
+        );
+        let _ = writeln!(
+            s,
+            "- cross-check, coil as coaxial loops with Maxwell's mutual inductance: {:.4} mN/A ({:.1} % apart)",
+            m.rings_n_per_a * 1e3,
+            100.0 * m.methods_difference
+        );
+        let _ = writeln!(
+            s,
+            "- the magnet's own field at the coil centre: {:.1} mT",
+            m.magnet_field_at_coil_t * 1e3
+        );
+        let _ = writeln!(s, "\n![force against gap](plots/force_gap.svg)\n");
+    }
+
+    let t = &a.thermal;
+    let _ = writeln!(s, "## Heating\n");
+    let _ = writeln!(
+        s,
+        "- board face {:.1} mm^2, characteristic length {:.2} mm, heat capacity {:.4} J/K",
+        t.area_mm2, t.char_length_mm, t.heat_capacity_j_per_k
+    );
+    let _ = writeln!(
+        s,
+        "- at the operating temperature: convection top {:.2}, bottom {:.2}, radiation {:.2} W/(m^2 K); Rayleigh number {:.0}",
+        t.losses.h_top_w_per_m2k,
+        t.losses.h_bottom_w_per_m2k,
+        t.losses.h_radiation_w_per_m2k,
+        t.losses.rayleigh
+    );
+    let _ = writeln!(s, "- convection: {}", t.convection_source);
+    let _ = writeln!(s, "- thermal time constant {:.2} s", t.time_constant_s);
+    match t.pulse_s {
+        Some(p) => {
+            let _ = writeln!(
+                s,
+                "- from ambient, the drive may last {p:.3} s before the coil reaches {} C",
+                a.inputs.max_temperature_c
+            );
+        }
+        None => {
+            let _ = writeln!(
+                s,
+                "- the drive may stay on indefinitely (steady temperature below {} C)",
+                a.inputs.max_temperature_c
+            );
+        }
+    }
+    let _ = writeln!(s, "\n## Bending\n");
+    let _ = writeln!(
+        s,
+        "Finished thickness {:.3} mm; minimum bend radius {:.2} mm ({} x, bent once to install) and {:.2} mm ({} x, repeated bending): {}.\n",
+        a.mechanics.thickness_mm,
+        a.mechanics.bend_radius_min_mm,
+        a.mechanics.static_ratio,
+        a.mechanics.bend_radius_dynamic_mm,
+        a.mechanics.dynamic_ratio,
+        a.mechanics.source
+    );
+    let _ = writeln!(s, "## Notes\n");
+    for n in &a.notes {
+        let _ = writeln!(s, "- {n}");
+    }
+    let _ = writeln!(s, "\n## Cautions\n");
+    let _ = writeln!(
+        s,
+        "- These are estimates from models; measure a prototype before relying on them."
+    );
+    let _ = writeln!(
+        s,
+        "- Copper thickness, trace width and dielectric vary from fab to fab (copper +-10 % is common): check your fab's stack-up."
+    );
+    let _ = writeln!(
+        s,
+        "- Above about 80 C a coil burns skin on touch, and adhesives and dielectrics age; keep well below the dielectric's rating."
+    );
+    let _ = writeln!(
+        s,
+        "- Heating assumes still air around a board lying flat; an enclosure, a heat sink or nearby parts change it a lot."
+    );
+    s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ticks_are_nice() {
+        assert_eq!(ticks(0.0, 9.3, 8), (0.0, 10.0, 2.0));
+        let (a, b, st) = ticks(-0.013, 0.42, 6);
+        assert!((st - 0.1).abs() < 1e-12 && (a + 0.1).abs() < 1e-12 && (b - 0.5).abs() < 1e-12);
+        assert_eq!(fmt_tick(0.30000000000000004, 0.1), "0.3");
+    }
+}

@@ -1,0 +1,265 @@
+//! The conductor as the physics sees it: every track of every winding with
+//! its layer height, copper section and share of the coil current, in SI
+//! units (metres).
+//!
+//! Heights: `z = 0` is the top surface of the top copper layer, `z` grows
+//! away from the board (towards a magnet above it); layer `k` has its copper
+//! centre at `-(sum over layers above of copper + dielectric) - t_k / 2`.
+
+use crate::geometry::{Layout, Segment, TrackRole, Wiring};
+use crate::spec::Design;
+
+/// Millimetres to metres: the one place where the factor 1000 lives.
+pub fn m(mm: f64) -> f64 {
+    mm * 1e-3
+}
+
+/// Metres to millimetres.
+pub fn to_mm(m: f64) -> f64 {
+    m * 1e3
+}
+
+/// One track as a current path.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Piece {
+    /// Centre line in the layout's coordinates, mm (in current order).
+    pub segment: Segment,
+    /// Copper layer, 1 = top.
+    pub layer: u8,
+    /// Height of the copper centre, m.
+    pub z: f64,
+    /// Track width, m.
+    pub width: f64,
+    /// Copper thickness, m.
+    pub thickness: f64,
+    /// Share of the terminal current flowing here (1 in series, 1/2 in a
+    /// parallel pair).
+    pub weight: f64,
+    /// Spiral or lead.
+    pub role: TrackRole,
+}
+
+/// A straight current filament in 3-D, metres.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Filament {
+    /// Start (current enters), m.
+    pub a: [f64; 3],
+    /// End, m.
+    pub b: [f64; 3],
+    /// Share of the terminal current.
+    pub weight: f64,
+    /// Copper layer, 1 = top.
+    pub layer: u8,
+    /// Track width, m.
+    pub width: f64,
+    /// Copper thickness, m.
+    pub thickness: f64,
+}
+
+/// The conductor of a coil.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Conductor {
+    /// Every track of every winding, in current order.
+    pub pieces: Vec<Piece>,
+    /// Copper centre height per layer (index 0 = layer 1), m.
+    pub layer_z: Vec<f64>,
+    /// Copper thickness per layer, m.
+    pub layer_t: Vec<f64>,
+}
+
+impl Conductor {
+    /// Builds the conductor from the layout and the stack-up of the design.
+    pub fn new(design: &Design, layout: &Layout) -> Conductor {
+        let n = layout.layers as usize;
+        let mut layer_z = Vec::with_capacity(n);
+        let mut layer_t = Vec::with_capacity(n);
+        let mut depth = 0.0;
+        for k in 0..n {
+            let t = m(design.stackup.copper.get(k).copied().unwrap_or(0.035));
+            layer_z.push(-(depth + t / 2.0));
+            layer_t.push(t);
+            depth += t + m(design.stackup.dielectric.get(k).copied().unwrap_or(0.0));
+        }
+        let mut pieces = Vec::new();
+        for w in &layout.windings {
+            let share = match layout.wiring {
+                Wiring::Series => 1.0,
+                Wiring::ParallelPairs => {
+                    1.0 / layout
+                        .windings
+                        .iter()
+                        .filter(|o| o.group == w.group)
+                        .count() as f64
+                }
+            };
+            let li = (w.layer as usize).saturating_sub(1).min(n - 1);
+            for t in layout.winding_tracks(w) {
+                pieces.push(Piece {
+                    segment: t.segment,
+                    layer: w.layer,
+                    z: layer_z[li],
+                    width: m(t.width),
+                    thickness: layer_t[li],
+                    weight: share,
+                    role: t.role,
+                });
+            }
+        }
+        Conductor {
+            pieces,
+            layer_z,
+            layer_t,
+        }
+    }
+
+    /// The pieces flattened into straight filaments; each arc becomes
+    /// equal chords whose sagitta is at most `rel_sagitta` times the arc's
+    /// radius (so the on-axis field of a chord polygon differs from the
+    /// circle's by at most about `2/3 * rel_sagitta`, relative, and the
+    /// local field at a distance `d` from the copper by about
+    /// `rel_sagitta * radius / d`).
+    pub fn filaments(&self, rel_sagitta: f64) -> Vec<Filament> {
+        let mut out = Vec::new();
+        // Half-angle of a chord with that sagitta: 1 - cos(h) = rel.
+        let max_step = 2.0 * (1.0 - rel_sagitta.clamp(1e-15, 1.0)).acos();
+        for p in &self.pieces {
+            let n = match p.segment {
+                Segment::Line(_) => 1,
+                Segment::Arc(a) => (a.sweep.abs() / max_step).ceil().max(1.0) as usize,
+            };
+            let mut prev = p.segment.start();
+            for i in 1..=n {
+                let q = if i == n {
+                    p.segment.end()
+                } else {
+                    p.segment.point_at(i as f64 / n as f64)
+                };
+                out.push(Filament {
+                    a: [m(prev.x), m(prev.y), p.z],
+                    b: [m(q.x), m(q.y), p.z],
+                    weight: p.weight,
+                    layer: p.layer,
+                    width: p.width,
+                    thickness: p.thickness,
+                });
+                prev = q;
+            }
+        }
+        out
+    }
+
+    /// Only the spiral pieces (leads left out), for comparisons with
+    /// formulas that know only the turns.
+    pub fn without_leads(&self) -> Conductor {
+        Conductor {
+            pieces: self
+                .pieces
+                .iter()
+                .filter(|p| p.role == TrackRole::Winding)
+                .copied()
+                .collect(),
+            layer_z: self.layer_z.clone(),
+            layer_t: self.layer_t.clone(),
+        }
+    }
+
+    /// Only the pieces on `layer`, with the full current (for single-layer
+    /// comparisons).
+    pub fn only_layer(&self, layer: u8) -> Conductor {
+        Conductor {
+            pieces: self
+                .pieces
+                .iter()
+                .filter(|p| p.layer == layer)
+                .map(|p| Piece { weight: 1.0, ..*p })
+                .collect(),
+            layer_z: self.layer_z.clone(),
+            layer_t: self.layer_t.clone(),
+        }
+    }
+
+    /// The conductor as coaxial rings, one per turn: consecutive pieces of
+    /// a layer are gathered (each counting as the fraction `swept / 2 pi` of
+    /// a loop, at its mean distance from the axis: Simpson average of start,
+    /// middle and end) until they make a whole turn, and the turn becomes
+    /// one loop at the fraction-weighted mean radius. A piece that completes
+    /// a turn is split by fraction. The rest of a layer is a partial ring.
+    ///
+    /// Exact for arcs about the axis; the circular spiral (half-turns
+    /// centred a quarter pitch off the axis) differs from its rings by
+    /// order (pitch / radius)^2.
+    pub fn rings(&self) -> Vec<Ring> {
+        let mut out = Vec::new();
+        let mut acc: Option<(Ring, f64, f64)> = None; // (ring so far, sum |f| r, sum |f|)
+        let flush = |acc: &mut Option<(Ring, f64, f64)>, out: &mut Vec<Ring>| {
+            if let Some((mut r, fr, fa)) = acc.take()
+                && r.frac.abs() > 1e-12
+            {
+                r.radius = fr / fa;
+                out.push(r);
+            }
+        };
+        for p in &self.pieces {
+            let frac = p.segment.swept_about_origin() / std::f64::consts::TAU;
+            if frac.abs() < 1e-12 {
+                continue;
+            }
+            let r = m((p.segment.start().radius()
+                + 4.0 * p.segment.point_at(0.5).radius()
+                + p.segment.end().radius())
+                / 6.0);
+            if let Some((ring, _, _)) = &acc
+                && (ring.layer != p.layer || ring.weight != p.weight)
+            {
+                flush(&mut acc, &mut out);
+            }
+            let mut left = frac;
+            while left.abs() > 1e-12 {
+                let (ring, fr, fa) = acc.get_or_insert((
+                    Ring {
+                        radius: r,
+                        z: p.z,
+                        frac: 0.0,
+                        width: p.width,
+                        thickness: p.thickness,
+                        weight: p.weight,
+                        layer: p.layer,
+                    },
+                    0.0,
+                    0.0,
+                ));
+                let room = 1.0 - ring.frac.abs();
+                let take = left.abs().min(room) * left.signum();
+                ring.frac += take;
+                *fr += take.abs() * r;
+                *fa += take.abs();
+                left -= take;
+                if ring.frac.abs() >= 1.0 - 1e-12 {
+                    flush(&mut acc, &mut out);
+                }
+            }
+        }
+        flush(&mut acc, &mut out);
+        out
+    }
+}
+
+/// A fraction of a circular current loop coaxial with the coil.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Ring {
+    /// Mean radius, m.
+    pub radius: f64,
+    /// Height of the copper centre, m.
+    pub z: f64,
+    /// Signed fraction of a full turn (positive = counter-clockwise seen
+    /// from the top).
+    pub frac: f64,
+    /// Radial width of the section, m.
+    pub width: f64,
+    /// Axial thickness of the section, m.
+    pub thickness: f64,
+    /// Share of the terminal current.
+    pub weight: f64,
+    /// Copper layer, 1 = top.
+    pub layer: u8,
+}

@@ -1,0 +1,73 @@
+//! Finished thickness and minimum bend radius of the board.
+//!
+//! Bend ratios: about 10 x the finished thickness for one- and two-layer
+//! flex, 20 x for multilayer flex (bent once to install), 100 x for dynamic
+//! (repeated) bending: ratios commonly quoted from IPC-2223, common
+//! practice, no single source.
+
+use crate::spec::{BoardKind, Design};
+use serde::Serialize;
+
+/// Thickness and bending limits.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Mechanics {
+    /// Copper + dielectric + cover (coverlay or solder mask) on both faces, mm.
+    pub thickness_mm: f64,
+    /// Minimum radius for a bend made once at installation, mm.
+    pub bend_radius_min_mm: f64,
+    /// Minimum radius for repeated (dynamic) bending, mm.
+    pub bend_radius_dynamic_mm: f64,
+    /// Ratio used for the static bend (10 or 20).
+    pub static_ratio: f64,
+    /// Ratio used for the dynamic bend (100).
+    pub dynamic_ratio: f64,
+    /// Where the ratios come from.
+    pub source: String,
+}
+
+/// Finished thickness and bend radii of a design.
+pub fn mechanics(design: &Design) -> Mechanics {
+    let s = &design.stackup;
+    let thickness = s.copper.iter().sum::<f64>() + s.dielectric.iter().sum::<f64>() + 2.0 * s.cover;
+    let static_ratio = if design.coil.layers <= 2 { 10.0 } else { 20.0 };
+    let dynamic_ratio = 100.0;
+    let source = match s.kind {
+        BoardKind::Flex => {
+            "ratios commonly quoted from IPC-2223 (common practice, no single source)"
+        }
+        BoardKind::Rigid => {
+            "rigid board: not meant to bend; flex ratios from IPC-2223 shown for comparison only (common practice)"
+        }
+    };
+    Mechanics {
+        thickness_mm: thickness,
+        bend_radius_min_mm: static_ratio * thickness,
+        bend_radius_dynamic_mm: dynamic_ratio * thickness,
+        static_ratio,
+        dynamic_ratio,
+        source: source.into(),
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn two_layer_flex_is_ten_times_thickness() {
+        // Common practice, no source (ratios quoted from IPC-2223):
+        // 10 x for two-layer flex; REFERENCES.md 0.1 mm -> 1 mm.
+        let mut d = Design::sample();
+        d.coil.layers = 2;
+        d.stackup.copper = vec![0.0125, 0.0125];
+        d.stackup.dielectric = vec![0.025];
+        d.stackup.cover = 0.025;
+        let m = mechanics(&d);
+        assert!((m.thickness_mm - 0.1).abs() < 1e-12);
+        assert!((m.bend_radius_min_mm - 1.0).abs() < 1e-12);
+        assert!((m.bend_radius_dynamic_mm - 10.0).abs() < 1e-12);
+        // Multilayer: 20 x (sample is 4 layers).
+        let m4 = mechanics(&Design::sample());
+        assert!((m4.bend_radius_min_mm - 20.0 * m4.thickness_mm).abs() < 1e-12);
+    }
+}

@@ -1,0 +1,348 @@
+//! The analysis of real layouts against published formulas and hand
+//! calculations (sources named beside each check).
+
+use coilwright::geometry::build;
+use coilwright::physics::closed_forms::{self, MohanShape};
+use coilwright::physics::conductor::Conductor;
+use coilwright::physics::inductance::{self, maxwell_mutual};
+use coilwright::physics::{MU0, analyse, resistance, thermal};
+use coilwright::spec::{Design, Shape, Source};
+
+/// One-layer circular coil: 20 mm outside, 10 turns, 0.25/0.25 mm (the
+/// REFERENCES.md check coil).
+fn one_layer() -> Design {
+    let mut d = Design::sample();
+    d.coil.layers = 1;
+    d.coil.turns = 10.0;
+    d.coil.trace_width = 0.25;
+    d.coil.clearance = 0.25;
+    d.coil.outer_diameter = 20.0;
+    d.coil.inner_diameter = 20.0 - 2.0 * (10.0 * 0.5 + 0.25);
+    d.stackup.copper = vec![0.035];
+    d.stackup.dielectric = vec![];
+    d
+}
+
+#[test]
+fn single_layer_circle_against_published_formulas_and_grover_sum() {
+    let d = one_layer();
+    let layout = build(&d).unwrap();
+    let cond = Conductor::new(&d, &layout).without_leads();
+    let l = inductance::rings_inductance(&cond.rings());
+    // The spiral's n turns match n concentric rings whose copper spans
+    // half a pitch less at each side (see physics::published_estimates).
+    let p = layout.pitch * 1e-3;
+    let d_out = 2.0 * layout.outer_radius * 1e-3 - p;
+    let d_in = 2.0 * layout.inner_radius * 1e-3 + p;
+    let n = 10.0;
+    // Mohan et al. 1999 current sheet (circle): stated typical error 2-3 %.
+    let cs = closed_forms::mohan_current_sheet(MohanShape::Circle, n, d_out, d_in);
+    assert!((l / cs - 1.0).abs() < 0.03, "L {l} vs current sheet {cs}");
+    // Wheeler 1928: within 5 % for c > 0.2 a.
+    let wh = closed_forms::wheeler_1928(n, d_in / 2.0, d_out / 2.0);
+    assert!((l / wh - 1.0).abs() < 0.05, "L {l} vs Wheeler {wh}");
+    // Grover: sum of ring self inductances and Maxwell mutual terms of 10
+    // concentric rings at the spiral's mean turn radii.
+    let (w, t) = (0.25e-3, 35e-6);
+    let r0 = d_in / 2.0 + w / 2.0;
+    let radii: Vec<f64> = (0..10).map(|k| r0 + k as f64 * p).collect();
+    let mut grover = 0.0;
+    for (i, a) in radii.iter().enumerate() {
+        for (j, b) in radii.iter().enumerate() {
+            grover += if i == j {
+                closed_forms::ring_self(*a, w, t)
+            } else {
+                maxwell_mutual(*a, *b, 0.0)
+            };
+        }
+    }
+    assert!(
+        (l / grover - 1.0).abs() < 0.01,
+        "L {l} vs Grover sum {grover}"
+    );
+    // The report's single-layer value includes the leads: a little more.
+    let a = analyse(&d, &layout).unwrap();
+    assert!(a.inductance.single_layer_h > l && a.inductance.single_layer_h < 1.15 * l);
+    assert!((a.inductance_h - a.inductance.single_layer_h).abs() < 1e-15);
+}
+
+#[test]
+fn neumann_filaments_agree_with_maxwell_rings_on_a_real_layout() {
+    // Two independent methods on the same circular two-layer layout.
+    let mut d = one_layer();
+    d.coil.layers = 2;
+    d.coil.turns = 4.0;
+    d.coil.inner_diameter = 8.0;
+    d.stackup.copper = vec![0.035; 2];
+    d.stackup.dielectric = vec![0.05];
+    let layout = build(&d).unwrap();
+    let cond = Conductor::new(&d, &layout);
+    let lr = inductance::rings_inductance(&cond.rings());
+    let ln = inductance::filaments_inductance(&cond.filaments(2e-4));
+    assert!((ln / lr - 1.0).abs() < 0.02, "Neumann {ln} vs rings {lr}");
+}
+
+#[test]
+fn coupling_between_close_layers_stays_below_one() {
+    // Layers 25 um apart with 0.3 mm traces: closer than the trace width.
+    // Centre-line filaments would overestimate the coupling (REFERENCES.md
+    // pitfall); with the GMD of the sections k = M / sqrt(L1 L2) < 1.
+    let mut d = Design::sample();
+    d.coil.layers = 2;
+    d.coil.trace_width = 0.3;
+    d.coil.turns = 5.0;
+    d.coil.inner_diameter = 8.0;
+    d.stackup.copper = vec![0.035; 2];
+    d.stackup.dielectric = vec![0.025];
+    let layout = build(&d).unwrap();
+    let cond = Conductor::new(&d, &layout);
+    let r1 = cond.only_layer(1).rings();
+    let r2 = cond.only_layer(2).rings();
+    let (l1, l2) = (
+        inductance::rings_inductance(&r1),
+        inductance::rings_inductance(&r2),
+    );
+    let k = inductance::rings_mutual(&r1, &r2) / (l1 * l2).sqrt();
+    assert!(k > 0.9 && k < 1.0, "k = {k}");
+    let a = analyse(&d, &layout).unwrap();
+    assert!(a.inductance_h < 4.0 * l1.max(l2));
+}
+
+#[test]
+fn field_of_a_real_spiral_against_flat_spiral_closed_form() {
+    // Textbook flat spiral (N turns spread evenly from r1 to r2): the real
+    // one-layer spiral with its leads agrees to about a percent.
+    let d = one_layer();
+    let layout = build(&d).unwrap();
+    let a = analyse(&d, &layout).unwrap();
+    let r1 = (layout.inner_radius + layout.pitch / 2.0 - layout.trace_width / 2.0) * 1e-3;
+    let r2 = (layout.outer_radius - layout.pitch / 2.0 + layout.trace_width / 2.0) * 1e-3;
+    let z = 0.035e-3 / 2.0; // top surface is half a copper thickness above the copper centre
+    let exact = closed_forms::spiral_on_axis(1.0, 10.0, r1, r2, z);
+    assert!(
+        (a.field_center_t_per_a / exact - 1.0).abs() < 0.02,
+        "{} vs {exact}",
+        a.field_center_t_per_a
+    );
+}
+
+#[test]
+fn resistance_of_a_layout_is_the_iacs_hand_calculation() {
+    // IACS (IEC 60028): R = rho L / (w t) per layer, plus via barrels.
+    let d = Design::sample();
+    let layout = build(&d).unwrap();
+    let a = analyse(&d, &layout).unwrap();
+    let hand: f64 = a
+        .layers
+        .iter()
+        .map(|l| 1.7241e-8 * l.length_mm * 1e-3 / (0.1e-3 * 35e-6))
+        .sum();
+    assert!((a.resistance_ohm_20c - a.vias_ohm_20c - hand).abs() < 1e-9 * hand);
+    let total_len: f64 = a.layers.iter().map(|l| l.length_mm).sum();
+    assert!((total_len - a.trace_length_mm).abs() < 1e-9);
+    let t = a.temperature_c.unwrap();
+    assert!(
+        (a.resistance_ohm_hot - resistance::at_temperature(a.resistance_ohm_20c, t)).abs() < 1e-12
+    );
+}
+
+#[test]
+fn heating_satisfies_its_energy_balance() {
+    for src in [
+        Source::Voltage(3.3),
+        Source::Current(0.2),
+        Source::Voltage(1.0),
+    ] {
+        let mut d = Design::sample();
+        d.drive.source = src;
+        let layout = build(&d).unwrap();
+        let a = analyse(&d, &layout).unwrap();
+        let t = a.temperature_c.unwrap();
+        // Electrical power at the solved temperature equals the heat leaving
+        // both faces (convection up and down plus radiation).
+        assert!(
+            (a.power_w / a.thermal.losses.power_w - 1.0).abs() < 1e-8,
+            "{src:?}"
+        );
+        let h = &a.thermal.losses;
+        let area = a.thermal.area_mm2 * 1e-6;
+        let out = area
+            * (h.h_top_w_per_m2k + h.h_bottom_w_per_m2k + 2.0 * h.h_radiation_w_per_m2k)
+            * (t - 25.0);
+        assert!((out / a.power_w - 1.0).abs() < 1e-8);
+        // At the limits the temperature is max_temperature.
+        let b = thermal::Board {
+            area,
+            perimeter: area / (a.thermal.char_length_mm * 1e-3),
+            heat_capacity: a.thermal.heat_capacity_j_per_k,
+            r20: a.resistance_ohm_20c,
+            ambient: 25.0,
+            emissivity: 0.9,
+            convection: None,
+        };
+        let tm = b.steady(Source::Current(a.max_current_a)).unwrap();
+        assert!((tm - 80.0).abs() < 1e-6);
+    }
+}
+
+#[test]
+fn overdriven_coil_warns() {
+    let mut d = Design::sample();
+    d.drive.source = Source::Voltage(6.0);
+    let layout = build(&d).unwrap();
+    let a = analyse(&d, &layout).unwrap();
+    assert!(a.temperature_c.unwrap() > 80.0);
+    assert!(
+        a.warnings[0].contains("exceeds max_temperature 80 C"),
+        "{:?}",
+        a.warnings
+    );
+    assert!(a.thermal.pulse_s.unwrap() > 0.0);
+    let md = coilwright::export::report::markdown(&d, &a);
+    assert!(md.find("## Warnings").unwrap() < md.find("## At the drive").unwrap());
+}
+
+#[test]
+fn two_layer_flex_bends_at_ten_times_its_thickness() {
+    // Common practice, no source (ratios commonly quoted from IPC-2223).
+    let mut d = one_layer();
+    d.coil.layers = 2;
+    d.stackup.copper = vec![0.018; 2];
+    d.stackup.dielectric = vec![0.025];
+    let layout = build(&d).unwrap();
+    let a = analyse(&d, &layout).unwrap();
+    let t = 0.018 * 2.0 + 0.025 + 2.0 * d.stackup.cover;
+    assert!((a.thickness_mm - t).abs() < 1e-12);
+    assert!((a.bend_radius_min_mm - 10.0 * t).abs() < 1e-12);
+}
+
+#[test]
+fn json_has_the_contract_keys() {
+    let mut d = Design::sample();
+    d.drive.frequency = Some(100e3);
+    d.coil.shape = Shape::Polygon { sides: 6 };
+    let layout = build(&d).unwrap();
+    let a = analyse(&d, &layout).unwrap();
+    let v = serde_json::to_value(&a).unwrap();
+    for k in [
+        "trace_length_mm",
+        "resistance_ohm_20c",
+        "resistance_ohm_hot",
+        "inductance_h",
+        "field_center_t_per_a",
+        "force_n",
+        "force_per_a_n",
+        "force_per_sqrt_w_n",
+        "temperature_c",
+        "max_voltage_v",
+        "max_current_a",
+        "thickness_mm",
+        "bend_radius_min_mm",
+        "layers",
+        "inputs",
+    ] {
+        assert!(v.get(k).is_some(), "missing {k}");
+    }
+    assert!(v["layers"][0]["length_mm"].as_f64().unwrap() > 0.0);
+    let z = &v["impedance"];
+    let x = z["reactance_ohm"].as_f64().unwrap();
+    assert!((x - 2.0 * std::f64::consts::PI * 100e3 * a.inductance_h).abs() < 1e-9 * x);
+    assert!(a.inductance.mohan_modified_wheeler_h.is_some());
+    let _ = MU0;
+}
+
+#[test]
+fn parallel_pairs_behave_like_one_layer_of_double_copper() {
+    // Two identical layers in parallel carry half the current each: the
+    // pair's resistance is half a layer's, its inductance close to one
+    // layer's (the layers are tightly coupled), its field per ampere that
+    // of one layer (Ohm's law; flux linkage with equal current split).
+    let mut d = one_layer();
+    d.coil.layers = 2;
+    d.stackup.copper = vec![0.035; 2];
+    d.stackup.dielectric = vec![0.05];
+    let series = analyse(&d, &build(&d).unwrap()).unwrap();
+    d.coil.wiring = coilwright::spec::Wiring::ParallelPairs;
+    let layout = build(&d).unwrap();
+    let par = analyse(&d, &layout).unwrap();
+    let r1 = par.layers[0].resistance_ohm_20c;
+    let r2 = par.layers[1].resistance_ohm_20c;
+    let vias = par.vias_ohm_20c;
+    assert!((par.resistance_ohm_20c - vias - r1 * r2 / (r1 + r2)).abs() < 1e-12);
+    // L_series = L1 + L2 + 2M ~ 4 L_pair when the coupling is near 1.
+    let ratio = series.inductance_h / par.inductance_h;
+    assert!(ratio > 3.5 && ratio < 4.0, "{ratio}");
+    let fr = series.field_center_t_per_a / par.field_center_t_per_a;
+    assert!((fr - 2.0).abs() < 0.05, "{fr}");
+}
+
+#[test]
+fn single_layer_square_against_mohan() {
+    // Mohan et al. 1999: modified Wheeler and current sheet for a square
+    // spiral, stated typical error 2-3 % (later comparisons found larger
+    // errors, Aebischer 2018): checked within 5 %.
+    let mut d = one_layer();
+    d.coil.shape = Shape::Polygon { sides: 4 };
+    d.coil.inner_diameter = 9.5;
+    let layout = build(&d).unwrap();
+    let cond = Conductor::new(&d, &layout).without_leads();
+    let l = inductance::filaments_inductance(&cond.filaments(inductance::NEUMANN_SAGITTA));
+    let a = analyse(&d, &layout).unwrap();
+    let i = &a.inductance;
+    let (d_out, d_in) = (i.d_out_mm * 1e-3, i.d_in_mm * 1e-3);
+    let mw = closed_forms::mohan_modified_wheeler(MohanShape::Square, 10.0, d_out, d_in).unwrap();
+    let cs = closed_forms::mohan_current_sheet(MohanShape::Square, 10.0, d_out, d_in);
+    assert!(
+        (l / mw - 1.0).abs() < 0.05,
+        "L {l} vs modified Wheeler {mw}"
+    );
+    assert!((l / cs - 1.0).abs() < 0.05, "L {l} vs current sheet {cs}");
+}
+
+#[test]
+fn every_shape_and_wiring_gives_finite_results() {
+    for layers in [1u8, 2, 3, 4] {
+        for shape in [
+            Shape::Circle,
+            Shape::Polygon { sides: 5 },
+            Shape::Rectangle {
+                width: 26.0,
+                height: 18.0,
+            },
+        ] {
+            for parallel in [false, true] {
+                if parallel && layers % 2 == 1 {
+                    continue;
+                }
+                let mut d = Design::sample();
+                d.coil.layers = layers;
+                d.coil.shape = shape;
+                d.coil.inner_diameter = 6.0;
+                d.coil.turns = 5.5;
+                d.coil.corner = coilwright::spec::Corner::Round { radius: 0.4 };
+                if parallel {
+                    d.coil.wiring = coilwright::spec::Wiring::ParallelPairs;
+                }
+                d.stackup.copper = vec![0.035; layers as usize];
+                d.stackup.dielectric = vec![0.05; layers as usize - 1];
+                let layout = build(&d).unwrap();
+                let a = analyse(&d, &layout).unwrap();
+                let v = serde_json::to_value(&a).unwrap();
+                for k in [
+                    "resistance_ohm_20c",
+                    "inductance_h",
+                    "field_center_t_per_a",
+                    "force_n",
+                    "max_current_a",
+                ] {
+                    let x = v[k].as_f64().unwrap_or(f64::NAN);
+                    assert!(
+                        x.is_finite() && x > 0.0,
+                        "{layers} {shape:?} {parallel}: {k} = {x}"
+                    );
+                }
+                assert!(a.field.radius_50_mm.is_some());
+            }
+        }
+    }
+}
