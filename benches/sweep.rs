@@ -60,7 +60,9 @@ fn bench(c: &mut Criterion) {
     assert_eq!(sweep.len(), 61);
     let mut g = c.benchmark_group("sweep batch");
     g.sample_size(10);
-    g.bench_function("61 candidates, all cores", |b| b.iter(|| sweep.run(evaluate, || {})));
+    g.bench_function("61 candidates, all cores", |b| {
+        b.iter(|| sweep.run(evaluate, || {}))
+    });
     g.finish();
 }
 

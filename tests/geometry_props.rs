@@ -1,7 +1,7 @@
 //! Property tests of the geometry over random valid designs.
 
 use coilwright::geometry::{
-    self, FitInput, Layout, Node, Segment, SpiralSpec, TrackRole, TurnsRequest,
+    self, FitError, FitInput, Layout, Node, Segment, SpiralSpec, TrackRole, TurnsRequest,
     distance_point_segment, round::to_nm,
 };
 use coilwright::spec::{Corner, Design, Shape, Wiring};
@@ -79,11 +79,17 @@ fn designs() -> impl Strategy<Value = Design> {
                     .resolve();
                     match (r, d.coil.shape) {
                         (Ok(f), _) => break f,
-                        (Err(_), Shape::Rectangle { width, height }) => {
+                        (
+                            Err(FitError::TooManyTurns { .. } | FitError::InnerNotInside),
+                            Shape::Rectangle { width, height },
+                        ) if width < 400.0 => {
                             d.coil.shape = Shape::Rectangle {
-                                width: width + 1.0,
-                                height: height + 1.0,
+                                width: width * 1.25,
+                                height: height * 1.25,
                             }
+                        }
+                        (Err(FitError::CornerTooLarge { max, .. }), _) => {
+                            d.coil.corner = Corner::Round { radius: max / 2.0 }
                         }
                         (Err(e), _) => panic!("fit: {e}"),
                     }

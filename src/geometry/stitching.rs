@@ -158,21 +158,21 @@ fn chord_angle(r: f64, dmax: f64, clearance: f64, trace_width: f64) -> f64 {
 
 /// `n` polar angles of points on `ring`, consecutive points `need` apart
 /// (straight-line distance), the group centred on angle `at`.
-fn cluster_on(ring: &Ring, n: usize, at: f64, need: f64) -> Vec<f64> {
+fn cluster_on(ring: &impl Fn(f64) -> Point, n: usize, at: f64, need: f64) -> Vec<f64> {
     let walk = |start: f64| {
         let mut out = vec![start];
         for _ in 1..n {
             let prev = *out.last().unwrap_or(&start);
-            let p = ring.at(prev);
+            let p = ring(prev);
             // Smallest increment reaching `need`, by doubling then bisection.
             let (mut lo, mut hi) = (0.0, 1e-3);
-            while p.distance(ring.at(prev + hi)) < need && hi < TAU {
+            while p.distance(ring(prev + hi)) < need && hi < TAU {
                 lo = hi;
                 hi *= 2.0;
             }
             for _ in 0..50 {
                 let mid = 0.5 * (lo + hi);
-                if p.distance(ring.at(prev + mid)) < need {
+                if p.distance(ring(prev + mid)) < need {
                     lo = mid;
                 } else {
                     hi = mid;
@@ -400,13 +400,54 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
     };
     let outer_dmax = via_d.max(term_d);
     let via_ring = lead_ring.grown(w / 2.0 + s + outer_dmax / 2.0);
+    // Where a via or pad sits for a slot angle: on a circle for circular
+    // coils; for other shapes exactly the pad clearance outside every
+    // layer's own lead ring (found along the ray), so the square connector
+    // from the pad to its ring is short and stays in its slot.
+    let via_gap = w / 2.0 + s + outer_dmax / 2.0;
+    let loops: Vec<Loop> = match &lead_loop {
+        Some(l) if coil.layers > 1 => vec![l.clone(), l.mirrored()],
+        Some(l) => vec![l.clone()],
+        None => vec![],
+    };
+    let via_at = |angle: f64| -> Point {
+        if loops.is_empty() {
+            return via_ring.at(angle);
+        }
+        let u = Vec2::from_angle(angle);
+        let gap = |r: f64| {
+            let p = Point::ORIGIN + u * r;
+            loops
+                .iter()
+                .map(|l| l.closest(p).point.distance(p))
+                .fold(f64::INFINITY, f64::min)
+        };
+        // From the ring's own support polygon (inside every loop's reach
+        // along the ray is not needed: start where the loops end).
+        let (mut lo, mut hi) = (lead_ring.at(angle).radius(), via_ring.at(angle).radius());
+        if gap(hi) < via_gap {
+            return via_ring.at(angle);
+        }
+        if gap(lo) >= via_gap {
+            return Point::ORIGIN + u * lo;
+        }
+        for _ in 0..60 {
+            let mid = 0.5 * (lo + hi);
+            if gap(mid) >= via_gap {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        Point::ORIGIN + u * hi
+    };
     let no = plan.outer_slots();
     // Terminal 1 at the top; terminal 2 (when outside) next to it, about a
     // 2.54 mm header pitch away (common practice, no source); junction vias
     // spread evenly over the rest of the ring, clockwise from terminal 1.
     let ends_outside = !plan.ends_in_centre();
     let terminal_step = if ends_outside && no > 1 {
-        let r = via_ring.at(PI / 2.0).radius();
+        let r = via_at(PI / 2.0).radius();
         let chord = 2.54f64.max(term_d + s + w);
         (2.0 * (chord / (2.0 * r)).min(1.0).asin()).min(TAU / no as f64)
     } else {
@@ -421,6 +462,32 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
             }
         })
         .collect();
+    // Whether a set of slot angles leaves room: pads `need` apart, and the
+    // connector from each pad to each lead ring it may join clear of every
+    // other pad.
+    let need = (outer_dmax + s).max(outer_dmax / 2.0 + w / 2.0 + s);
+    let room = |angles: &[f64]| -> f64 {
+        let pts: Vec<Point> = angles.iter().map(|&a| via_at(a)).collect();
+        let mut worst = f64::INFINITY;
+        for (i, &a) in angles.iter().enumerate() {
+            let targets: Vec<Point> = if loops.is_empty() {
+                vec![lead_ring.at(a)]
+            } else {
+                loops.iter().map(|l| l.closest(pts[i]).point).collect()
+            };
+            for (j, q) in pts.iter().enumerate() {
+                if i == j {
+                    continue;
+                }
+                worst = worst.min(pts[i].distance(*q) - need);
+                for t in &targets {
+                    let d = super::distance_point_line(*q, pts[i], *t);
+                    worst = worst.min(d - (outer_dmax / 2.0 + w / 2.0 + s));
+                }
+            }
+        }
+        worst
+    };
     let outer_angles: Vec<f64> = match &lead_loop {
         Some(_) if no > 1 + usize::from(ends_outside) => {
             // Junction vias next to the layers' outer ends, which sit near
@@ -432,34 +499,25 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
             } else {
                 PI
             };
-            let need = 1.02 * (outer_dmax + s).max(outer_dmax / 2.0 + w / 2.0 + s);
-            let spread = cluster_on(&via_ring, junctions, side, need);
+            let spread = cluster_on(&via_at, junctions, side, 1.02 * need);
             let mut a = vec![PI / 2.0];
             a.extend(spread);
             if ends_outside {
                 a.push(PI / 2.0 + terminal_step);
             }
-            // Keep the cluster only where every pair of slots has room.
-            let fits = (0..a.len()).all(|i| {
-                (i + 1..a.len()).all(|j| via_ring.at(a[i]).distance(via_ring.at(a[j])) >= need)
-            });
-            if fits { a } else { even_angles }
+            // Keep the cluster only where every slot has room.
+            if room(&a) >= 0.0 { a } else { even_angles }
         }
         _ => even_angles,
     };
     let outer_angle = |j: usize| outer_angles[j];
     if no > 1 {
-        let need = (outer_dmax + s).max(outer_dmax / 2.0 + w / 2.0 + s);
-        let gap = (0..no)
-            .flat_map(|i| (i + 1..no).map(move |j| (i, j)))
-            .map(|(i, j)| {
-                via_ring
-                    .at(outer_angle(i))
-                    .distance(via_ring.at(outer_angle(j)))
-            })
-            .fold(f64::INFINITY, f64::min);
-        if gap < need {
-            return Err(GeometryError::OuterCrowded { gap, need });
+        let worst = room(&outer_angles);
+        if worst < -1e-9 {
+            return Err(GeometryError::OuterCrowded {
+                gap: need + worst,
+                need,
+            });
         }
     }
 
@@ -487,7 +545,7 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
     let g = plan.groups.len();
     layout.pads.push(Pad {
         name: "1".into(),
-        at: via_ring.at(outer_angle(0)),
+        at: via_at(outer_angle(0)),
         drill: design.terminal.drill,
         diameter: term_d,
         joins: plan.groups[0].clone(),
@@ -506,7 +564,7 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
         } else {
             let j = next_outer;
             next_outer += 1;
-            (via_ring.at(outer_angle(j)), outer_angle(j), Place::Outside)
+            (via_at(outer_angle(j)), outer_angle(j), Place::Outside)
         };
         let node = if i + 1 < g {
             let mut joins: Vec<u8> = plan.groups[i].clone();
