@@ -1,5 +1,6 @@
 //! The Pareto front of two metrics and its SVG plot.
 
+use crate::export::svg::escape as esc;
 use std::fmt::Write;
 
 /// Indices of the points not dominated by any other, for the senses given
@@ -239,12 +240,6 @@ pub fn plot(
     );
     s.push_str("</svg>\n");
     s
-}
-
-fn esc(s: &str) -> String {
-    s.replace('&', "&amp;")
-        .replace('<', "&lt;")
-        .replace('>', "&gt;")
 }
 
 #[cfg(test)]

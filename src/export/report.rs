@@ -119,11 +119,7 @@ fn fmt_tick(v: f64, step: f64) -> String {
     }
 }
 
-fn esc(s: &str) -> String {
-    s.replace('&', "&amp;")
-        .replace('<', "&lt;")
-        .replace('>', "&gt;")
-}
+use super::svg::escape as esc;
 
 /// A line plot with axes, ticks, grid, labels and a legend, as SVG text.
 pub fn line_plot(

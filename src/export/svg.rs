@@ -410,7 +410,8 @@ fn arrow_points(
     out
 }
 
-fn escape(s: &str) -> String {
+/// Escapes text for SVG/XML content.
+pub(crate) fn escape(s: &str) -> String {
     s.replace('&', "&amp;")
         .replace('<', "&lt;")
         .replace('>', "&gt;")

@@ -137,37 +137,50 @@ impl SpiralSpec {
                 }
             }
         }
-        match self.corner {
-            Corner::Sharp => {
-                for k in 0..lines {
-                    let v = intersect(normal(k), d(k), normal(k + 1), d(k + 1));
-                    out.push(Segment::line(at, v));
-                    at = v;
-                }
+        if let Corner::Round { radius } = self.corner {
+            // Tangent length on the shortest side must fit in half of it.
+            let max = min_base * 0.999;
+            if radius >= max || radius < 0.0 {
+                return Err(SpiralError::CornerTooLarge { radius, max });
             }
-            Corner::Round { radius } => {
-                // Tangent length on the shortest side must fit in half of it.
-                let max = min_base * 0.999;
-                if radius >= max || radius < 0.0 {
-                    return Err(SpiralError::CornerTooLarge { radius, max });
-                }
-                for k in 0..lines {
-                    let rc = radius + p * k as f64 / n as f64;
-                    let (n1, n2) = (normal(k), normal(k + 1));
-                    let c = intersect(n1, d(k) - rc, n2, d(k + 1) - rc);
-                    let t1 = c + n1 * rc;
-                    out.push(Segment::line(at, t1));
-                    let arc = Arc::from_start(c, t1, alpha);
-                    at = arc.end;
-                    out.push(Segment::Arc(arc));
-                }
-            }
+        }
+        for k in 0..lines {
+            at = self.side_to_corner(bases, k, at, &mut out);
         }
         Ok(out)
     }
 }
 
 impl SpiralSpec {
+    /// Pushes side `k` of a polygon spiral from `at` up to its corner with
+    /// side `k + 1`, and that corner (a point, or an arc of radius
+    /// `r0 + p k / N` concentric with the same corner one turn in);
+    /// returns where the corner ends.
+    fn side_to_corner(&self, bases: &[f64], k: usize, at: Point, out: &mut Vec<Segment>) -> Point {
+        let n = bases.len();
+        let p = self.pitch;
+        let alpha = TAU / n as f64;
+        let d = |k: usize| bases[k % n] + p * k as f64 / n as f64;
+        let normal = |k: usize| Vec2::from_angle(k as f64 * alpha);
+        match self.corner {
+            Corner::Sharp => {
+                let v = intersect(normal(k), d(k), normal(k + 1), d(k + 1));
+                out.push(Segment::line(at, v));
+                v
+            }
+            Corner::Round { radius } => {
+                let rc = radius + p * k as f64 / n as f64;
+                let (n1, n2) = (normal(k), normal(k + 1));
+                let c = intersect(n1, d(k) - rc, n2, d(k + 1) - rc);
+                let t1 = c + n1 * rc;
+                out.push(Segment::line(at, t1));
+                let arc = Arc::from_start(c, t1, alpha);
+                out.push(Segment::Arc(arc));
+                arc.end
+            }
+        }
+    }
+
     /// A closed path one pitch outside a polygon or rectangle spiral built
     /// by [`SpiralSpec::segments`] (`None` for a circle): the sides of the
     /// turn after the last, with the same corners (concentric with the
@@ -196,23 +209,7 @@ impl SpiralSpec {
         let mut out = Vec::with_capacity(2 * n);
         let mut at = v0;
         for k in first..close {
-            match self.corner {
-                Corner::Sharp => {
-                    let v = intersect(normal(k), d(k), normal(k + 1), d(k + 1));
-                    out.push(Segment::line(at, v));
-                    at = v;
-                }
-                Corner::Round { radius } => {
-                    let rc = radius + p * k as f64 / n as f64;
-                    let (n1, n2) = (normal(k), normal(k + 1));
-                    let c = intersect(n1, d(k) - rc, n2, d(k + 1) - rc);
-                    let t1 = c + n1 * rc;
-                    out.push(Segment::line(at, t1));
-                    let arc = Arc::from_start(c, t1, alpha);
-                    at = arc.end;
-                    out.push(Segment::Arc(arc));
-                }
-            }
+            at = self.side_to_corner(&bases, k, at, &mut out);
         }
         out.push(Segment::line(at, v0));
         Some(out)
