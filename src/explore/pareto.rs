@@ -122,10 +122,16 @@ pub fn plot(
         r#"<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {w} {h}" width="{w}" height="{h}" font-family="DejaVu Sans, Helvetica, Arial, sans-serif" font-size="12">"#
     );
     let _ = writeln!(s, r#"<rect width="{w}" height="{h}" fill="{PAPER}"/>"#);
+    // Long titles: the part in parentheses goes on a second, smaller line.
+    let (head, tail) = match title.split_once(" (") {
+        Some((h, t)) => (h.to_string(), format!("({t}")),
+        None => (title.to_string(), String::new()),
+    };
     let _ = writeln!(
         s,
-        r#"<text x="{l}" y="28" font-size="15" font-weight="bold" fill="{INK}">{}</text>"#,
-        esc(title)
+        r#"<text x="{l}" y="22" font-size="15" font-weight="bold" fill="{INK}">{}</text><text x="{l}" y="40" font-size="12" fill="{INK}">{}</text>"#,
+        esc(&head),
+        esc(&tail)
     );
     // Axes and grid.
     for tx in ticks(x0, x1) {
