@@ -6,6 +6,33 @@
 //! [`physics`] (resistance, inductance, field, force, heating, bending) and
 //! [`export`] (Gerber, Excellon, job file, KiCad, SVG, report). Only the
 //! command-line front end ([`cli`]) touches the file system.
+//!
+//! # Example: from a design file to fab files
+//!
+//! ```
+//! use coilwright::{export, geometry, physics, rules, spec};
+//!
+//! let design = spec::parse(r#"
+//!     name = "doc-coil"
+//!     [coil]
+//!     outer_diameter = "12mm"
+//!     turns = 8
+//!     trace_width = "0.15mm"
+//!     clearance = "0.15mm"
+//!     layers = 2
+//!     [drive]
+//!     current = "0.2A"
+//! "#).expect("a valid design");
+//! let layout = geometry::build(&design).expect("parse already built it once");
+//! let profile = rules::Profile::builtin("standard").unwrap();
+//! let violations = rules::check(&design, &layout, &profile);
+//! assert!(rules::is_clean(&violations));
+//! let analysis = physics::analyse(&design, &layout).unwrap();
+//! assert!(analysis.resistance_ohm_20c > 0.0);
+//! let files = export::bundle(&design, &layout, &analysis).unwrap();
+//! assert!(files.iter().any(|f| f.path.ends_with("-L1-copper-top.gbr")));
+//! assert!(files.iter().any(|f| f.path == "manifest.json"));
+//! ```
 #![warn(missing_docs)]
 
 pub mod cli;

@@ -27,6 +27,11 @@ pub fn run(spec: &Path, out: &Path, force: bool) -> Result<Exit, Failure> {
         return Ok(Exit::Violations);
     }
     let analysis = pipeline::analysis(&checked)?;
+    // Limits exceeded at the drive (temperature, current) and other
+    // cautions from the analysis: said here too, not only in report.md.
+    for w in &analysis.warnings {
+        eprintln!("warning: {w}");
+    }
     let design = &checked.loaded.design;
     let files = export::bundle(design, &checked.layout, &analysis)
         .map_err(|e| anyhow!("cannot produce the output files: {e}"))?;
