@@ -170,7 +170,7 @@ fn cluster_on(ring: &impl Fn(f64) -> Point, n: usize, at: f64, need: f64) -> Vec
                 lo = hi;
                 hi *= 2.0;
             }
-            for _ in 0..50 {
+            for _ in 0..24 {
                 let mid = 0.5 * (lo + hi);
                 if p.distance(ring(prev + mid)) < need {
                     lo = mid;
@@ -431,7 +431,7 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
         if gap(lo) >= via_gap {
             return Point::ORIGIN + u * lo;
         }
-        for _ in 0..60 {
+        for _ in 0..32 {
             let mid = 0.5 * (lo + hi);
             if gap(mid) >= via_gap {
                 hi = mid;
