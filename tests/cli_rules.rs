@@ -1,18 +1,8 @@
 //! The rule check from the command line: a design that breaks a fab rule
 //! is reported (table, JSON, SVG overlay) and cannot be built.
-use std::process::Command;
 
-fn coilwright(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_coilwright"))
-        .args(args)
-        .output()
-        .expect("run coilwright");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into(),
-        String::from_utf8_lossy(&out.stderr).into(),
-    )
-}
+mod common;
+use common::coilwright;
 
 /// 0.09 mm tracks under the standard profile's 0.1 mm minimum.
 const NARROW: &str = r#"

@@ -1,5 +1,6 @@
 //! Property tests of the geometry over random valid designs.
 
+mod common;
 use coilwright::geometry::{
     self, FitError, FitInput, Layout, Node, Segment, SpiralSpec, TrackRole, TurnsRequest,
     distance_point_segment, round::to_nm,
@@ -218,16 +219,7 @@ proptest! {
     #[test]
     fn passes_its_own_rule_check(d in designs()) {
         let l = build(&d);
-        let p = coilwright::rules::Profile {
-            name: "own".into(),
-            min_trace_width: d.coil.trace_width,
-            min_clearance: d.coil.clearance,
-            min_drill: d.via.drill.min(d.terminal.drill),
-            min_annular_ring: ((d.via.diameter - d.via.drill) / 2.0)
-                .min((d.terminal.diameter - d.terminal.drill) / 2.0),
-            min_hole_spacing: d.coil.clearance,
-            min_edge_clearance: d.board.margin,
-        };
+        let p = common::own_profile(&d);
         let v = coilwright::rules::check(&d, &l, &p);
         prop_assert!(
             coilwright::rules::is_clean(&v),

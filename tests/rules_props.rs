@@ -4,9 +4,11 @@
 //! every valid design passes its own check under a profile made of its own
 //! values.
 
+mod common;
 use coilwright::geometry;
-use coilwright::rules::{self, Broadphase, Profile, Violation};
+use coilwright::rules::{self, Broadphase, Violation};
 use coilwright::spec::{Corner, Design, Shape, Wiring};
+use common::own_profile;
 use proptest::prelude::*;
 
 /// The knobs of a random design.
@@ -128,23 +130,6 @@ fn design(k: &Knobs) -> Design {
     d.stackup.copper = vec![0.035; k.layers as usize];
     d.stackup.dielectric = vec![0.05; k.layers as usize - 1];
     d
-}
-
-/// A profile made of the design's own values: its track width and
-/// clearance, its smaller drill and ring, its clearance as hole spacing
-/// (the generator keeps pads a clearance apart, so holes are farther) and
-/// its board margin as edge clearance.
-fn own_profile(d: &Design) -> Profile {
-    Profile {
-        name: "own".into(),
-        min_trace_width: d.coil.trace_width,
-        min_clearance: d.coil.clearance,
-        min_drill: d.via.drill.min(d.terminal.drill),
-        min_annular_ring: ((d.via.diameter - d.via.drill) / 2.0)
-            .min((d.terminal.diameter - d.terminal.drill) / 2.0),
-        min_hole_spacing: d.coil.clearance,
-        min_edge_clearance: d.board.margin,
-    }
 }
 
 fn show(v: &[Violation]) -> String {

@@ -1,19 +1,9 @@
 //! The `sweep` command end to end: a real sweep writes its table, plot and
 //! best design; bad arguments exit 2 with a clear message and write nothing.
 use std::path::Path;
-use std::process::Command;
 
-fn coilwright(args: &[&str]) -> (i32, String, String) {
-    let out = Command::new(env!("CARGO_BIN_EXE_coilwright"))
-        .args(args)
-        .output()
-        .expect("run coilwright");
-    (
-        out.status.code().unwrap_or(-1),
-        String::from_utf8_lossy(&out.stdout).into(),
-        String::from_utf8_lossy(&out.stderr).into(),
-    )
-}
+mod common;
+use common::coilwright;
 
 fn example() -> String {
     Path::new(env!("CARGO_MANIFEST_DIR"))

@@ -267,39 +267,6 @@ impl Ring {
             }
         }
     }
-
-    /// Path along the ring from `from` (exact start point, on the ring at
-    /// polar angle `a`) sweeping `sweep` radians about the axis.
-    fn path(&self, from: Point, a: f64, sweep: f64) -> Vec<Segment> {
-        if sweep.abs() < 1e-12 {
-            return vec![];
-        }
-        match self {
-            Ring::Circle(_) => vec![Segment::Arc(Arc::from_start(Point::ORIGIN, from, sweep))],
-            Ring::Polygon { .. } => {
-                // Vertices strictly between a and a + sweep, in order.
-                let mut cuts: Vec<f64> = self
-                    .vertex_angles()
-                    .into_iter()
-                    .map(|v| {
-                        let d = (v - a).rem_euclid(TAU);
-                        if sweep > 0.0 { d } else { d - TAU }
-                    })
-                    .filter(|d| d.abs() > 1e-9 && d.abs() < sweep.abs() - 1e-9)
-                    .collect();
-                cuts.sort_by(|x, y| x.abs().total_cmp(&y.abs()));
-                cuts.push(sweep);
-                let mut out = Vec::with_capacity(cuts.len());
-                let mut at = from;
-                for d in cuts {
-                    let next = self.at(a + d);
-                    out.push(Segment::line(at, next));
-                    at = next;
-                }
-                out
-            }
-        }
-    }
 }
 
 /// The signed sweep from angle `a` to angle `b` the short way, radians.
@@ -381,22 +348,22 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
     let centre_angle = |j: usize| centre_angles[j];
     let centre_point = |j: usize| Point::polar(rc, centre_angle(j));
 
-    // Lead ring one pitch outside the winding, vias one pad further out.
+    // Lead ring one pitch outside the winding (for polygons: the sides that
+    // hold every layer's loop, mirrored layers included), vias one pad
+    // further out.
     let lead_ring = match (coil.shape, &lead_loop) {
-        (Shape::Polygon { sides }, Some(l)) => polygon_ring(&l.segs, sides as usize, 0.0),
-        (Shape::Rectangle { .. }, Some(l)) => polygon_ring(&l.segs, 4, 0.0),
-        _ => Ring::Circle(super::spiral::radial_extent(&spiral).1 + p),
-    };
-    let lead_ring = match (&lead_ring, coil.layers > 1) {
-        // Mirrored layers reach as far in the mirrored directions.
-        (Ring::Polygon { normals, dist }, true) => {
-            let n = normals.len();
-            Ring::Polygon {
-                normals: normals.clone(),
-                dist: (0..n).map(|k| dist[k].max(dist[(n - k) % n])).collect(),
+        (Shape::Polygon { .. } | Shape::Rectangle { .. }, Some(l)) => {
+            let sides = match coil.shape {
+                Shape::Polygon { sides } => sides as usize,
+                _ => 4,
+            };
+            let mut segs = l.segs.clone();
+            if coil.layers > 1 {
+                segs.extend(l.mirrored().segs);
             }
+            support_polygon(&segs, sides)
         }
-        _ => lead_ring,
+        _ => Ring::Circle(super::spiral::radial_extent(&spiral).1 + p),
     };
     let outer_dmax = via_d.max(term_d);
     let via_ring = lead_ring.grown(w / 2.0 + s + outer_dmax / 2.0);
@@ -618,13 +585,7 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
         // Centre lead: node -> (inner lead ring ->) inner end.
         let centre_at = layout.node_at(centre_node);
         let centre_lead = if centre_ring {
-            let ring = Ring::Circle(inner_lead_radius);
-            let a = ring.at(centre_angle_i);
-            let mut c = vec![Segment::line(centre_at, a)];
-            c.extend(ring.path(a, centre_angle_i, short_sweep(centre_angle_i, rot)));
-            let last = c.last().map(|x| x.end()).unwrap_or(a);
-            c.push(Segment::line(last, inner_end));
-            c
+            circle_lead(inner_lead_radius, centre_at, centre_angle_i, rot, inner_end)
         } else {
             vec![Segment::line(centre_at, inner_end)]
         };
@@ -646,7 +607,8 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
             lead.push(Segment::line(last, outer_end));
             lead
         } else {
-            circle_outer_lead(&lead_ring, node_at, outer_slot_angle, end_angle, outer_end)
+            let radius = lead_ring.at(outer_slot_angle).radius();
+            circle_lead(radius, node_at, outer_slot_angle, end_angle, outer_end)
         };
 
         let (from, to, chain): (Node, Node, Vec<(Segment, TrackRole)>) = if inward {
@@ -808,20 +770,25 @@ fn polygon_in_disc(pts: &[Point], r: f64) -> Vec<Segment> {
     out
 }
 
-/// Outer lead on a circular ring: radially from the node to the ring, along
-/// the ring the short way, radially to the spiral's outer end.
-fn circle_outer_lead(
-    ring: &Ring,
-    node_at: Point,
+/// A lead along a circle about the axis: radially from `node` to the circle
+/// at `slot_angle`, along the circle the short way to `end_angle`, then
+/// straight (radially) to `end`. Used outside circular windings and inside
+/// the innermost turn of polygon and rectangle windings.
+fn circle_lead(
+    radius: f64,
+    node: Point,
     slot_angle: f64,
     end_angle: f64,
-    outer_end: Point,
+    end: Point,
 ) -> Vec<Segment> {
-    let ring_a = ring.at(slot_angle);
-    let mut lead = vec![Segment::line(node_at, ring_a)];
-    lead.extend(ring.path(ring_a, slot_angle, short_sweep(slot_angle, end_angle)));
-    let last = lead.last().map(|x| x.end()).unwrap_or(ring_a);
-    lead.push(Segment::line(last, outer_end));
+    let on_ring = Point::polar(radius, slot_angle);
+    let mut lead = vec![Segment::line(node, on_ring)];
+    let sweep = short_sweep(slot_angle, end_angle);
+    if sweep.abs() >= 1e-12 {
+        lead.push(Segment::Arc(Arc::from_start(Point::ORIGIN, on_ring, sweep)));
+    }
+    let last = lead.last().map(|x| x.end()).unwrap_or(on_ring);
+    lead.push(Segment::line(last, end));
     lead
 }
 
@@ -928,20 +895,18 @@ impl Loop {
     }
 }
 
-/// A polygon ring whose every side is `gap` outside the farthest winding
-/// copper in that side's normal direction.
-fn polygon_ring(spiral: &[Segment], sides: usize, gap: f64) -> Ring {
+/// The regular polygon (sides at angles `k 2 pi / sides`) whose every side
+/// touches the farthest point of `segs` in its normal direction.
+fn support_polygon(segs: &[Segment], sides: usize) -> Ring {
     let normals: Vec<Vec2> = (0..sides)
         .map(|k| Vec2::from_angle(TAU * k as f64 / sides as f64))
         .collect();
     let dist = normals
         .iter()
         .map(|n| {
-            spiral
-                .iter()
+            segs.iter()
                 .map(|s| s.support(*n))
                 .fold(f64::NEG_INFINITY, f64::max)
-                + gap
         })
         .collect();
     Ring::Polygon { normals, dist }

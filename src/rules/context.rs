@@ -254,6 +254,32 @@ pub(crate) struct Context<'a> {
 }
 
 impl<'a> Context<'a> {
+    /// Every pair of holes whose circles of diameter `size(hole)` are closer
+    /// than `required` edge to edge: (first, second, gap in mm, the point
+    /// midway across the gap on the line between the centres).
+    pub fn close_hole_pairs(
+        &self,
+        size: impl Fn(&Hole) -> f64,
+        required: f64,
+    ) -> Vec<(&Hole, &Hole, f64, Point)> {
+        let hs = &self.holes;
+        let mut out = Vec::new();
+        for i in 0..hs.len() {
+            for b in &hs[i + 1..] {
+                let a = &hs[i];
+                let gap = a.at.distance(b.at) - (size(a) + size(b)) / 2.0;
+                if super::fails(gap, required) {
+                    let at = match (b.at - a.at).normalized() {
+                        Some(u) => a.at + u * (size(a) / 2.0 + gap / 2.0),
+                        None => a.at,
+                    };
+                    out.push((a, b, gap, at));
+                }
+            }
+        }
+        out
+    }
+
     /// Cuts, indexes and collects.
     pub fn new(
         design: &'a Design,

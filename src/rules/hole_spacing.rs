@@ -14,7 +14,7 @@
 //! `hole-spacing error all ...: 0.200000 < 0.250000 mm [via 0, via 1]`.
 
 use super::context::Context;
-use super::{RuleInfo, Severity, Violation, fails};
+use super::{RuleInfo, Severity, Violation};
 
 /// Stable id.
 pub const ID: &str = "hole-spacing";
@@ -27,28 +27,16 @@ pub(super) const INFO: RuleInfo = RuleInfo {
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
     let req = ctx.profile.min_hole_spacing;
-    let hs = &ctx.holes;
-    for i in 0..hs.len() {
-        for j in i + 1..hs.len() {
-            let (a, b) = (&hs[i], &hs[j]);
-            let d = a.at.distance(b.at);
-            let gap = d - (a.drill + b.drill) / 2.0;
-            if fails(gap, req) {
-                let at = match (b.at - a.at).normalized() {
-                    Some(u) => a.at + u * (a.drill / 2.0 + gap / 2.0),
-                    None => a.at,
-                };
-                out.push(Violation {
-                    rule: ID,
-                    severity: INFO.severity,
-                    measured: gap,
-                    required: req,
-                    layer: None,
-                    at,
-                    items: vec![a.item, b.item],
-                    message: format!("holes {gap:.4} mm apart wall to wall"),
-                });
-            }
-        }
+    for (a, b, gap, at) in ctx.close_hole_pairs(|h| h.drill, req) {
+        out.push(Violation {
+            rule: ID,
+            severity: INFO.severity,
+            measured: gap,
+            required: req,
+            layer: None,
+            at,
+            items: vec![a.item, b.item],
+            message: format!("holes {gap:.4} mm apart wall to wall"),
+        });
     }
 }

@@ -14,7 +14,7 @@
 //! `via-via-clearance error all ...: 0.050000 < 0.100000 mm [via 0, via 1]`.
 
 use super::context::Context;
-use super::{RuleInfo, Severity, Violation, fails};
+use super::{RuleInfo, Severity, Violation};
 
 /// Stable id.
 pub const ID: &str = "via-via-clearance";
@@ -27,28 +27,16 @@ pub(super) const INFO: RuleInfo = RuleInfo {
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
     let req = ctx.profile.min_clearance;
-    let hs = &ctx.holes;
-    for i in 0..hs.len() {
-        for j in i + 1..hs.len() {
-            let (a, b) = (&hs[i], &hs[j]);
-            let d = a.at.distance(b.at);
-            let gap = d - (a.diameter + b.diameter) / 2.0;
-            if fails(gap, req) {
-                let at = match (b.at - a.at).normalized() {
-                    Some(u) => a.at + u * (a.diameter / 2.0 + gap / 2.0),
-                    None => a.at,
-                };
-                out.push(Violation {
-                    rule: ID,
-                    severity: INFO.severity,
-                    measured: gap,
-                    required: req,
-                    layer: None,
-                    at,
-                    items: vec![a.item, b.item],
-                    message: format!("pads {gap:.4} mm apart"),
-                });
-            }
-        }
+    for (a, b, gap, at) in ctx.close_hole_pairs(|h| h.diameter, req) {
+        out.push(Violation {
+            rule: ID,
+            severity: INFO.severity,
+            measured: gap,
+            required: req,
+            layer: None,
+            at,
+            items: vec![a.item, b.item],
+            message: format!("pads {gap:.4} mm apart"),
+        });
     }
 }

@@ -1,0 +1,37 @@
+//! Helpers shared by the integration tests (each test file includes the
+//! ones it needs with `mod common;`).
+#![allow(dead_code)]
+
+use coilwright::rules::Profile;
+use coilwright::spec::Design;
+use std::process::Command;
+
+/// Runs the built binary: (exit code, stdout, stderr).
+pub fn coilwright(args: &[&str]) -> (i32, String, String) {
+    let out = Command::new(env!("CARGO_BIN_EXE_coilwright"))
+        .args(args)
+        .output()
+        .expect("run coilwright");
+    (
+        out.status.code().unwrap_or(-1),
+        String::from_utf8_lossy(&out.stdout).into(),
+        String::from_utf8_lossy(&out.stderr).into(),
+    )
+}
+
+/// A profile made of the design's own values: its track width and
+/// clearance, its smaller drill and ring, its clearance as hole spacing
+/// (the generator keeps pads a clearance apart, so holes are farther) and
+/// its board margin as edge clearance.
+pub fn own_profile(d: &Design) -> Profile {
+    Profile {
+        name: "own".into(),
+        min_trace_width: d.coil.trace_width,
+        min_clearance: d.coil.clearance,
+        min_drill: d.via.drill.min(d.terminal.drill),
+        min_annular_ring: ((d.via.diameter - d.via.drill) / 2.0)
+            .min((d.terminal.diameter - d.terminal.drill) / 2.0),
+        min_hole_spacing: d.coil.clearance,
+        min_edge_clearance: d.board.margin,
+    }
+}
