@@ -3,7 +3,7 @@
 //! 64-candidate batch through `Sweep::run` (parallel, all cores), so the
 //! candidates-per-second figure of issue 6 can be read off.
 use coilwright::explore::{self, Evaluation, Objective, Sweep};
-use coilwright::{geometry, physics, rules, spec};
+use coilwright::{physics, rules, spec};
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
 
@@ -25,11 +25,10 @@ voltage = "3.3V"
 "#;
 
 fn evaluate(text: &str) -> Evaluation {
-    let d = match spec::parse(text) {
-        Ok(d) => d,
+    let (d, l) = match spec::parse_and_build(text) {
+        Ok(built) => built,
         Err(e) => return Evaluation::Invalid(e.to_string()),
     };
-    let l = geometry::build(&d).expect("parse builds");
     let profile = rules::Profile::builtin("standard").expect("built-in profile");
     let v = rules::check(&d, &l, &profile);
     let a = physics::analyse_with(&d, &l, physics::Detail::Metrics).expect("analysis");

@@ -2,7 +2,7 @@
 //! violations -> analysis. Every command goes through these functions.
 
 use super::Failure;
-use crate::geometry::{self, Layout};
+use crate::geometry::Layout;
 use crate::physics::{self, Analysis};
 use crate::rules::{self, Severity, Violation};
 use crate::spec::{self, Design};
@@ -42,28 +42,29 @@ impl Checked {
 
 /// Reads and validates a design file.
 pub fn load(path: &Path) -> Result<Loaded, Failure> {
+    load_and_build(path).map(|(loaded, _)| loaded)
+}
+
+/// Reads and validates a design file, keeping the copper that validation
+/// built.
+fn load_and_build(path: &Path) -> Result<(Loaded, Layout), Failure> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("cannot read design file {}", path.display()))?;
-    match spec::parse(&text) {
-        Ok(design) => Ok(Loaded {
-            path: path.to_path_buf(),
-            text,
-            design,
-        }),
+    match spec::parse_and_build(&text) {
+        Ok((design, layout)) => Ok((
+            Loaded {
+                path: path.to_path_buf(),
+                text,
+                design,
+            },
+            layout,
+        )),
         Err(errors) => Err(Failure::Spec {
             path: path.to_path_buf(),
             text,
             errors,
         }),
     }
-}
-
-/// Builds the copper of a loaded design.
-pub fn layout(loaded: &Loaded) -> Result<Layout, Failure> {
-    // `spec::parse` already built it once, so this only fails on a bug.
-    geometry::build(&loaded.design)
-        .with_context(|| format!("cannot build the coil of {}", loaded.path.display()))
-        .map_err(Failure::from)
 }
 
 /// The one place the rule check is called: resolves the design's rule
@@ -127,8 +128,7 @@ pub fn profile(loaded: &Loaded) -> Result<rules::Profile, Failure> {
 
 /// Loads, builds and checks a design file.
 pub fn check(path: &Path) -> Result<Checked, Failure> {
-    let loaded = load(path)?;
-    let layout = layout(&loaded)?;
+    let (loaded, layout) = load_and_build(path)?;
     let violations = violations(&loaded, &layout)?;
     Ok(Checked {
         loaded,

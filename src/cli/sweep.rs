@@ -5,7 +5,6 @@ use super::pipeline::{self, Loaded};
 use super::{Exit, Failure, print_out};
 use crate::explore::{self, Evaluation, Objective, Outcome, Requirement, Status, Sweep};
 use crate::export::{OutFile, out_dir};
-use crate::geometry;
 use crate::rules::Severity;
 use crate::spec;
 use anyhow::Context;
@@ -33,16 +32,12 @@ pub struct Args<'a> {
 
 /// Evaluates one candidate design file through the whole pipeline.
 fn evaluate(base: &Loaded, text: &str) -> Evaluation {
-    let design = match spec::parse(text) {
-        Ok(d) => d,
+    let (design, layout) = match spec::parse_and_build(text) {
+        Ok(built) => built,
         Err(errors) => {
             let e = errors.first();
             return Evaluation::Invalid(format!("{}: {}", e.key, e.message));
         }
-    };
-    let layout = match geometry::build(&design) {
-        Ok(l) => l,
-        Err(e) => return Evaluation::Invalid(e.to_string()),
     };
     let loaded = Loaded {
         path: base.path.clone(),

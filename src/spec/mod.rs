@@ -32,4 +32,4 @@ pub mod units;
 
 pub use design::*;
 pub use error::{SpecError, SpecErrors, line_col};
-pub use parse::{DEFAULT_CURRENT_A, MAX_SIZE_MM, MAX_TURNS, nearest, parse};
+pub use parse::{DEFAULT_CURRENT_A, MAX_SIZE_MM, MAX_TURNS, nearest, parse, parse_and_build};

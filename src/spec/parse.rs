@@ -558,6 +558,12 @@ impl Ctx {
 /// byte span it is about. Defaults are documented in the README's key
 /// reference.
 pub fn parse(text: &str) -> Result<Design, SpecErrors> {
+    parse_and_build(text).map(|(design, _)| design)
+}
+
+/// Like [`parse`], and also returns the copper that validation built (so
+/// callers that need the layout do not build it a second time).
+pub fn parse_and_build(text: &str) -> Result<(Design, geometry::Layout), SpecErrors> {
     let doc = DeTable::parse(text).map_err(|e| SpecError {
         key: "syntax".into(),
         span: e.span(),
@@ -678,8 +684,10 @@ pub fn parse(text: &str) -> Result<Design, SpecErrors> {
         magnet,
         drive,
     };
-    if let Err(e) = geometry::build(&design) {
-        let (key, help) = match &e {
+    let layout = match geometry::build(&design) {
+        Ok(layout) => layout,
+        Err(e) => {
+            let (key, help) = match &e {
             GeometryError::Layers(_) => ("coil.layers", None),
             GeometryError::OddParallel(_) => (
                 "coil.wiring",
@@ -698,21 +706,22 @@ pub fn parse(text: &str) -> Result<Design, SpecErrors> {
                 Some("make the free centre larger, or use smaller vias or terminal pads".to_string()),
             ),
         };
-        let span = match key {
-            "coil.layers" => coil_t.span_of("layers"),
-            "coil.wiring" => coil_t.span_of("wiring"),
-            "coil.inner_diameter" => coil_t.span_of("inner_diameter").or(coil_t.span.clone()),
-            _ => coil_t.span.clone(),
-        };
-        return Err(SpecError {
-            key: key.into(),
-            span,
-            message: format!("the coil cannot be built: {e}"),
-            help,
+            let span = match key {
+                "coil.layers" => coil_t.span_of("layers"),
+                "coil.wiring" => coil_t.span_of("wiring"),
+                "coil.inner_diameter" => coil_t.span_of("inner_diameter").or(coil_t.span.clone()),
+                _ => coil_t.span.clone(),
+            };
+            return Err(SpecError {
+                key: key.into(),
+                span,
+                message: format!("the coil cannot be built: {e}"),
+                help,
+            }
+            .into());
         }
-        .into());
-    }
-    Ok(design)
+    };
+    Ok((design, layout))
 }
 
 /// What [coil] asked for, before the sizes are resolved.
