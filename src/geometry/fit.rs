@@ -4,7 +4,8 @@
 //! Sizes are measured on the copper the spiral really makes (edges of the
 //! traces), by building the spiral and measuring it, so that the three
 //! numbers always describe the same coil. Monotonic relations are solved by
-//! bisection.
+//! the Illinois variant of regula falsi with a bisection safeguard
+//! (Dowell & Jarratt, BIT 11, 1971), to a few units in the last place.
 //!
 //! # Units
 //! Millimetres.
@@ -158,26 +159,21 @@ impl FitInput {
 
     /// Most turns that fit with the free centre `inner`, by bisection.
     fn max_turns(&self, inner: f64, outer: f64) -> Result<f64, FitError> {
-        if self.excess(inner, 1e-6, outer)? > 0.0 {
+        let (mut lo, mut hi) = (1e-6, 1.0);
+        let mut f_lo = self.excess(inner, lo, outer)?;
+        if f_lo > 0.0 {
             return Ok(0.0);
         }
-        let (mut lo, mut hi) = (1e-6, 1.0);
-        while self.excess(inner, hi, outer)? <= 0.0 {
-            lo = hi;
+        let mut f_hi = self.excess(inner, hi, outer)?;
+        while f_hi <= 0.0 {
+            (lo, f_lo) = (hi, f_hi);
             hi *= 2.0;
             if hi > 1e6 {
                 return Err(FitError::InnerNotInside);
             }
+            f_hi = self.excess(inner, hi, outer)?;
         }
-        for _ in 0..60 {
-            let mid = 0.5 * (lo + hi);
-            if self.excess(inner, mid, outer)? <= 0.0 {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-        }
-        Ok(lo)
+        largest_feasible(|t| self.excess(inner, t, outer), (lo, f_lo), (hi, f_hi))
     }
 
     /// Resolves all three sizes.
@@ -230,23 +226,19 @@ impl FitInput {
             (Some(od), None, Some(TurnsRequest::Count(t))) => {
                 // Largest free centre such that `t` turns fit inside `od`.
                 let lo_inner = self.inner_param(min_id);
-                if self.excess(lo_inner, t, od)? > 0.0 {
+                let mut f_lo = self.excess(lo_inner, t, od)?;
+                if f_lo > 0.0 {
                     let max = (self.max_turns(lo_inner, od)? * 100.0).floor() / 100.0;
                     return Err(FitError::TooManyTurns { requested: t, max });
                 }
                 let (mut lo, mut hi) = (lo_inner, lo_inner + 1.0);
-                while self.excess(hi, t, od)? <= 0.0 {
-                    lo = hi;
+                let mut f_hi = self.excess(hi, t, od)?;
+                while f_hi <= 0.0 {
+                    (lo, f_lo) = (hi, f_hi);
                     hi += hi;
+                    f_hi = self.excess(hi, t, od)?;
                 }
-                for _ in 0..60 {
-                    let mid = 0.5 * (lo + hi);
-                    if self.excess(mid, t, od)? <= 0.0 {
-                        lo = mid;
-                    } else {
-                        hi = mid;
-                    }
-                }
+                let lo = largest_feasible(|x| self.excess(x, t, od), (lo, f_lo), (hi, f_hi))?;
                 Ok(Fit {
                     outer_diameter: self.outer_of(lo, t)?,
                     inner_diameter: self.inner_diameter_of(lo),
@@ -266,6 +258,55 @@ impl FitInput {
             _ => Err(FitError::NeedTwo),
         }
     }
+}
+
+/// The largest `x` in `[lo, hi)` with `f(x) <= 0` for a function that grows
+/// with `x`, given `f(lo) <= 0 < f(hi)`: Illinois steps (regula falsi that
+/// halves the value kept at an end twice in a row), with a bisection
+/// whenever three steps have not halved the bracket, until the bracket is a
+/// few units in the last place wide.
+fn largest_feasible<E>(
+    mut f: impl FnMut(f64) -> Result<f64, E>,
+    (mut lo, mut f_lo): (f64, f64),
+    (mut hi, mut f_hi): (f64, f64),
+) -> Result<f64, E> {
+    let mut kept = 0i8; // +1: lo kept last time, -1: hi kept
+    let mut width_before = hi - lo;
+    let mut steps = 0;
+    while f_lo != 0.0 && hi - lo > 4.0 * f64::EPSILON * hi.abs().max(lo.abs()) {
+        steps += 1;
+        let mut x = lo - f_lo * (hi - lo) / (f_hi - f_lo);
+        if steps % 4 == 0 {
+            if hi - lo > 0.5 * width_before {
+                x = 0.5 * (lo + hi);
+            }
+            width_before = hi - lo;
+        }
+        if !(x > lo && x < hi) {
+            x = 0.5 * (lo + hi);
+            if !(x > lo && x < hi) {
+                break;
+            }
+        }
+        let fx = f(x)?;
+        if fx <= 0.0 {
+            (lo, f_lo) = (x, fx);
+            if kept == -1 {
+                f_hi /= 2.0;
+            }
+            kept = -1;
+        } else {
+            (hi, f_hi) = (x, fx);
+            if kept == 1 {
+                f_lo /= 2.0;
+            }
+            kept = 1;
+        }
+        if steps > 400 {
+            break;
+        }
+    }
+    Ok(lo)
 }
 
 #[cfg(test)]

@@ -346,26 +346,21 @@ impl Segment {
         match self {
             Segment::Line(l) => angle_between(l.start.to_vec2(), l.end.to_vec2()),
             Segment::Arc(a) => {
-                // Steps small enough that none sweeps half a turn about the
-                // origin: finer when the origin is close to the arc's circle.
-                let r = a.radius();
-                let gap = (a.center.to_vec2().length() - r)
-                    .abs()
-                    .max(1e-9 * r.max(1.0));
-                let per_step = 0.5 * (gap / r).min(1.0);
-                let n = ((a.sweep.abs() / per_step).ceil() as usize).clamp(1, 1_000_000);
-                let mut total = 0.0;
-                let mut prev = a.start;
-                for i in 1..=n {
-                    let p = if i == n {
-                        a.end
-                    } else {
-                        a.point_at(i as f64 / n as f64)
-                    };
-                    total += angle_between(prev.to_vec2(), p.to_vec2());
-                    prev = p;
+                let c = a.center.to_vec2();
+                let (p0, p1) = (a.start.to_vec2(), a.end.to_vec2());
+                if c.length() < a.radius() {
+                    // The axis is inside the circle: the polar angle about it
+                    // grows with the arc's own angle, and at every point the
+                    // two differ by the angle from (p - centre) to p, which
+                    // stays within (-pi/2, pi/2) (in the triangle axis,
+                    // centre, p the angle at p faces the shorter side).
+                    a.sweep + angle_between(p1 - c, p1) - angle_between(p0 - c, p0)
+                } else {
+                    // The axis is outside (or on) the circle: the whole circle
+                    // is seen within less than half a turn, so the principal
+                    // angle between the ends is the swept angle.
+                    angle_between(p0, p1)
                 }
-                total
             }
         }
     }
@@ -537,7 +532,7 @@ pub fn distance_point_line(p: Point, a: Point, b: Point) -> f64 {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use std::f64::consts::PI;
+    use std::f64::consts::{PI, TAU};
 
     fn near(a: f64, b: f64, eps: f64) {
         assert!((a - b).abs() <= eps, "{a} vs {b}");
@@ -578,6 +573,39 @@ mod tests {
                 .sum()
         };
         near(Segment::Arc(a).swept_about_origin(), exact, 1e-9);
+    }
+
+    #[test]
+    fn swept_angle_closed_form_matches_stepping() {
+        // Arcs with the axis inside, outside and near the circle, against
+        // the sum of the angles of 20,000 small steps along the arc.
+        let mut seed = 7u64;
+        let mut rnd = || {
+            seed = seed
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            (seed >> 11) as f64 / (1u64 << 53) as f64
+        };
+        for _ in 0..300 {
+            let c = Point::new(4.0 * rnd() - 2.0, 4.0 * rnd() - 2.0);
+            let r = 0.05 + 3.0 * rnd();
+            let a0 = TAU * rnd();
+            let sweep = (2.0 * rnd() - 1.0) * 6.2;
+            let a = Arc::from_start(c, c + Vec2::from_angle(a0) * r, sweep);
+            let gap = (c.to_vec2().length() - r).abs();
+            if gap < 1e-2 {
+                continue;
+            }
+            let n = 20_000;
+            let stepped: f64 = (0..n)
+                .map(|i| {
+                    let p = a.point_at(i as f64 / n as f64).to_vec2();
+                    let q = a.point_at((i + 1) as f64 / n as f64).to_vec2();
+                    angle_between(p, q)
+                })
+                .sum();
+            near(Segment::Arc(a).swept_about_origin(), stepped, 1e-9);
+        }
     }
 
     #[test]

@@ -242,6 +242,9 @@ pub fn cut_at_polar_angle(path: &[Segment], target: f64) -> Vec<Segment> {
         let (mut lo, mut hi) = (0.0f64, 1.0f64);
         for _ in 0..80 {
             let mid = 0.5 * (lo + hi);
+            if mid <= lo || mid >= hi {
+                break; // adjacent doubles: converged
+            }
             let a = angle_between(start, s.point_at(mid).to_vec2());
             let a = if a < 0.0 && want > PI / 2.0 {
                 a + TAU

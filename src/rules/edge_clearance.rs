@@ -39,8 +39,19 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
     // themselves are exact. The coarse one (10 um chords) decides for
     // copper farther than 20 um from the edge, the fine one (1 nm) nearer.
     let coarse: Vec<Point> = edge.iter().flat_map(|s| s.flatten(1e-2)).collect();
-    let fine: Vec<Point> = edge.iter().flat_map(|s| s.flatten(1e-6)).collect();
-    let inside_at = |p: Point, d: f64| inside(if d > 2e-2 { &coarse } else { &fine }, p);
+    // (Flattened only when some copper comes that near: it has thousands
+    // of points.)
+    let fine = std::cell::OnceCell::new();
+    let inside_at = |p: Point, d: f64| {
+        if d > 2e-2 {
+            inside(&coarse, p)
+        } else {
+            let f = fine.get_or_init(|| -> Vec<Point> {
+                edge.iter().flat_map(|s| s.flatten(1e-6)).collect()
+            });
+            inside(f, p)
+        }
+    };
     let mut push = |item: Item, layer: Option<u8>, c: Closest, r: f64, inside: bool| {
         let gap = if inside { c.d - r } else { -(c.d + r) };
         if !fails(gap, req) {
