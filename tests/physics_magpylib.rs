@@ -30,7 +30,7 @@ fn field_matches_magpylib_polylines() {
         assert_eq!(case["name"], name);
         let layout = coilwright::geometry::build(&d).unwrap();
         let cond = Conductor::new(&d, &layout);
-        let fil = cond.filaments(FIELD_SAGITTA);
+        let fil = cond.balanced_filaments(FIELD_SAGITTA);
         let segs = Segments::new(&fil, 1.0);
         let refb: Vec<[f64; 3]> = serde_json::from_value(case["b_t_per_a"].clone()).unwrap();
         let pts: Vec<[f64; 3]> = serde_json::from_value(case["points_m"].clone()).unwrap();

@@ -6,7 +6,7 @@
 //! away from the board (towards a magnet above it); layer `k` has its copper
 //! centre at `-(sum over layers above of copper + dielectric) - t_k / 2`.
 
-use crate::geometry::{Layout, Segment, TrackRole, Wiring};
+use crate::geometry::{Layout, Point, Segment, TrackRole, Vec2, Wiring};
 use crate::spec::Design;
 
 /// Millimetres to metres: the one place where the factor 1000 lives.
@@ -17,6 +17,16 @@ pub fn m(mm: f64) -> f64 {
 /// Metres to millimetres.
 pub fn to_mm(m: f64) -> f64 {
     m * 1e3
+}
+
+/// How arcs become straight filaments.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Chords {
+    /// Chords between points of the arc.
+    Inscribed,
+    /// Pairs of filaments that keep each sub-arc's dipole moment (see
+    /// [`Conductor::balanced_filaments`]).
+    Balanced,
 }
 
 /// One track as a current path.
@@ -119,30 +129,70 @@ impl Conductor {
     /// local field at a distance `d` from the copper by about
     /// `rel_sagitta * radius / d`).
     pub fn filaments(&self, rel_sagitta: f64) -> Vec<Filament> {
-        let mut out = Vec::new();
+        self.flatten(rel_sagitta, Chords::Inscribed)
+    }
+
+    /// The pieces flattened with [`Chords::Balanced`]: each arc becomes
+    /// equal sub-arcs of at most `2 acos(1 - rel_sagitta)` radians (the
+    /// sub-arc's chord has sagitta `rel_sagitta` times the radius), and each
+    /// sub-arc two straight filaments that meet outside the arc at
+    /// `R phi / sin(phi)` (`phi` = half the sub-arc's angle): the two
+    /// triangles they make with the centre have the sector's area, so each
+    /// sub-arc keeps its dipole moment (and its net current element, the
+    /// chord) and the error left is of higher order. On a 4-layer, 20-turn
+    /// circular coil, `rel_sagitta = 1e-3` gives the field at the centre
+    /// to 1e-8 relative where plain chords of sagitta 1.5e-4 give 1e-4
+    /// (tested against chords of 1e-8 in this module).
+    pub fn balanced_filaments(&self, rel_sagitta: f64) -> Vec<Filament> {
+        self.flatten(rel_sagitta, Chords::Balanced)
+    }
+
+    fn flatten(&self, rel_sagitta: f64, chords: Chords) -> Vec<Filament> {
+        let mut out = Vec::with_capacity(self.pieces.len() * 8);
         // Half-angle of a chord with that sagitta: 1 - cos(h) = rel.
         let max_step = 2.0 * (1.0 - rel_sagitta.clamp(1e-15, 1.0)).acos();
         for p in &self.pieces {
-            let n = match p.segment {
-                Segment::Line(_) => 1,
-                Segment::Arc(a) => (a.sweep.abs() / max_step).ceil().max(1.0) as usize,
-            };
-            let mut prev = p.segment.start();
-            for i in 1..=n {
-                let q = if i == n {
-                    p.segment.end()
-                } else {
-                    p.segment.point_at(i as f64 / n as f64)
-                };
+            let mut push = |a: Point, b: Point| {
                 out.push(Filament {
-                    a: [m(prev.x), m(prev.y), p.z],
-                    b: [m(q.x), m(q.y), p.z],
+                    a: [m(a.x), m(a.y), p.z],
+                    b: [m(b.x), m(b.y), p.z],
                     weight: p.weight,
                     layer: p.layer,
                     width: p.width,
                     thickness: p.thickness,
-                });
-                prev = q;
+                })
+            };
+            match p.segment {
+                Segment::Line(l) => push(l.start, l.end),
+                Segment::Arc(a) => {
+                    let n = (a.sweep.abs() / max_step).ceil().max(1.0) as usize;
+                    // Vertices by rotating the radius vector in equal
+                    // steps (half steps for balanced chords).
+                    let parts = match chords {
+                        Chords::Inscribed => n,
+                        Chords::Balanced => 2 * n,
+                    };
+                    let step = a.sweep / parts as f64;
+                    let (sin, cos) = step.sin_cos();
+                    let stretch = match chords {
+                        Chords::Inscribed => 1.0,
+                        Chords::Balanced => step.abs() / step.abs().sin().max(1e-300),
+                    };
+                    let mut v = a.start - a.center;
+                    let mut prev = a.start;
+                    for i in 1..=parts {
+                        v = Vec2::new(v.x * cos - v.y * sin, v.x * sin + v.y * cos);
+                        let q = if i == parts {
+                            a.end
+                        } else if chords == Chords::Balanced && i % 2 == 1 {
+                            a.center + v * stretch
+                        } else {
+                            a.center + v
+                        };
+                        push(prev, q);
+                        prev = q;
+                    }
+                }
             }
         }
         out
