@@ -173,7 +173,12 @@ impl FitInput {
             }
             f_hi = self.excess(inner, hi, outer)?;
         }
-        largest_feasible(|t| self.excess(inner, t, outer), (lo, f_lo), (hi, f_hi))
+        largest_feasible(
+            |t| self.excess(inner, t, outer),
+            (lo, f_lo),
+            (hi, f_hi),
+            0.0,
+        )
     }
 
     /// Resolves all three sizes.
@@ -238,7 +243,7 @@ impl FitInput {
                     hi += hi;
                     f_hi = self.excess(hi, t, od)?;
                 }
-                let lo = largest_feasible(|x| self.excess(x, t, od), (lo, f_lo), (hi, f_hi))?;
+                let lo = largest_feasible(|x| self.excess(x, t, od), (lo, f_lo), (hi, f_hi), 0.0)?;
                 Ok(Fit {
                     outer_diameter: self.outer_of(lo, t)?,
                     inner_diameter: self.inner_diameter_of(lo),
@@ -264,16 +269,17 @@ impl FitInput {
 /// with `x`, given `f(lo) <= 0 < f(hi)`: Illinois steps (regula falsi that
 /// halves the value kept at an end twice in a row), with a bisection
 /// whenever three steps have not halved the bracket, until the bracket is a
-/// few units in the last place wide.
-fn largest_feasible<E>(
+/// few units in the last place wide, or at most `tol` wide.
+pub(crate) fn largest_feasible<E>(
     mut f: impl FnMut(f64) -> Result<f64, E>,
     (mut lo, mut f_lo): (f64, f64),
     (mut hi, mut f_hi): (f64, f64),
+    tol: f64,
 ) -> Result<f64, E> {
     let mut kept = 0i8; // +1: lo kept last time, -1: hi kept
     let mut width_before = hi - lo;
     let mut steps = 0;
-    while f_lo != 0.0 && hi - lo > 4.0 * f64::EPSILON * hi.abs().max(lo.abs()) {
+    while f_lo != 0.0 && hi - lo > tol.max(4.0 * f64::EPSILON * hi.abs().max(lo.abs())) {
         steps += 1;
         let mut x = lo - f_lo * (hi - lo) / (f_hi - f_lo);
         if steps % 4 == 0 {

@@ -1,7 +1,7 @@
 //! Copper geometry: primitives, the spiral of one layer, the stitching of
 //! layers with vias, and the resulting [`Layout`].
 
-mod fit;
+pub(crate) mod fit;
 mod layout;
 mod primitives;
 pub mod round;

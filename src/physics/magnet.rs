@@ -62,18 +62,33 @@ impl Cylinder {
         let a = self.radius;
         let b = self.length / 2.0;
         let zc = z - (self.gap + b);
-        let b0 = self.remanence / std::f64::consts::PI;
         let g = (a - rho) / (a + rho);
-        let (mut br, mut bz) = (0.0, 0.0);
+        let mut bz = 0.0;
         for (zs, sign) in [(zc + b, 1.0), (zc - b, -1.0)] {
             let q = (zs * zs + (rho + a) * (rho + a)).sqrt();
             // Points on the rim itself are excluded (the field is singular
             // there); the floor keeps the elliptic integral finite.
             let kc = ((zs * zs + (a - rho) * (a - rho)).sqrt() / q).max(1e-15);
-            br += sign * (a / q) * cel(kc, 1.0, 1.0, -1.0);
             bz += sign * (zs / q) * cel(kc, g * g, 1.0, g);
         }
-        (b0 * br, b0 * a / (a + rho) * bz)
+        let b0 = self.remanence / std::f64::consts::PI;
+        (self.b_rho(rho, z), b0 * a / (a + rho) * bz)
+    }
+
+    /// The radial component alone (the only one that pushes on flat
+    /// copper along the axis), tesla: the first half of [`Cylinder::field`].
+    pub fn b_rho(&self, rho: f64, z: f64) -> f64 {
+        let a = self.radius;
+        let b = self.length / 2.0;
+        let zc = z - (self.gap + b);
+        let mut br = 0.0;
+        for (zs, sign) in [(zc + b, 1.0), (zc - b, -1.0)] {
+            let q = (zs * zs + (rho + a) * (rho + a)).sqrt();
+            // (Floored: on the rim itself the field is singular.)
+            let kc = ((zs * zs + (a - rho) * (a - rho)).sqrt() / q).max(1e-15);
+            br += sign * (a / q) * cel(kc, 1.0, 1.0, -1.0);
+        }
+        self.remanence / std::f64::consts::PI * br
     }
 
     /// The same field by integrating the sheet's loops over the magnet's
@@ -123,12 +138,13 @@ impl Cylinder {
 fn force_on_magnet(points: &[([f64; 3], [f64; 2])], mag: &Cylinder) -> f64 {
     let fz: f64 = points
         .par_iter()
+        .with_min_len(512)
         .map(|(p, idl)| {
             let rho = p[0].hypot(p[1]);
             if rho < 1e-12 {
                 return 0.0;
             }
-            let (brho, _) = mag.field(rho, p[2]);
+            let brho = mag.b_rho(rho, p[2]);
             let (bx, by) = (brho * p[0] / rho, brho * p[1] / rho);
             // (dl x B)_z = dl_x B_y - dl_y B_x.
             idl[0] * by - idl[1] * bx
@@ -175,7 +191,7 @@ pub fn force_lorentz(f: &[Filament], current: f64, mag: &Cylinder) -> f64 {
 
 /// Largest angle about the axis one integration piece of an arc or line
 /// may sweep, radians.
-const MAX_TURN: f64 = std::f64::consts::PI / 8.0;
+const MAX_TURN: f64 = std::f64::consts::PI / 4.0;
 
 /// How far a segment moves towards or away from the axis (its travel in
 /// the magnet's meridian plane, where the magnet's field varies), at most,

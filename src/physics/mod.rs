@@ -312,17 +312,25 @@ fn outline_area(layout: &Layout) -> (f64, f64) {
     ((a / 2.0).abs(), per)
 }
 
-/// Radius where a profile first falls to `frac` of its first value.
-fn fall_radius(profile: &[ProfilePoint], frac: f64) -> Option<f64> {
+/// Radius (mm) where a profile first falls to `frac` of its first value:
+/// the first interval of the sampled profile that crosses it, then the
+/// crossing of the profile function `at` (mm -> value) itself within that
+/// interval, to 1 nm (Illinois steps, see `geometry::fit`). Sweeps sample
+/// the profile more coarsely than reports but find the same crossing
+/// unless a dip narrower than their spacing comes first.
+fn fall_radius(profile: &[ProfilePoint], frac: f64, at: impl Fn(f64) -> f64) -> Option<f64> {
     let b0 = profile.first()?.b_t_per_a;
     let target = frac * b0;
-    for w in profile.windows(2) {
-        if w[1].b_t_per_a <= target && w[0].b_t_per_a > target {
-            let t = (w[0].b_t_per_a - target) / (w[0].b_t_per_a - w[1].b_t_per_a);
-            return Some(w[0].at_mm + t * (w[1].at_mm - w[0].at_mm));
-        }
+    let w = profile
+        .windows(2)
+        .find(|w| w[1].b_t_per_a <= target && w[0].b_t_per_a > target)?;
+    if w[1].b_t_per_a == target {
+        return Some(w[1].at_mm);
     }
-    None
+    let g = |r: f64| Ok::<f64, std::convert::Infallible>(target - at(r));
+    let lo = (w[0].at_mm, target - w[0].b_t_per_a);
+    let hi = (w[1].at_mm, target - w[1].b_t_per_a);
+    crate::geometry::fit::largest_feasible(g, lo, hi, 1e-6).ok()
 }
 
 /// How much of the analysis to compute.
@@ -333,7 +341,9 @@ pub enum Detail {
     Full,
     /// Every scalar metric with the same methods, but profiles and curves
     /// on few points (axis: the surface and one height; across the coil:
-    /// 41 points; force against gap: none). For sweeps.
+    /// 13 points before the fall radii are refined; force against gap:
+    /// none) and the field on coarser balanced filaments
+    /// ([`FIELD_SAGITTA_METRICS`]). For sweeps.
     Metrics,
 }
 
@@ -407,7 +417,7 @@ pub fn analyse_with(
     let h = design.magnet.map_or(0.5, |mg| mg.gap);
     let (lo, hi) = layout.outline_bounds();
     let r_edge = m(lo.x.abs().max(lo.y.abs()).max(hi.x).max(hi.y)).max(1.2 * r_out);
-    let n_r = if full { 101 } else { 41 };
+    let n_r = if full { 101 } else { 13 };
     // Circles are round: one direction; other shapes: the mean of two.
     let dirs = if circular { 1 } else { 2 };
     let mut rad_pts = Vec::with_capacity(n_r * dirs);
@@ -430,6 +440,17 @@ pub fn analyse_with(
                 / dirs as f64,
         })
         .collect();
+    // The same profile at any distance (mm), for the fall radii.
+    let radial_at = |r_mm: f64| {
+        let r = m(r_mm);
+        sign * (0..dirs)
+            .map(|d| {
+                let a = std::f64::consts::FRAC_PI_4 * d as f64;
+                segs.field_at([r * a.cos(), r * a.sin(), m(h)])[2]
+            })
+            .sum::<f64>()
+            / dirs as f64
+    };
 
     // Heating.
     let (area_mm2, per_mm) = outline_area(layout);
@@ -653,8 +674,8 @@ pub fn analyse_with(
         field: FieldReport {
             center_t_per_a: field_center,
             center_at_drive_t: field_center * current,
-            radius_90_mm: fall_radius(&radial, 0.9),
-            radius_50_mm: fall_radius(&radial, 0.5),
+            radius_90_mm: fall_radius(&radial, 0.9, radial_at),
+            radius_50_mm: fall_radius(&radial, 0.5, radial_at),
             axial,
             radial_height_mm: h,
             radial,
