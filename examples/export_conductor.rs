@@ -16,7 +16,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
         let layout = coilwright::geometry::build(&d)?;
         let cond = Conductor::new(&d, &layout);
         // One polyline per winding, in current order.
-        let fil = cond.filaments(FIELD_SAGITTA);
+        let fil = cond.balanced_filaments(FIELD_SAGITTA);
         let mut lines: Vec<serde_json::Value> = Vec::new();
         let mut cur: Vec<[f64; 3]> = Vec::new();
         let mut key = (0u8, 0.0f64);
