@@ -269,7 +269,9 @@ impl FitInput {
 /// with `x`, given `f(lo) <= 0 < f(hi)`: Illinois steps (regula falsi that
 /// halves the value kept at an end twice in a row), with a bisection
 /// whenever three steps have not halved the bracket, until the bracket is a
-/// few units in the last place wide, or at most `tol` wide.
+/// few units in the last place wide; with `tol > 0`, also as soon as a step
+/// moves less than `tol`, returning that step's point (then within about
+/// `tol` of the root, on either side).
 pub(crate) fn largest_feasible<E>(
     mut f: impl FnMut(f64) -> Result<f64, E>,
     (mut lo, mut f_lo): (f64, f64),
@@ -279,6 +281,7 @@ pub(crate) fn largest_feasible<E>(
     let mut kept = 0i8; // +1: lo kept last time, -1: hi kept
     let mut width_before = hi - lo;
     let mut steps = 0;
+    let mut last = f64::NAN;
     while f_lo != 0.0 && hi - lo > tol.max(4.0 * f64::EPSILON * hi.abs().max(lo.abs())) {
         steps += 1;
         let mut x = lo - f_lo * (hi - lo) / (f_hi - f_lo);
@@ -295,6 +298,8 @@ pub(crate) fn largest_feasible<E>(
             }
         }
         let fx = f(x)?;
+        let small_step = tol > 0.0 && (x - last).abs() < tol;
+        last = x;
         if fx <= 0.0 {
             (lo, f_lo) = (x, fx);
             if kept == -1 {
@@ -307,6 +312,9 @@ pub(crate) fn largest_feasible<E>(
                 f_lo /= 2.0;
             }
             kept = 1;
+        }
+        if small_step {
+            return Ok(x);
         }
         if steps > 400 {
             break;

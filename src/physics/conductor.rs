@@ -148,9 +148,19 @@ impl Conductor {
     }
 
     fn flatten(&self, rel_sagitta: f64, chords: Chords) -> Vec<Filament> {
-        let mut out = Vec::with_capacity(self.pieces.len() * 8);
         // Half-angle of a chord with that sagitta: 1 - cos(h) = rel.
         let max_step = 2.0 * (1.0 - rel_sagitta.clamp(1e-15, 1.0)).acos();
+        let chords_of = |s: &Segment| match s {
+            Segment::Line(_) => 1,
+            Segment::Arc(a) => (a.sweep.abs() / max_step).ceil().max(1.0) as usize,
+        };
+        let per_chord = if chords == Chords::Balanced { 2 } else { 1 };
+        let total = self
+            .pieces
+            .iter()
+            .map(|p| chords_of(&p.segment))
+            .sum::<usize>();
+        let mut out = Vec::with_capacity(total * per_chord);
         for p in &self.pieces {
             let mut push = |a: Point, b: Point| {
                 out.push(Filament {
@@ -165,7 +175,7 @@ impl Conductor {
             match p.segment {
                 Segment::Line(l) => push(l.start, l.end),
                 Segment::Arc(a) => {
-                    let n = (a.sweep.abs() / max_step).ceil().max(1.0) as usize;
+                    let n = chords_of(&p.segment);
                     // Vertices by rotating the radius vector in equal
                     // steps (half steps for balanced chords).
                     let parts = match chords {

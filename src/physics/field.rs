@@ -11,7 +11,6 @@
 use super::MU0;
 use super::conductor::Filament;
 use super::elliptic::ke;
-use rayon::prelude::*;
 use std::f64::consts::PI;
 
 /// Straight filaments in structure-of-arrays form for fast field sums.
@@ -35,7 +34,14 @@ pub struct Segments {
 impl Segments {
     /// Segments from filaments carrying `current` amperes at the terminals.
     pub fn new(f: &[Filament], current: f64) -> Segments {
-        let mut s = Segments::default();
+        let n = f.len() + 1;
+        let mut s = Segments {
+            vx: Vec::with_capacity(n),
+            vy: Vec::with_capacity(n),
+            vz: Vec::with_capacity(n),
+            cur: Vec::with_capacity(n),
+            count: 0,
+        };
         for x in f {
             s.push(x.a, x.b, current * x.weight);
         }
@@ -91,7 +97,7 @@ impl Segments {
 
     /// Flux density at many points (in parallel over the points), tesla.
     pub fn field(&self, points: &[[f64; 3]]) -> Vec<[f64; 3]> {
-        points.par_iter().map(|&p| self.field_at(p)).collect()
+        super::map_indices(points.len(), |i| self.field_at(points[i]))
     }
 }
 

@@ -19,7 +19,6 @@ use super::MU0;
 use super::closed_forms::gmd_rect_self;
 use super::conductor::{Conductor, Filament, Ring};
 use super::elliptic::{ke, rule};
-use rayon::prelude::*;
 use std::collections::HashMap;
 use std::f64::consts::PI;
 use std::sync::RwLock;
@@ -243,36 +242,32 @@ fn ring_pair(p: &Ring, q: &Ring, cache: &GmdCache) -> f64 {
 /// `sum_i sum_j w_i w_j f_i f_j M_ij`.
 pub fn rings_inductance(rings: &[Ring]) -> f64 {
     let cache = GmdCache::default();
-    (0..rings.len())
-        .into_par_iter()
-        .map(|i| {
-            let p = &rings[i];
-            let cp = p.weight * p.frac;
-            let mut s = cp * cp * ring_pair(p, p, &cache);
-            for q in &rings[i + 1..] {
-                s += 2.0 * cp * q.weight * q.frac * ring_pair(p, q, &cache);
-            }
-            s
-        })
-        .collect::<Vec<f64>>()
-        // Summed in a fixed order: the same inputs give the same bits.
-        .iter()
-        .sum()
+    super::map_indices(rings.len(), |i| {
+        let p = &rings[i];
+        let cp = p.weight * p.frac;
+        let mut s = cp * cp * ring_pair(p, p, &cache);
+        for q in &rings[i + 1..] {
+            s += 2.0 * cp * q.weight * q.frac * ring_pair(p, q, &cache);
+        }
+        s
+    })
+    // Summed in a fixed order: the same inputs give the same bits.
+    .iter()
+    .sum()
 }
 
 /// Mutual inductance between two groups of rings (current shares
 /// included), henry.
 pub fn rings_mutual(a: &[Ring], b: &[Ring]) -> f64 {
     let cache = GmdCache::default();
-    a.par_iter()
-        .map(|p| {
-            b.iter()
-                .map(|q| p.weight * p.frac * q.weight * q.frac * ring_pair(p, q, &cache))
-                .sum::<f64>()
-        })
-        .collect::<Vec<f64>>()
-        .iter()
-        .sum()
+    super::map_indices(a.len(), |i| {
+        let p = &a[i];
+        b.iter()
+            .map(|q| p.weight * p.frac * q.weight * q.frac * ring_pair(p, q, &cache))
+            .sum::<f64>()
+    })
+    .iter()
+    .sum()
 }
 
 fn sub(a: [f64; 3], b: [f64; 3]) -> [f64; 3] {
@@ -460,20 +455,17 @@ fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
 /// Inductance of straight filaments by Neumann's formula, henry.
 pub fn filaments_inductance(f: &[Filament]) -> f64 {
     let cache = GmdCache::default();
-    let s: f64 = (0..f.len())
-        .into_par_iter()
-        .map(|i| {
-            let p = &f[i];
-            let mut s = p.weight * p.weight * straight_pair(p, p, &cache);
-            for q in &f[i + 1..] {
-                s += 2.0 * p.weight * q.weight * straight_pair(p, q, &cache);
-            }
-            s
-        })
-        .collect::<Vec<f64>>()
-        // Summed in a fixed order: the same inputs give the same bits.
-        .iter()
-        .sum();
+    let s: f64 = super::map_indices(f.len(), |i| {
+        let p = &f[i];
+        let mut s = p.weight * p.weight * straight_pair(p, p, &cache);
+        for q in &f[i + 1..] {
+            s += 2.0 * p.weight * q.weight * straight_pair(p, q, &cache);
+        }
+        s
+    })
+    // Summed in a fixed order: the same inputs give the same bits.
+    .iter()
+    .sum();
     MU0 / (4.0 * PI) * s
 }
 

@@ -27,7 +27,6 @@ use super::elliptic::{cel, rule};
 use super::field::loop_field;
 use super::inductance::maxwell_mutual;
 use crate::geometry::Segment;
-use rayon::prelude::*;
 
 /// A cylinder magnet in SI units.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -136,10 +135,9 @@ impl Cylinder {
 /// element, a point (m) and `I dl` (A m) in the plane of the element; the
 /// result is minus the z component of the Lorentz force on them, newton.
 fn force_on_magnet(points: &[([f64; 3], [f64; 2])], mag: &Cylinder) -> f64 {
-    let fz: f64 = points
-        .par_iter()
-        .with_min_len(512)
-        .map(|(p, idl)| {
+    let fz: f64 = super::map_indices(points.len(), |i| {
+        let (p, idl) = &points[i];
+        {
             let rho = p[0].hypot(p[1]);
             if rho < 1e-12 {
                 return 0.0;
@@ -148,11 +146,11 @@ fn force_on_magnet(points: &[([f64; 3], [f64; 2])], mag: &Cylinder) -> f64 {
             let (bx, by) = (brho * p[0] / rho, brho * p[1] / rho);
             // (dl x B)_z = dl_x B_y - dl_y B_x.
             idl[0] * by - idl[1] * bx
-        })
-        .collect::<Vec<f64>>()
-        // Summed in a fixed order: the same inputs give the same bits.
-        .iter()
-        .sum();
+        }
+    })
+    // Summed in a fixed order: the same inputs give the same bits.
+    .iter()
+    .sum();
     -fz
 }
 

@@ -23,7 +23,7 @@
 //! neighbouring turns.
 
 use super::context::{ADJACENT_CELLS, Context, Piece};
-use super::distance::{Closest, segment_segment};
+use super::distance::{Closest, len, rad, segment_segment};
 use super::{Item, RuleInfo, Severity, Violation, fails};
 use crate::geometry::Segment;
 use std::collections::BTreeMap;
@@ -50,6 +50,16 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
                     continue;
                 }
                 let b = &ctx.pieces[j];
+                // Two arcs are at least |r1 - r2| - |c1 - c2| apart (each
+                // point of one is r1 from its centre, each of the other
+                // within |c1 - c2| of r2 from it): neighbouring turns about
+                // one centre are settled without the exact distance.
+                if let (Segment::Arc(x), Segment::Arc(y)) = (&a.seg, &b.seg) {
+                    let bound = (rad(x) - rad(y)).abs() - len(x.center - y.center);
+                    if !fails(bound - a.hw - b.hw, req) {
+                        continue;
+                    }
+                }
                 let thr = req + a.hw + b.hw;
                 let Some(c) = non_adjacent(ctx, a, b, thr) else {
                     continue;

@@ -462,7 +462,15 @@ impl<'a> Context<'a> {
                     );
                 } else {
                     let dt = (reach / q.r0).min(1.0).asin() + 1e-9;
-                    for k in [-1.0, 0.0, 1.0] {
+                    // Stored boxes start in [-pi, pi) and end before 3 pi:
+                    // the copy a turn lower can only meet one that ends
+                    // past pi.
+                    let shifts: &[f64] = if q.t1 + dt >= PI - 1e-6 {
+                        &[-1.0, 0.0, 1.0]
+                    } else {
+                        &[0.0, 1.0]
+                    };
+                    for &k in shifts {
                         let env = AABB::from_corners(
                             [r0, q.t0 - dt + k * TAU],
                             [r1, q.t1 + dt + k * TAU],
