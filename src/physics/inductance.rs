@@ -175,13 +175,40 @@ const NEAR: f64 = 6.0;
 /// serves the whole process (a sweep meets the same sections and offsets
 /// in many candidates); values are computed from the key alone, so results
 /// do not depend on what was cached before.
-struct GmdCache(&'static RwLock<HashMap<[i64; 6], f64>>);
+struct GmdCache(&'static RwLock<GmdMap>);
 
 impl Default for GmdCache {
     fn default() -> Self {
-        static CACHE: std::sync::OnceLock<RwLock<HashMap<[i64; 6], f64>>> =
-            std::sync::OnceLock::new();
-        GmdCache(CACHE.get_or_init(|| RwLock::new(HashMap::new())))
+        static CACHE: std::sync::OnceLock<RwLock<GmdMap>> = std::sync::OnceLock::new();
+        GmdCache(CACHE.get_or_init(|| RwLock::new(GmdMap::default())))
+    }
+}
+
+/// The cache's map: keys are six integers made by the program itself, so a
+/// plain multiply-rotate hash (the one rustc uses internally, "FxHash") is
+/// enough and much cheaper than the default DoS-resistant SipHash.
+type GmdMap = HashMap<[i64; 6], f64, std::hash::BuildHasherDefault<KeyHasher>>;
+
+/// Multiply-rotate hasher for [`GmdMap`].
+#[derive(Default)]
+struct KeyHasher(u64);
+
+impl std::hash::Hasher for KeyHasher {
+    fn finish(&self) -> u64 {
+        self.0
+    }
+    fn write(&mut self, bytes: &[u8]) {
+        for chunk in bytes.chunks(8) {
+            let mut b = [0u8; 8];
+            b[..chunk.len()].copy_from_slice(chunk);
+            self.write_u64(u64::from_le_bytes(b));
+        }
+    }
+    fn write_u64(&mut self, v: u64) {
+        self.0 = (self.0.rotate_left(5) ^ v).wrapping_mul(0x51_7c_c1_b7_27_22_0a_95);
+    }
+    fn write_i64(&mut self, v: i64) {
+        self.write_u64(v as u64);
     }
 }
 
@@ -219,7 +246,7 @@ impl GmdCache {
 fn ring_pair(p: &Ring, q: &Ring, cache: &GmdCache) -> f64 {
     let dr = q.radius - p.radius;
     let dz = q.z - p.z;
-    let dist = dr.hypot(dz);
+    let dist = (dr * dr + dz * dz).sqrt();
     let size = p.width.max(p.thickness).max(q.width).max(q.thickness);
     let overlap =
         dr.abs() < (p.width + q.width) / 2.0 && dz.abs() < (p.thickness + q.thickness) / 2.0;

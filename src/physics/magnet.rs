@@ -138,7 +138,7 @@ fn force_on_magnet(points: &[([f64; 3], [f64; 2])], mag: &Cylinder) -> f64 {
     let fz: f64 = super::map_indices(points.len(), |i| {
         let (p, idl) = &points[i];
         {
-            let rho = p[0].hypot(p[1]);
+            let rho = (p[0] * p[0] + p[1] * p[1]).sqrt();
             if rho < 1e-12 {
                 return 0.0;
             }

@@ -308,22 +308,25 @@ pub(crate) fn map_indices<R: Send>(n: usize, f: impl Fn(usize) -> R + Sync + Sen
     }
 }
 
-/// Area (mm^2) and perimeter (mm) of the board outline.
-fn outline_area(layout: &Layout) -> (f64, f64) {
-    let mut pts = Vec::new();
+/// Area (mm^2) and perimeter (mm) of the board outline (a closed loop).
+fn outline_area(outline: &[crate::geometry::Segment]) -> (f64, f64) {
+    // Exact for lines and arcs: A = 1/2 closed integral of (x dy - y dx);
+    // along an arc about (cx, cy) of radius r sweeping phi that integral is
+    // r^2 phi + cx (y1 - y0) - cy (x1 - x0).
+    let mut twice = 0.0;
     let mut per = 0.0;
-    for s in &layout.outline.segments {
+    for s in outline {
         per += s.length();
-        let f = s.flatten(1e-4);
-        pts.extend_from_slice(&f[..f.len() - 1]);
+        let (p, q) = (s.start(), s.end());
+        twice += match s {
+            crate::geometry::Segment::Line(_) => p.x * q.y - q.x * p.y,
+            crate::geometry::Segment::Arc(a) => {
+                let r = a.radius();
+                r * r * a.sweep + a.center.x * (q.y - p.y) - a.center.y * (q.x - p.x)
+            }
+        };
     }
-    let n = pts.len();
-    let mut a = 0.0;
-    for i in 0..n {
-        let (p, q) = (pts[i], pts[(i + 1) % n]);
-        a += p.x * q.y - q.x * p.y;
-    }
-    ((a / 2.0).abs(), per)
+    ((twice / 2.0).abs(), per)
 }
 
 /// Radius (mm) where a profile first falls to `frac` of its first value:
@@ -471,7 +474,7 @@ pub fn analyse_with(
     };
 
     // Heating.
-    let (area_mm2, per_mm) = outline_area(layout);
+    let (area_mm2, per_mm) = outline_area(&layout.outline.segments);
     let ((cu_rho, cu_c), (di_rho, di_c)) = thermal::heat_capacities(design.stackup.kind);
     let cu_vol: f64 = cond
         .pieces
@@ -785,5 +788,42 @@ fn published_estimates(
         wheeler_1928_h: wh,
         d_out_mm: d_out,
         d_in_mm: d_in,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::geometry::{Arc, Point, Segment};
+
+    #[test]
+    fn outline_area_is_exact_for_lines_and_arcs() {
+        // A 10 x 6 rectangle with 1 mm round corners: 60 - (4 - pi) mm^2,
+        // perimeter 2 (8 + 4) + 2 pi (plane geometry).
+        let (w, h, r) = (5.0, 3.0, 1.0);
+        let corner = |cx: f64, cy: f64, a0: f64| {
+            let c = Point::new(cx, cy);
+            Segment::Arc(Arc::from_start(
+                c,
+                c + crate::geometry::Vec2::from_angle(a0) * r,
+                std::f64::consts::FRAC_PI_2,
+            ))
+        };
+        let s = vec![
+            Segment::line(Point::new(-w + r, -h), Point::new(w - r, -h)),
+            corner(w - r, -h + r, -std::f64::consts::FRAC_PI_2),
+            Segment::line(Point::new(w, -h + r), Point::new(w, h - r)),
+            corner(w - r, h - r, 0.0),
+            Segment::line(Point::new(w - r, h), Point::new(-w + r, h)),
+            corner(-w + r, h - r, std::f64::consts::FRAC_PI_2),
+            Segment::line(Point::new(-w, h - r), Point::new(-w, -h + r)),
+            corner(-w + r, -h + r, std::f64::consts::PI),
+        ];
+        let (a, p) = outline_area(&s);
+        assert!(
+            (a - (60.0 - (4.0 - std::f64::consts::PI))).abs() < 1e-12,
+            "{a}"
+        );
+        assert!((p - (24.0 + std::f64::consts::TAU)).abs() < 1e-12, "{p}");
     }
 }
