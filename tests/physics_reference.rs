@@ -379,6 +379,11 @@ fn balanced_filaments_meet_their_documented_accuracy() {
             pts.push([x * 0.6, x * 0.8, 0.5e-3]);
         }
         let truth = Segments::new(&cond.filaments(1e-8), 1.0).field(&pts);
+        // The analysis builds the same filaments without the list.
+        assert_eq!(
+            cond.field_segments(FIELD_SAGITTA, 1.0).field(&pts),
+            Segments::new(&cond.balanced_filaments(FIELD_SAGITTA), 1.0).field(&pts)
+        );
         let b0 = truth[0][2].abs();
         for (rel, centre, profile) in [
             (FIELD_SAGITTA, 1e-7, 2e-4),

@@ -6,6 +6,7 @@
 //! away from the board (towards a magnet above it); layer `k` has its copper
 //! centre at `-(sum over layers above of copper + dielectric) - t_k / 2`.
 
+use super::field::Segments;
 use crate::geometry::{Layout, Point, Segment, TrackRole, Vec2, Wiring};
 use crate::spec::Design;
 
@@ -148,32 +149,68 @@ impl Conductor {
     }
 
     fn flatten(&self, rel_sagitta: f64, chords: Chords) -> Vec<Filament> {
-        // Half-angle of a chord with that sagitta: 1 - cos(h) = rel.
+        let mut out = Vec::with_capacity(self.chord_count(rel_sagitta, chords));
+        self.flatten_each(rel_sagitta, chords, |p, a, b| {
+            out.push(Filament {
+                a: [m(a.x), m(a.y), p.z],
+                b: [m(b.x), m(b.y), p.z],
+                weight: p.weight,
+                layer: p.layer,
+                width: p.width,
+                thickness: p.thickness,
+            })
+        });
+        out
+    }
+
+    /// The balanced filaments straight into the field's structure (what
+    /// [`Conductor::balanced_filaments`] gives, without the intermediate
+    /// list), carrying `current` amperes at the terminals.
+    pub fn field_segments(&self, rel_sagitta: f64, current: f64) -> Segments {
+        let mut s = Segments::with_capacity(self.chord_count(rel_sagitta, Chords::Balanced));
+        self.flatten_each(rel_sagitta, Chords::Balanced, |p, a, b| {
+            s.push(
+                [m(a.x), m(a.y), p.z],
+                [m(b.x), m(b.y), p.z],
+                current * p.weight,
+            )
+        });
+        s
+    }
+
+    /// Chords per arc for a relative sagitta: `1 - cos(h) = rel` gives the
+    /// half-angle `h` of one chord.
+    fn arc_chords(rel_sagitta: f64) -> impl Fn(&Segment) -> usize {
         let max_step = 2.0 * (1.0 - rel_sagitta.clamp(1e-15, 1.0)).acos();
-        let chords_of = |s: &Segment| match s {
+        move |s: &Segment| match s {
             Segment::Line(_) => 1,
             Segment::Arc(a) => (a.sweep.abs() / max_step).ceil().max(1.0) as usize,
-        };
-        let per_chord = if chords == Chords::Balanced { 2 } else { 1 };
-        let total = self
-            .pieces
+        }
+    }
+
+    /// How many filaments [`Conductor::flatten_each`] makes.
+    fn chord_count(&self, rel_sagitta: f64, chords: Chords) -> usize {
+        let n = Self::arc_chords(rel_sagitta);
+        self.pieces
             .iter()
-            .map(|p| chords_of(&p.segment))
-            .sum::<usize>();
-        let mut out = Vec::with_capacity(total * per_chord);
+            .map(|p| match (p.segment, chords) {
+                (Segment::Arc(_), Chords::Balanced) => 2 * n(&p.segment),
+                _ => n(&p.segment),
+            })
+            .sum()
+    }
+
+    /// Calls `f(piece, from, to)` for every filament, in current order.
+    fn flatten_each(
+        &self,
+        rel_sagitta: f64,
+        chords: Chords,
+        mut f: impl FnMut(&Piece, Point, Point),
+    ) {
+        let chords_of = Self::arc_chords(rel_sagitta);
         for p in &self.pieces {
-            let mut push = |a: Point, b: Point| {
-                out.push(Filament {
-                    a: [m(a.x), m(a.y), p.z],
-                    b: [m(b.x), m(b.y), p.z],
-                    weight: p.weight,
-                    layer: p.layer,
-                    width: p.width,
-                    thickness: p.thickness,
-                })
-            };
             match p.segment {
-                Segment::Line(l) => push(l.start, l.end),
+                Segment::Line(l) => f(p, l.start, l.end),
                 Segment::Arc(a) => {
                     let n = chords_of(&p.segment);
                     // Vertices by rotating the radius vector in equal
@@ -199,13 +236,12 @@ impl Conductor {
                         } else {
                             a.center + v
                         };
-                        push(prev, q);
+                        f(p, prev, q);
                         prev = q;
                     }
                 }
             }
         }
-        out
     }
 
     /// Only the spiral pieces (leads left out), for comparisons with

@@ -34,18 +34,22 @@ pub struct Segments {
 impl Segments {
     /// Segments from filaments carrying `current` amperes at the terminals.
     pub fn new(f: &[Filament], current: f64) -> Segments {
-        let n = f.len() + 1;
-        let mut s = Segments {
-            vx: Vec::with_capacity(n),
-            vy: Vec::with_capacity(n),
-            vz: Vec::with_capacity(n),
-            cur: Vec::with_capacity(n),
-            count: 0,
-        };
+        let mut s = Segments::with_capacity(f.len());
         for x in f {
             s.push(x.a, x.b, current * x.weight);
         }
         s
+    }
+
+    /// Empty, with room for `n` segments in one chain.
+    pub fn with_capacity(n: usize) -> Segments {
+        Segments {
+            vx: Vec::with_capacity(n + 1),
+            vy: Vec::with_capacity(n + 1),
+            vz: Vec::with_capacity(n + 1),
+            cur: Vec::with_capacity(n),
+            count: 0,
+        }
     }
 
     /// Adds a segment from `a` to `b` (m) carrying `current` (A).

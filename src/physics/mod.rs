@@ -413,7 +413,7 @@ pub fn analyse_with(
     } else {
         FIELD_SAGITTA_METRICS
     };
-    let segs = field::Segments::new(&cond.balanced_filaments(sagitta), 1.0);
+    let segs = cond.field_segments(sagitta, 1.0);
     let r_out = m(layout.outer_radius);
     let b0 = segs.field_at([0.0, 0.0, 0.0])[2];
     let sign = if b0 < 0.0 { -1.0 } else { 1.0 };
