@@ -26,7 +26,7 @@ use super::conductor::{Filament, Piece, Ring, m};
 use super::elliptic::{cel, rule};
 use super::field::loop_field;
 use super::inductance::maxwell_mutual;
-use crate::geometry::Segment;
+use crate::geometry::{Segment, Vec2};
 
 /// A cylinder magnet in SI units.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -220,29 +220,47 @@ fn travel(s: &Segment) -> f64 {
 /// with 2-point Gauss-Legendre per part.
 pub fn force_lorentz_pieces(pieces: &[Piece], current: f64, mag: &Cylinder) -> f64 {
     let g = 0.5 / 3f64.sqrt();
-    let mut pts = Vec::new();
-    for p in pieces {
-        let mid = p.segment.point_at(0.5);
-        let edge = (m(mid.radius()) - mag.radius).hypot(mag.gap - p.z);
-        let n = (travel(&p.segment) / piece_len(edge, mag))
-            .ceil()
-            .max((p.segment.swept_about_origin().abs() / MAX_TURN).ceil())
-            .max(1.0) as usize;
-        let c = current * p.weight;
-        for i in 0..n {
-            for off in [0.5 - g, 0.5 + g] {
-                let t = (i as f64 + off) / n as f64;
-                let q = p.segment.point_at(t);
-                // Tangent times length of this Gauss point's share.
-                let dl = match p.segment {
-                    Segment::Line(l) => [m(l.end.x - l.start.x), m(l.end.y - l.start.y)],
-                    Segment::Arc(a) => {
-                        let r = q - a.center;
-                        [m(-r.y * a.sweep), m(r.x * a.sweep)]
+    let parts: Vec<usize> = pieces
+        .iter()
+        .map(|p| {
+            let mid = p.segment.point_at(0.5);
+            let edge = (m(mid.radius()) - mag.radius).hypot(mag.gap - p.z);
+            (travel(&p.segment) / piece_len(edge, mag))
+                .ceil()
+                .max((p.segment.swept_about_origin().abs() / MAX_TURN).ceil())
+                .max(1.0) as usize
+        })
+        .collect();
+    let mut pts = Vec::with_capacity(2 * parts.iter().sum::<usize>());
+    for (p, &n) in pieces.iter().zip(&parts) {
+        // Each Gauss point's share of the current element.
+        let w = current * p.weight / (2 * n) as f64;
+        match p.segment {
+            Segment::Line(l) => {
+                let dl = [m(l.end.x - l.start.x), m(l.end.y - l.start.y)];
+                for i in 0..n {
+                    for off in [0.5 - g, 0.5 + g] {
+                        let q = l.start.lerp(l.end, (i as f64 + off) / n as f64);
+                        pts.push(([m(q.x), m(q.y), p.z], [w * dl[0], w * dl[1]]));
                     }
-                };
-                let w = c / (2 * n) as f64;
-                pts.push(([m(q.x), m(q.y), p.z], [w * dl[0], w * dl[1]]));
+                }
+            }
+            Segment::Arc(a) => {
+                // The two Gauss points of every part, by rotating the
+                // radius vector one part at a time.
+                let step = a.sweep / n as f64;
+                let (sin, cos) = step.sin_cos();
+                let v0 = a.start - a.center;
+                let mut vs = [v0.rotated(step * (0.5 - g)), v0.rotated(step * (0.5 + g))];
+                for _ in 0..n {
+                    for v in &mut vs {
+                        let q = a.center + *v;
+                        // Tangent times the sweep: the arc's dl per unit t.
+                        let dl = [m(-v.y * a.sweep), m(v.x * a.sweep)];
+                        pts.push(([m(q.x), m(q.y), p.z], [w * dl[0], w * dl[1]]));
+                        *v = Vec2::new(v.x * cos - v.y * sin, v.x * sin + v.y * cos);
+                    }
+                }
             }
         }
     }

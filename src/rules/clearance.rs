@@ -43,9 +43,11 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
     let mut worst: BTreeMap<(usize, usize), Closest> = BTreeMap::new();
     for layer in 1..=ctx.layers {
         let reach = req + ctx.max_hw_on(layer) + 1e-9;
+        let mut near = Vec::new();
         for &i in ctx.on_layer(layer) {
             let a = &ctx.pieces[i];
-            for j in ctx.near(layer, &a.polar, reach + a.hw) {
+            ctx.near_into(layer, &a.polar, reach + a.hw, &mut near);
+            for &j in &near {
                 if j < i {
                     continue;
                 }

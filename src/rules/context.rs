@@ -444,15 +444,22 @@ impl<'a> Context<'a> {
     /// of a shape with polar box `q` (index), or of every piece on the
     /// layer (all pairs). Ascending, without repeats.
     pub fn near(&self, layer: u8, q: &PolarBox, reach: f64) -> Vec<usize> {
+        let mut v = Vec::new();
+        self.near_into(layer, q, reach, &mut v);
+        v
+    }
+
+    /// [`Context::near`] into a buffer the caller reuses (cleared first).
+    pub fn near_into(&self, layer: u8, q: &PolarBox, reach: f64, v: &mut Vec<usize>) {
+        v.clear();
         if layer == 0 || layer as usize > self.by_layer.len() {
-            return Vec::new();
+            return;
         }
         let l = layer as usize - 1;
         match self.broadphase {
-            Broadphase::AllPairs => self.by_layer[l].clone(),
+            Broadphase::AllPairs => v.extend_from_slice(&self.by_layer[l]),
             Broadphase::Index => {
                 let (r0, r1) = (q.r0 - reach, q.r1 + reach);
-                let mut v: Vec<usize> = Vec::new();
                 if q.full || q.r0 <= reach {
                     let env = AABB::from_corners([r0, -4.0 * PI], [r1, 4.0 * PI]);
                     v.extend(
@@ -484,7 +491,6 @@ impl<'a> Context<'a> {
                 }
                 v.sort_unstable();
                 v.dedup();
-                v
             }
         }
     }
