@@ -186,34 +186,62 @@ impl Board {
     }
 
     /// How long the drive may run from ambient before the board reaches
-    /// `t_max` (C): integration of `C dT/dt = P_in(T) - P_out(T)` by RK4;
-    /// `None` when the steady temperature stays below `t_max`.
+    /// `t_max` (C), s: `C dT/dt = P_in(T) - P_out(T)` solved for the time,
+    /// `t = int_{T_ambient}^{t_max} C / (P_in(T) - P_out(T)) dT` (the
+    /// board only warms while the steady temperature lies above `t_max`),
+    /// by adaptive Simpson quadrature to 1e-9 relative; `None` when the
+    /// steady temperature stays at or below `t_max`.
     pub fn pulse(&self, source: Source, t_max: f64) -> Option<f64> {
         if let Some(ts) = self.steady(source)
             && ts <= t_max
         {
             return None;
         }
-        let rate =
-            |t: f64| (self.power_in(source, t) - self.losses(t).power_w) / self.heat_capacity;
-        // Step: a small fraction of the time to t_max at the starting rate.
-        let r0 = rate(self.ambient).max(1e-12);
-        let dt = ((t_max - self.ambient) / r0 / 2000.0).max(1e-9);
-        let (mut t, mut time) = (self.ambient, 0.0);
-        for _ in 0..10_000_000 {
-            let k1 = rate(t);
-            let k2 = rate(t + dt / 2.0 * k1);
-            let k3 = rate(t + dt / 2.0 * k2);
-            let k4 = rate(t + dt * k3);
-            let tn = t + dt / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4);
-            if tn >= t_max {
-                return Some(time + dt * (t_max - t) / (tn - t));
-            }
-            t = tn;
-            time += dt;
+        if t_max <= self.ambient {
+            return Some(0.0);
         }
-        None
+        let f = |t: f64| {
+            self.heat_capacity / (self.power_in(source, t) - self.losses(t).power_w).max(1e-300)
+        };
+        let (a, b) = (self.ambient, t_max);
+        let (fa, fm, fb) = (f(a), f((a + b) / 2.0), f(b));
+        let whole = (b - a) / 6.0 * (fa + 4.0 * fm + fb);
+        Some(simpson(
+            &f,
+            (a, fa),
+            (b, fb),
+            fm,
+            whole,
+            1e-9 * whole.abs(),
+            40,
+        ))
     }
+}
+
+/// Adaptive Simpson on `[a, b]` with the end and middle values known and
+/// the whole-interval estimate `whole`; refines halves until the two
+/// halves agree with the whole within `15 tol` (Richardson), at most
+/// `depth` levels.
+fn simpson(
+    f: &impl Fn(f64) -> f64,
+    (a, fa): (f64, f64),
+    (b, fb): (f64, f64),
+    fm: f64,
+    whole: f64,
+    tol: f64,
+    depth: u32,
+) -> f64 {
+    let m = (a + b) / 2.0;
+    let (lm, rm) = ((a + m) / 2.0, (m + b) / 2.0);
+    let (flm, frm) = (f(lm), f(rm));
+    let left = (m - a) / 6.0 * (fa + 4.0 * flm + fm);
+    let right = (b - m) / 6.0 * (fm + 4.0 * frm + fb);
+    let delta = left + right - whole;
+    if depth == 0 || delta.abs() <= 15.0 * tol {
+        return left + right + delta / 15.0;
+    }
+    simpson(f, (a, fa), (m, fm), flm, left, tol / 2.0, depth - 1)
+        + simpson(f, (m, fm), (b, fb), frm, right, tol / 2.0, depth - 1)
 }
 
 /// Density (kg/m^3) and specific heat (J/(kg K)) of copper and of the
@@ -267,6 +295,61 @@ mod tests {
         assert!((t - 80.0).abs() < 1e-6, "{t}");
         let t = b.steady(Source::Voltage(v)).unwrap();
         assert!((t - 80.0).abs() < 1e-6, "{t}");
+    }
+
+    #[test]
+    fn pulse_is_exact_for_linear_heating() {
+        // Fixed h, no radiation, current drive: P_in = I^2 R20 (1 + a (T -
+        // 20)) and P_out = G (T - Ta) are both linear in T, so
+        // C dT/dt = A - B (T - Ta) with A = P_in(Ta), B = G - I^2 R20 a,
+        // and t = C/B ln(A / (A - B (Tmax - Ta))) (separation of variables).
+        let mut b = board(Some(10.0));
+        b.emissivity = 0.0;
+        for (i, tmax) in [(1.2, 60.0), (0.9, 40.0), (2.0, 150.0)] {
+            let src = Source::Current(i);
+            let g = 2.0 * b.area * 10.0;
+            let a = b.power_in(src, b.ambient);
+            let bb = g - i * i * b.r20 * crate::physics::resistance::ALPHA_20;
+            let exact = b.heat_capacity / bb * (a / (a - bb * (tmax - b.ambient))).ln();
+            let t = b.pulse(src, tmax).unwrap();
+            assert!(
+                (t / exact - 1.0).abs() < 1e-8,
+                "{i} A to {tmax} C: {t} vs {exact}"
+            );
+        }
+    }
+
+    #[test]
+    fn pulse_agrees_with_time_stepping() {
+        // Natural convection and radiation (nonlinear), against RK4 on
+        // C dT/dt = P_in - P_out with 200,000 steps.
+        let b = board(None);
+        for (src, tmax) in [
+            (Source::Voltage(6.0), 80.0),
+            (Source::Current(1.5), 100.0),
+            (Source::Voltage(3.3), 35.0),
+        ] {
+            let rate = |t: f64| (b.power_in(src, t) - b.losses(t).power_w) / b.heat_capacity;
+            let t_quad = b.pulse(src, tmax).unwrap();
+            let dt = t_quad / 200_000.0;
+            let (mut t, mut time) = (b.ambient, 0.0);
+            let stepped = loop {
+                let k1 = rate(t);
+                let k2 = rate(t + dt / 2.0 * k1);
+                let k3 = rate(t + dt / 2.0 * k2);
+                let k4 = rate(t + dt * k3);
+                let tn = t + dt / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4);
+                if tn >= tmax {
+                    break time + dt * (tmax - t) / (tn - t);
+                }
+                t = tn;
+                time += dt;
+            };
+            assert!(
+                (t_quad / stepped - 1.0).abs() < 1e-6,
+                "{src:?}: {t_quad} vs {stepped}"
+            );
+        }
     }
 
     #[test]
