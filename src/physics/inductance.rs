@@ -21,7 +21,6 @@ use super::conductor::{Conductor, Filament, Ring};
 use super::elliptic::{ke, rule};
 use std::collections::HashMap;
 use std::f64::consts::PI;
-use std::sync::RwLock;
 
 /// Mutual inductance of two coaxial circular filaments of radii `a`, `b`
 /// at axial distance `d` (Maxwell; Grover 1946), henry:
@@ -224,16 +223,15 @@ impl Trapezoid {
 const NEAR: f64 = 6.0;
 
 /// Cache of GMD values keyed by offsets and sizes in picometres. One cache
-/// serves the whole process (a sweep meets the same sections and offsets
-/// in many candidates); values are computed from the key alone, so results
-/// do not depend on what was cached before.
-struct GmdCache(&'static RwLock<GmdMap>);
+/// per thread serves every analysis that thread runs (a sweep meets the
+/// same sections and offsets in many candidates; per thread, no lock is
+/// shared between the workers); values are computed from the key alone,
+/// so results do not depend on what was cached before or on the thread.
+#[derive(Default)]
+struct GmdCache;
 
-impl Default for GmdCache {
-    fn default() -> Self {
-        static CACHE: std::sync::OnceLock<RwLock<GmdMap>> = std::sync::OnceLock::new();
-        GmdCache(CACHE.get_or_init(|| RwLock::new(GmdMap::default())))
-    }
+thread_local! {
+    static GMD: std::cell::RefCell<GmdMap> = std::cell::RefCell::new(GmdMap::default());
 }
 
 /// The cache's map: keys are six integers made by the program itself, so a
@@ -272,7 +270,7 @@ impl GmdCache {
         let q = |v: f64| (v * 1e12).round() as i64;
         // Symmetric in the sign of the offsets.
         let key = [q(dx.abs()), q(dy.abs()), q(w1), q(t1), q(w2), q(t2)];
-        if let Some(v) = self.0.read().ok().and_then(|m| m.get(&key).copied()) {
+        if let Some(v) = GMD.with(|m| m.borrow().get(&key).copied()) {
             return v;
         }
         // Computed from the key itself, so the value never depends on which
@@ -283,12 +281,13 @@ impl GmdCache {
         } else {
             gmd_rects(k(0), k(1), k(2), k(3), k(4), k(5))
         };
-        if let Ok(mut m) = self.0.write() {
+        GMD.with(|m| {
+            let mut m = m.borrow_mut();
             if m.len() >= GMD_CACHE_MAX {
                 m.clear();
             }
             m.insert(key, v);
-        }
+        });
         v
     }
 }
