@@ -235,7 +235,7 @@ thread_local! {
 }
 
 /// The cache's map: keys are six integers made by the program itself, so a
-/// plain multiply-rotate hash (the one rustc uses internally, "FxHash") is
+/// plain multiply-rotate hash (as in rustc's "FxHash") with a finaliser is
 /// enough and much cheaper than the default DoS-resistant SipHash.
 type GmdMap = HashMap<[i64; 6], f64, std::hash::BuildHasherDefault<KeyHasher>>;
 
@@ -245,7 +245,15 @@ struct KeyHasher(u64);
 
 impl std::hash::Hasher for KeyHasher {
     fn finish(&self) -> u64 {
-        self.0
+        // MurmurHash3's 64-bit finaliser: the keys are multiples of round
+        // picometre values, so their low bits repeat and the multiply alone
+        // leaves the table's bucket bits clustered.
+        let mut h = self.0;
+        h ^= h >> 33;
+        h = h.wrapping_mul(0xff51_afd7_ed55_8ccd);
+        h ^= h >> 33;
+        h = h.wrapping_mul(0xc4ce_b9fe_1a85_ec53);
+        h ^ (h >> 33)
     }
     fn write(&mut self, bytes: &[u8]) {
         for chunk in bytes.chunks(8) {
