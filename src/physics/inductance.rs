@@ -270,8 +270,12 @@ impl std::hash::Hasher for KeyHasher {
     }
 }
 
-/// Most entries kept before the cache starts over.
-const GMD_CACHE_MAX: usize = 200_000;
+/// Most entries kept before the cache starts over: small enough to stay
+/// in the processor's cache (a sweep keeps adding the offsets of its
+/// candidates' partial turns, and a table of 200,000 entries cost more in
+/// memory traffic than the closed form it saved), large enough for every
+/// close pair of one coil.
+const GMD_CACHE_MAX: usize = 8192;
 
 impl GmdCache {
     fn get(&self, dx: f64, dy: f64, w1: f64, t1: f64, w2: f64, t2: f64) -> f64 {
