@@ -331,7 +331,7 @@ fn ring_pair(p: &Ring, q: &Ring, cache: &GmdCache) -> f64 {
 /// Inductance of a set of coaxial ring elements, henry:
 /// `sum_i sum_j w_i w_j f_i f_j M_ij`.
 pub fn rings_inductance(rings: &[Ring]) -> f64 {
-    let cache = GmdCache::default();
+    let cache = GmdCache;
     super::map_indices(rings.len(), |i| {
         let p = &rings[i];
         let cp = p.weight * p.frac;
@@ -349,7 +349,7 @@ pub fn rings_inductance(rings: &[Ring]) -> f64 {
 /// Mutual inductance between two groups of rings (current shares
 /// included), henry.
 pub fn rings_mutual(a: &[Ring], b: &[Ring]) -> f64 {
-    let cache = GmdCache::default();
+    let cache = GmdCache;
     super::map_indices(a.len(), |i| {
         let p = &a[i];
         b.iter()
@@ -544,7 +544,7 @@ fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
 
 /// Inductance of straight filaments by Neumann's formula, henry.
 pub fn filaments_inductance(f: &[Filament]) -> f64 {
-    let cache = GmdCache::default();
+    let cache = GmdCache;
     let s: f64 = super::map_indices(f.len(), |i| {
         let p = &f[i];
         let mut s = p.weight * p.weight * straight_pair(p, p, &cache);
