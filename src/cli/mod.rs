@@ -148,7 +148,9 @@ pub enum Command {
         #[arg(long, value_name = "METRIC")]
         minimize: Option<String>,
         /// Second metric of the trade-off plot, with :max if larger is
-        /// better (default: outer_diameter_mm, smaller is better).
+        /// better (default: outer_diameter_mm, smaller is better; the
+        /// resistance when the objective is the outer size or every
+        /// candidate has the same outer size).
         #[arg(long, value_name = "METRIC[:max]")]
         versus: Option<String>,
         /// Folder for the table (CSV, JSON), the trade-off plot and the best

@@ -149,6 +149,9 @@ pub struct Sweep {
     pub objective: Objective,
     /// Second metric for the trade-off plot and its sense (true = maximize).
     pub versus: (String, bool),
+    /// Whether `versus` was chosen by default (then a default that is the
+    /// same for every candidate gives way to the resistance).
+    pub versus_default: bool,
 }
 
 /// Why a candidate was set aside.
@@ -237,6 +240,7 @@ impl Sweep {
             });
         }
         check_metric(&objective.metric, known_metrics)?;
+        let versus_default = versus.is_none();
         let versus = match versus {
             Some(v) => {
                 check_metric(&v.0, known_metrics)?;
@@ -257,6 +261,7 @@ impl Sweep {
             require,
             objective,
             versus,
+            versus_default,
         })
     }
 
@@ -389,24 +394,38 @@ impl Sweep {
             candidates[i].rank = Some(r + 1);
         }
         let best = ok.first().copied();
+        // The default second metric (the outer size) says nothing when the
+        // sweep keeps it fixed: plot against the resistance instead.
+        let x_of = |name: &str, i: usize| {
+            pareto::settle(candidates[i].metrics.get(name).copied().unwrap_or(f64::NAN))
+        };
+        let fixed = ok.len() > 1
+            && ok
+                .iter()
+                .all(|&i| x_of(&self.versus.0, i) == x_of(&self.versus.0, ok[0]));
+        let versus = if self.versus_default && fixed && obj.metric != "resistance_ohm_20c" {
+            ("resistance_ohm_20c".to_string(), false)
+        } else {
+            self.versus.clone()
+        };
         // Pareto front among ok candidates.
         let pts: Vec<(f64, f64)> = ok
             .iter()
             .map(|&i| {
                 let c = &candidates[i];
                 (
-                    c.metrics.get(&self.versus.0).copied().unwrap_or(f64::NAN),
+                    c.metrics.get(&versus.0).copied().unwrap_or(f64::NAN),
                     value(c),
                 )
             })
             .collect();
-        for k in front(&pts, self.versus.1, obj.maximize) {
+        for k in front(&pts, versus.1, obj.maximize) {
             candidates[ok[k]].pareto = true;
         }
         Outcome {
             objective: obj.clone(),
             requirements: self.require.iter().map(|r| r.text.clone()).collect(),
-            versus: self.versus.0.clone(),
+            versus: versus.0,
             candidates,
             best,
         }
@@ -640,6 +659,30 @@ layers = 2
         let csv = out.csv();
         assert_eq!(csv.lines().count(), 7);
         assert!(out.plot().starts_with("<svg"));
+    }
+
+    #[test]
+    fn fixed_outer_size_plots_against_resistance() {
+        // The fake keeps the outer diameter at 20 mm: the default second
+        // metric gives way to the resistance; a chosen one is kept.
+        let run = |versus: Option<(String, bool)>| {
+            Sweep::new(
+                BASE,
+                vec![parse_vary("turns=4..8:2").unwrap()],
+                vec![],
+                Objective {
+                    metric: "force_n".into(),
+                    maximize: true,
+                },
+                versus,
+                &known(),
+            )
+            .unwrap()
+            .run(fake, || {})
+        };
+        assert_eq!(run(None).versus, "resistance_ohm_20c");
+        let chosen = run(Some(("outer_diameter_mm".into(), false)));
+        assert_eq!(chosen.versus, "outer_diameter_mm");
     }
 
     #[test]

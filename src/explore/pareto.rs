@@ -3,12 +3,28 @@
 use crate::export::svg::escape as esc;
 use std::fmt::Write;
 
+/// A metric rounded to 12 significant digits: values that differ only by
+/// floating-point noise (an outer diameter of 20 mm computed as
+/// 19.999999999999996 mm) count as equal for dominance and sit on one
+/// spot in the plot.
+pub(crate) fn settle(v: f64) -> f64 {
+    if v == 0.0 || !v.is_finite() {
+        return v;
+    }
+    let e = 10f64.powi(11 - v.abs().log10().floor() as i32);
+    if !e.is_finite() || e == 0.0 {
+        return v;
+    }
+    (v * e).round() / e
+}
+
 /// Indices of the points not dominated by any other, for the senses given
-/// (`true` = larger is better). Sorted by x.
+/// (`true` = larger is better), values compared after [`settle`]. Sorted
+/// by x.
 pub fn front(points: &[(f64, f64)], x_max: bool, y_max: bool) -> Vec<usize> {
     // Turn both into "smaller is better".
     let key = |i: usize| {
-        let (x, y) = points[i];
+        let (x, y) = (settle(points[i].0), settle(points[i].1));
         (if x_max { -x } else { x }, if y_max { -y } else { y })
     };
     let mut idx: Vec<usize> = (0..points.len())
@@ -88,6 +104,14 @@ pub fn plot(
 ) -> String {
     let (w, h) = (720.0, 480.0);
     let (l, r, t, b) = (90.0, 30.0, 50.0, 60.0);
+    let points: Vec<PlotPoint> = points
+        .iter()
+        .map(|p| PlotPoint {
+            x: settle(p.x),
+            y: settle(p.y),
+            feasible: p.feasible,
+        })
+        .collect();
     let finite: Vec<&PlotPoint> = points
         .iter()
         .filter(|p| p.x.is_finite() && p.y.is_finite())
@@ -220,9 +244,26 @@ pub fn plot(
             py(points[i].y)
         );
     }
-    // Legend.
-    let lx = w - r - 190.0;
-    let ly = t + 14.0;
+    // Legend: in the corner of the plot area that hides the fewest points
+    // (top right first on ties).
+    let hidden = |lx: f64, ly: f64| {
+        finite
+            .iter()
+            .filter(|p| {
+                let (x, y) = (px(p.x), py(p.y));
+                x > lx - 16.0 && x < lx + 188.0 && y > ly - 22.0 && y < ly + 64.0
+            })
+            .count()
+    };
+    let (lx, ly) = [
+        (w - r - 190.0, t + 14.0),
+        (l + 12.0, t + 14.0),
+        (w - r - 190.0, h - b - 62.0),
+        (l + 12.0, h - b - 62.0),
+    ]
+    .into_iter()
+    .min_by_key(|&(x, y)| hidden(x, y))
+    .unwrap_or((w - r - 190.0, t + 14.0));
     let _ = writeln!(
         s,
         r#"<rect x="{:.1}" y="{:.1}" width="184" height="66" fill="{PAPER}" stroke="{INK}" stroke-width="0.5"/>
@@ -251,6 +292,20 @@ pub fn plot(
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    #[test]
+    fn noise_does_not_make_a_front() {
+        // One outer diameter computed three ways: a single best point.
+        let pts = [
+            (19.999999999999996, 0.0080),
+            (20.0, 0.0081),
+            (20.000000000000004, 0.0079),
+        ];
+        assert_eq!(front(&pts, false, true), vec![1]);
+        assert_eq!(settle(19.999999999999996), 20.0);
+        assert_eq!(settle(0.0), 0.0);
+        assert_eq!(settle(-1.23456789012345e-7), -1.23456789012e-7);
+    }
 
     #[test]
     fn front_of_simple_set() {
