@@ -20,7 +20,7 @@ use super::closed_forms::gmd_rect_self;
 use super::conductor::{Conductor, Filament, Ring};
 use super::elliptic::{ke, rule};
 use std::collections::HashMap;
-use std::f64::consts::PI;
+use std::f64::consts::{FRAC_PI_2, PI};
 
 /// Mutual inductance of two coaxial circular filaments of radii `a`, `b`
 /// at axial distance `d` (Maxwell; Grover 1946), henry:
@@ -80,6 +80,8 @@ pub fn gmd_rects(dx: f64, dy: f64, w1: f64, t1: f64, w2: f64, t2: f64) -> f64 {
     }
     // In units of `l` (exact: the scale only adds ln l).
     let (dx, dy, w1, t1, w2, t2) = (dx / l, dy / l, w1 / l, t1 / l, w2 / l, t2 / l);
+    // One logarithm and one arctangent per corner: for x, y != 0,
+    // atan(x/y) = sgn(xy) pi/2 - atan(y/x).
     let f = |x: f64, y: f64| {
         let (x2, y2) = (x * x, y * y);
         let r2 = x2 + y2;
@@ -88,25 +90,38 @@ pub fn gmd_rects(dx: f64, dy: f64, w1: f64, t1: f64, w2: f64, t2: f64) -> f64 {
             v += (6.0 * x2 * y2 - x2 * x2 - y2 * y2) * r2.ln() / 48.0;
         }
         if x != 0.0 && y != 0.0 {
-            v += (x2 * x * y * (y / x).atan() + x * y2 * y * (x / y).atan()) / 6.0;
+            v += ((x2 - y2) * x * y * (y / x).atan() + (x * y).abs() * y2 * FRAC_PI_2) / 6.0;
         }
         v
     };
     // Corner differences along one axis and their signs: for intervals
     // [a1, a2] and [b1, b2], int int g(u - v) = G(a2 - b1) + G(a1 - b2)
-    // - G(a2 - b2) - G(a1 - b1) with G'' = g.
+    // - G(a2 - b2) - G(a1 - b1) with G'' = g; equal differences (equal
+    // sizes) merged, so two equal sections need 9 corners, not 16.
     let corners = |d: f64, a: f64, b: f64| {
         let (a1, a2, b1, b2) = (-a / 2.0, a / 2.0, d - b / 2.0, d + b / 2.0);
-        [
+        let mut c = [(0.0, 0.0); 4];
+        let mut n = 0;
+        for (v, w) in [
             (a2 - b1, 1.0),
             (a1 - b2, 1.0),
             (a2 - b2, -1.0),
             (a1 - b1, -1.0),
-        ]
+        ] {
+            match c[..n].iter_mut().find(|(u, _)| *u == v) {
+                Some(e) => e.1 += w,
+                None => {
+                    c[n] = (v, w);
+                    n += 1;
+                }
+            }
+        }
+        (c, n)
     };
+    let ((cx, nx), (cy, ny)) = (corners(dx, w1, w2), corners(dy, t1, t2));
     let mut sum = 0.0;
-    for (x, sx) in corners(dx, w1, w2) {
-        for (y, sy) in corners(dy, t1, t2) {
+    for &(x, sx) in &cx[..nx] {
+        for &(y, sy) in &cy[..ny] {
             sum += sx * sy * f(x, y);
         }
     }
