@@ -3,15 +3,17 @@
 //! 61-candidate batch through `Sweep::run` (parallel, all cores), so the
 //! candidates-per-second figure of issue 6 can be read off.
 //!
-//! Figures on the 2-core development machine (2026-12-02): the batch took
-//! 329 ms before the speed work (185 candidates/s) and about 97 ms after
-//! it (about 630/s); the target is 61 ms (1000/s). The batch repeats the
-//! same 61 designs, so its per-thread GMD cache is warm; a sweep of 601
+//! Figures on the 2-core development machine (2026-12-02; timings there
+//! vary by about 10 % from run to run): the batch took 329 ms before the
+//! speed work of that day (185 candidates/s) and about 87 ms after it
+//! (about 700/s); the target is 61 ms (1000/s). The batch repeats the same
+//! 61 designs, so its per-thread GMD cache is warm; a sweep of 601
 //! distinct designs (`coilwright sweep` on this design with
-//! `--vary turns=17..20:0.005`) runs at about 500/s on both cores and
-//! 330/s on one. Single-thread cost of one candidate, repeated: parse and
-//! build 0.08 ms, rule check 0.84 ms, analysis 1.34 ms (Biot-Savart sums
-//! and Maxwell's ring pairs lead).
+//! `--vary turns=17..20:0.005`) takes 0.92-1.07 s on both cores (560-650
+//! candidates/s) and about 1.6 s on one. One candidate on one thread,
+//! repeated: parse and build 0.08 ms, rule check 0.84 ms, analysis
+//! 1.34 ms, led by the Biot-Savart sums and Maxwell's ring pairs.
+
 use coilwright::explore::{self, Evaluation, Objective, Sweep};
 use coilwright::{physics, rules, spec};
 use criterion::{Criterion, criterion_group, criterion_main};

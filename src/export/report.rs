@@ -508,10 +508,8 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
     );
     let _ = writeln!(
         s,
-        "- Biot-Savart on {} straight filaments; arcs as chords with sagitta at most {:.1e} of their radius (on-axis error below about {:.0e})",
-        f.filaments,
-        f.chord_sagitta_relative,
-        f.chord_sagitta_relative * 2.0 / 3.0
+        "- Biot-Savart on {} straight filaments; each arc as pairs of filaments over sub-arcs whose chord sagitta is at most {:.1e} of their radius, every pair keeping its sub-arc's dipole moment (tested on a 4-layer, 20-turn coil: centre field within 1e-7, field 0.5 mm above the copper within 2e-4 of the centre value)",
+        f.filaments, f.chord_sagitta_relative
     );
     let _ = writeln!(
         s,

@@ -2,11 +2,12 @@
 //! filaments, each in closed form, and of circular loops (for the magnet)
 //! with complete elliptic integrals.
 //!
-//! Arcs are flattened into chords with a stated sagitta tolerance (see
-//! [`super::conductor::Conductor::filaments`]): the on-axis field of a
-//! chord polygon differs from the circle's by about `2/3 * sagitta/radius`
-//! relative; at a distance `d` from the copper the local error is of order
-//! `sagitta / d`.
+//! The analysis flattens arcs into balanced filament pairs (see
+//! [`super::conductor::Conductor::balanced_filaments`]), which keep every
+//! sub-arc's dipole moment; plain inscribed chords
+//! ([`super::conductor::Conductor::filaments`]) make the on-axis field of a
+//! circle too large by about `2/3 * sagitta/radius`, and at a distance `d`
+//! from the copper the local error of either is of order `sagitta / d`.
 
 use super::MU0;
 use super::conductor::Filament;
