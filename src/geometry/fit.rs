@@ -356,6 +356,22 @@ mod tests {
     }
 
     #[test]
+    fn root_finder_converges_and_stays_feasible() {
+        type R = Result<f64, ()>;
+        // Smooth: x^3 = 2.
+        let f = |x: f64| -> R { Ok(x * x * x - 2.0) };
+        let exact = 2f64.cbrt();
+        let x = largest_feasible(f, (0.0, -2.0), (2.0, 6.0), 0.0).unwrap();
+        assert!(x <= exact && exact - x < 1e-14, "{x}");
+        let x = largest_feasible(f, (0.0, -2.0), (2.0, 6.0), 1e-6).unwrap();
+        assert!((x - exact).abs() < 1e-6, "{x}");
+        // A step: regula falsi stalls, the bisection safeguard finishes.
+        let step = |x: f64| -> R { Ok(if x < 0.3 { -1.0 } else { 1.0 }) };
+        let x = largest_feasible(step, (0.0, -1.0), (1.0, 1.0), 0.0).unwrap();
+        assert!(x < 0.3 && 0.3 - x < 1e-15, "{x}");
+    }
+
+    #[test]
     fn too_many_turns_says_how_many_fit() {
         let e = input(Some(8.2), None, Some(TurnsRequest::Count(30.0)))
             .resolve()
