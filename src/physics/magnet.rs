@@ -59,17 +59,12 @@ impl Cylinder {
     /// `B_z = Br/pi a/(a + rho) [beta+ cel(k+, g^2, 1, g) - beta- cel(k-, g^2, 1, g)]`.
     pub fn field(&self, rho: f64, z: f64) -> (f64, f64) {
         let a = self.radius;
-        let b = self.length / 2.0;
-        let zc = z - (self.gap + b);
         let g = (a - rho) / (a + rho);
-        let mut bz = 0.0;
-        for (zs, sign) in [(zc + b, 1.0), (zc - b, -1.0)] {
-            let q = (zs * zs + (rho + a) * (rho + a)).sqrt();
-            // Points on the rim itself are excluded (the field is singular
-            // there); the floor keeps the elliptic integral finite.
-            let kc = ((zs * zs + (a - rho) * (a - rho)).sqrt() / q).max(1e-15);
-            bz += sign * (zs / q) * cel(kc, g * g, 1.0, g);
-        }
+        let bz: f64 = self
+            .faces(rho, z)
+            .iter()
+            .map(|&(zs, sign, q, kc)| sign * (zs / q) * cel(kc, g * g, 1.0, g))
+            .sum();
         let b0 = self.remanence / std::f64::consts::PI;
         (self.b_rho(rho, z), b0 * a / (a + rho) * bz)
     }
@@ -78,16 +73,26 @@ impl Cylinder {
     /// copper along the axis), tesla: the first half of [`Cylinder::field`].
     pub fn b_rho(&self, rho: f64, z: f64) -> f64 {
         let a = self.radius;
+        let br: f64 = self
+            .faces(rho, z)
+            .iter()
+            .map(|&(_, sign, q, kc)| sign * (a / q) * cel(kc, 1.0, 1.0, -1.0))
+            .sum();
+        self.remanence / std::f64::consts::PI * br
+    }
+
+    /// Per face of the magnet, the terms of [`Cylinder::field`]: `(z+-,
+    /// sign, sqrt(z+-^2 + (rho + a)^2), k+-)`. The modulus is floored: on
+    /// the rim itself the field is singular.
+    fn faces(&self, rho: f64, z: f64) -> [(f64, f64, f64, f64); 2] {
+        let a = self.radius;
         let b = self.length / 2.0;
         let zc = z - (self.gap + b);
-        let mut br = 0.0;
-        for (zs, sign) in [(zc + b, 1.0), (zc - b, -1.0)] {
+        [(zc + b, 1.0), (zc - b, -1.0)].map(|(zs, sign)| {
             let q = (zs * zs + (rho + a) * (rho + a)).sqrt();
-            // (Floored: on the rim itself the field is singular.)
             let kc = ((zs * zs + (a - rho) * (a - rho)).sqrt() / q).max(1e-15);
-            br += sign * (a / q) * cel(kc, 1.0, 1.0, -1.0);
-        }
-        self.remanence / std::f64::consts::PI * br
+            (zs, sign, q, kc)
+        })
     }
 
     /// The same field by integrating the sheet's loops over the magnet's
