@@ -237,15 +237,9 @@ impl Trapezoid {
 /// differs from the GMD by less than about 0.3 %.
 const NEAR: f64 = 6.0;
 
-/// Cache of GMD values keyed by offsets and sizes in picometres. One cache
-/// per thread serves every analysis that thread runs (a sweep meets the
-/// same sections and offsets in many candidates; per thread, no lock is
-/// shared between the workers); values are computed from the key alone,
-/// so results do not depend on what was cached before or on the thread.
-#[derive(Default)]
-struct GmdCache;
-
 thread_local! {
+    /// Cache of [`cached_gmd`], one per thread (no lock shared between a
+    /// sweep's workers).
     static GMD: std::cell::RefCell<GmdMap> = std::cell::RefCell::new(GmdMap::default());
 }
 
@@ -292,36 +286,40 @@ impl std::hash::Hasher for KeyHasher {
 /// close pair of one coil.
 const GMD_CACHE_MAX: usize = 8192;
 
-impl GmdCache {
-    fn get(&self, dx: f64, dy: f64, w1: f64, t1: f64, w2: f64, t2: f64) -> f64 {
-        let q = |v: f64| (v * 1e12).round() as i64;
-        // Symmetric in the sign of the offsets.
-        let key = [q(dx.abs()), q(dy.abs()), q(w1), q(t1), q(w2), q(t2)];
-        if let Some(v) = GMD.with(|m| m.borrow().get(&key).copied()) {
-            return v;
-        }
-        // Computed from the key itself, so the value never depends on which
-        // of several nearly equal pairs (or threads) got here first.
-        let k = |i: usize| key[i] as f64 * 1e-12;
-        let v = if key[0] == 0 && key[1] == 0 && key[2] == key[4] && key[3] == key[5] {
-            gmd_rect_self(k(2), k(3))
-        } else {
-            gmd_rects(k(0), k(1), k(2), k(3), k(4), k(5))
-        };
-        GMD.with(|m| {
-            let mut m = m.borrow_mut();
-            if m.len() >= GMD_CACHE_MAX {
-                m.clear();
-            }
-            m.insert(key, v);
-        });
-        v
+/// [`gmd_rects`] (or Grover's self value for one section with itself) with
+/// offsets and sizes rounded to picometres, cached: one cache per thread
+/// serves every analysis that thread runs (a sweep meets the same sections
+/// and offsets in many candidates); values are computed from the rounded
+/// key alone, so results do not depend on what was cached before or on
+/// the thread.
+fn cached_gmd(dx: f64, dy: f64, w1: f64, t1: f64, w2: f64, t2: f64) -> f64 {
+    let q = |v: f64| (v * 1e12).round() as i64;
+    // Symmetric in the sign of the offsets.
+    let key = [q(dx.abs()), q(dy.abs()), q(w1), q(t1), q(w2), q(t2)];
+    if let Some(v) = GMD.with(|m| m.borrow().get(&key).copied()) {
+        return v;
     }
+    // Computed from the key itself, so the value never depends on which
+    // of several nearly equal pairs (or threads) got here first.
+    let k = |i: usize| key[i] as f64 * 1e-12;
+    let v = if key[0] == 0 && key[1] == 0 && key[2] == key[4] && key[3] == key[5] {
+        gmd_rect_self(k(2), k(3))
+    } else {
+        gmd_rects(k(0), k(1), k(2), k(3), k(4), k(5))
+    };
+    GMD.with(|m| {
+        let mut m = m.borrow_mut();
+        if m.len() >= GMD_CACHE_MAX {
+            m.clear();
+        }
+        m.insert(key, v);
+    });
+    v
 }
 
 /// Mutual inductance of two ring elements per unit fraction (full loops),
 /// henry, with the GMD correction for close or overlapping sections.
-fn ring_pair(p: &Ring, q: &Ring, cache: &GmdCache) -> f64 {
+fn ring_pair(p: &Ring, q: &Ring) -> f64 {
     let dr = q.radius - p.radius;
     let dz = q.z - p.z;
     let dist = (dr * dr + dz * dz).sqrt();
@@ -332,10 +330,10 @@ fn ring_pair(p: &Ring, q: &Ring, cache: &GmdCache) -> f64 {
     if overlap {
         // Parts of one turn: a ring of the mean radius with the GMD of the
         // two (overlapping) sections (Grover's thin-ring formula).
-        let g = cache.get(dr, dz, p.width, p.thickness, q.width, q.thickness);
+        let g = cached_gmd(dr, dz, p.width, p.thickness, q.width, q.thickness);
         MU0 * am * ((8.0 * am / g).ln() - 2.0)
     } else if dist < NEAR * size {
-        let g = cache.get(dr, dz, p.width, p.thickness, q.width, q.thickness);
+        let g = cached_gmd(dr, dz, p.width, p.thickness, q.width, q.thickness);
         let s = g / dist;
         maxwell_mutual(am - dr * s / 2.0, am + dr * s / 2.0, dz * s)
     } else {
@@ -346,13 +344,12 @@ fn ring_pair(p: &Ring, q: &Ring, cache: &GmdCache) -> f64 {
 /// Inductance of a set of coaxial ring elements, henry:
 /// `sum_i sum_j w_i w_j f_i f_j M_ij`.
 pub fn rings_inductance(rings: &[Ring]) -> f64 {
-    let cache = GmdCache;
     super::map_indices(rings.len(), |i| {
         let p = &rings[i];
         let cp = p.weight * p.frac;
-        let mut s = cp * cp * ring_pair(p, p, &cache);
+        let mut s = cp * cp * ring_pair(p, p);
         for q in &rings[i + 1..] {
-            s += 2.0 * cp * q.weight * q.frac * ring_pair(p, q, &cache);
+            s += 2.0 * cp * q.weight * q.frac * ring_pair(p, q);
         }
         s
     })
@@ -364,11 +361,10 @@ pub fn rings_inductance(rings: &[Ring]) -> f64 {
 /// Mutual inductance between two groups of rings (current shares
 /// included), henry.
 pub fn rings_mutual(a: &[Ring], b: &[Ring]) -> f64 {
-    let cache = GmdCache;
     super::map_indices(a.len(), |i| {
         let p = &a[i];
         b.iter()
-            .map(|q| p.weight * p.frac * q.weight * q.frac * ring_pair(p, q, &cache))
+            .map(|q| p.weight * p.frac * q.weight * q.frac * ring_pair(p, q))
             .sum::<f64>()
     })
     .iter()
@@ -432,7 +428,7 @@ fn point_seg(p: [f64; 3], a: [f64; 3], b: [f64; 3]) -> f64 {
 /// Neumann integral `int int dl_p . dl_q / r` of two straight filaments
 /// with the GMD correction for close pieces, metres (multiply by mu0/4pi
 /// for henry).
-fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
+fn straight_pair(p: &Filament, q: &Filament) -> f64 {
     let dp = sub(p.b, p.a);
     let dq = sub(q.b, q.a);
     let (lp, lq) = (norm(dp), norm(dq));
@@ -463,7 +459,14 @@ fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
     // sections (for pieces far along the line this changes nothing).
     let near = cross.abs() < 0.2 && lat.hypot(dz) < NEAR * size;
     let g = if near {
-        Some(cache.get(lat, dz, p.width, p.thickness, q.width, q.thickness))
+        Some(cached_gmd(
+            lat,
+            dz,
+            p.width,
+            p.thickness,
+            q.width,
+            q.thickness,
+        ))
     } else {
         None
     };
@@ -559,12 +562,11 @@ fn straight_pair(p: &Filament, q: &Filament, cache: &GmdCache) -> f64 {
 
 /// Inductance of straight filaments by Neumann's formula, henry.
 pub fn filaments_inductance(f: &[Filament]) -> f64 {
-    let cache = GmdCache;
     let s: f64 = super::map_indices(f.len(), |i| {
         let p = &f[i];
-        let mut s = p.weight * p.weight * straight_pair(p, p, &cache);
+        let mut s = p.weight * p.weight * straight_pair(p, p);
         for q in &f[i + 1..] {
-            s += 2.0 * p.weight * q.weight * straight_pair(p, q, &cache);
+            s += 2.0 * p.weight * q.weight * straight_pair(p, q);
         }
         s
     })
