@@ -441,29 +441,10 @@ pub fn analyse_with(
     let n_r = if full { 101 } else { 13 };
     // Circles are round: one direction; other shapes: the mean of two.
     let dirs = if circular { 1 } else { 2 };
-    let mut rad_pts = Vec::with_capacity(n_r * dirs);
-    for i in 0..n_r {
-        let r = r_edge * i as f64 / (n_r - 1) as f64;
-        for d in 0..dirs {
-            let a = std::f64::consts::FRAC_PI_4 * d as f64;
-            rad_pts.push([r * a.cos(), r * a.sin(), m(h)]);
-        }
-    }
-    let rb = segs.field(&rad_pts);
-    let radial: Vec<ProfilePoint> = (0..n_r)
-        .map(|i| ProfilePoint {
-            at_mm: to_mm(r_edge * i as f64 / (n_r - 1) as f64),
-            b_t_per_a: sign
-                * rb[i * dirs..(i + 1) * dirs]
-                    .iter()
-                    .map(|b| b[2])
-                    .sum::<f64>()
-                / dirs as f64,
-        })
-        .collect();
-    // The same profile at any distance (mm), for the fall radii.
-    let radial_at = |r_mm: f64| {
-        let r = m(r_mm);
+    // Bz at distance `r` (m) from the axis at the radial height, signed to
+    // the centre's direction: on the grid below and, for the fall radii,
+    // anywhere.
+    let radial_at = |r: f64| {
         sign * (0..dirs)
             .map(|d| {
                 let a = std::f64::consts::FRAC_PI_4 * d as f64;
@@ -472,6 +453,13 @@ pub fn analyse_with(
             .sum::<f64>()
             / dirs as f64
     };
+    let radial: Vec<ProfilePoint> = map_indices(n_r, |i| {
+        let r = r_edge * i as f64 / (n_r - 1) as f64;
+        ProfilePoint {
+            at_mm: to_mm(r),
+            b_t_per_a: radial_at(r),
+        }
+    });
 
     // Heating.
     let (area_mm2, per_mm) = outline_area(&layout.outline.segments);
@@ -695,8 +683,8 @@ pub fn analyse_with(
         field: FieldReport {
             center_t_per_a: field_center,
             center_at_drive_t: field_center * current,
-            radius_90_mm: fall_radius(&radial, 0.9, radial_at),
-            radius_50_mm: fall_radius(&radial, 0.5, radial_at),
+            radius_90_mm: fall_radius(&radial, 0.9, |r_mm| radial_at(m(r_mm))),
+            radius_50_mm: fall_radius(&radial, 0.5, |r_mm| radial_at(m(r_mm))),
             axial,
             radial_height_mm: h,
             radial,
