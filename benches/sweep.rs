@@ -63,18 +63,23 @@ fn bench(c: &mut Criterion) {
         Evaluation::Metrics(m) => m.into_keys().collect(),
         _ => panic!("base design must evaluate"),
     };
-    let sweep = Sweep::new(
-        BASE,
-        vec![explore::parse_vary("turns=17..20:0.05").expect("vary")],
-        vec![],
-        Objective {
-            metric: "force_per_sqrt_w_n".into(),
-            maximize: true,
-        },
-        None,
-        &known,
-    )
-    .expect("sweep");
+    // 61 candidates, turns from `first` to `first + 3` in steps of 0.05.
+    let batch = |first: f64| {
+        let vary = format!("turns={first}..{}:0.05", first + 3.0);
+        Sweep::new(
+            BASE,
+            vec![explore::parse_vary(&vary).expect("vary")],
+            vec![],
+            Objective {
+                metric: "force_per_sqrt_w_n".into(),
+                maximize: true,
+            },
+            None,
+            &known,
+        )
+        .expect("sweep")
+    };
+    let sweep = batch(17.0);
     assert_eq!(sweep.len(), 61);
     let mut g = c.benchmark_group("sweep batch");
     g.sample_size(10);
@@ -88,22 +93,7 @@ fn bench(c: &mut Criterion) {
         b.iter_batched(
             || {
                 shift.set(shift.get() + 1);
-                let k = f64::from(shift.get()) * 1e-4;
-                Sweep::new(
-                    BASE,
-                    vec![
-                        explore::parse_vary(&format!("turns={}..{}:0.05", 17.0 + k, 20.0 + k))
-                            .expect("vary"),
-                    ],
-                    vec![],
-                    Objective {
-                        metric: "force_per_sqrt_w_n".into(),
-                        maximize: true,
-                    },
-                    None,
-                    &known,
-                )
-                .expect("sweep")
+                batch(17.0 + f64::from(shift.get()) * 1e-4)
             },
             |s| s.run(evaluate, || {}),
             criterion::BatchSize::PerIteration,
