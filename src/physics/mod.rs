@@ -28,6 +28,7 @@ pub mod closed_forms;
 pub mod conductor;
 pub mod elliptic;
 pub mod field;
+pub mod gmd;
 pub mod inductance;
 pub mod magnet;
 pub mod mechanics;
