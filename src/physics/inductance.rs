@@ -18,7 +18,7 @@
 use super::MU0;
 use super::conductor::{Conductor, Filament, Ring};
 use super::elliptic::{ke, rule};
-use super::gmd::cached_gmd;
+use super::gmd::{GmdSeries, cached_gmd};
 use std::f64::consts::PI;
 
 /// Mutual inductance of two coaxial circular filaments of radii `a`, `b`
@@ -62,9 +62,55 @@ pub fn maxwell_mutual(a: f64, b: f64, d: f64) -> f64 {
 /// differs from the GMD by less than about 0.3 %.
 const NEAR: f64 = 6.0;
 
+/// The GMD series of every pair of ring sections in a coil (most coils
+/// have one or two sections), made once per inductance.
+struct RingSections {
+    /// Distinct (width, thickness) sections.
+    sections: Vec<(f64, f64)>,
+    /// Series for sections `i` and `j` at `i * sections.len() + j`.
+    series: Vec<GmdSeries>,
+}
+
+impl RingSections {
+    fn new<'a>(rings: impl IntoIterator<Item = &'a Ring>) -> Self {
+        let mut sections: Vec<(f64, f64)> = Vec::new();
+        for r in rings {
+            if !sections.contains(&(r.width, r.thickness)) {
+                sections.push((r.width, r.thickness));
+            }
+        }
+        let series = sections
+            .iter()
+            .flat_map(|&(w1, t1)| {
+                sections
+                    .iter()
+                    .map(move |&(w2, t2)| GmdSeries::new(w1, t1, w2, t2))
+            })
+            .collect();
+        RingSections { sections, series }
+    }
+
+    /// Index of a ring's section.
+    fn index(&self, r: &Ring) -> usize {
+        self.sections
+            .iter()
+            .position(|&s| s == (r.width, r.thickness))
+            .expect("every ring's section is listed")
+    }
+
+    fn indices(&self, rings: &[Ring]) -> Vec<usize> {
+        rings.iter().map(|r| self.index(r)).collect()
+    }
+
+    fn series(&self, i: usize, j: usize) -> &GmdSeries {
+        &self.series[i * self.sections.len() + j]
+    }
+}
+
 /// Mutual inductance of two ring elements per unit fraction (full loops),
-/// henry, with the GMD correction for close or overlapping sections.
-fn ring_pair(p: &Ring, q: &Ring) -> f64 {
+/// henry, with the GMD correction for close or overlapping sections
+/// (`series`: the GMD series of the two rings' sections).
+fn ring_pair(p: &Ring, q: &Ring, series: &GmdSeries) -> f64 {
     let dr = q.radius - p.radius;
     let dz = q.z - p.z;
     let dist = (dr * dr + dz * dz).sqrt();
@@ -78,8 +124,12 @@ fn ring_pair(p: &Ring, q: &Ring) -> f64 {
         let g = cached_gmd(dr, dz, p.width, p.thickness, q.width, q.thickness);
         MU0 * am * ((8.0 * am / g).ln() - 2.0)
     } else if dist < NEAR * size {
-        let g = cached_gmd(dr, dz, p.width, p.thickness, q.width, q.thickness);
-        let s = g / dist;
+        // GMD / distance: by the series where it converges fast, else the
+        // closed form.
+        let s = match series.ln_ratio(dr, dz) {
+            Some(ln) => ln.exp(),
+            None => cached_gmd(dr, dz, p.width, p.thickness, q.width, q.thickness) / dist,
+        };
         maxwell_mutual(am - dr * s / 2.0, am + dr * s / 2.0, dz * s)
     } else {
         maxwell_mutual(p.radius, q.radius, dz)
@@ -89,12 +139,14 @@ fn ring_pair(p: &Ring, q: &Ring) -> f64 {
 /// Inductance of a set of coaxial ring elements, henry:
 /// `sum_i sum_j w_i w_j f_i f_j M_ij`.
 pub fn rings_inductance(rings: &[Ring]) -> f64 {
+    let sections = RingSections::new(rings);
+    let idx = sections.indices(rings);
     super::map_indices(rings.len(), |i| {
         let p = &rings[i];
         let cp = p.weight * p.frac;
-        let mut s = cp * cp * ring_pair(p, p);
-        for q in &rings[i + 1..] {
-            s += 2.0 * cp * q.weight * q.frac * ring_pair(p, q);
+        let mut s = cp * cp * ring_pair(p, p, sections.series(idx[i], idx[i]));
+        for (j, q) in rings.iter().enumerate().skip(i + 1) {
+            s += 2.0 * cp * q.weight * q.frac * ring_pair(p, q, sections.series(idx[i], idx[j]));
         }
         s
     })
@@ -106,10 +158,15 @@ pub fn rings_inductance(rings: &[Ring]) -> f64 {
 /// Mutual inductance between two groups of rings (current shares
 /// included), henry.
 pub fn rings_mutual(a: &[Ring], b: &[Ring]) -> f64 {
+    let sections = RingSections::new(a.iter().chain(b));
+    let (ia, ib) = (sections.indices(a), sections.indices(b));
     super::map_indices(a.len(), |i| {
         let p = &a[i];
         b.iter()
-            .map(|q| p.weight * p.frac * q.weight * q.frac * ring_pair(p, q))
+            .zip(&ib)
+            .map(|(q, &j)| {
+                p.weight * p.frac * q.weight * q.frac * ring_pair(p, q, sections.series(ia[i], j))
+            })
             .sum::<f64>()
     })
     .iter()
