@@ -286,6 +286,30 @@ impl Segment {
         }
     }
 
+    /// Unit direction of travel at the start, or `None` for a point.
+    pub fn start_direction(&self) -> Option<Vec2> {
+        match self {
+            Segment::Line(l) => (l.end - l.start).normalized(),
+            Segment::Arc(a) => ((a.start - a.center).perp() * a.sweep.signum()).normalized(),
+        }
+    }
+
+    /// Unit direction of travel at the end, or `None` for a point.
+    pub fn end_direction(&self) -> Option<Vec2> {
+        match self {
+            Segment::Line(l) => (l.end - l.start).normalized(),
+            Segment::Arc(a) => ((a.end - a.center).perp() * a.sweep.signum()).normalized(),
+        }
+    }
+
+    /// Smallest radius of curvature, mm (infinite for a line).
+    pub fn bend_radius(&self) -> f64 {
+        match self {
+            Segment::Line(_) => f64::INFINITY,
+            Segment::Arc(a) => a.radius(),
+        }
+    }
+
     /// Centre-line length, mm.
     pub fn length(&self) -> f64 {
         match self {

@@ -248,6 +248,9 @@ pub(crate) struct Context<'a> {
     pub layers: u8,
     /// Largest half width of a track per layer (index `layer - 1`).
     pub max_hw: Vec<f64>,
+    /// Per track: it starts where the track before it on its path ends,
+    /// in the same direction (no corner between them).
+    smooth_start: Vec<bool>,
     by_layer: Vec<Vec<usize>>,
     trees: Vec<RTree<Entry>>,
     broadphase: Broadphase,
@@ -321,6 +324,19 @@ impl<'a> Context<'a> {
             paths.push(path_info(wmax, profile.min_clearance));
             ends.push((w.from, id, 0.0));
             ends.push((w.to, id, s));
+        }
+        let mut smooth_start = vec![false; layout.tracks.len()];
+        for w in &layout.windings {
+            let end = w.tracks.1.min(layout.tracks.len());
+            let start = w.tracks.0.min(end);
+            for (i, pair) in layout.tracks[start..end].windows(2).enumerate() {
+                let (prev, next) = (&pair[0].segment, &pair[1].segment);
+                smooth_start[start + i + 1] = prev.end().distance(next.start()) < 1e-9
+                    && match (prev.end_direction(), next.start_direction()) {
+                        (Some(u), Some(v)) => u.dot(v) > 0.0 && u.cross(v).abs() < 1e-9,
+                        _ => false,
+                    };
+            }
         }
         for (i, t) in layout.tracks.iter().enumerate() {
             if track_path[i].is_none() {
@@ -434,6 +450,7 @@ impl<'a> Context<'a> {
             holes,
             layers,
             max_hw,
+            smooth_start,
             by_layer,
             trees,
             broadphase,
@@ -493,6 +510,21 @@ impl<'a> Context<'a> {
                 v.dedup();
             }
         }
+    }
+
+    /// Smallest radius of curvature (mm) of the path from track `first` to
+    /// track `last` (`first <= last`, consecutive tracks of one path), or
+    /// `None` when it turns a corner between them.
+    pub fn smooth_radius(&self, first: usize, last: usize) -> Option<f64> {
+        if first > last || (first + 1..=last).any(|t| !self.smooth_start[t]) {
+            return None;
+        }
+        Some(
+            self.layout.tracks[first..=last]
+                .iter()
+                .map(|t| t.segment.bend_radius())
+                .fold(f64::INFINITY, f64::min),
+        )
     }
 
     /// Pieces on `layer` (ascending).
