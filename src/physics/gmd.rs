@@ -354,6 +354,28 @@ impl GmdSeries {
         }
     }
 
+    /// [`GmdSeries::new`] from a small per-thread cache (a coil has one or
+    /// two sections, and a sweep's candidates share them; making the
+    /// tables costs as much as a few hundred pairs).
+    pub fn cached(w1: f64, t1: f64, w2: f64, t2: f64) -> std::sync::Arc<GmdSeries> {
+        thread_local! {
+            static SERIES: std::cell::RefCell<Vec<([u64; 4], std::sync::Arc<GmdSeries>)>> =
+                const { std::cell::RefCell::new(Vec::new()) };
+        }
+        let key = [w1.to_bits(), t1.to_bits(), w2.to_bits(), t2.to_bits()];
+        SERIES.with(|c| {
+            let mut c = c.borrow_mut();
+            if let Some((_, s)) = c.iter().find(|(k, _)| *k == key) {
+                return s.clone();
+            }
+            let s = std::sync::Arc::new(GmdSeries::new(w1, t1, w2, t2));
+            // A handful of entries: the most recent first.
+            c.insert(0, (key, s.clone()));
+            c.truncate(16);
+            s
+        })
+    }
+
     /// `ln(g / D)` for centres `dx`, `dy` apart (`D` their distance), or
     /// `None` when the sections are too close for the series (the reach is
     /// more than 0.6 `D`).

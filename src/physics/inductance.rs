@@ -68,7 +68,7 @@ struct RingSections {
     /// Distinct (width, thickness) sections.
     sections: Vec<(f64, f64)>,
     /// Series for sections `i` and `j` at `i * sections.len() + j`.
-    series: Vec<GmdSeries>,
+    series: Vec<std::sync::Arc<GmdSeries>>,
 }
 
 impl RingSections {
@@ -84,7 +84,7 @@ impl RingSections {
             .flat_map(|&(w1, t1)| {
                 sections
                     .iter()
-                    .map(move |&(w2, t2)| GmdSeries::new(w1, t1, w2, t2))
+                    .map(move |&(w2, t2)| GmdSeries::cached(w1, t1, w2, t2))
             })
             .collect();
         RingSections { sections, series }
