@@ -40,6 +40,59 @@ pub fn ke(k: f64) -> (f64, f64) {
     (kk, kk * (1.0 - sum))
 }
 
+/// [`ke`] for `N` moduli at once, lane by lane the same operations in the
+/// same order (so the same bits), written so that the compiler keeps the
+/// lanes in vector registers: a lane that has converged keeps its values
+/// while the others go on.
+#[inline(always)]
+pub fn ke_lanes<const N: usize>(k: [f64; N]) -> ([f64; N], [f64; N]) {
+    let k = k.map(f64::abs);
+    let mut a = [1.0; N];
+    let mut b = k.map(|k| (1.0 - k * k).sqrt());
+    let mut c = k;
+    let mut sum = k.map(|c| 0.5 * c * c);
+    let mut pow = [0.5; N];
+    for _ in 0..40 {
+        // The scalar loop's test, negated: go on while not converged.
+        let mut go = [false; N];
+        for l in 0..N {
+            go[l] = c[l].abs() > 1e-15 * a[l] || c[l].is_nan() || a[l].is_nan();
+        }
+        if !go.contains(&true) {
+            break;
+        }
+        for l in 0..N {
+            let an = 0.5 * (a[l] + b[l]);
+            let bn = (a[l] * b[l]).sqrt();
+            let cn = 0.5 * (a[l] - b[l]);
+            let pn = pow[l] * 2.0;
+            let sn = sum[l] + pn * cn * cn;
+            // Computed for every lane, kept where the lane goes on.
+            a[l] = pick(go[l], an, a[l]);
+            b[l] = pick(go[l], bn, b[l]);
+            c[l] = pick(go[l], cn, c[l]);
+            pow[l] = pick(go[l], pn, pow[l]);
+            sum[l] = pick(go[l], sn, sum[l]);
+        }
+    }
+    let mut kk = [0.0; N];
+    let mut ee = [0.0; N];
+    for l in 0..N {
+        let kl = FRAC_PI_2 / a[l];
+        kk[l] = pick(k[l] >= 1.0, f64::INFINITY, kl);
+        ee[l] = pick(k[l] >= 1.0, 1.0, kl * (1.0 - sum[l]));
+    }
+    (kk, ee)
+}
+
+/// `new` where `cond`, else `old`, by bit masks: no branch, so that the
+/// compiler keeps lanes in vector registers instead of branching per lane.
+#[inline(always)]
+fn pick(cond: bool, new: f64, old: f64) -> f64 {
+    let keep = u64::from(cond).wrapping_neg();
+    f64::from_bits((new.to_bits() & keep) | (old.to_bits() & !keep))
+}
+
 /// Bulirsch's generalized complete elliptic integral
 /// `cel(kc, p, c, s) = int_0^{pi/2} (c cos^2 t + s sin^2 t) /
 /// ((cos^2 t + p sin^2 t) sqrt(cos^2 t + kc^2 sin^2 t)) dt`
@@ -222,5 +275,27 @@ mod tests {
         let (x, w) = gauss_legendre(5);
         let s: f64 = x.iter().zip(&w).map(|(x, w)| w * x.powi(8)).sum();
         assert!((s - 2.0 / 9.0).abs() < 1e-14);
+    }
+
+    #[test]
+    fn lanes_give_the_same_bits_as_one_at_a_time() {
+        let ks: Vec<f64> = (0..203)
+            .map(|i| (i as f64 * 0.6180339887).fract())
+            .chain([0.0, 1e-9, 0.3, 0.999999999, 1.0])
+            .collect();
+        for chunk in ks.chunks(8) {
+            let mut k = [0.5; 8];
+            k[..chunk.len()].copy_from_slice(chunk);
+            let (kk, ee) = ke_lanes(k);
+            for l in 0..8 {
+                let (k1, e1) = ke(k[l]);
+                assert_eq!(
+                    (kk[l].to_bits(), ee[l].to_bits()),
+                    (k1.to_bits(), e1.to_bits()),
+                    "{}",
+                    k[l]
+                );
+            }
+        }
     }
 }
