@@ -4,18 +4,21 @@
 //!
 //! # Pieces and the index
 //! Each track is cut into pieces (true sub-arcs and sub-lines, no
-//! flattening). The index is an R-tree (rstar) per layer over the pieces'
-//! boxes in polar coordinates about the coil axis, (distance from the
-//! axis, polar angle): a coil's turns are nearly circles about the axis,
-//! so a whole half-turn arc is a thin box there and its only neighbours in
-//! the tree are the turns next to it. Pieces are cut so that an arc sweeps
-//! at most a quarter turn and a piece's range of distance from the axis is
-//! at most `4 h` (`h` = widest track plus the required clearance). A
-//! query grows a box by the reach `d` in distance and by `asin(d / r)` in
-//! angle (all angles when the box comes within `d` of the axis), with the
-//! angle taken modulo a full turn; that is conservative, so no pair closer
-//! than the reach is missed. The number of candidates per piece stays
-//! bounded, and the check costs `O(n log n)` in the number of pieces.
+//! flattening). The index works on the pieces' boxes in polar coordinates
+//! about the coil axis, (distance from the axis, polar angle): a coil's
+//! turns are nearly circles about the axis, so a whole half-turn arc is a
+//! thin box there and its only neighbours are the turns next to it. Pieces
+//! are cut so that an arc sweeps at most a quarter turn and a piece's range
+//! of distance from the axis is at most `4 h` (`h` = widest track plus the
+//! required clearance). Per layer the boxes are sorted by their smallest
+//! distance `r0`; since no box spans more than `4 h` in distance, the boxes
+//! that can meet a query lie in one run of that order, found by binary
+//! search, and are then tested box against box. A query grows a box by
+//! the reach `d` in distance and by `asin(d / r)` in angle (all angles when
+//! the box comes within `d` of the axis), with the angle taken modulo a
+//! full turn; that is conservative, so no pair closer than the reach is
+//! missed. The number of candidates per piece stays bounded, and the check
+//! costs `O(n log n)` in the number of pieces.
 //!
 //! # Along the conductor
 //! Tracks of a winding (`Layout::windings`) form one path from node to
@@ -32,14 +35,13 @@ use super::distance::sub_segment;
 use super::profile::Profile;
 use crate::geometry::{Layout, Node, Point, Segment, angle_between};
 use crate::spec::Design;
-use rstar::primitives::{GeomWithData, Rectangle};
-use rstar::{AABB, RTree};
 use std::f64::consts::{FRAC_PI_2, PI, TAU};
 
 /// How candidate pairs are found.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Broadphase {
-    /// Spatial index (R-tree of piece boxes per layer): the normal check.
+    /// Spatial index (piece boxes per layer sorted by distance from the
+    /// axis): the normal check.
     Index,
     /// Every pair of pieces on a layer: the slow oracle the index is tested
     /// against.
@@ -228,7 +230,30 @@ pub(crate) struct Hole {
     pub ends: Vec<(usize, f64)>,
 }
 
-type Entry = GeomWithData<Rectangle<[f64; 2]>, usize>;
+/// The pieces of one layer sorted by the smallest distance of their polar
+/// boxes from the axis (see the module notes).
+#[derive(Debug, Clone, Default)]
+struct LayerIndex {
+    /// Piece indices, by `r0`.
+    ids: Vec<usize>,
+    /// Their `r0`, ascending.
+    r0: Vec<f64>,
+    /// Largest `r1 - r0` of a box on the layer, mm.
+    span: f64,
+}
+
+impl LayerIndex {
+    fn new(ids: &[usize], pieces: &[Piece]) -> LayerIndex {
+        let mut ids = ids.to_vec();
+        ids.sort_by(|&a, &b| pieces[a].polar.r0.total_cmp(&pieces[b].polar.r0));
+        let r0 = ids.iter().map(|&i| pieces[i].polar.r0).collect();
+        let span = ids
+            .iter()
+            .map(|&i| pieces[i].polar.r1 - pieces[i].polar.r0)
+            .fold(0.0, f64::max);
+        LayerIndex { ids, r0, span }
+    }
+}
 
 /// Everything the rules share.
 pub(crate) struct Context<'a> {
@@ -252,7 +277,7 @@ pub(crate) struct Context<'a> {
     /// in the same direction (no corner between them).
     smooth_start: Vec<bool>,
     by_layer: Vec<Vec<usize>>,
-    trees: Vec<RTree<Entry>>,
+    index: Vec<LayerIndex>,
     broadphase: Broadphase,
 }
 
@@ -392,23 +417,10 @@ impl<'a> Context<'a> {
                 max_hw[l] = max_hw[l].max(p.hw);
             }
         }
-        let trees = match broadphase {
+        let index = match broadphase {
             Broadphase::Index => by_layer
                 .iter()
-                .map(|ids| {
-                    RTree::bulk_load(
-                        ids.iter()
-                            .map(|&i| {
-                                let p = &pieces[i];
-                                let b = p.polar;
-                                GeomWithData::new(
-                                    Rectangle::from_corners([b.r0, b.t0], [b.r1, b.t1]),
-                                    i,
-                                )
-                            })
-                            .collect(),
-                    )
-                })
+                .map(|ids| LayerIndex::new(ids, &pieces))
                 .collect(),
             Broadphase::AllPairs => Vec::new(),
         };
@@ -452,7 +464,7 @@ impl<'a> Context<'a> {
             max_hw,
             smooth_start,
             by_layer,
-            trees,
+            index,
             broadphase,
         }
     }
@@ -476,38 +488,39 @@ impl<'a> Context<'a> {
         match self.broadphase {
             Broadphase::AllPairs => v.extend_from_slice(&self.by_layer[l]),
             Broadphase::Index => {
-                let (r0, r1) = (q.r0 - reach, q.r1 + reach);
-                if q.full || q.r0 <= reach {
-                    let env = AABB::from_corners([r0, -4.0 * PI], [r1, 4.0 * PI]);
-                    v.extend(
-                        self.trees[l]
-                            .locate_in_envelope_intersecting(env)
-                            .map(|e| e.data),
-                    );
-                } else {
+                let (lo, hi) = (q.r0 - reach, q.r1 + reach);
+                // Every angle, or the query's angles grown by asin(d / r).
+                let window = (!q.full && q.r0 > reach).then(|| {
                     let dt = (reach / q.r0).min(1.0).asin() + 1e-9;
-                    // Stored boxes start in [-pi, pi) and end before 3 pi:
-                    // the copy a turn lower can only meet one that ends
-                    // past pi.
-                    let shifts: &[f64] = if q.t1 + dt >= PI - 1e-6 {
-                        &[-1.0, 0.0, 1.0]
-                    } else {
-                        &[0.0, 1.0]
+                    (q.t0 - dt, q.t1 + dt)
+                });
+                let ix = &self.index[l];
+                // Boxes with r0 in [lo - span, hi]: every box whose
+                // distance range can meet [lo, hi].
+                let first = ix.r0.partition_point(|&r| r < lo - ix.span);
+                let last = ix.r0.partition_point(|&r| r <= hi);
+                for &i in &ix.ids[first..last] {
+                    let b = &self.pieces[i].polar;
+                    if b.r1 < lo || b.r0 > hi {
+                        continue;
+                    }
+                    let meets = match window {
+                        None => true,
+                        // Angles modulo a full turn: stored boxes start in
+                        // [-pi, pi) and end before 3 pi, so the copies a
+                        // turn either side cover every overlap.
+                        Some((w0, w1)) => {
+                            b.full
+                                || [-TAU, 0.0, TAU]
+                                    .iter()
+                                    .any(|k| b.t0 + k <= w1 && b.t1 + k >= w0)
+                        }
                     };
-                    for &k in shifts {
-                        let env = AABB::from_corners(
-                            [r0, q.t0 - dt + k * TAU],
-                            [r1, q.t1 + dt + k * TAU],
-                        );
-                        v.extend(
-                            self.trees[l]
-                                .locate_in_envelope_intersecting(env)
-                                .map(|e| e.data),
-                        );
+                    if meets {
+                        v.push(i);
                     }
                 }
                 v.sort_unstable();
-                v.dedup();
             }
         }
     }

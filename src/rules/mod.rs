@@ -20,7 +20,7 @@
 //!
 //! Distances are exact on the true primitives (lines and arcs, see
 //! `distance.rs`); a value fails when it is more than [`TOLERANCE`] (1 nm)
-//! below the requirement. Candidate pairs come from an R-tree per layer in
+//! below the requirement. Candidate pairs come from a sorted index per layer in
 //! polar coordinates about the coil axis (`context.rs`); [`check_with`]
 //! with [`Broadphase::AllPairs`] is the brute-force oracle it is tested
 //! against.
