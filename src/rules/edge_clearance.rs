@@ -76,12 +76,29 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
             },
         });
     };
+    // Every outline point is at least `r_in` from the axis; when the axis
+    // is inside the outline, copper within `r_in` of it is inside too, and
+    // copper at most `r` from the axis is at least `r_in - r` from the
+    // edge (triangle inequality): where that already clears the rule, no
+    // exact distance is needed.
+    let r_in = edge
+        .iter()
+        .map(Segment::min_radius)
+        .fold(f64::INFINITY, f64::min);
+    let axis_inside = inside(&coarse, Point::new(0.0, 0.0));
+    let clear = |r: f64| axis_inside && !fails(r_in - r, req);
     for (i, t) in ctx.layout.tracks.iter().enumerate() {
+        if clear(t.segment.max_radius() + t.width / 2.0) {
+            continue;
+        }
         let c = nearest(edge, |s| segment_segment(&t.segment, s));
         let inside = c.d > 0.0 && inside_at(t.segment.point_at(0.5), c.d);
         push(Item::Track(i), Some(t.layer), c, t.width / 2.0, inside);
     }
     for h in &ctx.holes {
+        if clear(h.at.radius() + h.diameter / 2.0) {
+            continue;
+        }
         let c = nearest(edge, |s| point_segment(h.at, s));
         push(h.item, None, c, h.diameter / 2.0, inside_at(h.at, c.d));
     }
