@@ -239,6 +239,30 @@ impl Arc {
         self.point_at(0.5)
     }
 
+    /// Whether the direction `v` (from the centre) lies within the swept
+    /// span, ends included: [`Arc::contains_angle`] by cross products, no
+    /// trigonometry.
+    pub fn contains_direction(&self, v: Vec2) -> bool {
+        let s = self.start - self.center;
+        let e = self.end - self.center;
+        let sign = if self.sweep >= 0.0 { 1.0 } else { -1.0 };
+        if self.sweep.abs() <= std::f64::consts::PI {
+            let (c1, c2) = (sign * s.cross(v), sign * v.cross(e));
+            if c1 < 0.0 || c2 < 0.0 {
+                return false;
+            }
+            // Opposite to the start: inside only for a half turn.
+            if c1 == 0.0 && s.dot(v) < 0.0 {
+                return self.sweep.abs() >= std::f64::consts::PI - 1e-12;
+            }
+            true
+        } else {
+            // Outside only when strictly inside the complementary arc
+            // (below pi).
+            !(sign * e.cross(v) > 0.0 && sign * v.cross(s) > 0.0)
+        }
+    }
+
     /// Whether the direction `angle` (about the centre) lies within the swept span.
     pub fn contains_angle(&self, angle: f64) -> bool {
         let a0 = self.start_angle();
@@ -441,7 +465,7 @@ impl Segment {
                 let c = a.center.to_vec2();
                 let mut m = a.start.radius().max(a.end.radius());
                 if let Some(dir) = c.normalized()
-                    && a.contains_angle(dir.angle())
+                    && a.contains_direction(dir)
                 {
                     m = m.max(c.length() + r);
                 }
@@ -462,7 +486,7 @@ impl Segment {
         match self {
             Segment::Line(_) => ends,
             Segment::Arc(a) => {
-                if a.contains_angle(n.angle()) {
+                if a.contains_direction(n) {
                     ends.max(n.dot(a.center.to_vec2()) + a.radius() * n.length())
                 } else {
                     ends
@@ -499,7 +523,7 @@ pub fn distance_point_segment(p: Point, s: &Segment) -> f64 {
         Segment::Arc(a) => {
             let v = p - a.center;
             let r = a.radius();
-            if v.length() > 0.0 && a.contains_angle(v.angle()) {
+            if v.length() > 0.0 && a.contains_direction(v) {
                 (v.length() - r).abs()
             } else if v.length() == 0.0 {
                 r
@@ -525,7 +549,7 @@ pub fn closest_point(p: Point, s: &Segment) -> (Point, f64) {
         }
         Segment::Arc(a) => {
             let v = p - a.center;
-            if v.length() > 0.0 && a.contains_angle(v.angle()) {
+            if v.length() > 0.0 && a.contains_direction(v) {
                 let t = angle_between(a.start - a.center, v) / a.sweep;
                 let t = if t < 0.0 {
                     t + std::f64::consts::TAU / a.sweep.abs()

@@ -165,7 +165,7 @@ impl PolarBox {
                     let tl = (cl * cl - r * r).max(0.0).sqrt();
                     for sign in [1.0, -1.0] {
                         let t = Point::polar(tl, base + sign * half);
-                        if arc.contains_angle((t - arc.center).angle()) {
+                        if arc.contains_direction(t - arc.center) {
                             lo = lo.min(sign * half);
                             hi = hi.max(sign * half);
                         }

@@ -75,28 +75,6 @@ pub(crate) fn rad(a: &Arc) -> f64 {
     len(a.start - a.center)
 }
 
-/// Whether the direction `v` (from the arc's centre) lies within the arc's
-/// sweep, ends included. Cross products only (no trigonometry).
-pub(crate) fn arc_contains(a: &Arc, v: Vec2) -> bool {
-    let s = a.start - a.center;
-    let e = a.end - a.center;
-    let sign = if a.sweep >= 0.0 { 1.0 } else { -1.0 };
-    if a.sweep.abs() <= std::f64::consts::PI {
-        let (c1, c2) = (sign * s.cross(v), sign * v.cross(e));
-        if c1 < 0.0 || c2 < 0.0 {
-            return false;
-        }
-        // Opposite to the start: inside only for a half turn.
-        if c1 == 0.0 && s.dot(v) < 0.0 {
-            return a.sweep.abs() >= std::f64::consts::PI - 1e-12;
-        }
-        true
-    } else {
-        // Outside only when strictly inside the complementary arc (below pi).
-        !(sign * e.cross(v) > 0.0 && sign * v.cross(s) > 0.0)
-    }
-}
-
 /// Closest point of a segment's centre line to `p`.
 pub(crate) fn point_segment(p: Point, s: &Segment) -> Closest {
     match s {
@@ -118,7 +96,7 @@ fn closest_on_line(p: Point, a: Point, b: Point) -> Point {
 fn closest_on_arc(p: Point, a: &Arc) -> Point {
     let v = p - a.center;
     let lv = len(v);
-    if lv > 0.0 && arc_contains(a, v) {
+    if lv > 0.0 && a.contains_direction(v) {
         return a.center + v * (rad(a) / lv);
     }
     if dist(p, a.start) <= dist(p, a.end) {
@@ -197,7 +175,7 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
         let nn = if nl > 0.0 { n * (1.0 / nl) } else { u.perp() };
         for sign in [1.0, -1.0] {
             let q = a.center + nn * (sign * r);
-            if arc_contains(a, q - a.center) {
+            if a.contains_direction(q - a.center) {
                 best = best.min(Closest::new(foot, q));
             }
         }
@@ -209,7 +187,7 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
             let tt = t + sign * h;
             if (0.0..=ll).contains(&tt) {
                 let q = l.start + u * tt;
-                if arc_contains(a, q - a.center) {
+                if a.contains_direction(q - a.center) {
                     best = best.min(Closest { d: 0.0, a: q, b: q });
                 }
             }
@@ -227,7 +205,7 @@ fn arc_arc(x: &Arc, y: &Arc) -> Closest {
         // Concentric: constant gap wherever the angular spans overlap.
         for u in [y.start - y.center, x.start - x.center] {
             let Some(u) = u.normalized() else { continue };
-            if arc_contains(x, u) && arc_contains(y, u) {
+            if x.contains_direction(u) && y.contains_direction(u) {
                 best = best.min(Closest::new(x.center + u * r1, y.center + u * r2));
             }
         }
@@ -236,12 +214,12 @@ fn arc_arc(x: &Arc, y: &Arc) -> Closest {
     let u = cc * (1.0 / dc);
     for s1 in [1.0, -1.0] {
         let p = x.center + u * (s1 * r1);
-        if !arc_contains(x, u * s1) {
+        if !x.contains_direction(u * s1) {
             continue;
         }
         for s2 in [1.0, -1.0] {
             let q = y.center + u * (s2 * r2);
-            if arc_contains(y, u * s2) {
+            if y.contains_direction(u * s2) {
                 best = best.min(Closest::new(p, q));
             }
         }
@@ -253,7 +231,7 @@ fn arc_arc(x: &Arc, y: &Arc) -> Closest {
         let base = x.center + u * along;
         for sign in [1.0, -1.0] {
             let q = base + u.perp() * (sign * h);
-            if arc_contains(x, q - x.center) && arc_contains(y, q - y.center) {
+            if x.contains_direction(q - x.center) && y.contains_direction(q - y.center) {
                 best = best.min(Closest { d: 0.0, a: q, b: q });
             }
         }
@@ -414,7 +392,7 @@ mod tests {
             for k in 0..720 {
                 let ang = k as f64 * PI / 360.0 + 1e-3;
                 assert_eq!(
-                    arc_contains(&a, Vec2::from_angle(ang)),
+                    a.contains_direction(Vec2::from_angle(ang)),
                     a.contains_angle(ang),
                     "{sweep} {start} {ang}"
                 );
