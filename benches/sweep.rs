@@ -5,15 +5,17 @@
 //! (what a real sweep sees: nothing cached for earlier candidates helps),
 //! so the candidates-per-second figure of issue 6 can be read off.
 //!
-//! Figures on the 2-core development machine (2026-12-02; timings there
-//! vary by about 10 % from run to run): the repeated batch took 329 ms
-//! before the speed work of that day (185 candidates/s) and about 88 ms
-//! after it (about 690/s); new designs every time take about 100 ms (about
-//! 600/s). The target is 61 ms (1000/s). One candidate on one thread takes
-//! about 3.1 ms; of that, parse and build about 0.08 ms, the rule check
-//! 0.84 ms and the analysis 1.34 ms, led by the Biot-Savart sums and
-//! Maxwell's ring pairs. (Two single-thread processes side by side each
-//! run about 15 % slower than alone, so two cores give about 1.7x.)
+//! Figures on the 2-core development machine (Intel Xeon with AVX-512;
+//! timings there vary by 10 to 20 % from run to run): at the start of
+//! 2026-12-02 the batch of new designs took about 93 ms (about 660
+//! candidates/s); after that day's work it takes about 42 to 45 ms (about
+//! 1,400 candidates/s), and one candidate on one core about 1.6 ms. The
+//! target is 61 ms (1000/s). The day's gains, largest first: the GMD of
+//! separated sections by its moment series instead of the closed form,
+//! Maxwell's formula eight ring pairs at a time in vector registers, the
+//! Biot-Savart sum without square roots or divisions on AVX-512, and in
+//! the rule check the chord bound of Schur's theorem along smooth paths,
+//! a sorted index instead of an R-tree and fewer edge distances.
 
 use coilwright::explore::{self, Evaluation, Objective, Sweep};
 use coilwright::{physics, rules, spec};
