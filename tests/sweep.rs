@@ -51,6 +51,46 @@ fn sweep_writes_table_plot_and_best_design() {
 }
 
 #[test]
+fn best_design_finds_a_profile_named_relative_to_the_base_design() {
+    // The base design names its rule profile relative to itself; best.toml
+    // is written elsewhere and must still find it.
+    let dir = tempfile::tempdir().unwrap();
+    let designs = dir.path().join("designs");
+    std::fs::create_dir(&designs).unwrap();
+    let text = std::fs::read_to_string(example())
+        .unwrap()
+        .replace("profile = \"standard\"", "profile = \"house-rules.toml\"");
+    assert!(text.contains("house-rules.toml"));
+    std::fs::write(designs.join("coil.toml"), text).unwrap();
+    std::fs::write(
+        designs.join("house-rules.toml"),
+        "name = \"house\"\nmin_trace_width = 0.1\nmin_clearance = 0.1\nmin_drill = 0.2\n\
+         min_annular_ring = 0.1\nmin_hole_spacing = 0.25\nmin_edge_clearance = 0.3\n",
+    )
+    .unwrap();
+    let out = dir.path().join("results");
+    let (code, o, e) = coilwright(&[
+        "sweep",
+        designs.join("coil.toml").to_str().unwrap(),
+        "--vary",
+        "turns=6..8",
+        "--maximize",
+        "trace_length_mm",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{o}{e}");
+    let best = out.join("best.toml");
+    let (code, o, e) = coilwright(&["check", best.to_str().unwrap()]);
+    assert_eq!(
+        code,
+        0,
+        "{o}{e}\n{}",
+        std::fs::read_to_string(&best).unwrap()
+    );
+}
+
+#[test]
 fn bad_sweep_arguments_exit_2_and_write_nothing() {
     let dir = tempfile::tempdir().unwrap();
     let out = dir.path().join("sweep");

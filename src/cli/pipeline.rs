@@ -75,6 +75,21 @@ pub fn violations(loaded: &Loaded, layout: &Layout) -> Result<Vec<Violation>, Fa
     Ok(rules::check(&loaded.design, layout, &profile))
 }
 
+/// Where the design's rule profile file is (relative to the design file),
+/// or `None` for a built-in name: a value ending in `.toml` or containing
+/// a path separator is a path.
+pub fn profile_path(loaded: &Loaded) -> Option<PathBuf> {
+    let name = &loaded.design.rules.profile;
+    let looks_like_path = name.ends_with(".toml") || name.contains('/') || name.contains('\\');
+    looks_like_path.then(|| {
+        loaded
+            .path
+            .parent()
+            .map(|d| d.join(name))
+            .unwrap_or_else(|| PathBuf::from(name))
+    })
+}
+
 /// The design's rule profile with its overrides: a built-in name, or a TOML
 /// file (a value ending in `.toml` or containing a path separator) found
 /// relative to the design file.
@@ -95,13 +110,7 @@ pub fn profile(loaded: &Loaded) -> Result<rules::Profile, Failure> {
             .into(),
         }
     };
-    let looks_like_path = name.ends_with(".toml") || name.contains('/') || name.contains('\\');
-    let base = if looks_like_path {
-        let path = loaded
-            .path
-            .parent()
-            .map(|d| d.join(name))
-            .unwrap_or_else(|| PathBuf::from(name));
+    let base = if let Some(path) = profile_path(loaded) {
         let text = std::fs::read_to_string(&path).map_err(|e| {
             fail(
                 format!("cannot read rule profile {}: {e}", path.display()),

@@ -165,7 +165,18 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
             },
         ];
         if let Some(b) = outcome.best {
-            let table = sweep.candidate_table(b);
+            let mut table = sweep.candidate_table(b);
+            // A profile file named relative to the design file would be
+            // looked for next to best.toml: name it by its absolute path.
+            if let Some(path) = pipeline::profile_path(&base)
+                && let Ok(abs) = std::fs::canonicalize(&path)
+                && let Some(toml::Value::Table(rules)) = table.get_mut("rules")
+            {
+                rules.insert(
+                    "profile".into(),
+                    toml::Value::String(abs.display().to_string()),
+                );
+            }
             let c = &outcome.candidates[b];
             let mut text = format!(
                 "# Best candidate of `coilwright sweep {}`: {} {} = {}\n# Parameters: {}\n# Build it with: coilwright build best.toml -o best\n\n",
