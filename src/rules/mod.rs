@@ -52,6 +52,7 @@ mod via_via_clearance;
 
 pub use bend_radius::{bend_ratio, finished_thickness, min_bend_radius};
 pub use context::{ADJACENT_PITCHES, Broadphase, TOLERANCE};
+pub(crate) use profile::key_list;
 pub use profile::{Profile, ProfileError};
 
 use crate::geometry::{Layout, Point};

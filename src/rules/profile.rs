@@ -64,8 +64,9 @@ pub enum ProfileError {
     },
 }
 
-/// Length keys of a profile, in file order.
-const LENGTH_KEYS: [&str; 6] = [
+/// Length keys of a profile, in file order (also the lengths a design's
+/// `[rules]` table may override).
+pub(crate) const LENGTH_KEYS: [&str; 6] = [
     "min_trace_width",
     "min_clearance",
     "min_drill",
@@ -75,16 +76,24 @@ const LENGTH_KEYS: [&str; 6] = [
 ];
 
 /// Every key a profile file may contain.
-const KEYS: [&str; 8] = [
-    "name",
-    "description",
-    "min_trace_width",
-    "min_clearance",
-    "min_drill",
-    "min_annular_ring",
-    "min_hole_spacing",
-    "min_edge_clearance",
-];
+const KEYS: [&str; 8] = key_list(["name", "description"]);
+
+/// `first` followed by [`LENGTH_KEYS`], at compile time.
+pub(crate) const fn key_list<const A: usize, const N: usize>(
+    first: [&'static str; A],
+) -> [&'static str; N] {
+    assert!(
+        A + LENGTH_KEYS.len() == N,
+        "N must be A plus the length keys"
+    );
+    let mut out = [""; N];
+    let mut i = 0;
+    while i < N {
+        out[i] = if i < A { first[i] } else { LENGTH_KEYS[i - A] };
+        i += 1;
+    }
+    out
+}
 
 /// Built-in profiles: (name, TOML text).
 const BUILTIN: [(&str, &str); 3] = [
@@ -179,44 +188,23 @@ impl Profile {
     }
 }
 
-/// A length value in mm: a bare number or a string with a unit.
+/// A length value in mm: a bare number or a string with a unit, read as a
+/// design file reads lengths ([`crate::spec::units::Length`]).
 fn length(key: &str, v: &toml::Value) -> Result<f64, ProfileError> {
+    use crate::spec::units::{Length, Quantity};
     let bad = |reason: String| ProfileError::BadValue {
         key: key.to_string(),
         reason,
     };
-    let mm = match v {
-        toml::Value::Float(f) => *f,
-        toml::Value::Integer(i) => *i as f64,
-        toml::Value::String(s) => {
-            let s = s.trim();
-            let split = s
-                .find(|c: char| c.is_ascii_alphabetic())
-                .ok_or_else(|| bad(format!("`{s}` has no unit (mm, um, mil, in)")))?;
-            let (num, unit) = s.split_at(split);
-            let x: f64 = num
-                .trim()
-                .parse()
-                .map_err(|_| bad(format!("`{s}` is not a number with a unit")))?;
-            let scale = match unit.trim() {
-                "mm" => 1.0,
-                "um" | "µm" => 1e-3,
-                "mil" => 0.0254,
-                "in" => 25.4,
-                u => return Err(bad(format!("unknown unit `{u}` (mm, um, mil, in)"))),
-            };
-            x * scale
-        }
-        _ => {
-            return Err(bad(
-                "must be a length: a number (mm) or a string such as \"0.1mm\"".into(),
-            ));
-        }
+    let parsed = match v {
+        toml::Value::Float(f) => Length::from_number(*f),
+        toml::Value::Integer(i) => Length::from_number(*i as f64),
+        toml::Value::String(s) => Length::from_text(s),
+        _ => return Err(bad(format!("must be a length: {}", Length::ALLOWED))),
     };
-    if !(mm.is_finite() && mm >= 0.0) {
-        return Err(bad(format!("{mm} mm is not a length of zero or more")));
-    }
-    Ok(mm)
+    parsed
+        .map(Length::mm)
+        .map_err(|e| bad(format!("{e}; allowed: {}", e.allowed)))
 }
 
 #[cfg(test)]

@@ -59,15 +59,7 @@ const STACKUP_KEYS: &[&str] = &[
 ];
 const HOLE_KEYS: &[&str] = &["drill", "diameter"];
 const BOARD_KEYS: &[&str] = &["margin"];
-const RULES_KEYS: &[&str] = &[
-    "profile",
-    "min_trace_width",
-    "min_clearance",
-    "min_drill",
-    "min_annular_ring",
-    "min_hole_spacing",
-    "min_edge_clearance",
-];
+const RULES_KEYS: &[&str] = &crate::rules::key_list::<1, 7>(["profile"]);
 const MAGNET_KEYS: &[&str] = &["diameter", "thickness", "remanence", "gap"];
 const DRIVE_KEYS: &[&str] = &[
     "voltage",
