@@ -432,18 +432,22 @@ fn binomials() -> &'static [Vec<f64>] {
 mod tests {
     use super::*;
 
+    /// Sections of real coils (35 um copper, 0.1-1 mm tracks) and a
+    /// square, metres: (w1, t1, w2, t2).
+    const SECTIONS: [(f64, f64, f64, f64); 4] = [
+        (0.15e-3, 35e-6, 0.15e-3, 35e-6),
+        (0.1e-3, 18e-6, 0.25e-3, 35e-6),
+        (1e-3, 70e-6, 0.2e-3, 12e-6),
+        (1.0, 1.0, 1.0, 1.0),
+    ];
+
     #[test]
     fn gmd_closed_form_matches_the_integral() {
         // Sections and offsets of real coils (35 um copper, 0.1-1 mm
         // tracks, overlapping, touching, side by side, stacked, diagonal)
         // and a square: closed form against the numerical integral.
         let mut n = 0;
-        for (w1, t1, w2, t2) in [
-            (0.15e-3f64, 35e-6f64, 0.15e-3f64, 35e-6f64),
-            (0.1e-3, 18e-6, 0.25e-3, 35e-6),
-            (1e-3, 70e-6, 0.2e-3, 12e-6),
-            (1.0, 1.0, 1.0, 1.0),
-        ] {
+        for (w1, t1, w2, t2) in SECTIONS {
             let s = w1.max(t1).max(w2).max(t2);
             for (fx, fy) in [
                 (0.0, 0.0),
@@ -499,13 +503,11 @@ mod tests {
         // from the series' limit (reach = 0.6 D) outwards, in every
         // direction.
         let mut used = 0;
-        for (w1, t1, w2, t2) in [
-            (0.15e-3f64, 35e-6f64, 0.15e-3f64, 35e-6f64),
-            (0.1e-3, 18e-6, 0.25e-3, 35e-6),
-            (1e-3, 70e-6, 0.2e-3, 12e-6),
-            (1.0, 1.0, 1.0, 1.0),
-            (0.3e-3, 0.3e-3, 0.1e-3, 35e-6),
-        ] {
+        // (And a square track beside a flat one.)
+        for (w1, t1, w2, t2) in SECTIONS
+            .into_iter()
+            .chain([(0.3e-3, 0.3e-3, 0.1e-3, 35e-6)])
+        {
             let s = GmdSeries::new(w1, t1, w2, t2);
             for (f, a) in [1.0 / 0.599, 1.7, 1.9, 2.3, 3.0, 4.5, 8.0, 30.0]
                 .into_iter()
