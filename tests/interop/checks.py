@@ -16,7 +16,6 @@ written by tests/interop.rs). Each failure is printed as
 """
 
 import glob
-import json
 import math
 import os
 import subprocess
@@ -24,16 +23,8 @@ import sys
 import tempfile
 import warnings
 
-FAILS = []
-
-
-def fail(source, msg):
-    FAILS.append(f"FAIL [{source}] {msg}")
-
-
-def load_expect(d):
-    with open(os.path.join(d, "expect.json")) as f:
-        return json.load(f)
+from interop_common import expect as load_expect
+from interop_common import fail, run
 
 
 def copper_files(d, layers):
@@ -320,20 +311,5 @@ def raster(d, kdir):
     print(f"raster: {layers} layers at {dpi} dpi, worst difference {worst*100:.3f} % of copper pixels")
 
 
-def main():
-    cmd, d = sys.argv[1], sys.argv[2]
-    if cmd == "readers":
-        readers(d)
-    elif cmd == "geometry":
-        geometry(d)
-    elif cmd == "raster":
-        raster(d, sys.argv[3])
-    else:
-        raise SystemExit(f"unknown command {cmd}")
-    for f in FAILS:
-        print(f)
-    sys.exit(1 if FAILS else 0)
-
-
 if __name__ == "__main__":
-    main()
+    run({"readers": readers, "geometry": geometry, "raster": raster})

@@ -19,7 +19,6 @@ process.
 """
 
 import glob
-import json
 import math
 import os
 import re
@@ -28,17 +27,14 @@ import tempfile
 
 import pcbnew
 
+from interop_common import expect, run
+from interop_common import fail as fail_from
+
 SRC = "KiCad 6 pcbnew"
-FAILS = []
 
 
 def fail(msg):
-    FAILS.append(f"FAIL [{SRC}] {msg}")
-
-
-def expect(d):
-    with open(os.path.join(d, "expect.json")) as f:
-        return json.load(f)
+    fail_from(SRC, msg)
 
 
 def drc(board, path):
@@ -289,20 +285,5 @@ def plot(d, out):
     print(f"plot: {layers} copper layers plotted by KiCad")
 
 
-def main():
-    cmd, d = sys.argv[1], sys.argv[2]
-    if cmd == "footprint":
-        footprint(d)
-    elif cmd == "board":
-        board(d)
-    elif cmd == "plot":
-        plot(d, sys.argv[3])
-    else:
-        raise SystemExit(f"unknown command {cmd}")
-    for f in FAILS:
-        print(f)
-    sys.exit(1 if FAILS else 0)
-
-
 if __name__ == "__main__":
-    main()
+    run({"footprint": footprint, "board": board, "plot": plot})
