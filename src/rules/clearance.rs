@@ -23,7 +23,7 @@
 //! neighbouring turns.
 
 use super::context::{ADJACENT_CELLS, Context, Piece};
-use super::distance::{Closest, len, rad, segment_segment};
+use super::distance::{Closest, segment_segment};
 use super::{Item, RuleInfo, Severity, Violation, fails};
 use crate::geometry::Segment;
 use std::collections::BTreeMap;
@@ -57,7 +57,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
                 // within |c1 - c2| of r2 from it): neighbouring turns about
                 // one centre are settled without the exact distance.
                 if let (Segment::Arc(x), Segment::Arc(y)) = (&a.seg, &b.seg) {
-                    let bound = (rad(x) - rad(y)).abs() - len(x.center - y.center);
+                    let bound = (x.radius() - y.radius()).abs() - x.center.distance(y.center);
                     if !fails(bound - a.hw - b.hw, req) {
                         continue;
                     }

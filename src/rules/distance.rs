@@ -25,7 +25,7 @@ pub(crate) struct Closest {
 impl Closest {
     fn new(a: Point, b: Point) -> Closest {
         Closest {
-            d: dist(a, b),
+            d: a.distance(b),
             a,
             b,
         }
@@ -56,25 +56,6 @@ impl Closest {
     }
 }
 
-/// Distance between two points, mm (`sqrt`, faster than `hypot` and
-/// accurate enough at board scale).
-#[inline]
-pub(crate) fn dist(a: Point, b: Point) -> f64 {
-    len(a - b)
-}
-
-/// Length of a displacement, mm.
-#[inline]
-pub(crate) fn len(v: Vec2) -> f64 {
-    (v.x * v.x + v.y * v.y).sqrt()
-}
-
-/// Radius of an arc, mm (measured at its start).
-#[inline]
-pub(crate) fn rad(a: &Arc) -> f64 {
-    len(a.start - a.center)
-}
-
 /// Closest point of a segment's centre line to `p`.
 pub(crate) fn point_segment(p: Point, s: &Segment) -> Closest {
     match s {
@@ -95,11 +76,11 @@ fn closest_on_line(p: Point, a: Point, b: Point) -> Point {
 
 fn closest_on_arc(p: Point, a: &Arc) -> Point {
     let v = p - a.center;
-    let lv = len(v);
+    let lv = v.length();
     if lv > 0.0 && a.contains_direction(v) {
-        return a.center + v * (rad(a) / lv);
+        return a.center + v * (a.radius() / lv);
     }
-    if dist(p, a.start) <= dist(p, a.end) {
+    if p.distance(a.start) <= p.distance(a.end) {
         a.start
     } else {
         a.end
@@ -131,7 +112,7 @@ fn line_line(x: &Line, y: &Line) -> Closest {
     // other. Orientations within rounding noise of zero count as zero (the
     // end-point distances below then find the touch), so collinear and
     // nearly parallel pieces never produce a spurious crossing.
-    let scale = 1e-12 * (len(r) + len(s)) * (len(r) + len(s) + len(q - p));
+    let scale = 1e-12 * (r.length() + s.length()) * (r.length() + s.length() + (q - p).length());
     let side = |o: f64| {
         if o > scale {
             1
@@ -160,8 +141,8 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
     let sa = Segment::Arc(*a);
     let mut best = ends_against(&sl, &sa);
     let dir = l.end - l.start;
-    let ll = len(dir);
-    let r = rad(a);
+    let ll = dir.length();
+    let r = a.radius();
     if ll.is_nan() || ll <= 0.0 {
         return best;
     }
@@ -170,7 +151,7 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
     let t = (a.center - l.start).dot(u);
     let foot = l.start + u * t;
     let n = foot - a.center;
-    let nl = len(n);
+    let nl = n.length();
     if (0.0..=ll).contains(&t) {
         let nn = if nl > 0.0 { n * (1.0 / nl) } else { u.perp() };
         for sign in [1.0, -1.0] {
@@ -198,9 +179,9 @@ fn line_arc(l: &Line, a: &Arc) -> Closest {
 
 fn arc_arc(x: &Arc, y: &Arc) -> Closest {
     let mut best = ends_against(&Segment::Arc(*x), &Segment::Arc(*y));
-    let (r1, r2) = (rad(x), rad(y));
+    let (r1, r2) = (x.radius(), y.radius());
     let cc: Vec2 = y.center - x.center;
-    let dc = len(cc);
+    let dc = cc.length();
     if dc <= 1e-12 * (r1 + r2).max(1.0) {
         // Concentric: constant gap wherever the angular spans overlap.
         for u in [y.start - y.center, x.start - x.center] {
