@@ -330,6 +330,7 @@ impl<'a> Context<'a> {
         let mut track_path: Vec<Option<(usize, f64)>> = vec![None; layout.tracks.len()];
         let mut paths = Vec::new();
         let mut ends: Vec<(Node, usize, f64)> = Vec::new();
+        let mut smooth_start = vec![false; layout.tracks.len()];
         for w in &layout.windings {
             let id = paths.len();
             let mut s = 0.0;
@@ -346,14 +347,6 @@ impl<'a> Context<'a> {
                     wmax = wmax.max(t.width);
                 }
             }
-            paths.push(path_info(wmax, profile.min_clearance));
-            ends.push((w.from, id, 0.0));
-            ends.push((w.to, id, s));
-        }
-        let mut smooth_start = vec![false; layout.tracks.len()];
-        for w in &layout.windings {
-            let end = w.tracks.1.min(layout.tracks.len());
-            let start = w.tracks.0.min(end);
             for (i, pair) in layout.tracks[start..end].windows(2).enumerate() {
                 let (prev, next) = (&pair[0].segment, &pair[1].segment);
                 smooth_start[start + i + 1] = prev.end().distance(next.start()) < 1e-9
@@ -362,6 +355,9 @@ impl<'a> Context<'a> {
                         _ => false,
                     };
             }
+            paths.push(path_info(wmax, profile.min_clearance));
+            ends.push((w.from, id, 0.0));
+            ends.push((w.to, id, s));
         }
         for (i, t) in layout.tracks.iter().enumerate() {
             if track_path[i].is_none() {

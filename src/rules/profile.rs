@@ -66,7 +66,7 @@ pub enum ProfileError {
 
 /// Length keys of a profile, in file order (also the lengths a design's
 /// `[rules]` table may override).
-pub(crate) const LENGTH_KEYS: [&str; 6] = [
+const LENGTH_KEYS: [&str; 6] = [
     "min_trace_width",
     "min_clearance",
     "min_drill",
