@@ -157,7 +157,8 @@ impl FitInput {
         }
     }
 
-    /// Most turns that fit with the free centre `inner`, by bisection.
+    /// Most turns that fit with the free centre `inner` (bracketed by
+    /// doubling, then [`largest_feasible`]).
     fn max_turns(&self, inner: f64, outer: f64) -> Result<f64, FitError> {
         let (mut lo, mut hi) = (1e-6, 1.0);
         let mut f_lo = self.excess(inner, lo, outer)?;

@@ -233,6 +233,8 @@ unsafe fn sum_avx512(s: &Segments, p: [f64; 3]) -> [f64; 3] {
     let zero = _mm512_setzero_pd();
     let tiny = _mm512_set1_pd(1e-300);
     let (mut sx, mut sy, mut sz) = (zero, zero, zero);
+    // Mask of the first `min(left, 8)` lanes.
+    let lanes = |left: usize| -> __mmask8 { if left >= W { 0xff } else { (1u8 << left) - 1 } };
     let nseg = s.cur.len();
     let mut start = 0;
     while start < nseg {
@@ -244,13 +246,8 @@ unsafe fn sum_avx512(s: &Segments, p: [f64; 3]) -> [f64; 3] {
             // start + nv` (in the arrays); stores stay within the padded
             // buffers (k + 8 <= BLOCK + 8).
             unsafe {
-                let mask: __mmask8 = if nv - k >= W {
-                    0xff
-                } else {
-                    (1u8 << (nv - k)) - 1
-                };
+                let mask = lanes(nv - k);
                 let at = start + k;
-                // SAFETY: the mask keeps the loads within the vertex arrays.
                 let x = _mm512_sub_pd(_mm512_maskz_loadu_pd(mask, s.vx.as_ptr().add(at)), px);
                 let y = _mm512_sub_pd(_mm512_maskz_loadu_pd(mask, s.vy.as_ptr().add(at)), py);
                 let z = _mm512_sub_pd(_mm512_maskz_loadu_pd(mask, s.vz.as_ptr().add(at)), pz);
@@ -277,11 +274,7 @@ unsafe fn sum_avx512(s: &Segments, p: [f64; 3]) -> [f64; 3] {
             // the padding (lanes past the block hold finite leftovers and
             // are masked out below).
             unsafe {
-                let mask: __mmask8 = if m - k >= W {
-                    0xff
-                } else {
-                    (1u8 << (m - k)) - 1
-                };
+                let mask = lanes(m - k);
                 let cur = _mm512_maskz_loadu_pd(mask, s.cur.as_ptr().add(start + k));
                 let (x1, y1, z1, i1) = (
                     _mm512_loadu_pd(rx.as_ptr().add(k)),

@@ -142,16 +142,14 @@ impl Cylinder {
 fn force_on_magnet(points: &[([f64; 3], [f64; 2])], mag: &Cylinder) -> f64 {
     let fz: f64 = super::map_indices(points.len(), |i| {
         let (p, idl) = &points[i];
-        {
-            let rho = (p[0] * p[0] + p[1] * p[1]).sqrt();
-            if rho < 1e-12 {
-                return 0.0;
-            }
-            let brho = mag.b_rho(rho, p[2]);
-            let (bx, by) = (brho * p[0] / rho, brho * p[1] / rho);
-            // (dl x B)_z = dl_x B_y - dl_y B_x.
-            idl[0] * by - idl[1] * bx
+        let rho = (p[0] * p[0] + p[1] * p[1]).sqrt();
+        if rho < 1e-12 {
+            return 0.0;
         }
+        let brho = mag.b_rho(rho, p[2]);
+        let (bx, by) = (brho * p[0] / rho, brho * p[1] / rho);
+        // (dl x B)_z = dl_x B_y - dl_y B_x.
+        idl[0] * by - idl[1] * bx
     })
     // Summed in a fixed order: the same inputs give the same bits.
     .iter()
@@ -221,7 +219,7 @@ fn travel(s: &Segment) -> f64 {
 /// same integration with the points and tangents of the arcs themselves.
 /// Each piece is cut into parts that travel (see [`travel`]) no more than
 /// a quarter of their distance from the magnet's lower edge (and at least
-/// an eighth of the magnet radius) and sweep at most pi/8 about the axis,
+/// an eighth of the magnet radius) and sweep at most pi/4 about the axis,
 /// with 2-point Gauss-Legendre per part.
 pub fn force_lorentz_pieces(pieces: &[Piece], current: f64, mag: &Cylinder) -> f64 {
     let g = 0.5 / 3f64.sqrt();
