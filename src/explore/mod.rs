@@ -396,13 +396,10 @@ impl Sweep {
         let best = ok.first().copied();
         // The default second metric (the outer size) says nothing when the
         // sweep keeps it fixed: plot against the resistance instead.
-        let x_of = |name: &str, i: usize| {
-            pareto::settle(candidates[i].metrics.get(name).copied().unwrap_or(f64::NAN))
-        };
-        let fixed = ok.len() > 1
-            && ok
-                .iter()
-                .all(|&i| x_of(&self.versus.0, i) == x_of(&self.versus.0, ok[0]));
+        let metric =
+            |name: &str, i: usize| candidates[i].metrics.get(name).copied().unwrap_or(f64::NAN);
+        let x_of = |i: usize| pareto::settle(metric(&self.versus.0, i));
+        let fixed = ok.len() > 1 && ok.iter().all(|&i| x_of(i) == x_of(ok[0]));
         let versus = if self.versus_default && fixed && obj.metric != "resistance_ohm_20c" {
             ("resistance_ohm_20c".to_string(), false)
         } else {
@@ -411,13 +408,7 @@ impl Sweep {
         // Pareto front among ok candidates.
         let pts: Vec<(f64, f64)> = ok
             .iter()
-            .map(|&i| {
-                let c = &candidates[i];
-                (
-                    c.metrics.get(&versus.0).copied().unwrap_or(f64::NAN),
-                    value(c),
-                )
-            })
+            .map(|&i| (metric(&versus.0, i), value(&candidates[i])))
             .collect();
         for k in front(&pts, versus.1, obj.maximize) {
             candidates[ok[k]].pareto = true;
