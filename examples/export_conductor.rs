@@ -4,7 +4,7 @@
 //!
 //! `cargo run --release --example export_conductor > /tmp/conductors.json`
 
-#[path = "../tests/reference/designs.rs"]
+#[path = "../tests/suite/reference_designs.rs"]
 mod designs;
 
 use coilwright::physics::{FIELD_SAGITTA, conductor::Conductor};

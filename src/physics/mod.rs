@@ -13,7 +13,7 @@
 //!
 //! # Accuracy against outside references (tests name the sources)
 //! * Biot-Savart: loop and flat-spiral closed forms to 1e-6; magpylib on the
-//!   same polylines to 1e-7 of the largest value (tests/physics_magpylib.rs).
+//!   same polylines to 1e-7 of the largest value (tests/suite/physics_magpylib.rs).
 //! * Mutual inductance: Maxwell's formula to the scipy values of
 //!   REFERENCES.md (30.0288 nH, 5.02280 nH); Grover's ring 66.96 nH.
 //! * One-layer 20 mm, 10-turn circular coil: within 0.3 % of a Grover sum of
@@ -55,7 +55,7 @@ pub const FIELD_SAGITTA: f64 = 1e-3;
 
 /// The same for [`Detail::Metrics`] (sweeps): centre field within 3e-6,
 /// profile within 6e-3 of the centre value, on that coil; the fall radii
-/// within 0.02 mm of the report's (tested in `tests/physics_reference.rs`).
+/// within 0.02 mm of the report's (tested in `tests/suite/physics_reference.rs`).
 pub const FIELD_SAGITTA_METRICS: f64 = 8e-3;
 
 /// Why a layout cannot be analysed.

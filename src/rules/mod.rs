@@ -30,7 +30,7 @@
 //! checks, why it matters on a real board, an example), `pub const ID`, an
 //! `INFO` and `fn check(ctx: &Context, out: &mut Vec<Violation>)`; list it
 //! in [`RULES`] and in [`check_with`]; add a fixture that breaks it exactly
-//! once and one at the limit to `tests/rules.rs`.
+//! once and one at the limit to `tests/suite/rules.rs`.
 //!
 //! # Units
 //! Millimetres.

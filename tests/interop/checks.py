@@ -11,7 +11,7 @@ Run with the interop venv (.venv-interop/bin/python, see setup.sh):
                                same frame; copper pixels must agree
 
 DIR holds the bundle plus `expect.json` ({"design": ..., "layout": ...},
-written by tests/interop.rs). Each failure is printed as
+written by tests/suite/interop.rs). Each failure is printed as
 "FAIL [source] message" and the exit status is 1.
 """
 

@@ -1,5 +1,5 @@
 #!/usr/bin/env bash
-# Installs everything the interop tests (tests/interop.rs) need:
+# Installs everything the interop tests (tests/suite/interop.rs) need:
 #   - Debian packages: kicad (6.0, its Python module `pcbnew` for Debian's
 #     /usr/bin/python3), gerbv, python3-venv;
 #   - a virtual environment .venv-interop at the repository root with the

@@ -1,0 +1,38 @@
+//! The integration tests: one test binary, one module per subject.
+//!
+//! Where a new test goes:
+//! - `cli`, `cli_rules`, `sweep`: run the built binary (bad input exits 2 and
+//!   names its key, overwrite protection, JSON outputs, exit codes);
+//! - `designs`: every template and example parses and builds;
+//! - `outputs`: SHA-256 of everything `build` writes for every example and
+//!   template (the guard for refactoring; bless deliberate changes);
+//! - `export_gerber`, `svg_golden`: golden files (insta snapshots in
+//!   `snapshots/`) and parsed-back exporter output;
+//! - `geometry_props`, `geometry_sanity`, `rules_props`, `rules`: property
+//!   tests and rule fixtures;
+//! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`: checks
+//!   against outside truth, the source named beside each value;
+//! - `interop`: our files read by KiCad, gerbv, gerbonara, pygerber and
+//!   shapely (needs `tests/interop/setup.sh`).
+//!
+//! Shared helpers live in `common` (the binary runner, profiles) and
+//! `reference_designs` (the designs the reference checks use).
+
+mod common;
+mod reference_designs;
+
+mod cli;
+mod cli_rules;
+mod designs;
+mod export_gerber;
+mod geometry_props;
+mod geometry_sanity;
+mod interop;
+mod magpylib_rerun;
+mod outputs;
+mod physics_magpylib;
+mod physics_reference;
+mod rules;
+mod rules_props;
+mod svg_golden;
+mod sweep;
