@@ -1,7 +1,7 @@
 //! Building the layout of an 8-layer, 100-turn circular coil (issue 2's
 //! speed note: should take milliseconds), and a 6-sided one with round corners.
+use coilwright::design::{Corner, Design, Shape};
 use coilwright::geometry;
-use coilwright::spec::{Corner, Design, Shape};
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
 

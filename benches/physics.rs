@@ -2,8 +2,8 @@
 //! 10,000 points) and the full analysis of an 8-layer, 100-turn coil
 //! (target under 1 s).
 
+use coilwright::design::Design;
 use coilwright::physics::field::Segments;
-use coilwright::spec::Design;
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
 use std::time::Duration;

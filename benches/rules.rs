@@ -3,9 +3,9 @@
 //! copper), and an 8-layer coil with 1000 turns per layer (ten times the
 //! segments and the turns; about a hundred times the copper length).
 
+use coilwright::design::Design;
 use coilwright::geometry::{self, Arc, Layout, Segment};
 use coilwright::rules::{self, Profile};
-use coilwright::spec::Design;
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
 

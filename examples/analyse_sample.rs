@@ -1,5 +1,5 @@
 //! Prints the analysis of a design as JSON: `cargo run --example analyse_sample [layers] [turns] [shape]`.
-use coilwright::spec::{Design, Shape};
+use coilwright::design::{Design, Shape};
 
 fn main() {
     let args: Vec<String> = std::env::args().collect();

@@ -1,6 +1,6 @@
 //! Writes SVG previews of the sample design into a folder (default
 //! `preview-sample`): `cargo run --example preview -- DIR`.
-use coilwright::{export, geometry, spec::Design};
+use coilwright::{design::Design, export, geometry};
 
 fn main() -> Result<(), Box<dyn std::error::Error>> {
     let dir = std::env::args()

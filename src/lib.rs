@@ -1,18 +1,19 @@
 //! coilwright: printed-circuit coils from a design file to fab-ready files.
 //!
-//! Data flows one way through pure stages: [`spec`] (design file to a
-//! validated [`spec::Design`]), [`geometry`] (copper on every layer as a
+//! Data flows one way through pure stages: [`design`] (design file to a
+//! validated [`design::Design`]), [`geometry`] (copper on every layer as a
 //! [`geometry::Layout`]), [`rules`] (fab rule check on the layout),
 //! [`physics`] (resistance, inductance, field, force, heating, bending) and
 //! [`export`] (Gerber, Excellon, job file, KiCad, SVG, report). Only the
-//! command-line front end ([`cli`]) touches the file system.
+//! command-line front end (the `coilwright` binary, not part of the
+//! library) touches the file system.
 //!
 //! # Example: from a design file to fab files
 //!
 //! ```
-//! use coilwright::{export, geometry, physics, rules, spec};
+//! use coilwright::{design, export, geometry, physics, rules};
 //!
-//! let design = spec::parse(r#"
+//! let design = design::parse(r#"
 //!     name = "doc-coil"
 //!     [coil]
 //!     outer_diameter = "12mm"
@@ -35,10 +36,9 @@
 //! ```
 #![warn(missing_docs)]
 
-pub mod cli;
+pub mod design;
 pub mod explore;
 pub mod export;
 pub mod geometry;
 pub mod physics;
 pub mod rules;
-pub mod spec;

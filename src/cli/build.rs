@@ -2,10 +2,11 @@
 //! file into DIR, atomically.
 
 use super::check::{plural, violations_table};
+use super::out_dir;
 use super::pipeline;
 use super::{Exit, Failure, print_out};
-use crate::export::{self, out_dir};
 use anyhow::anyhow;
+use coilwright::export;
 use std::path::Path;
 
 /// Runs `build`.
@@ -45,8 +46,8 @@ pub fn run(spec: &Path, out: &Path, force: bool) -> Result<Exit, Failure> {
         out.display(),
         plural(l.layers as usize, "layer"),
         match design.coil.wiring {
-            crate::spec::Wiring::Series => "series",
-            crate::spec::Wiring::ParallelPairs => "parallel pairs",
+            coilwright::design::Wiring::Series => "series",
+            coilwright::design::Wiring::ParallelPairs => "parallel pairs",
         },
         l.turns,
         design.coil.outer_diameter,

@@ -3,7 +3,7 @@
 
 use super::pipeline;
 use super::{Exit, Failure, print_out};
-use crate::rules::{Severity, Violation};
+use coilwright::rules::{Severity, Violation};
 use serde_json::json;
 use std::path::Path;
 
@@ -54,9 +54,9 @@ pub fn run(spec: &Path, json: bool, svg: Option<&Path>, force: bool) -> Result<E
         print_out(&s)?;
     }
     if let Some(file) = svg {
-        let doc = crate::export::svg::preview(
+        let doc = coilwright::export::svg::preview(
             &checked.layout,
-            crate::export::svg::View::Stack,
+            coilwright::export::svg::View::Stack,
             &checked.violations,
         );
         super::report::write_file(file, doc.as_bytes(), force)?;
@@ -173,8 +173,8 @@ pub fn plural(n: usize, word: &str) -> String {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::geometry::Point;
-    use crate::rules::Item;
+    use coilwright::geometry::Point;
+    use coilwright::rules::Item;
 
     fn v(severity: Severity) -> Violation {
         Violation {

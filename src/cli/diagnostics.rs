@@ -2,8 +2,8 @@
 //! (path:line:col, the offending text underlined, a help line).
 
 use super::Failure;
-use crate::spec::{SpecError, SpecErrors};
 use annotate_snippets::{AnnotationKind, Group, Level, Origin, Renderer, Snippet};
+use coilwright::design::{DesignError, DesignErrors};
 use std::io::{IsTerminal, Write};
 use std::path::Path;
 
@@ -17,7 +17,7 @@ fn renderer() -> Renderer {
 }
 
 /// Renders design-file problems as text (one block per problem).
-pub fn render_spec_errors(path: &Path, text: &str, errors: &SpecErrors) -> String {
+pub fn render_spec_errors(path: &Path, text: &str, errors: &DesignErrors) -> String {
     let path = path.display().to_string();
     let r = renderer();
     let mut out = String::new();
@@ -33,7 +33,7 @@ pub fn render_spec_errors(path: &Path, text: &str, errors: &SpecErrors) -> Strin
     out
 }
 
-fn render_one(r: &Renderer, path: &str, text: &str, e: &SpecError) -> String {
+fn render_one(r: &Renderer, path: &str, text: &str, e: &DesignError) -> String {
     // Messages that already name their key in backticks need no prefix.
     let title = if e.message.contains(&format!("`{}`", e.key)) {
         e.message.clone()

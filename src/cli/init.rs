@@ -2,56 +2,17 @@
 //! commented starter design file.
 
 use super::{Exit, Failure, print_out};
-use crate::spec::nearest;
 use anyhow::{Context, anyhow};
+use coilwright::design::{nearest, templates};
 use std::io::Write;
 use std::path::Path;
-
-/// A starter design shipped inside the binary.
-#[derive(Debug, Clone, Copy)]
-pub struct Template {
-    /// Name used with `--template`.
-    pub name: &'static str,
-    /// One-line description for `--list`.
-    pub description: &'static str,
-    /// The commented design file.
-    pub text: &'static str,
-}
-
-const TEMPLATES: &[Template] = &[
-    Template {
-        name: "fin-actuator",
-        description: "flexible 2-layer circular coil that flaps the tail fin of a toy fish with a 5 mm magnet",
-        text: include_str!("../../templates/designs/fin-actuator.toml"),
-    },
-    Template {
-        name: "motor-stator",
-        description: "rigid 4-layer hexagonal coil, one stator winding of a small flat motor",
-        text: include_str!("../../templates/designs/motor-stator.toml"),
-    },
-    Template {
-        name: "pickup-coil",
-        description: "single-layer circular pickup coil that counts magnet passes for a tachometer",
-        text: include_str!("../../templates/designs/pickup-coil.toml"),
-    },
-    Template {
-        name: "haptic-strip",
-        description: "flexible 2-layer rectangular coil under a wristband that taps the skin with a magnet",
-        text: include_str!("../../templates/designs/haptic-strip.toml"),
-    },
-];
-
-/// The starter designs, in `--list` order.
-pub fn templates() -> &'static [Template] {
-    TEMPLATES
-}
 
 /// Runs `init`.
 pub fn run(template: &str, list: bool, force: bool, file: Option<&Path>) -> Result<Exit, Failure> {
     if list {
-        let width = TEMPLATES.iter().map(|t| t.name.len()).max().unwrap_or(0);
+        let width = templates().iter().map(|t| t.name.len()).max().unwrap_or(0);
         let mut s = String::from("Starter designs (coilwright init --template NAME FILE):\n");
-        for t in TEMPLATES {
+        for t in templates() {
             s.push_str(&format!("  {:<width$}  {}\n", t.name, t.description));
         }
         print_out(&s)?;
@@ -62,8 +23,8 @@ pub fn run(template: &str, list: bool, force: bool, file: Option<&Path>) -> Resu
             anyhow!("give the design file to create, e.g. `coilwright init my-coil.toml`").into(),
         );
     };
-    let Some(t) = TEMPLATES.iter().find(|t| t.name == template) else {
-        let names: Vec<&str> = TEMPLATES.iter().map(|t| t.name).collect();
+    let Some(t) = templates().iter().find(|t| t.name == template) else {
+        let names: Vec<&str> = templates().iter().map(|t| t.name).collect();
         let hint = nearest(template, &names)
             .or_else(|| names.iter().copied().find(|n| n.starts_with(template)))
             .map(|n| format!("did you mean `{n}`? "))

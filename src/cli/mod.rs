@@ -1,6 +1,6 @@
 //! The command-line front end: argument types, one file per command,
 //! diagnostics rendering. The only part of coilwright (with
-//! [`crate::export::out_dir`]) that touches the file system.
+//! [`coilwright::export::out_dir`]) that touches the file system.
 //!
 //! Exit codes: 0 success, 1 rule violations found (nothing written),
 //! 2 bad input or failure. A closed output pipe (`| head`) is not an error.
@@ -9,11 +9,10 @@ mod build;
 mod check;
 mod diagnostics;
 mod init;
+mod out_dir;
 pub mod pipeline;
 mod report;
 mod sweep;
-
-pub use init::{Template, templates};
 
 use clap::{Parser, Subcommand};
 use std::io::{self, Write};
@@ -182,7 +181,7 @@ pub enum Failure {
         /// Text of the file.
         text: String,
         /// The problems.
-        errors: crate::spec::SpecErrors,
+        errors: coilwright::design::DesignErrors,
     },
     /// Standard output was closed by the reader: stop quietly.
     BrokenPipe,

@@ -2,11 +2,11 @@
 //! violations -> analysis. Every command goes through these functions.
 
 use super::Failure;
-use crate::geometry::Layout;
-use crate::physics::{self, Analysis};
-use crate::rules::{self, Severity, Violation};
-use crate::spec::{self, Design};
 use anyhow::Context;
+use coilwright::design::{self, Design};
+use coilwright::geometry::Layout;
+use coilwright::physics::{self, Analysis};
+use coilwright::rules::{self, Severity, Violation};
 use std::path::{Path, PathBuf};
 
 /// A design file read and validated.
@@ -50,7 +50,7 @@ pub fn load(path: &Path) -> Result<Loaded, Failure> {
 fn load_and_build(path: &Path) -> Result<(Loaded, Layout), Failure> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("cannot read design file {}", path.display()))?;
-    match spec::parse_and_build(&text) {
+    match design::parse_and_build(&text) {
         Ok((design, layout)) => Ok((
             Loaded {
                 path: path.to_path_buf(),
@@ -101,7 +101,7 @@ pub fn profile(loaded: &Loaded) -> Result<rules::Profile, Failure> {
         Failure::Spec {
             path: loaded.path.clone(),
             text: loaded.text.clone(),
-            errors: spec::SpecError {
+            errors: design::DesignError {
                 key: "rules.profile".into(),
                 span,
                 message,

@@ -1,13 +1,14 @@
 //! `coilwright sweep SPEC --vary KEY=VALUES ... [--require EXPR ...]
 //! (--maximize|--minimize METRIC) [-o DIR]`: try many variants of a design.
 
+use super::out_dir;
 use super::pipeline::{self, Loaded};
 use super::{Exit, Failure, print_out};
-use crate::explore::{self, Evaluation, Objective, Outcome, Requirement, Status, Sweep};
-use crate::export::{OutFile, out_dir};
-use crate::rules::Severity;
-use crate::spec;
 use anyhow::Context;
+use coilwright::design;
+use coilwright::explore::{self, Evaluation, Objective, Outcome, Requirement, Status, Sweep};
+use coilwright::export::OutFile;
+use coilwright::rules::Severity;
 use std::fmt::Write as _;
 use std::io::IsTerminal;
 use std::path::Path;
@@ -32,7 +33,7 @@ pub struct Args<'a> {
 
 /// Evaluates one candidate design file through the whole pipeline.
 fn evaluate(base: &Loaded, text: &str) -> Evaluation {
-    let (design, layout) = match spec::parse_and_build(text) {
+    let (design, layout) = match design::parse_and_build(text) {
         Ok(built) => built,
         Err(errors) => {
             let e = errors.first();
@@ -48,10 +49,10 @@ fn evaluate(base: &Loaded, text: &str) -> Evaluation {
         Ok(v) => v,
         Err(_) => return Evaluation::Invalid("rule profile could not be loaded".into()),
     };
-    let analysis = match crate::physics::analyse_with(
+    let analysis = match coilwright::physics::analyse_with(
         &loaded.design,
         &layout,
-        crate::physics::Detail::Metrics,
+        coilwright::physics::Detail::Metrics,
     ) {
         Ok(a) => a,
         Err(e) => return Evaluation::Invalid(format!("analysis: {e}")),

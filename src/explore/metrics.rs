@@ -9,9 +9,9 @@
 //! `max_temperature_c` (the design's limit), `board_width_mm` and
 //! `board_height_mm` (size of the board outline), `rule_errors`, `rule_warnings`.
 
+use crate::design::{Design, Wiring};
 use crate::geometry::Layout;
 use crate::rules::{Severity, Violation};
-use crate::spec::{Design, Wiring};
 use std::collections::BTreeMap;
 
 /// Flattens the numbers of a JSON value into `out` under `prefix`.

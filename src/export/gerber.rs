@@ -16,9 +16,9 @@
 //! name.
 
 use super::ExportError;
+use crate::design::{BoardKind, Design};
 use crate::geometry::round::{point_nm, snap_mm, to_nm};
 use crate::geometry::{Layout, Point, Segment};
-use crate::spec::{BoardKind, Design};
 use gerber_types::{
     Aperture, ApertureAttribute, ApertureDefinition, ApertureFunction, Circle, Command,
     CommentContent, CoordinateFormat, CoordinateMode, CoordinateNumber, CoordinateOffset,

@@ -8,9 +8,9 @@
 //! dielectric material.
 
 use super::ExportError;
+use crate::design::{BoardKind, Design};
 use crate::geometry::Layout;
 use crate::geometry::round::{nm_to_mm, to_nm};
-use crate::spec::{BoardKind, Design};
 use serde_json::{Value, json};
 
 /// Path of the job file in the output folder.

@@ -30,9 +30,9 @@
 
 use super::ExportError;
 use super::gerber::{NET_1, NET_2, REFDES};
+use crate::design::Design;
 use crate::geometry::round::{format_mm, point_nm, to_nm};
 use crate::geometry::{Layout, Point, Segment};
-use crate::spec::Design;
 use std::fmt::Write as _;
 
 /// Where the coil centre sits on the board, KiCad coordinates, nm.

@@ -8,13 +8,12 @@ pub mod gerber;
 pub mod job;
 pub mod kicad;
 pub mod manifest;
-pub mod out_dir;
 pub mod report;
 pub mod svg;
 
+use crate::design::Design;
 use crate::geometry::Layout;
 use crate::physics::Analysis;
-use crate::spec::Design;
 
 /// One output file, not yet written.
 #[derive(Debug, Clone, PartialEq)]
@@ -67,7 +66,7 @@ pub fn fab_files(
     layout: &Layout,
     files: &mut Vec<OutFile>,
 ) -> Result<(), ExportError> {
-    use crate::spec::BoardKind;
+    use crate::design::BoardKind;
     let stem = gerber::file_stem(&design.name);
     let n = layout.layers;
     let mut job_list = Vec::new();

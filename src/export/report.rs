@@ -3,8 +3,8 @@
 //! coil, force against gap). Translates the analysis; computes nothing new.
 
 use super::{ExportError, OutFile};
+use crate::design::{Design, Source};
 use crate::physics::{Analysis, ProfilePoint};
-use crate::spec::{Design, Source};
 use std::fmt::Write as _;
 
 /// Line colours sampled from the viridis colour map (perceptually uniform,
@@ -322,16 +322,16 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
     let _ = writeln!(s, "# Coil report: {}\n", design.name);
     let c = &design.coil;
     let size = match c.shape {
-        crate::spec::Shape::Rectangle { width, height } => {
+        crate::design::Shape::Rectangle { width, height } => {
             format!("rectangle {width:.3} x {height:.3} mm")
         }
-        crate::spec::Shape::Polygon { sides } => {
+        crate::design::Shape::Polygon { sides } => {
             format!(
                 "{sides}-sided polygon, {:.3} mm across corners",
                 c.outer_diameter
             )
         }
-        crate::spec::Shape::Circle => format!("circle, {:.3} mm outside", c.outer_diameter),
+        crate::design::Shape::Circle => format!("circle, {:.3} mm outside", c.outer_diameter),
     };
     let _ = writeln!(
         s,

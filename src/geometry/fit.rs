@@ -11,7 +11,7 @@
 //! Millimetres.
 
 use super::spiral::{SpiralSpec, box_extent, radial_extent};
-use crate::spec::{Corner, Shape};
+use crate::design::{Corner, Shape};
 
 /// What the design file asked for.
 #[derive(Debug, Clone, Copy, PartialEq)]

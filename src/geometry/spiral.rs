@@ -16,7 +16,7 @@
 //! Millimetres and radians.
 
 use super::{Arc, Point, Segment, Vec2, angle_between};
-use crate::spec::{Corner, Shape};
+use crate::design::{Corner, Shape};
 use std::f64::consts::{PI, TAU};
 
 /// The parameters of a canonical spiral.

@@ -23,7 +23,7 @@
 use super::layout::{Direction, Layout, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding};
 use super::spiral::{SpiralError, SpiralSpec};
 use super::{Arc, Point, Segment, Vec2};
-use crate::spec::{Design, Shape, Wiring};
+use crate::design::{Design, Shape, Wiring};
 use std::f64::consts::{PI, TAU};
 
 /// Why a layout cannot be built from a design.

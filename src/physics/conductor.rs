@@ -7,8 +7,8 @@
 //! centre at `-(sum over layers above of copper + dielectric) - t_k / 2`.
 
 use super::field::Segments;
+use crate::design::Design;
 use crate::geometry::{Layout, Point, Segment, TrackRole, Vec2, Wiring};
-use crate::spec::Design;
 
 /// Millimetres to metres: the one place where the factor 1000 lives.
 pub fn m(mm: f64) -> f64 {

@@ -5,7 +5,7 @@
 //! (repeated) bending: ratios commonly quoted from IPC-2223, common
 //! practice, no single source.
 
-use crate::spec::{BoardKind, Design};
+use crate::design::{BoardKind, Design};
 use serde::Serialize;
 
 /// Thickness and bending limits.

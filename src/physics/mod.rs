@@ -35,8 +35,8 @@ pub mod mechanics;
 pub mod resistance;
 pub mod thermal;
 
+use crate::design::{Design, Magnet, Shape, Source};
 use crate::geometry::Layout;
-use crate::spec::{Design, Magnet, Shape, Source};
 use closed_forms::MohanShape;
 use conductor::{Conductor, m, to_mm};
 use inductance::InductanceMethod;
@@ -631,8 +631,8 @@ pub fn analyse_with(
     let mech = mechanics::mechanics(design);
     if let Some(b) = design.stackup.bend {
         let need = match b.kind {
-            crate::spec::BendKind::Static => mech.bend_radius_min_mm,
-            crate::spec::BendKind::Dynamic => mech.bend_radius_dynamic_mm,
+            crate::design::BendKind::Static => mech.bend_radius_min_mm,
+            crate::design::BendKind::Dynamic => mech.bend_radius_dynamic_mm,
         };
         if b.radius < need {
             warnings.push(format!(
@@ -640,8 +640,8 @@ pub fn analyse_with(
                 b.radius,
                 need,
                 match b.kind {
-                    crate::spec::BendKind::Static => "static",
-                    crate::spec::BendKind::Dynamic => "dynamic",
+                    crate::design::BendKind::Static => "static",
+                    crate::design::BendKind::Dynamic => "dynamic",
                 },
                 mech.thickness_mm
             ));

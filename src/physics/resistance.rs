@@ -4,8 +4,8 @@
 //! and its rectangular section; via barrels as plated tubes.
 
 use super::conductor::{Conductor, m};
+use crate::design::Design;
 use crate::geometry::{Layout, Wiring};
-use crate::spec::Design;
 use serde::Serialize;
 use std::f64::consts::PI;
 

@@ -16,7 +16,7 @@
 //! is solved for that temperature by bisection.
 
 use super::resistance::at_temperature;
-use crate::spec::{BoardKind, Source};
+use crate::design::{BoardKind, Source};
 use serde::Serialize;
 
 /// Stefan-Boltzmann constant, W/(m^2 K^4) (CODATA).

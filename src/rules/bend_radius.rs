@@ -18,8 +18,8 @@
 
 use super::context::Context;
 use super::{RuleInfo, Severity, Violation, fails};
+use crate::design::{BendKind, BoardKind, Stackup};
 use crate::geometry::Point;
-use crate::spec::{BendKind, BoardKind, Stackup};
 
 /// Stable id.
 pub const ID: &str = "bend-radius";
@@ -88,7 +88,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::spec::Design;
+    use crate::design::Design;
 
     #[test]
     fn thickness_and_ratios() {

@@ -226,7 +226,7 @@ mod tests {
             let arcs: Vec<(f64, f64)> =
                 arcs.iter().map(|&(r, s, ccw)| (r, if ccw { s } else { -s })).collect();
             let segs = chain(&arcs);
-            let (d, mut l) = crate::spec::parse_and_build(
+            let (d, mut l) = crate::design::parse_and_build(
                 "name = \"t\"\n[coil]\nouter_diameter = \"10mm\"\nturns = 2\n\
                  trace_width = \"0.15mm\"\nclearance = \"0.1mm\"\nlayers = 1\n",
             )

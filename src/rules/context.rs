@@ -33,8 +33,8 @@
 use super::Item;
 use super::distance::sub_segment;
 use super::profile::Profile;
+use crate::design::Design;
 use crate::geometry::{Layout, Node, Point, Segment, angle_between};
-use crate::spec::Design;
 use std::f64::consts::{FRAC_PI_2, PI, TAU};
 
 /// How candidate pairs are found.

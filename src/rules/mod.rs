@@ -55,8 +55,8 @@ pub use context::{ADJACENT_PITCHES, Broadphase, TOLERANCE};
 pub(crate) use profile::key_list;
 pub use profile::{Profile, ProfileError};
 
+use crate::design::Design;
 use crate::geometry::{Layout, Point};
-use crate::spec::Design;
 use context::Context;
 use serde::Serialize;
 use std::fmt;

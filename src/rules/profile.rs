@@ -9,7 +9,7 @@
 //! Millimetres. In a profile file a length is a bare number (mm) or a
 //! string with a unit: "0.1mm", "100um", "4mil", "0.004in".
 
-use crate::spec::RuleOverrides;
+use crate::design::RuleOverrides;
 use serde::Serialize;
 
 /// The rule values a layout is checked against. Lengths in mm.
@@ -189,9 +189,9 @@ impl Profile {
 }
 
 /// A length value in mm: a bare number or a string with a unit, read as a
-/// design file reads lengths ([`crate::spec::units::Length`]).
+/// design file reads lengths ([`crate::design::units::Length`]).
 fn length(key: &str, v: &toml::Value) -> Result<f64, ProfileError> {
-    use crate::spec::units::{Length, Quantity};
+    use crate::design::units::{Length, Quantity};
     let bad = |reason: String| ProfileError::BadValue {
         key: key.to_string(),
         reason,

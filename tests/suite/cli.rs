@@ -262,7 +262,7 @@ fn location(path: &Path, text: &str, at: &str) -> String {
         .find(&marker)
         .unwrap_or_else(|| panic!("`{at}` not in text"))
         + bar;
-    let (line, col) = coilwright::spec::line_col(text, offset);
+    let (line, col) = coilwright::design::line_col(text, offset);
     format!("{}:{line}:{col}", path.display())
 }
 
@@ -386,7 +386,7 @@ fn init_writes_a_valid_design_and_refuses_to_overwrite() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let text = std::fs::read_to_string(dir.path().join("my-coil.toml")).unwrap();
     assert!(text.contains("name = \"my-coil\""));
-    coilwright::spec::parse(&text).unwrap();
+    coilwright::design::parse(&text).unwrap();
 
     std::fs::write(dir.path().join("my-coil.toml"), "# mine\n").unwrap();
     let o = run(dir.path(), &["init", "my-coil.toml"]);
@@ -416,7 +416,7 @@ fn init_list_and_unknown_template() {
     let dir = tempfile::tempdir().unwrap();
     let o = run(dir.path(), &["init", "--list"]);
     assert_eq!(o.status.code(), Some(0));
-    for t in coilwright::cli::templates() {
+    for t in coilwright::design::templates() {
         assert!(stdout(&o).contains(t.name));
         assert!(stdout(&o).contains(t.description));
     }

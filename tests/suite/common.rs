@@ -2,8 +2,8 @@
 //! ones it needs with `mod common;`).
 #![allow(dead_code)]
 
+use coilwright::design::Design;
 use coilwright::rules::Profile;
-use coilwright::spec::Design;
 use std::process::Command;
 
 /// Runs the built binary: (exit code, stdout, stderr).

@@ -1,10 +1,10 @@
 //! Every starter template and every example design parses and builds.
 
-use coilwright::spec::{Shape, parse};
+use coilwright::design::{Shape, parse};
 
 #[test]
 fn every_template_parses_and_builds() {
-    let t = coilwright::cli::templates();
+    let t = coilwright::design::templates();
     assert!(t.len() >= 3);
     for t in t {
         let d = parse(t.text).unwrap_or_else(|e| panic!("template {}: {e}", t.name));
@@ -39,6 +39,6 @@ fn readme_example_is_a_four_layer_flex_circle_with_a_magnet() {
     let d = parse(text).unwrap();
     assert_eq!(d.coil.layers, 4);
     assert_eq!(d.coil.shape, Shape::Circle);
-    assert_eq!(d.stackup.kind, coilwright::spec::BoardKind::Flex);
+    assert_eq!(d.stackup.kind, coilwright::design::BoardKind::Flex);
     assert!(d.magnet.is_some());
 }

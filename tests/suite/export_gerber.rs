@@ -3,9 +3,9 @@
 //! flashes and extents compared with the layout; drill hits and manifest
 //! checked; golden snapshots (insta) of a small design's files.
 
+use coilwright::design::{BoardKind, Corner, Design, Shape, Wiring};
 use coilwright::export::{self, OutFile};
 use coilwright::geometry::{self, Layout, Segment, round::to_nm};
-use coilwright::spec::{BoardKind, Corner, Design, Shape, Wiring};
 use gerber_parser::gerber_types::{
     Command, CoordinateNumber, DCode, ExtendedCode, FunctionCode, GCode, InterpolationMode,
     Operation,

@@ -1,10 +1,10 @@
 //! Property tests of the geometry over random valid designs.
 
+use coilwright::design::{Corner, Design, Shape, Wiring};
 use coilwright::geometry::{
     self, FitError, FitInput, Layout, Node, Segment, SpiralSpec, TrackRole, TurnsRequest,
     distance_point_segment, round::to_nm,
 };
-use coilwright::spec::{Corner, Design, Shape, Wiring};
 use proptest::prelude::*;
 use std::f64::consts::{PI, TAU};
 

@@ -1,5 +1,5 @@
+use coilwright::design::{Corner, Design, Shape, Wiring};
 use coilwright::geometry::{self, Node};
-use coilwright::spec::{Corner, Design, Shape, Wiring};
 
 fn check(d: &Design) {
     let l = geometry::build(d).unwrap_or_else(|e| panic!("{e}"));

@@ -15,9 +15,9 @@
 //! Needs `tests/interop/setup.sh` to have run (Debian packages kicad, gerbv
 //! and the venv .venv-interop); without them this test fails and says so.
 
+use coilwright::design::{BoardKind, Corner, Design, Shape, Wiring};
 use coilwright::export;
 use coilwright::geometry;
-use coilwright::spec::{BoardKind, Corner, Design, Shape, Wiring};
 use std::path::{Path, PathBuf};
 use std::process::Command;
 use std::sync::Mutex;

@@ -1,12 +1,12 @@
 //! The analysis of real layouts against published formulas and hand
 //! calculations (sources named beside each check).
 
+use coilwright::design::{Design, Shape, Source};
 use coilwright::geometry::build;
 use coilwright::physics::closed_forms::{self, MohanShape};
 use coilwright::physics::conductor::Conductor;
 use coilwright::physics::inductance::{self, maxwell_mutual};
 use coilwright::physics::{MU0, analyse, resistance, thermal};
-use coilwright::spec::{Design, Shape, Source};
 
 /// One-layer circular coil: 20 mm outside, 10 turns, 0.25/0.25 mm (the
 /// REFERENCES.md check coil).
@@ -262,7 +262,7 @@ fn parallel_pairs_behave_like_one_layer_of_double_copper() {
     d.stackup.copper = vec![0.035; 2];
     d.stackup.dielectric = vec![0.05];
     let series = analyse(&d, &build(&d).unwrap()).unwrap();
-    d.coil.wiring = coilwright::spec::Wiring::ParallelPairs;
+    d.coil.wiring = coilwright::design::Wiring::ParallelPairs;
     let layout = build(&d).unwrap();
     let par = analyse(&d, &layout).unwrap();
     let r1 = par.layers[0].resistance_ohm_20c;
@@ -319,9 +319,9 @@ fn every_shape_and_wiring_gives_finite_results() {
                 d.coil.shape = shape;
                 d.coil.inner_diameter = 6.0;
                 d.coil.turns = 5.5;
-                d.coil.corner = coilwright::spec::Corner::Round { radius: 0.4 };
+                d.coil.corner = coilwright::design::Corner::Round { radius: 0.4 };
                 if parallel {
-                    d.coil.wiring = coilwright::spec::Wiring::ParallelPairs;
+                    d.coil.wiring = coilwright::design::Wiring::ParallelPairs;
                 }
                 d.stackup.copper = vec![0.035; layers as usize];
                 d.stackup.dielectric = vec![0.05; layers as usize - 1];
@@ -360,7 +360,7 @@ fn balanced_filaments_meet_their_documented_accuracy() {
     for shape in [Shape::Circle, Shape::Polygon { sides: 6 }] {
         let mut d = Design::sample();
         d.coil.shape = shape;
-        d.coil.corner = coilwright::spec::Corner::Round { radius: 0.5 };
+        d.coil.corner = coilwright::design::Corner::Round { radius: 0.5 };
         d.coil.layers = 4;
         d.coil.turns = 20.0;
         d.coil.trace_width = 0.15;
@@ -413,7 +413,7 @@ fn sweep_metrics_match_the_full_report() {
     let mut designs = Vec::new();
     for f in ["fin-actuator", "wearable-buzzer", "octagon-charger"] {
         let text = std::fs::read_to_string(format!("{root}/examples/{f}.toml")).unwrap();
-        designs.push((f.to_string(), coilwright::spec::parse(&text).unwrap()));
+        designs.push((f.to_string(), coilwright::design::parse(&text).unwrap()));
     }
     let mut hex = Design::sample();
     hex.coil.shape = Shape::Polygon { sides: 6 };

@@ -2,7 +2,7 @@
 //! and the Rust test that compares with the fixtures (tests/suite/physics_magpylib.rs).
 //! Invented designs.
 
-use coilwright::spec::{Design, Magnet, Shape};
+use coilwright::design::{Design, Magnet, Shape};
 
 /// (name, design) for every reference case.
 pub fn cases() -> Vec<(&'static str, Design)> {
@@ -31,7 +31,7 @@ pub fn cases() -> Vec<(&'static str, Design)> {
         width: 24.0,
         height: 16.0,
     };
-    d.coil.corner = coilwright::spec::Corner::Round { radius: 0.5 };
+    d.coil.corner = coilwright::design::Corner::Round { radius: 0.5 };
     d.coil.layers = 1;
     d.coil.turns = 6.5;
     d.coil.inner_diameter = 5.0;

@@ -4,9 +4,9 @@
 //! with one item moved or edited by hand where the generator never makes
 //! the fault.
 
+use coilwright::design::{Bend, BendKind, Design};
 use coilwright::geometry::{self, Arc, Layout, Point, Segment, Track, TrackRole};
 use coilwright::rules::{self, Profile, Violation};
-use coilwright::spec::{Bend, BendKind, Design};
 
 fn standard() -> Profile {
     Profile::builtin("standard").unwrap()
@@ -324,7 +324,7 @@ fn bend_radius() {
     assert!(!rules::has_errors(&v));
     assert_eq!(rules::warnings(&v).count(), 1);
     // Rigid boards are not bent.
-    d.stackup.kind = coilwright::spec::BoardKind::Rigid;
+    d.stackup.kind = coilwright::design::BoardKind::Rigid;
     assert!(rules::is_clean(&rules::check(&d, &build(&d), &standard())));
 }
 

@@ -5,9 +5,9 @@
 //! values.
 
 use super::common::own_profile;
+use coilwright::design::{Corner, Design, Shape, Wiring};
 use coilwright::geometry;
 use coilwright::rules::{self, Broadphase, Violation};
-use coilwright::spec::{Corner, Design, Shape, Wiring};
 use proptest::prelude::*;
 
 /// The knobs of a random design.

@@ -1,8 +1,8 @@
 //! Golden SVG preview of one small design (a 2-layer, 3.5-turn circle).
 //! Review changes with `cargo insta review` (or delete the snapshot and rerun).
+use coilwright::design::Design;
 use coilwright::export::svg::{View, preview};
 use coilwright::geometry;
-use coilwright::spec::Design;
 
 fn small() -> Design {
     let mut d = Design::sample();

@@ -9,7 +9,7 @@ use std::ops::Range;
 /// One problem in a design file.
 #[derive(Debug, Clone, PartialEq, Eq, thiserror::Error)]
 #[error("{key}: {message}")]
-pub struct SpecError {
+pub struct DesignError {
     /// Dotted key path, e.g. `coil.trace_width`; `syntax` for TOML syntax
     /// errors.
     pub key: String,
@@ -21,7 +21,7 @@ pub struct SpecError {
     pub help: Option<String>,
 }
 
-impl SpecError {
+impl DesignError {
     /// Line and column (1-based; column counted in characters) of the start
     /// of the span in `text`, if there is a span.
     pub fn line_col(&self, text: &str) -> Option<(usize, usize)> {
@@ -45,14 +45,14 @@ pub fn line_col(text: &str, offset: usize) -> (usize, usize) {
 
 /// One or more problems in a design file.
 #[derive(Debug, Clone, PartialEq, Eq)]
-pub struct SpecErrors {
+pub struct DesignErrors {
     /// The problems, in the order they were found (never empty).
-    pub errors: Vec<SpecError>,
+    pub errors: Vec<DesignError>,
 }
 
-impl SpecErrors {
+impl DesignErrors {
     /// The first problem.
-    pub fn first(&self) -> &SpecError {
+    pub fn first(&self) -> &DesignError {
         &self.errors[0]
     }
 
@@ -62,13 +62,13 @@ impl SpecErrors {
     }
 }
 
-impl From<SpecError> for SpecErrors {
-    fn from(e: SpecError) -> SpecErrors {
-        SpecErrors { errors: vec![e] }
+impl From<DesignError> for DesignErrors {
+    fn from(e: DesignError) -> DesignErrors {
+        DesignErrors { errors: vec![e] }
     }
 }
 
-impl fmt::Display for SpecErrors {
+impl fmt::Display for DesignErrors {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         for (i, e) in self.errors.iter().enumerate() {
             if i > 0 {
@@ -80,7 +80,7 @@ impl fmt::Display for SpecErrors {
     }
 }
 
-impl std::error::Error for SpecErrors {}
+impl std::error::Error for DesignErrors {}
 
 #[cfg(test)]
 mod tests {

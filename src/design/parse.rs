@@ -7,7 +7,7 @@
 //! and always builds (`geometry::build` succeeds).
 
 use super::design::*;
-use super::error::{SpecError, SpecErrors};
+use super::error::{DesignError, DesignErrors};
 use super::units::{
     CopperWeight, Current, Frequency, Length, Quantity, Remanence, Temperature, Voltage,
 };
@@ -154,7 +154,7 @@ enum Scalar<'v> {
 
 /// Collects problems while reading.
 struct Ctx {
-    errors: Vec<SpecError>,
+    errors: Vec<DesignError>,
 }
 
 impl Ctx {
@@ -165,7 +165,7 @@ impl Ctx {
         message: impl Into<String>,
         help: Option<String>,
     ) {
-        self.errors.push(SpecError {
+        self.errors.push(DesignError {
             key: key.into(),
             span,
             message: message.into(),
@@ -549,14 +549,14 @@ impl Ctx {
 /// Returns every problem found (at least one) with the dotted key and the
 /// byte span it is about. Defaults are documented in the README's key
 /// reference.
-pub fn parse(text: &str) -> Result<Design, SpecErrors> {
+pub fn parse(text: &str) -> Result<Design, DesignErrors> {
     parse_and_build(text).map(|(design, _)| design)
 }
 
 /// Like [`parse`], and also returns the copper that validation built (so
 /// callers that need the layout do not build it a second time).
-pub fn parse_and_build(text: &str) -> Result<(Design, geometry::Layout), SpecErrors> {
-    let doc = DeTable::parse(text).map_err(|e| SpecError {
+pub fn parse_and_build(text: &str) -> Result<(Design, geometry::Layout), DesignErrors> {
+    let doc = DeTable::parse(text).map_err(|e| DesignError {
         key: "syntax".into(),
         span: e.span(),
         message: format!("TOML syntax error: {}", e.message().trim()),
@@ -619,10 +619,10 @@ pub fn parse_and_build(text: &str) -> Result<(Design, geometry::Layout), SpecErr
     let drive = read_drive(&mut cx, &drive_t);
 
     if !cx.errors.is_empty() {
-        return Err(SpecErrors { errors: cx.errors });
+        return Err(DesignErrors { errors: cx.errors });
     }
     let Some(c) = coil_in else {
-        return Err(SpecError {
+        return Err(DesignError {
             key: "coil".into(),
             span: None,
             message: "the design needs a [coil] table".into(),
@@ -704,7 +704,7 @@ pub fn parse_and_build(text: &str) -> Result<(Design, geometry::Layout), SpecErr
                 "coil.inner_diameter" => coil_t.span_of("inner_diameter").or(coil_t.span.clone()),
                 _ => coil_t.span.clone(),
             };
-            return Err(SpecError {
+            return Err(DesignError {
                 key: key.into(),
                 span,
                 message: format!("the coil cannot be built: {e}"),
@@ -968,7 +968,7 @@ fn read_coil(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
     })
 }
 
-fn fit_error(e: FitError, t: &Table, c: &CoilInput) -> SpecErrors {
+fn fit_error(e: FitError, t: &Table, c: &CoilInput) -> DesignErrors {
     let rect = matches!(c.shape, Shape::Rectangle { .. });
     let size_key = if rect { "width" } else { "outer_diameter" };
     let (key, help) = match &e {
@@ -1021,7 +1021,7 @@ fn fit_error(e: FitError, t: &Table, c: &CoilInput) -> SpecErrors {
         ),
         _ => e.to_string(),
     };
-    SpecError {
+    DesignError {
         key: full,
         span,
         message,
@@ -1291,7 +1291,7 @@ clearance = "0.1mm"
 layers = 4
 "#;
 
-    fn err(text: &str) -> SpecErrors {
+    fn err(text: &str) -> DesignErrors {
         parse(text).expect_err("should fail")
     }
 

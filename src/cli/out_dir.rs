@@ -8,7 +8,7 @@
 //! nothing is left behind. This is the only file-system code outside the
 //! command line.
 
-use super::OutFile;
+use coilwright::export::OutFile;
 use std::fs;
 use std::io::Write;
 use std::path::{Component, Path, PathBuf};

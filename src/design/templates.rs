@@ -1,0 +1,41 @@
+//! The starter designs shipped with coilwright (`coilwright init --template
+//! NAME`): commented design files, each a sound design of its own scenario.
+
+/// A starter design shipped with the library and the binary.
+#[derive(Debug, Clone, Copy)]
+pub struct Template {
+    /// Name used with `--template`.
+    pub name: &'static str,
+    /// One-line description for `--list`.
+    pub description: &'static str,
+    /// The commented design file.
+    pub text: &'static str,
+}
+
+const TEMPLATES: &[Template] = &[
+    Template {
+        name: "fin-actuator",
+        description: "flexible 2-layer circular coil that flaps the tail fin of a toy fish with a 5 mm magnet",
+        text: include_str!("../../templates/designs/fin-actuator.toml"),
+    },
+    Template {
+        name: "motor-stator",
+        description: "rigid 4-layer hexagonal coil, one stator winding of a small flat motor",
+        text: include_str!("../../templates/designs/motor-stator.toml"),
+    },
+    Template {
+        name: "pickup-coil",
+        description: "single-layer circular pickup coil that counts magnet passes for a tachometer",
+        text: include_str!("../../templates/designs/pickup-coil.toml"),
+    },
+    Template {
+        name: "haptic-strip",
+        description: "flexible 2-layer rectangular coil under a wristband that taps the skin with a magnet",
+        text: include_str!("../../templates/designs/haptic-strip.toml"),
+    },
+];
+
+/// The starter designs, in `--list` order.
+pub fn templates() -> &'static [Template] {
+    TEMPLATES
+}
