@@ -4,7 +4,7 @@
 //! segments and the turns; about a hundred times the copper length).
 
 use coilwright::design::Design;
-use coilwright::geometry::{self, Arc, Layout, Segment};
+use coilwright::geometry::{self, Arc, Board, Segment};
 use coilwright::rules::{self, Profile};
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
@@ -33,7 +33,7 @@ fn coil(layers: u8, turns: f64) -> Design {
 }
 
 /// The layout with every track cut into `n` equal tracks.
-fn split(l: &Layout, n: usize) -> Layout {
+fn split(l: &Board, n: usize) -> Board {
     let mut out = l.clone();
     out.tracks.clear();
     for w in out.windings.iter_mut() {

@@ -2,7 +2,7 @@
 //!
 //! Data flows one way through pure stages: [`design`] (design file to a
 //! validated [`design::Design`]), [`geometry`] (copper on every layer as a
-//! [`geometry::Layout`]), [`rules`] (fab rule check on the layout),
+//! [`geometry::Board`]), [`rules`] (fab rule check on the layout),
 //! [`physics`] (resistance, inductance, field, force, heating, bending) and
 //! [`export`] (Gerber, Excellon, job file, KiCad, SVG, report). Only the
 //! command-line front end (the `coilwright` binary, not part of the

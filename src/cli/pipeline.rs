@@ -1,10 +1,10 @@
-//! The stages in one place: design file -> [`Design`] -> [`Layout`] ->
+//! The stages in one place: design file -> [`Design`] -> [`Board`] ->
 //! violations -> analysis. Every command goes through these functions.
 
 use super::Failure;
 use anyhow::Context;
 use coilwright::design::{self, Design};
-use coilwright::geometry::Layout;
+use coilwright::geometry::Board;
 use coilwright::physics::{self, Analysis};
 use coilwright::rules::{self, Severity, Violation};
 use std::path::{Path, PathBuf};
@@ -26,7 +26,7 @@ pub struct Checked {
     /// The design file.
     pub loaded: Loaded,
     /// Copper on every layer.
-    pub layout: Layout,
+    pub layout: Board,
     /// Rule violations (errors and warnings).
     pub violations: Vec<Violation>,
 }
@@ -47,7 +47,7 @@ pub fn load(path: &Path) -> Result<Loaded, Failure> {
 
 /// Reads and validates a design file, keeping the copper that validation
 /// built.
-fn load_and_build(path: &Path) -> Result<(Loaded, Layout), Failure> {
+fn load_and_build(path: &Path) -> Result<(Loaded, Board), Failure> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("cannot read design file {}", path.display()))?;
     match design::parse_and_build(&text) {
@@ -70,7 +70,7 @@ fn load_and_build(path: &Path) -> Result<(Loaded, Layout), Failure> {
 /// The one place the rule check is called: resolves the design's rule
 /// profile (a built-in name or a path relative to the design file) and
 /// checks the layout.
-pub fn violations(loaded: &Loaded, layout: &Layout) -> Result<Vec<Violation>, Failure> {
+pub fn violations(loaded: &Loaded, layout: &Board) -> Result<Vec<Violation>, Failure> {
     let profile = profile(loaded)?;
     Ok(rules::check(&loaded.design, layout, &profile))
 }

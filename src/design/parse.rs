@@ -6,7 +6,7 @@
 //! values. A [`Design`] returned by [`parse`] has all three sizes resolved
 //! and always builds (`geometry::build` succeeds).
 
-use super::design::*;
+use super::model::*;
 use super::error::{DesignError, DesignErrors};
 use super::units::{
     CopperWeight, Current, Frequency, Length, Quantity, Remanence, Temperature, Voltage,
@@ -555,7 +555,7 @@ pub fn parse(text: &str) -> Result<Design, DesignErrors> {
 
 /// Like [`parse`], and also returns the copper that validation built (so
 /// callers that need the layout do not build it a second time).
-pub fn parse_and_build(text: &str) -> Result<(Design, geometry::Layout), DesignErrors> {
+pub fn parse_and_build(text: &str) -> Result<(Design, geometry::Board), DesignErrors> {
     let doc = DeTable::parse(text).map_err(|e| DesignError {
         key: "syntax".into(),
         span: e.span(),
@@ -671,7 +671,7 @@ pub fn parse_and_build(text: &str) -> Result<(Design, geometry::Layout), DesignE
         stackup,
         via,
         terminal,
-        board: Board { margin },
+        board: BoardSettings { margin },
         rules,
         magnet,
         drive,

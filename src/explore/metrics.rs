@@ -10,7 +10,7 @@
 //! `board_height_mm` (size of the board outline), `rule_errors`, `rule_warnings`.
 
 use crate::design::{Design, Wiring};
-use crate::geometry::Layout;
+use crate::geometry::Board;
 use crate::rules::{Severity, Violation};
 use std::collections::BTreeMap;
 
@@ -42,7 +42,7 @@ fn flatten(prefix: &str, v: &serde_json::Value, out: &mut BTreeMap<String, f64>)
 /// All metrics of one evaluated design.
 pub fn metrics(
     design: &Design,
-    layout: &Layout,
+    layout: &Board,
     violations: &[Violation],
     analysis: &serde_json::Value,
 ) -> BTreeMap<String, f64> {

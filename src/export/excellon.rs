@@ -8,7 +8,7 @@
 //! specification recommends for drill files.
 
 use crate::geometry::round::{format_mm, point_nm, to_nm};
-use crate::geometry::{Layout, Point};
+use crate::geometry::{Board, Point};
 use std::fmt::Write as _;
 
 /// Path of the plated-holes drill file.
@@ -43,7 +43,7 @@ pub fn plated_function(layers: u8) -> String {
 /// The plated through holes: vias (`ViaDrill`) and terminal pads
 /// (`ComponentDrill`), one tool per function and finished diameter, tools
 /// numbered in ascending diameter.
-pub fn plated(layout: &Layout) -> Vec<u8> {
+pub fn plated(layout: &Board) -> Vec<u8> {
     let mut hits: Vec<Hit> = layout
         .vias
         .iter()
@@ -119,6 +119,6 @@ fn write_file(name: &str, file_function: &str, tool_prefix: &str, hits: &[Hit]) 
 
 /// The non-plated holes, or `None` when the layout has none (a coil layout
 /// has only plated holes today).
-pub fn non_plated(_layout: &Layout) -> Option<Vec<u8>> {
+pub fn non_plated(_layout: &Board) -> Option<Vec<u8>> {
     None
 }

@@ -18,7 +18,7 @@
 use super::ExportError;
 use crate::design::{BoardKind, Design};
 use crate::geometry::round::{point_nm, snap_mm, to_nm};
-use crate::geometry::{Layout, Point, Segment};
+use crate::geometry::{Board, Point, Segment};
 use gerber_types::{
     Aperture, ApertureAttribute, ApertureDefinition, ApertureFunction, Circle, Command,
     CommentContent, CoordinateFormat, CoordinateMode, CoordinateNumber, CoordinateOffset,
@@ -347,7 +347,7 @@ impl Writer {
 /// via that joins this layer and a `ComponentPad` flash for each terminal
 /// (terminals are plated through holes with a land on every layer). Coil
 /// copper and terminal "1" carry net [`NET_1`], terminal "2" net [`NET_2`].
-pub fn copper(design: &Design, layout: &Layout, layer: u8) -> Result<Vec<u8>, ExportError> {
+pub fn copper(design: &Design, layout: &Board, layer: u8) -> Result<Vec<u8>, ExportError> {
     let pos = if layer == 1 {
         ExtendedPosition::Top
     } else if layer == layout.layers {
@@ -392,7 +392,7 @@ pub fn copper(design: &Design, layout: &Layout, layer: u8) -> Result<Vec<u8>, Ex
 /// Solder mask (rigid) or coverlay (flex) openings of one face: a round
 /// opening the size of each terminal land (the fab applies its own mask
 /// expansion), nothing else, so the coil stays covered.
-pub fn mask(design: &Design, layout: &Layout, side: Side) -> Result<Vec<u8>, ExportError> {
+pub fn mask(design: &Design, layout: &Board, side: Side) -> Result<Vec<u8>, ExportError> {
     let pos = match side {
         Side::Top => Position::Top,
         Side::Bottom => Position::Bottom,
@@ -417,7 +417,7 @@ pub fn mask(design: &Design, layout: &Layout, side: Side) -> Result<Vec<u8>, Exp
 }
 
 /// The board profile: the closed outline drawn with a thin `Profile` line.
-pub fn profile(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
+pub fn profile(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let mut w = Writer::new(
         FileFunction::Profile(Some(Profile::NonPlated)),
         &file_stem(&design.name),
@@ -437,7 +437,7 @@ pub fn profile(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError>
 ///
 /// The ring and bar are translations of the pad data (centre and diameter),
 /// not derived geometry.
-pub fn legend(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
+pub fn legend(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let mut w = Writer::new(
         FileFunction::Legend {
             pos: Position::Top,

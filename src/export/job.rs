@@ -9,7 +9,7 @@
 
 use super::ExportError;
 use crate::design::{BoardKind, Design};
-use crate::geometry::Layout;
+use crate::geometry::Board;
 use crate::geometry::round::{nm_to_mm, to_nm};
 use serde_json::{Value, json};
 
@@ -34,15 +34,8 @@ fn mm(x: f64) -> f64 {
     nm_to_mm(to_nm(x))
 }
 
-/// Finished board thickness: all copper, all dielectric and the cover
-/// (coverlay or solder mask) on both faces, mm.
-pub fn finished_thickness(design: &Design) -> f64 {
-    let s = &design.stackup;
-    s.copper.iter().sum::<f64>() + s.dielectric.iter().sum::<f64>() + 2.0 * s.cover
-}
-
 /// The job file for the given fab files.
-pub fn job(design: &Design, layout: &Layout, files: &[JobEntry]) -> Result<Vec<u8>, ExportError> {
+pub fn job(design: &Design, layout: &Board, files: &[JobEntry]) -> Result<Vec<u8>, ExportError> {
     let s = &design.stackup;
     let (lo, hi) = layout.outline_bounds();
     let flex = s.kind == BoardKind::Flex;
@@ -101,7 +94,7 @@ pub fn job(design: &Design, layout: &Layout, files: &[JobEntry]) -> Result<Vec<u
             "ProjectId": { "Name": design.name, "Revision": "1" },
             "Size": { "X": mm(hi.x - lo.x), "Y": mm(hi.y - lo.y) },
             "LayerNumber": layout.layers,
-            "BoardThickness": mm(finished_thickness(design)),
+            "BoardThickness": mm(design.stackup.finished_thickness()),
             "BoardKind": if flex { "Flex" } else { "Rigid" },
         },
         "DesignRules": [{

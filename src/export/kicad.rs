@@ -32,7 +32,7 @@ use super::ExportError;
 use super::gerber::{NET_1, NET_2, REFDES};
 use crate::design::Design;
 use crate::geometry::round::{format_mm, point_nm, to_nm};
-use crate::geometry::{Layout, Point, Segment};
+use crate::geometry::{Board, Point, Segment};
 use std::fmt::Write as _;
 
 /// Where the coil centre sits on the board, KiCad coordinates, nm.
@@ -175,7 +175,7 @@ fn all_copper_layers(layers: u8) -> String {
 }
 
 /// The rule area (keep-out of copper pour) polygon: the outline flattened.
-fn keepout_zone(layout: &Layout, f: Frame, indent: &str) -> String {
+fn keepout_zone(layout: &Board, f: Frame, indent: &str) -> String {
     let mut pts: Vec<Point> = Vec::new();
     for s in &layout.outline.segments {
         let flat = s.flatten(KEEPOUT_TOLERANCE);
@@ -209,7 +209,7 @@ fn keepout_zone(layout: &Layout, f: Frame, indent: &str) -> String {
 }
 
 /// The footprint file (`.kicad_mod`) of the coil.
-pub fn footprint(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
+pub fn footprint(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let stem = super::gerber::file_stem(&design.name);
     let f = Frame::LOCAL;
     let (lo, hi) = layout.outline_bounds();
@@ -312,7 +312,7 @@ pub fn footprint(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportErro
 /// [`NET_1`] with lands only on connected layers, the terminals in a small
 /// net-tie footprint (pad "1" on [`NET_1`], pad "2" on [`NET_2`]) and the
 /// board outline on Edge.Cuts.
-pub fn board(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
+pub fn board(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let stem = super::gerber::file_stem(&design.name);
     let n = layout.layers;
     let kl = board_copper_layers(n);
@@ -325,7 +325,7 @@ pub fn board(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
         format_mm(BOARD_ORIGIN_NM.0),
         format_mm(BOARD_ORIGIN_NM.1)
     );
-    let thickness = super::job::finished_thickness(design);
+    let thickness = design.stackup.finished_thickness();
     let mut o = String::new();
     let _ = writeln!(o, "(kicad_pcb (version 20211014) (generator coilwright)");
     let _ = writeln!(o, "  (general (thickness {}))", mm(thickness));
@@ -445,7 +445,7 @@ pub fn board(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
 /// board are the coil's own sizes (track width, clearance, via and hole
 /// sizes), so KiCad's rule check measures the copper against them; the fab's
 /// limits are checked by coilwright's own rule check.
-pub fn project(design: &Design, layout: &Layout) -> Result<Vec<u8>, ExportError> {
+pub fn project(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let stem = super::gerber::file_stem(&design.name);
     let r = |x: f64| crate::geometry::round::nm_to_mm(to_nm(x));
     let min_drill = layout

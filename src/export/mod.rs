@@ -1,4 +1,4 @@
-//! Exporters: translate a [`Layout`] (and the analysis) into files. They
+//! Exporters: translate a [`Board`] (and the analysis) into files. They
 //! never compute geometry; coordinates go through
 //! [`crate::geometry::round`].
 
@@ -12,7 +12,7 @@ pub mod report;
 pub mod svg;
 
 use crate::design::Design;
-use crate::geometry::Layout;
+use crate::geometry::Board;
 use crate::physics::Analysis;
 
 /// One output file, not yet written.
@@ -42,7 +42,7 @@ pub enum ExportError {
 /// [`kicad`].
 pub fn bundle(
     design: &Design,
-    layout: &Layout,
+    layout: &Board,
     analysis: &Analysis,
 ) -> Result<Vec<OutFile>, ExportError> {
     let mut files = Vec::new();
@@ -63,7 +63,7 @@ pub fn bundle(
 /// the job file that lists them.
 pub fn fab_files(
     design: &Design,
-    layout: &Layout,
+    layout: &Board,
     files: &mut Vec<OutFile>,
 ) -> Result<(), ExportError> {
     use crate::design::BoardKind;
@@ -143,7 +143,7 @@ pub fn fab_files(
 /// Appends the KiCad footprint, board and project files.
 pub fn kicad_files(
     design: &Design,
-    layout: &Layout,
+    layout: &Board,
     files: &mut Vec<OutFile>,
 ) -> Result<(), ExportError> {
     let stem = gerber::file_stem(&design.name);
@@ -167,7 +167,7 @@ pub fn kicad_files(
 
 /// The SVG previews: `preview/stack.svg` and `preview/layer-N.svg`, with
 /// `violations` marked.
-pub fn previews(layout: &Layout, violations: &[crate::rules::Violation]) -> Vec<OutFile> {
+pub fn previews(layout: &Board, violations: &[crate::rules::Violation]) -> Vec<OutFile> {
     let mut out = vec![OutFile {
         path: "preview/stack.svg".into(),
         role: "preview of all copper layers stacked".into(),

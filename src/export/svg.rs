@@ -7,7 +7,7 @@
 //! viridis colour map (perceptually uniform), one per layer.
 
 use crate::geometry::round::{format_mm, to_nm};
-use crate::geometry::{Direction, Layout, Point, Segment, TrackRole};
+use crate::geometry::{Board, Direction, Point, Segment, TrackRole};
 use crate::rules::{Severity, Violation};
 use std::fmt::Write;
 
@@ -93,7 +93,7 @@ pub enum View {
 }
 
 /// Draws a preview of `layout` as an SVG document.
-pub fn preview(layout: &Layout, view: View, violations: &[Violation]) -> String {
+pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     let (lo, hi) = layout.outline_bounds();
     let legend_w = 0.8 * (hi.x - lo.x).max(hi.y - lo.y).max(12.0);
     let pad = 0.08 * (hi.x - lo.x).max(hi.y - lo.y).max(2.0);
@@ -377,7 +377,7 @@ fn nice_length(x: f64) -> f64 {
 /// `n` positions and current directions spread along the winding part of
 /// a layer's copper (by length).
 fn arrow_points(
-    layout: &Layout,
+    layout: &Board,
     w: &crate::geometry::Winding,
     n: usize,
 ) -> Vec<(Point, crate::geometry::Vec2)> {

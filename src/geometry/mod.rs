@@ -1,17 +1,15 @@
 //! Copper geometry: primitives, the spiral of one layer, the stitching of
-//! layers with vias, and the resulting [`Layout`].
+//! layers with vias, and the resulting [`Board`].
 
+mod board;
 pub(crate) mod fit;
-mod layout;
 mod primitives;
 pub mod round;
 mod spiral;
 mod stitching;
 
+pub use board::{Board, Direction, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding};
 pub use fit::{Fit, FitError, FitInput, TurnsRequest};
-pub use layout::{
-    Direction, Layout, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding, Wiring,
-};
 pub use primitives::{
     Arc, Line, Point, Segment, Vec2, angle_between, arc_steps, closest_point, distance_point_line,
     distance_point_segment,

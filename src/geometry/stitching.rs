@@ -20,7 +20,7 @@
 //! # Units
 //! Millimetres and radians.
 
-use super::layout::{Direction, Layout, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding};
+use super::board::{Board, Direction, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding};
 use super::spiral::{SpiralError, SpiralSpec};
 use super::{Arc, Point, Segment, Vec2};
 use crate::design::{Design, Shape, Wiring};
@@ -281,7 +281,7 @@ fn reversed(path: &[Segment]) -> Vec<Segment> {
 }
 
 /// Builds the copper of every layer from a validated design.
-pub fn build(design: &Design) -> Result<Layout, GeometryError> {
+pub fn build(design: &Design) -> Result<Board, GeometryError> {
     let coil = &design.coil;
     let plan = Plan::new(coil.layers, coil.wiring)?;
     let w = coil.trace_width;
@@ -488,13 +488,10 @@ pub fn build(design: &Design) -> Result<Layout, GeometryError> {
         }
     }
 
-    let mut layout = Layout {
+    let mut layout = Board {
         name: design.name.clone(),
         layers: coil.layers,
-        wiring: match coil.wiring {
-            Wiring::Series => super::layout::Wiring::Series,
-            Wiring::ParallelPairs => super::layout::Wiring::ParallelPairs,
-        },
+        wiring: coil.wiring,
         tracks: vec![],
         vias: vec![],
         pads: vec![],

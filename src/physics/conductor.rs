@@ -8,7 +8,8 @@
 
 use super::field::Segments;
 use crate::design::Design;
-use crate::geometry::{Layout, Point, Segment, TrackRole, Vec2, Wiring};
+use crate::design::Wiring;
+use crate::geometry::{Board, Point, Segment, TrackRole, Vec2};
 
 /// Millimetres to metres: the one place where the factor 1000 lives.
 pub fn m(mm: f64) -> f64 {
@@ -80,7 +81,7 @@ pub struct Conductor {
 
 impl Conductor {
     /// Builds the conductor from the layout and the stack-up of the design.
-    pub fn new(design: &Design, layout: &Layout) -> Conductor {
+    pub fn new(design: &Design, layout: &Board) -> Conductor {
         let n = layout.layers as usize;
         let mut layer_z = Vec::with_capacity(n);
         let mut layer_t = Vec::with_capacity(n);

@@ -5,7 +5,7 @@
 //! (repeated) bending: ratios commonly quoted from IPC-2223, common
 //! practice, no single source.
 
-use crate::design::{BoardKind, Design};
+use crate::design::{BendKind, BoardKind, Design};
 use serde::Serialize;
 
 /// Thickness and bending limits.
@@ -28,9 +28,9 @@ pub struct Mechanics {
 /// Finished thickness and bend radii of a design.
 pub fn mechanics(design: &Design) -> Mechanics {
     let s = &design.stackup;
-    let thickness = s.copper.iter().sum::<f64>() + s.dielectric.iter().sum::<f64>() + 2.0 * s.cover;
-    let static_ratio = if design.coil.layers <= 2 { 10.0 } else { 20.0 };
-    let dynamic_ratio = 100.0;
+    let thickness = s.finished_thickness();
+    let static_ratio = BendKind::Static.ratio(s.copper.len());
+    let dynamic_ratio = BendKind::Dynamic.ratio(s.copper.len());
     let source = match s.kind {
         BoardKind::Flex => {
             "ratios commonly quoted from IPC-2223 (common practice, no single source)"

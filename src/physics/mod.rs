@@ -36,7 +36,7 @@ pub mod resistance;
 pub mod thermal;
 
 use crate::design::{Design, Magnet, Shape, Source};
-use crate::geometry::Layout;
+use crate::geometry::Board;
 use closed_forms::MohanShape;
 use conductor::{Conductor, m, to_mm};
 use inductance::InductanceMethod;
@@ -370,7 +370,7 @@ pub enum Detail {
 /// # Errors
 /// [`AnalysisError`] when the layout has no windings or the stack-up does
 /// not match it.
-pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisError> {
+pub fn analyse(design: &Design, layout: &Board) -> Result<Analysis, AnalysisError> {
     analyse_with(design, layout, Detail::Full)
 }
 
@@ -380,7 +380,7 @@ pub fn analyse(design: &Design, layout: &Layout) -> Result<Analysis, AnalysisErr
 /// As [`analyse`].
 pub fn analyse_with(
     design: &Design,
-    layout: &Layout,
+    layout: &Board,
     detail: Detail,
 ) -> Result<Analysis, AnalysisError> {
     let full = detail == Detail::Full;
@@ -726,7 +726,7 @@ pub fn analyse_with(
 /// The published single-layer estimates that apply to the design's shape.
 fn published_estimates(
     design: &Design,
-    layout: &Layout,
+    layout: &Board,
     method: InductanceMethod,
     l1: f64,
 ) -> InductanceReport {

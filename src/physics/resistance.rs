@@ -5,7 +5,8 @@
 
 use super::conductor::{Conductor, m};
 use crate::design::Design;
-use crate::geometry::{Layout, Wiring};
+use crate::design::Wiring;
+use crate::geometry::Board;
 use serde::Serialize;
 use std::f64::consts::PI;
 
@@ -57,7 +58,7 @@ pub struct Resistance {
 
 /// Resistance of the coil from its layout (terminal pads' barrels are not
 /// counted: the connection to the outside is the user's).
-pub fn resistance(design: &Design, layout: &Layout, cond: &Conductor) -> Resistance {
+pub fn resistance(design: &Design, layout: &Board, cond: &Conductor) -> Resistance {
     let mut layers = Vec::new();
     for w in &layout.windings {
         let li = (w.layer as usize - 1).min(cond.layer_t.len() - 1);

@@ -21,7 +21,7 @@
 //! costs `O(n log n)` in the number of pieces.
 //!
 //! # Along the conductor
-//! Tracks of a winding (`Layout::windings`) form one path from node to
+//! Tracks of a winding (`Board::windings`) form one path from node to
 //! node; each piece knows its path and its position `s` (mm from the
 //! path's start) so rules can tell neighbours along the conductor from
 //! copper that only comes close across the coil (turn to turn). A track in
@@ -34,7 +34,7 @@ use super::Item;
 use super::distance::sub_segment;
 use super::profile::Profile;
 use crate::design::Design;
-use crate::geometry::{Layout, Node, Point, Segment, angle_between};
+use crate::geometry::{Board, Node, Point, Segment, angle_between};
 use std::f64::consts::{FRAC_PI_2, PI, TAU};
 
 /// How candidate pairs are found.
@@ -73,7 +73,7 @@ pub(crate) const ADJACENT_CELLS: i64 = 4;
 pub(crate) struct Piece {
     /// Centre line of the piece.
     pub seg: Segment,
-    /// Index into `Layout::tracks`.
+    /// Index into `Board::tracks`.
     pub track: usize,
     /// Copper layer.
     pub layer: u8,
@@ -260,7 +260,7 @@ pub(crate) struct Context<'a> {
     /// The design.
     pub design: &'a Design,
     /// The layout under test.
-    pub layout: &'a Layout,
+    pub layout: &'a Board,
     /// The rule values.
     pub profile: &'a Profile,
     /// All pieces of all tracks.
@@ -269,7 +269,7 @@ pub(crate) struct Context<'a> {
     pub paths: Vec<PathInfo>,
     /// Plated holes (vias first, then pads).
     pub holes: Vec<Hole>,
-    /// Number of copper layers (at least `Layout::layers`).
+    /// Number of copper layers (at least `Board::layers`).
     pub layers: u8,
     /// Largest half width of a track per layer (index `layer - 1`).
     pub max_hw: Vec<f64>,
@@ -311,7 +311,7 @@ impl<'a> Context<'a> {
     /// Cuts, indexes and collects.
     pub fn new(
         design: &'a Design,
-        layout: &'a Layout,
+        layout: &'a Board,
         profile: &'a Profile,
         broadphase: Broadphase,
     ) -> Context<'a> {

@@ -2,7 +2,7 @@
 //!
 //! **What it checks.** Every track, via pad and terminal pad keeps at least
 //! the profile's `min_edge_clearance` from the board outline
-//! (`Layout::outline`): exact distance from the track centre line (or pad
+//! (`Board::outline`): exact distance from the track centre line (or pad
 //! centre) to the outline's lines and arcs, minus the half width (or pad
 //! radius). Copper outside the outline is reported with a negative
 //! distance. One violation per item, at the closest point.

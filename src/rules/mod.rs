@@ -1,7 +1,7 @@
 //! Fab rule check on the generated copper (what will be made, not the
 //! parameters). Violations are data; the command line renders them.
 //!
-//! [`check`] measures a [`Layout`] against a [`Profile`] and returns every
+//! [`check`] measures a [`Board`] against a [`Profile`] and returns every
 //! [`Violation`], sorted. One file per rule; each has a stable id:
 //!
 //! | id | checks | severity |
@@ -50,13 +50,12 @@ mod trace_width;
 mod via_clearance;
 mod via_via_clearance;
 
-pub use bend_radius::{bend_ratio, finished_thickness, min_bend_radius};
 pub use context::{ADJACENT_PITCHES, Broadphase, TOLERANCE};
 pub(crate) use profile::key_list;
 pub use profile::{Profile, ProfileError};
 
 use crate::design::Design;
-use crate::geometry::{Layout, Point};
+use crate::geometry::{Board, Point};
 use context::Context;
 use serde::Serialize;
 use std::fmt;
@@ -75,11 +74,11 @@ pub enum Severity {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, PartialOrd, Ord, Hash, Serialize)]
 #[serde(tag = "kind", content = "index", rename_all = "snake_case")]
 pub enum Item {
-    /// `Layout::tracks[i]`.
+    /// `Board::tracks[i]`.
     Track(usize),
-    /// `Layout::vias[i]`.
+    /// `Board::vias[i]`.
     Via(usize),
-    /// `Layout::pads[i]`.
+    /// `Board::pads[i]`.
     Pad(usize),
     /// The board outline.
     Outline,
@@ -183,7 +182,7 @@ pub const RULES: [RuleInfo; 11] = [
 /// Checks a layout against a profile (use the design's own profile with
 /// [`Profile::with_overrides`] of `design.rules.overrides`). Returns every
 /// violation, sorted: errors first, then by rule, layer, items and place.
-pub fn check(design: &Design, layout: &Layout, profile: &Profile) -> Vec<Violation> {
+pub fn check(design: &Design, layout: &Board, profile: &Profile) -> Vec<Violation> {
     check_with(design, layout, profile, Broadphase::Index)
 }
 
@@ -191,7 +190,7 @@ pub fn check(design: &Design, layout: &Layout, profile: &Profile) -> Vec<Violati
 /// [`Broadphase::AllPairs`] is the brute-force oracle (quadratic; for tests).
 pub fn check_with(
     design: &Design,
-    layout: &Layout,
+    layout: &Board,
     profile: &Profile,
     broadphase: Broadphase,
 ) -> Vec<Violation> {

@@ -5,7 +5,7 @@
 
 use coilwright::design::{BoardKind, Corner, Design, Shape, Wiring};
 use coilwright::export::{self, OutFile};
-use coilwright::geometry::{self, Layout, Segment, round::to_nm};
+use coilwright::geometry::{self, Board, Segment, round::to_nm};
 use gerber_parser::gerber_types::{
     Command, CoordinateNumber, DCode, ExtendedCode, FunctionCode, GCode, InterpolationMode,
     Operation,
@@ -58,7 +58,7 @@ fn designs() -> Vec<Design> {
     out
 }
 
-fn bundle(d: &Design) -> (Layout, Vec<OutFile>) {
+fn bundle(d: &Design) -> (Board, Vec<OutFile>) {
     let l = geometry::build(d).unwrap();
     let a = coilwright::physics::analyse(d, &l).expect("analysis");
     let files = export::bundle(d, &l, &a).unwrap();

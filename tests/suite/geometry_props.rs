@@ -2,7 +2,7 @@
 
 use coilwright::design::{Corner, Design, Shape, Wiring};
 use coilwright::geometry::{
-    self, FitError, FitInput, Layout, Node, Segment, SpiralSpec, TrackRole, TurnsRequest,
+    self, Board, FitError, FitInput, Node, Segment, SpiralSpec, TrackRole, TurnsRequest,
     distance_point_segment, round::to_nm,
 };
 use proptest::prelude::*;
@@ -101,7 +101,7 @@ fn designs() -> impl Strategy<Value = Design> {
         )
 }
 
-fn build(d: &Design) -> Layout {
+fn build(d: &Design) -> Board {
     geometry::build(d).unwrap_or_else(|e| panic!("{e}: {d:?}"))
 }
 

@@ -5,14 +5,14 @@
 //! the fault.
 
 use coilwright::design::{Bend, BendKind, Design};
-use coilwright::geometry::{self, Arc, Layout, Point, Segment, Track, TrackRole};
+use coilwright::geometry::{self, Arc, Board, Point, Segment, Track, TrackRole};
 use coilwright::rules::{self, Profile, Violation};
 
 fn standard() -> Profile {
     Profile::builtin("standard").unwrap()
 }
 
-fn build(d: &Design) -> Layout {
+fn build(d: &Design) -> Board {
     geometry::build(d).unwrap_or_else(|e| panic!("{e}"))
 }
 
@@ -74,7 +74,7 @@ fn trace_width() {
 /// Layer 1's innermost arc is centred on (-0.05, 0) with radius 8.0 mm
 /// (inner diameter 15.8 mm, pitch 0.2 mm, first half turn counter-clockwise
 /// from +x).
-fn with_stub(gap: f64) -> (Design, Layout) {
+fn with_stub(gap: f64) -> (Design, Board) {
     let d = Design::sample();
     let mut l = build(&d);
     let c = Point::new(-0.05, 0.0);
@@ -169,7 +169,7 @@ fn tight() -> Design {
 
 /// The sample with a short stray track on layer 1 just outside via 1
 /// (outside the winding, joins layers 2 and 3), `gap` mm from its pad.
-fn with_stray_by_via(gap: f64) -> (Design, Layout) {
+fn with_stray_by_via(gap: f64) -> (Design, Board) {
     let d = Design::sample();
     let mut l = build(&d);
     let via = l.vias[1].clone();

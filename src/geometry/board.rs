@@ -4,6 +4,7 @@
 //! geometry of their own).
 
 use super::{Point, Segment};
+use crate::design::Wiring;
 use serde::Serialize;
 
 /// What a track is for.
@@ -78,9 +79,9 @@ pub struct Pad {
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
 #[serde(tag = "kind", content = "index", rename_all = "snake_case")]
 pub enum Node {
-    /// `Layout::pads[i]`.
+    /// `Board::pads[i]`.
     Pad(usize),
-    /// `Layout::vias[i]`.
+    /// `Board::vias[i]`.
     Via(usize),
 }
 
@@ -103,7 +104,7 @@ pub struct Winding {
     /// Position in the series chain, 0 first. Windings with the same group
     /// are in parallel (parallel-pairs wiring).
     pub group: usize,
-    /// Tracks of this layer: `Layout::tracks[tracks.0 .. tracks.1]`, ordered
+    /// Tracks of this layer: `Board::tracks[tracks.0 .. tracks.1]`, ordered
     /// along the current, each starting where the previous ends.
     pub tracks: (usize, usize),
     /// Node where the current enters.
@@ -124,19 +125,9 @@ pub struct Outline {
     pub segments: Vec<Segment>,
 }
 
-/// Series or parallel-pairs, as built.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
-#[serde(rename_all = "kebab-case")]
-pub enum Wiring {
-    /// Every layer in series.
-    Series,
-    /// Two adjacent layers in parallel; the pairs in series.
-    ParallelPairs,
-}
-
 /// The coil's copper on every layer.
 #[derive(Debug, Clone, PartialEq, Serialize)]
-pub struct Layout {
+pub struct Board {
     /// Design name.
     pub name: String,
     /// Number of copper layers.
@@ -168,7 +159,7 @@ pub struct Layout {
     pub turns: f64,
 }
 
-impl Layout {
+impl Board {
     /// Tracks of one winding, in current order.
     pub fn winding_tracks(&self, w: &Winding) -> &[Track] {
         &self.tracks[w.tracks.0..w.tracks.1]

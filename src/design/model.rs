@@ -20,7 +20,7 @@ pub struct Design {
     /// Terminal pads (plated through holes).
     pub terminal: HoleSize,
     /// Board outline.
-    pub board: Board,
+    pub board: BoardSettings,
     /// Fab rules to check against.
     pub rules: RulesRequest,
     /// Optional permanent magnet driven by the coil.
@@ -156,6 +156,34 @@ pub struct Stackup {
     pub bend: Option<Bend>,
 }
 
+impl BendKind {
+    /// Smallest bend radius as a multiple of the finished thickness: 10 for
+    /// one and two copper layers, 20 for more, 100 for dynamic bending,
+    /// whatever the layer count. Ratios commonly quoted from IPC-2223
+    /// (common practice, no single source). The one table of bend ratios.
+    pub fn ratio(self, copper_layers: usize) -> f64 {
+        match self {
+            BendKind::Dynamic => 100.0,
+            BendKind::Static if copper_layers <= 2 => 10.0,
+            BendKind::Static => 20.0,
+        }
+    }
+}
+
+impl Stackup {
+    /// Finished thickness of the board, mm: all copper, all dielectric and
+    /// the cover (coverlay or solder mask) on both faces.
+    pub fn finished_thickness(&self) -> f64 {
+        self.copper.iter().sum::<f64>() + self.dielectric.iter().sum::<f64>() + 2.0 * self.cover
+    }
+
+    /// Smallest bend radius of this stack-up, mm: [`BendKind::ratio`] x
+    /// [`Stackup::finished_thickness`].
+    pub fn min_bend_radius(&self, kind: BendKind) -> f64 {
+        kind.ratio(self.copper.len()) * self.finished_thickness()
+    }
+}
+
 /// Drill and pad size of a plated hole.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct HoleSize {
@@ -167,7 +195,7 @@ pub struct HoleSize {
 
 /// Board outline settings.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
-pub struct Board {
+pub struct BoardSettings {
     /// Distance from the outermost copper to the board edge, mm.
     pub margin: f64,
 }
@@ -274,7 +302,7 @@ impl Design {
                 drill: 0.4,
                 diameter: 0.8,
             },
-            board: Board { margin: 0.5 },
+            board: BoardSettings { margin: 0.5 },
             rules: RulesRequest {
                 profile: "standard".into(),
                 overrides: RuleOverrides::default(),
