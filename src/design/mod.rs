@@ -25,13 +25,13 @@
 //! assert_eq!(e.line_col(&bad), Some((7, 10)));
 //! ```
 
-mod model;
 mod error;
+mod model;
 mod parse;
 mod templates;
 pub mod units;
 
-pub use model::*;
 pub use error::{DesignError, DesignErrors, line_col};
+pub use model::*;
 pub use parse::{DEFAULT_CURRENT_A, MAX_SIZE_MM, MAX_TURNS, nearest, parse, parse_and_build};
 pub use templates::{Template, templates};

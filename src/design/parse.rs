@@ -6,8 +6,8 @@
 //! values. A [`Design`] returned by [`parse`] has all three sizes resolved
 //! and always builds (`geometry::build` succeeds).
 
-use super::model::*;
 use super::error::{DesignError, DesignErrors};
+use super::model::*;
 use super::units::{
     CopperWeight, Current, Frequency, Length, Quantity, Remanence, Temperature, Voltage,
 };

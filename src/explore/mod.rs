@@ -19,7 +19,7 @@ mod require;
 mod vary;
 
 pub use metrics::metrics;
-pub use pareto::{PlotPoint, front, plot};
+pub use pareto::{PlotPoint, front, settle};
 pub use require::{Op, Requirement, check_metric};
 pub use vary::{Kind, NUMERIC_KEYS, Value, Vary, parse as parse_vary, resolve_key};
 
@@ -551,7 +551,7 @@ impl Outcome {
                 .count(),
             self.candidates.len()
         );
-        plot(&points, &front_idx, best, &self.versus, obj, &title)
+        crate::export::plot::tradeoff(&points, &front_idx, best, &self.versus, obj, &title)
     }
 }
 

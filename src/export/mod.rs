@@ -8,6 +8,7 @@ pub mod gerber;
 pub mod job;
 pub mod kicad;
 pub mod manifest;
+pub mod plot;
 pub mod report;
 pub mod svg;
 

@@ -1,0 +1,496 @@
+//! SVG plots: one axis model (nice 1-2-5 ticks, tick labels) for every
+//! plot coilwright draws — the report's line plots and the sweep's
+//! trade-off scatter. Colours are sampled from perceptual colour maps
+//! (viridis for lines, cividis for the trade-off), our own choice.
+
+use super::svg::escape as esc;
+use crate::explore::PlotPoint;
+use crate::explore::settle;
+use std::fmt::Write as _;
+
+/// Line colours sampled from the viridis colour map (perceptually uniform,
+/// readable in grey): dark blue, teal, green.
+const COLOURS: [&str; 3] = ["#3b528b", "#21918c", "#5ec962"];
+
+/// One plot axis: a range widened to whole ticks and the tick step (1, 2
+/// or 5 times a power of ten).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct Axis {
+    /// First tick, at or below the data's low end.
+    pub lo: f64,
+    /// Last tick, at or above the data's high end.
+    pub hi: f64,
+    /// Distance between ticks.
+    pub step: f64,
+}
+
+impl Axis {
+    /// "Nice" ticks covering `lo..hi` with about `n` intervals.
+    pub fn nice(lo: f64, hi: f64, n: usize) -> Axis {
+        let span = (hi - lo).abs().max(1e-12);
+        let raw = span / n as f64;
+        let p = 10f64.powf(raw.log10().floor());
+        let step = [1.0, 2.0, 5.0, 10.0]
+            .iter()
+            .map(|m| m * p)
+            .find(|s| *s >= raw)
+            .unwrap_or(10.0 * p);
+        Axis {
+            lo: (lo / step).floor() * step,
+            hi: (hi / step).ceil() * step,
+            step,
+        }
+    }
+
+    /// The ticks of this axis's step that fall inside `lo..=hi` (for plots
+    /// whose range is padded rather than widened to whole ticks).
+    pub fn ticks_within(&self, lo: f64, hi: f64) -> Vec<f64> {
+        let first = (lo / self.step).ceil() * self.step;
+        (0..40)
+            .map(|i| first + self.step * i as f64)
+            .take_while(|v| *v <= hi + self.step * 1e-9)
+            .collect()
+    }
+
+    /// A tick label: as many decimals as the step needs; scientific
+    /// notation for steps below 0.001 or from 10,000 up.
+    pub fn label(&self, v: f64) -> String {
+        let step = self.step;
+        if !(1e-3..1e4).contains(&step) {
+            return if v.abs() < step * 1e-9 {
+                "0".into()
+            } else {
+                format!("{v:.2e}")
+            };
+        }
+        let dec = if step >= 1.0 {
+            0
+        } else {
+            (-step.log10().floor()) as usize
+        };
+        let s = format!("{v:.dec$}");
+        if s == "-0"
+            || s.starts_with("-0.") && s.trim_start_matches("-0.").chars().all(|c| c == '0')
+        {
+            s.trim_start_matches('-').to_string()
+        } else {
+            s
+        }
+    }
+}
+
+/// A line plot with axes, ticks, grid, labels and a legend, as SVG text.
+pub fn line_plot(
+    title: &str,
+    xlabel: &str,
+    ylabel: &str,
+    series: &[(&str, Vec<(f64, f64)>)],
+) -> String {
+    let (w, h) = (640.0, 400.0);
+    let (l, r, t, b) = (78.0, 20.0, 40.0, 56.0);
+    let all = series.iter().flat_map(|s| s.1.iter());
+    let (mut x0, mut x1, mut y0, mut y1) = (
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+        f64::INFINITY,
+        f64::NEG_INFINITY,
+    );
+    for &(x, y) in all {
+        if x.is_finite() && y.is_finite() {
+            x0 = x0.min(x);
+            x1 = x1.max(x);
+            y0 = y0.min(y);
+            y1 = y1.max(y);
+        }
+    }
+    if !x0.is_finite() {
+        (x0, x1, y0, y1) = (0.0, 1.0, 0.0, 1.0);
+    }
+    y0 = y0.min(0.0);
+    if y1 <= y0 {
+        y1 = y0 + 1.0;
+    }
+    if x1 <= x0 {
+        x1 = x0 + 1.0;
+    }
+    let xaxis = Axis::nice(x0, x1, 8);
+    let yaxis = Axis::nice(y0, y1, 6);
+    let (xa, xb, xs) = (xaxis.lo, xaxis.hi, xaxis.step);
+    let (ya, yb, ys) = (yaxis.lo, yaxis.hi, yaxis.step);
+    let px = |x: f64| l + (x - xa) / (xb - xa) * (w - l - r);
+    let py = |y: f64| h - b - (y - ya) / (yb - ya) * (h - t - b);
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" width="{w}" height="{h}" viewBox="0 0 {w} {h}" font-family="DejaVu Sans, Arial, sans-serif" font-size="12">"#
+    );
+    let _ = writeln!(
+        s,
+        r##"<rect x="0" y="0" width="{w}" height="{h}" fill="#ffffff"/>"##
+    );
+    let _ = writeln!(
+        s,
+        r##"<text x="{}" y="22" text-anchor="middle" font-size="14" fill="#1a1a1a">{}</text>"##,
+        w / 2.0,
+        esc(title)
+    );
+    // Grid and ticks.
+    let mut x = xa;
+    while x <= xb + xs * 1e-9 {
+        let gx = px(x);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{gx:.2}" y1="{:.2}" x2="{gx:.2}" y2="{:.2}" stroke="#e4e4e4"/>"##,
+            py(ya),
+            py(yb)
+        );
+        let _ = writeln!(
+            s,
+            r##"<line x1="{gx:.2}" y1="{:.2}" x2="{gx:.2}" y2="{:.2}" stroke="#333333"/>"##,
+            py(ya),
+            py(ya) + 5.0
+        );
+        let _ = writeln!(
+            s,
+            r##"<text x="{gx:.2}" y="{:.2}" text-anchor="middle" fill="#333333">{}</text>"##,
+            py(ya) + 18.0,
+            xaxis.label(x)
+        );
+        x += xs;
+    }
+    let mut y = ya;
+    while y <= yb + ys * 1e-9 {
+        let gy = py(y);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{gy:.2}" x2="{:.2}" y2="{gy:.2}" stroke="#e4e4e4"/>"##,
+            px(xa),
+            px(xb)
+        );
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{gy:.2}" x2="{:.2}" y2="{gy:.2}" stroke="#333333"/>"##,
+            px(xa) - 5.0,
+            px(xa)
+        );
+        let _ = writeln!(
+            s,
+            r##"<text x="{:.2}" y="{:.2}" text-anchor="end" fill="#333333">{}</text>"##,
+            px(xa) - 8.0,
+            gy + 4.0,
+            yaxis.label(y)
+        );
+        y += ys;
+    }
+    if ya < 0.0 && yb > 0.0 {
+        let _ = writeln!(
+            s,
+            r##"<line x1="{:.2}" y1="{:.2}" x2="{:.2}" y2="{:.2}" stroke="#999999" stroke-dasharray="4 3"/>"##,
+            px(xa),
+            py(0.0),
+            px(xb),
+            py(0.0)
+        );
+    }
+    // Axes.
+    let _ = writeln!(
+        s,
+        r##"<path d="M{:.2},{:.2} L{:.2},{:.2} L{:.2},{:.2}" fill="none" stroke="#333333"/>"##,
+        px(xa),
+        py(yb),
+        px(xa),
+        py(ya),
+        px(xb),
+        py(ya)
+    );
+    let _ = writeln!(
+        s,
+        r##"<text x="{:.2}" y="{:.2}" text-anchor="middle" fill="#1a1a1a">{}</text>"##,
+        (px(xa) + px(xb)) / 2.0,
+        h - 14.0,
+        esc(xlabel)
+    );
+    let _ = writeln!(
+        s,
+        r##"<text x="18" y="{:.2}" text-anchor="middle" fill="#1a1a1a" transform="rotate(-90 18 {:.2})">{}</text>"##,
+        (py(ya) + py(yb)) / 2.0,
+        (py(ya) + py(yb)) / 2.0,
+        esc(ylabel)
+    );
+    // Series.
+    for (i, (name, pts)) in series.iter().enumerate() {
+        let c = COLOURS[i % COLOURS.len()];
+        let d: Vec<String> = pts
+            .iter()
+            .filter(|p| p.0.is_finite() && p.1.is_finite())
+            .enumerate()
+            .map(|(k, &(x, y))| {
+                format!(
+                    "{}{:.2},{:.2}",
+                    if k == 0 { "M" } else { "L" },
+                    px(x),
+                    py(y)
+                )
+            })
+            .collect();
+        let _ = writeln!(
+            s,
+            r#"<path d="{}" fill="none" stroke="{c}" stroke-width="2"/>"#,
+            d.join(" ")
+        );
+        if series.len() > 1 {
+            let ly = t + 14.0 + 16.0 * i as f64;
+            let lx = w - r - 150.0;
+            let _ = writeln!(
+                s,
+                r#"<line x1="{lx}" y1="{ly}" x2="{}" y2="{ly}" stroke="{c}" stroke-width="2"/>"#,
+                lx + 20.0
+            );
+            let _ = writeln!(
+                s,
+                r##"<text x="{}" y="{}" fill="#1a1a1a">{}</text>"##,
+                lx + 26.0,
+                ly + 4.0,
+                esc(name)
+            );
+        }
+    }
+    s.push_str("</svg>\n");
+    s
+}
+
+/// cividis colour map samples (perceptually uniform; matplotlib's data).
+const DOT: &str = "#7c7b78";
+const FRONT: &str = "#00224e";
+const BEST: &str = "#fee838";
+const FAIL: &str = "#c9c5bd";
+const PAPER: &str = "#fbfaf7";
+const INK: &str = "#22222a";
+
+/// Scatter plot of all candidates with the front drawn as a line and the
+/// best candidate ringed.
+pub fn tradeoff(
+    points: &[PlotPoint],
+    front_idx: &[usize],
+    best: Option<usize>,
+    x_name: &str,
+    y_name: &str,
+    title: &str,
+) -> String {
+    let (w, h) = (720.0, 480.0);
+    let (l, r, t, b) = (90.0, 30.0, 50.0, 60.0);
+    let points: Vec<PlotPoint> = points
+        .iter()
+        .map(|p| PlotPoint {
+            x: settle(p.x),
+            y: settle(p.y),
+            feasible: p.feasible,
+        })
+        .collect();
+    let finite: Vec<&PlotPoint> = points
+        .iter()
+        .filter(|p| p.x.is_finite() && p.y.is_finite())
+        .collect();
+    let (mut x0, mut x1, mut y0, mut y1) = finite.iter().fold(
+        (
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+            f64::INFINITY,
+            f64::NEG_INFINITY,
+        ),
+        |(a, b, c, d), p| (a.min(p.x), b.max(p.x), c.min(p.y), d.max(p.y)),
+    );
+    if !x0.is_finite() {
+        (x0, x1, y0, y1) = (0.0, 1.0, 0.0, 1.0);
+    }
+    let pad = |a: f64, b: f64| {
+        let s = if b > a {
+            (b - a) * 0.06
+        } else {
+            a.abs().max(1e-12) * 0.1
+        };
+        (a - s, b + s)
+    };
+    let (x0, x1) = pad(x0, x1);
+    let (y0, y1) = pad(y0, y1);
+    let px = |x: f64| l + (x - x0) / (x1 - x0) * (w - l - r);
+    let py = |y: f64| h - b - (y - y0) / (y1 - y0) * (h - t - b);
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        r#"<svg xmlns="http://www.w3.org/2000/svg" viewBox="0 0 {w} {h}" width="{w}" height="{h}" font-family="DejaVu Sans, Helvetica, Arial, sans-serif" font-size="12">"#
+    );
+    let _ = writeln!(s, r#"<rect width="{w}" height="{h}" fill="{PAPER}"/>"#);
+    // Long titles: the part in parentheses goes on a second, smaller line.
+    let (head, tail) = match title.split_once(" (") {
+        Some((h, t)) => (h.to_string(), format!("({t}")),
+        None => (title.to_string(), String::new()),
+    };
+    let _ = writeln!(
+        s,
+        r#"<text x="{l}" y="22" font-size="15" font-weight="bold" fill="{INK}">{}</text><text x="{l}" y="40" font-size="12" fill="{INK}">{}</text>"#,
+        esc(&head),
+        esc(&tail)
+    );
+    // Axes and grid.
+    for tx in Axis::nice(x0, x1, 5).ticks_within(x0, x1) {
+        let x = px(tx);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{x:.1}" y1="{t}" x2="{x:.1}" y2="{:.1}" stroke="#e4e0d8"/><text x="{x:.1}" y="{:.1}" text-anchor="middle" fill="{INK}">{}</text>"##,
+            h - b,
+            h - b + 18.0,
+            Axis::nice(x0, x1, 5).label(tx)
+        );
+    }
+    for ty in Axis::nice(y0, y1, 5).ticks_within(y0, y1) {
+        let y = py(ty);
+        let _ = writeln!(
+            s,
+            r##"<line x1="{l}" y1="{y:.1}" x2="{:.1}" y2="{y:.1}" stroke="#e4e0d8"/><text x="{:.1}" y="{:.1}" text-anchor="end" fill="{INK}">{}</text>"##,
+            w - r,
+            l - 6.0,
+            y + 4.0,
+            Axis::nice(y0, y1, 5).label(ty)
+        );
+    }
+    let _ = writeln!(
+        s,
+        r#"<rect x="{l}" y="{t}" width="{:.1}" height="{:.1}" fill="none" stroke="{INK}"/>"#,
+        w - l - r,
+        h - t - b
+    );
+    let _ = writeln!(
+        s,
+        r#"<text x="{:.1}" y="{:.1}" text-anchor="middle" fill="{INK}">{}</text>"#,
+        (l + w - r) / 2.0,
+        h - 16.0,
+        esc(x_name)
+    );
+    let _ = writeln!(
+        s,
+        r#"<text transform="translate(22 {:.1}) rotate(-90)" text-anchor="middle" fill="{INK}">{}</text>"#,
+        (t + h - b) / 2.0,
+        esc(y_name)
+    );
+    for p in points.iter().filter(|p| p.x.is_finite() && p.y.is_finite()) {
+        if p.feasible {
+            let _ = writeln!(
+                s,
+                r#"<circle cx="{:.1}" cy="{:.1}" r="3" fill="{DOT}" fill-opacity="0.8"/>"#,
+                px(p.x),
+                py(p.y)
+            );
+        } else {
+            let _ = writeln!(
+                s,
+                r#"<circle cx="{:.1}" cy="{:.1}" r="2.5" fill="none" stroke="{FAIL}"/>"#,
+                px(p.x),
+                py(p.y)
+            );
+        }
+    }
+    if front_idx.len() > 1 {
+        let d: Vec<String> = front_idx
+            .iter()
+            .map(|&i| format!("{:.1},{:.1}", px(points[i].x), py(points[i].y)))
+            .collect();
+        let _ = writeln!(
+            s,
+            r#"<polyline points="{}" fill="none" stroke="{FRONT}" stroke-width="1.5"/>"#,
+            d.join(" ")
+        );
+    }
+    for &i in front_idx {
+        let _ = writeln!(
+            s,
+            r#"<circle cx="{:.1}" cy="{:.1}" r="4.5" fill="{FRONT}"/>"#,
+            px(points[i].x),
+            py(points[i].y)
+        );
+    }
+    if let Some(i) = best {
+        let _ = writeln!(
+            s,
+            r#"<circle cx="{:.1}" cy="{:.1}" r="8" fill="none" stroke="{BEST}" stroke-width="3"/><circle cx="{:.1}" cy="{:.1}" r="9.5" fill="none" stroke="{INK}" stroke-width="0.8"/>"#,
+            px(points[i].x),
+            py(points[i].y),
+            px(points[i].x),
+            py(points[i].y)
+        );
+    }
+    // Legend: in the corner of the plot area that hides the fewest points
+    // (top right first on ties).
+    let hidden = |lx: f64, ly: f64| {
+        finite
+            .iter()
+            .filter(|p| {
+                let (x, y) = (px(p.x), py(p.y));
+                x > lx - 16.0 && x < lx + 188.0 && y > ly - 22.0 && y < ly + 64.0
+            })
+            .count()
+    };
+    let (lx, ly) = [
+        (w - r - 190.0, t + 14.0),
+        (l + 12.0, t + 14.0),
+        (w - r - 190.0, h - b - 62.0),
+        (l + 12.0, h - b - 62.0),
+    ]
+    .into_iter()
+    .min_by_key(|&(x, y)| hidden(x, y))
+    .unwrap_or((w - r - 190.0, t + 14.0));
+    let _ = writeln!(
+        s,
+        r#"<rect x="{:.1}" y="{:.1}" width="184" height="66" fill="{PAPER}" stroke="{INK}" stroke-width="0.5"/>
+<circle cx="{:.1}" cy="{:.1}" r="3" fill="{DOT}"/><text x="{:.1}" y="{:.1}" fill="{INK}">meets requirements</text>
+<circle cx="{:.1}" cy="{:.1}" r="2.5" fill="none" stroke="{FAIL}"/><text x="{:.1}" y="{:.1}" fill="{INK}">fails a requirement</text>
+<circle cx="{:.1}" cy="{:.1}" r="4.5" fill="{FRONT}"/><text x="{:.1}" y="{:.1}" fill="{INK}">Pareto front; ringed: best</text>"#,
+        lx - 6.0,
+        ly - 12.0,
+        lx + 6.0,
+        ly,
+        lx + 16.0,
+        ly + 4.0,
+        lx + 6.0,
+        ly + 20.0,
+        lx + 16.0,
+        ly + 24.0,
+        lx + 6.0,
+        ly + 40.0,
+        lx + 16.0,
+        ly + 44.0
+    );
+    s.push_str("</svg>\n");
+    s
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn ticks_are_nice() {
+        let a = Axis::nice(0.0, 9.3, 8);
+        assert_eq!((a.lo, a.hi, a.step), (0.0, 10.0, 2.0));
+        let b = Axis::nice(-0.013, 0.42, 6);
+        assert!(
+            (b.step - 0.1).abs() < 1e-12
+                && (b.lo + 0.1).abs() < 1e-12
+                && (b.hi - 0.5).abs() < 1e-12
+        );
+        assert_eq!(b.label(0.30000000000000004), "0.3");
+    }
+
+    #[test]
+    fn ticks_cover_the_range_in_one_two_five_steps() {
+        let a = Axis::nice(0.0, 1.0, 5);
+        assert_eq!(a.step, 0.2);
+        assert_eq!(a.ticks_within(0.0, 1.0).len(), 6);
+        let b = Axis::nice(0.13, 7.9, 8);
+        assert_eq!((b.lo, b.hi, b.step), (0.0, 8.0, 1.0));
+        assert_eq!(b.label(3.0), "3");
+        assert_eq!(Axis::nice(0.0, 0.5, 5).label(0.1), "0.1");
+        assert_eq!(Axis::nice(0.0, 3e-6, 5).label(1e-6), "1.00e-6");
+        assert_eq!(Axis::nice(-1.0, 1.0, 4).label(-0.0), "0.0");
+    }
+}
