@@ -5,7 +5,10 @@
 //! Metric, absolute, decimal coordinates with up to six decimals: the same
 //! nanometre values as the Gerber files ([`crate::geometry::round::to_nm`]).
 //! The header carries the X2 attributes as `; #@! ` comments, as the Gerber
-//! specification recommends for drill files.
+//! specification recommends for drill files; plating is stated there
+//! (`TF.FileFunction,Plated,...` / `NonPlated`) and by the file name. The
+//! other header comment is our own wording; the commands (`M48`, `FMAT,2`,
+//! `METRIC`, tools, `G05`, `M30`) are as the Excellon format defines them.
 
 use crate::geometry::round::{format_mm, point_nm, to_nm};
 use crate::geometry::{Board, Point};
@@ -73,7 +76,12 @@ fn write_file(name: &str, file_function: &str, tool_prefix: &str, hits: &[Hit]) 
     tools.dedup();
     let mut s = String::new();
     let _ = writeln!(s, "M48");
-    let _ = writeln!(s, "; {name}: drill file written by coilwright");
+    let plated = tool_prefix.starts_with("Plated");
+    let _ = writeln!(
+        s,
+        "; coilwright drill data for {name}: {} holes, millimetres, absolute coordinates with a decimal point",
+        if plated { "plated" } else { "non-plated" }
+    );
     let _ = writeln!(
         s,
         "; #@! TF.GenerationSoftware,coilwright,coilwright,{}",
@@ -86,20 +94,8 @@ fn write_file(name: &str, file_function: &str, tool_prefix: &str, hits: &[Hit]) 
         "; #@! TF.SameCoordinates,{}",
         super::gerber::file_stem(name)
     );
-    let _ = writeln!(s, "; FORMAT={{-:-/ absolute / metric / decimal}}");
     let _ = writeln!(s, "FMAT,2");
     let _ = writeln!(s, "METRIC");
-    // Plain comment that CAM readers (gerbonara among them) take as the
-    // plating of the tools that follow.
-    let _ = writeln!(
-        s,
-        ";TYPE={}",
-        if tool_prefix.starts_with("Plated") {
-            "PLATED"
-        } else {
-            "NON_PLATED"
-        }
-    );
     for (i, (d, f)) in tools.iter().enumerate() {
         let _ = writeln!(s, "; #@! TA.AperFunction,{tool_prefix},{f}");
         let _ = writeln!(s, "T{}C{}", i + 1, dec(*d));

@@ -227,17 +227,25 @@ pub fn footprint(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError
             "Printed coil {}: {} layers, {} turns per layer, trace {} mm, clearance {} mm (coilwright)",
             design.name,
             layout.layers,
-            layout.turns,
+            super::turns_text(layout.turns),
             mm(layout.trace_width),
             mm(layout.clearance)
         ))
     );
     let _ = writeln!(o, "  (tags \"net tie coil printed inductor\")");
     let _ = writeln!(o, "  (attr through_hole)");
+    // The reference on the legend (silkscreen), where board designers look
+    // for it, and again on the fabrication layer through KiCad's
+    // `${REFERENCE}` text variable.
     let _ = writeln!(
         o,
-        "  (fp_text reference \"{REFDES}\" (at {}) (layer \"F.Fab\")\n    (effects (font (size 1 1) (thickness 0.15)))\n  )",
+        "  (fp_text reference \"{REFDES}\" (at {}) (layer \"F.SilkS\")\n    (effects (font (size 1 1) (thickness 0.15)))\n  )",
         f.xy(Point::new(0.0, hi.y + 1.0))
+    );
+    let _ = writeln!(
+        o,
+        "  (fp_text user \"${{REFERENCE}}\" (at {}) (layer \"F.Fab\")\n    (effects (font (size 1 1) (thickness 0.15)))\n  )",
+        f.xy(Point::new(0.0, hi.y + 2.5))
     );
     let _ = writeln!(
         o,

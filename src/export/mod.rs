@@ -16,6 +16,13 @@ use crate::design::Design;
 use crate::geometry::Board;
 use crate::physics::Analysis;
 
+/// Turns as shown to people: rounded to 0.01 turn, without trailing zeros
+/// ("15.25", "17.5", "20").
+pub fn turns_text(turns: f64) -> String {
+    let s = format!("{turns:.2}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
+}
+
 /// One output file, not yet written.
 #[derive(Debug, Clone, PartialEq)]
 pub struct OutFile {

@@ -88,7 +88,17 @@ def readers(d):
     for p in drills:
         name = os.path.basename(p)
         try:
-            e = ExcellonFile.open(p)
+            # Plating comes from the file's own X2 attribute
+            # (`; #@! TF.FileFunction,Plated,...` or `NonPlated`, as the
+            # Gerber specification's drill-file attributes define it); the
+            # reader is told what the file says, and the check below that
+            # it says what the file name promises.
+            with open(p) as fh:
+                func = next((ln.split(",")[1] for ln in fh
+                             if ln.startswith("; #@! TF.FileFunction,")), None)
+            if func not in ("Plated", "NonPlated"):
+                fail("gerbonara", f"{name}: no TF.FileFunction Plated/NonPlated attribute")
+            e = ExcellonFile.open(p, plated=(func == "Plated"))
             if not list(e.drills()):
                 fail("gerbonara", f"{name}: no drill hits")
             want_plated = "nonplated" not in name

@@ -399,3 +399,35 @@ fn job_file_lists_the_fab_files_and_the_stackup() {
         assert!((t - total).abs() < 1e-6, "{t} vs {total}");
     }
 }
+
+/// The drill file's header comments are our own wording (issue: header
+/// lines must not copy another program's drill export); plating is stated
+/// by the X2 file function.
+#[test]
+fn drill_header_is_our_own_wording() {
+    let l = geometry::build(&small()).unwrap();
+    let text = String::from_utf8(export::excellon::plated(&l)).unwrap();
+    assert!(text.contains("; #@! TF.FileFunction,Plated,1,2,PTH"));
+    assert!(!text.contains("FORMAT={"), "{text}");
+    assert!(!text.contains(";TYPE="), "{text}");
+    assert!(text.starts_with("M48\n; coilwright drill data for golden-tab: plated holes"));
+}
+
+/// The footprint carries its reference designator on the legend
+/// (silkscreen) layer as KiCad users expect, and describes the coil with
+/// turns rounded to 0.01.
+#[test]
+fn footprint_reference_on_silkscreen_and_rounded_turns() {
+    let mut d = small();
+    d.coil.turns = 15.24550251162513;
+    let l = geometry::build(&d).unwrap();
+    let text = String::from_utf8(export::kicad::footprint(&d, &l).unwrap()).unwrap();
+    assert!(text.contains(r#"(fp_text reference "L1""#));
+    let refline = text
+        .lines()
+        .find(|l| l.contains("fp_text reference"))
+        .unwrap();
+    assert!(refline.contains(r#"(layer "F.SilkS")"#), "{refline}");
+    assert!(text.contains("15.25 turns per layer"), "{text}");
+    assert!(!text.contains("15.2455"));
+}
