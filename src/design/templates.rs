@@ -1,5 +1,7 @@
 //! The starter designs shipped with coilwright (`coilwright init --template
-//! NAME`): commented design files, each a sound design of its own scenario.
+//! NAME`): the commented design files in `examples/`, each a sound design
+//! of its own invented scenario (it passes its own rule check and stays
+//! within its own limits: tested).
 
 /// A starter design shipped with the library and the binary.
 #[derive(Debug, Clone, Copy)]
@@ -16,22 +18,32 @@ const TEMPLATES: &[Template] = &[
     Template {
         name: "fin-actuator",
         description: "flexible 2-layer circular coil that flaps the tail fin of a toy fish with a 5 mm magnet",
-        text: include_str!("../../templates/designs/fin-actuator.toml"),
+        text: include_str!("../../examples/fin-actuator.toml"),
     },
     Template {
         name: "motor-stator",
         description: "rigid 4-layer hexagonal coil, one stator winding of a small flat motor",
-        text: include_str!("../../templates/designs/motor-stator.toml"),
+        text: include_str!("../../examples/motor-stator.toml"),
     },
     Template {
         name: "pickup-coil",
         description: "single-layer circular pickup coil that counts magnet passes for a tachometer",
-        text: include_str!("../../templates/designs/pickup-coil.toml"),
+        text: include_str!("../../examples/pickup-coil.toml"),
     },
     Template {
         name: "haptic-strip",
         description: "flexible 2-layer rectangular coil under a wristband that taps the skin with a magnet",
-        text: include_str!("../../templates/designs/haptic-strip.toml"),
+        text: include_str!("../../examples/haptic-strip.toml"),
+    },
+    Template {
+        name: "octagon-charger",
+        description: "rigid 4-layer octagonal receive coil of a small wireless charging puck, layers in parallel pairs",
+        text: include_str!("../../examples/octagon-charger.toml"),
+    },
+    Template {
+        name: "wearable-buzzer",
+        description: "rigid 2-layer rounded-rectangle voice coil that buzzes a 6 mm magnet in a badge",
+        text: include_str!("../../examples/wearable-buzzer.toml"),
     },
 ];
 

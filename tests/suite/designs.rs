@@ -34,11 +34,50 @@ fn every_example_parses_and_builds() {
 }
 
 #[test]
-fn readme_example_is_a_four_layer_flex_circle_with_a_magnet() {
+fn readme_example_is_a_two_layer_flex_circle_with_a_magnet() {
     let text = include_str!("../../examples/fin-actuator.toml");
     let d = parse(text).unwrap();
-    assert_eq!(d.coil.layers, 4);
+    assert_eq!(d.coil.layers, 2);
     assert_eq!(d.coil.shape, Shape::Circle);
     assert_eq!(d.stackup.kind, coilwright::design::BoardKind::Flex);
     assert!(d.magnet.is_some());
+}
+
+/// Every starter is a sound design: `init --list` and `examples/` are one
+/// set, and each starter passes its own rule check without a warning, with
+/// no caution in its report and its steady temperature below its own
+/// `max_temperature`.
+#[test]
+fn every_starter_is_an_example_and_is_sound() {
+    let dir = std::path::Path::new(env!("CARGO_MANIFEST_DIR")).join("examples");
+    let mut files: Vec<String> = std::fs::read_dir(&dir)
+        .unwrap()
+        .map(|e| e.unwrap().path())
+        .filter(|p| p.extension().is_some_and(|x| x == "toml"))
+        .map(|p| p.file_stem().unwrap().to_string_lossy().into_owned())
+        .collect();
+    files.sort();
+    let mut names: Vec<String> = coilwright::design::templates()
+        .iter()
+        .map(|t| t.name.to_string())
+        .collect();
+    names.sort();
+    assert_eq!(files, names, "examples/*.toml and init --list differ");
+    let readme = include_str!("../../README.md");
+    for t in coilwright::design::templates() {
+        assert!(readme.contains(t.name), "README does not name {}", t.name);
+        let d = parse(t.text).unwrap();
+        let board = coilwright::geometry::build(&d).unwrap();
+        let profile = coilwright::rules::Profile::builtin("standard").unwrap();
+        let v = coilwright::rules::check(&d, &board, &profile);
+        assert!(v.is_empty(), "{}: {v:?}", t.name);
+        let a = coilwright::physics::analyse(&d, &board).unwrap();
+        assert!(a.warnings.is_empty(), "{}: {:?}", t.name, a.warnings);
+        let temperature = a.temperature_c.expect("a steady temperature");
+        assert!(
+            temperature < d.drive.max_temperature,
+            "{}: {temperature} C",
+            t.name
+        );
+    }
 }

@@ -22,7 +22,7 @@ fn root() -> PathBuf {
 /// Every design the digests cover, as (label, path).
 fn designs() -> Vec<(String, PathBuf)> {
     let mut out = Vec::new();
-    for dir in ["examples", "templates/designs"] {
+    for dir in ["examples"] {
         let mut paths: Vec<PathBuf> = std::fs::read_dir(root().join(dir))
             .unwrap()
             .map(|e| e.unwrap().path())
