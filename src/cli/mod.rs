@@ -169,6 +169,8 @@ pub enum Exit {
     Ok,
     /// Rule violations found.
     Violations,
+    /// A sweep in which no candidate meets every requirement.
+    NothingPasses,
 }
 
 /// Why a command failed.
@@ -259,7 +261,7 @@ pub fn run(cli: Cli) -> ExitCode {
     };
     match result {
         Ok(Exit::Ok) | Err(Failure::BrokenPipe) => ExitCode::SUCCESS,
-        Ok(Exit::Violations) => ExitCode::from(1),
+        Ok(Exit::Violations | Exit::NothingPasses) => ExitCode::from(1),
         Err(f) => {
             diagnostics::render_failure(&f);
             ExitCode::from(2)

@@ -146,7 +146,8 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
     bar.finish_and_clear();
     let elapsed = started.elapsed().as_secs_f64();
 
-    print_out(&summary(&outcome, elapsed))?;
+    let flex = base.design.stackup.kind == coilwright::design::BoardKind::Flex;
+    print_out(&summary(&outcome, elapsed, flex))?;
     if let Some(dir) = a.out {
         let mut files = vec![
             OutFile {
@@ -166,18 +167,11 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
             },
         ];
         if let Some(b) = outcome.best {
-            let mut table = sweep.candidate_table(b);
             // A profile file named relative to the design file would be
             // looked for next to best.toml: name it by its absolute path.
-            if let Some(path) = pipeline::profile_path(&base)
-                && let Ok(abs) = std::fs::canonicalize(&path)
-                && let Some(toml::Value::Table(rules)) = table.get_mut("rules")
-            {
-                rules.insert(
-                    "profile".into(),
-                    toml::Value::String(abs.display().to_string()),
-                );
-            }
+            let profile = pipeline::profile_path(&base)
+                .and_then(|path| std::fs::canonicalize(path).ok())
+                .map(|abs| abs.display().to_string());
             let c = &outcome.candidates[b];
             let mut text = format!(
                 "# Best candidate of `coilwright sweep {}`: {} {} = {}\n# Parameters: {}\n# Build it with: coilwright build best.toml -o best\n\n",
@@ -198,7 +192,11 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
                     .collect::<Vec<_>>()
                     .join(", "),
             );
-            text.push_str(&toml::to_string_pretty(&table).context("cannot write the best design")?);
+            text.push_str(
+                &sweep
+                    .candidate_text(&base.text, b, profile.as_deref())
+                    .map_err(bad)?,
+            );
             files.push(OutFile {
                 path: "best.toml".into(),
                 role: "the best candidate as a design file ready for build".into(),
@@ -212,11 +210,23 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
             dir.display()
         ))?;
     }
+    if outcome.nothing_passes() {
+        return Ok(Exit::NothingPasses);
+    }
     Ok(Exit::Ok)
 }
 
+/// A candidate's parameters as `key=value` words.
+fn params_text(c: &explore::Candidate) -> String {
+    c.params
+        .iter()
+        .map(|(k, v)| format!("{k}={v}"))
+        .collect::<Vec<_>>()
+        .join(" ")
+}
+
 /// A short text summary: counts, best, and the top ten.
-fn summary(o: &Outcome, seconds: f64) -> String {
+fn summary(o: &Outcome, seconds: f64, flex: bool) -> String {
     let n = o.candidates.len();
     let count = |s: Status| o.candidates.iter().filter(|c| c.status == s).count();
     let mut s = String::new();
@@ -235,18 +245,26 @@ fn summary(o: &Outcome, seconds: f64) -> String {
     ranked.sort_by_key(|c| c.rank);
     if ranked.is_empty() {
         let _ = writeln!(s, "no candidate meets every requirement");
-        // Show the most common reasons.
-        for c in o.candidates.iter().take(5) {
+        let misses = o.nearest_misses(5);
+        if misses.is_empty() {
             let _ = writeln!(
                 s,
-                "  {}: {}",
-                c.params
-                    .iter()
-                    .map(|(k, v)| format!("{k}={v}"))
-                    .collect::<Vec<_>>()
-                    .join(" "),
-                c.reason
+                "no candidate could be analysed against the requirements; first reasons:"
             );
+            for c in o.candidates.iter().take(5) {
+                let _ = writeln!(s, "  {}: {}", params_text(c), c.reason);
+            }
+        } else {
+            let _ = writeln!(s, "nearest misses (smallest relative shortfall first):");
+            for c in misses {
+                let _ = writeln!(
+                    s,
+                    "  {:>6.1} % short  {}: {}",
+                    c.shortfall.unwrap_or(f64::INFINITY) * 100.0,
+                    params_text(c),
+                    c.reason
+                );
+            }
         }
         return s;
     }
@@ -263,6 +281,17 @@ fn summary(o: &Outcome, seconds: f64) -> String {
                 .map(|(k, v)| format!("{k}={v}"))
                 .collect::<Vec<_>>()
                 .join(" ")
+        );
+    }
+    if let Some(best) = ranked.first()
+        && flex
+        && let Some(&layers) = best.metrics.get("layers")
+        && layers > 2.0
+    {
+        let _ = writeln!(
+            s,
+            "\nnote: the best candidate has {layers} copper layers on a flex board: each flex layer adds cost and stiffness, \
+             and most fabs advise one or two copper layers where a flex board bends (common practice, no source)"
         );
     }
     s

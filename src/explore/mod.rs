@@ -133,6 +133,18 @@ pub struct Objective {
     pub maximize: bool,
 }
 
+/// The trade-off plot's x axis when `--versus` is not given: the first of
+/// these (other than the objective) that differs between the plotted
+/// candidates (smaller is better for each).
+pub const DEFAULT_VERSUS: &[&str] = &[
+    "outer_diameter_mm",
+    "resistance_ohm_20c",
+    "power_w",
+    "current_a",
+    "trace_length_mm",
+    "thickness_mm",
+];
+
 /// Most candidates a sweep may have.
 pub const MAX_CANDIDATES: usize = 200_000;
 
@@ -194,6 +206,11 @@ pub struct Candidate {
     pub rank: Option<usize>,
     /// On the Pareto front of (versus, objective) among `ok` candidates.
     pub pareto: bool,
+    /// For a candidate that misses requirements: the largest relative
+    /// shortfall among them ([`Requirement::shortfall`]); the nearest misses
+    /// have the smallest.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub shortfall: Option<f64>,
 }
 
 /// The result of a sweep.
@@ -336,6 +353,7 @@ impl Sweep {
                         metrics: BTreeMap::new(),
                         rank: None,
                         pareto: false,
+                        shortfall: None,
                     },
                     Evaluation::RuleViolation(metrics, reason) => Candidate {
                         params,
@@ -344,19 +362,31 @@ impl Sweep {
                         metrics,
                         rank: None,
                         pareto: false,
+                        shortfall: None,
                     },
                     Evaluation::Metrics(metrics) => {
-                        let failed: Vec<String> = self
+                        let limit = temperature_limit(&metrics);
+                        let failed: Vec<String> = limit
+                            .iter()
+                            .map(|(text, _)| text.clone())
+                            .chain(
+                                self.require
+                                    .iter()
+                                    .filter(|r| r.holds(&metrics) != Some(true))
+                                    .map(|r| {
+                                        let got = metrics
+                                            .get(&r.metric)
+                                            .map_or("missing".into(), |v| format!("{v:.4}"));
+                                        format!("{} (is {got})", r.text)
+                                    }),
+                            )
+                            .collect();
+                        let shortfall = self
                             .require
                             .iter()
-                            .filter(|r| r.holds(&metrics) != Some(true))
-                            .map(|r| {
-                                let got = metrics
-                                    .get(&r.metric)
-                                    .map_or("missing".into(), |v| format!("{v:.4}"));
-                                format!("{} (is {got})", r.text)
-                            })
-                            .collect();
+                            .filter_map(|r| r.shortfall(&metrics))
+                            .chain(limit.map(|(_, gap)| gap))
+                            .reduce(f64::max);
                         Candidate {
                             params,
                             status: if failed.is_empty() {
@@ -368,6 +398,7 @@ impl Sweep {
                             metrics,
                             rank: None,
                             pareto: false,
+                            shortfall,
                         }
                     }
                 };
@@ -395,13 +426,24 @@ impl Sweep {
         }
         let best = ok.first().copied();
         // The default second metric (the outer size) says nothing when the
-        // sweep keeps it fixed: plot against the resistance instead.
+        // sweep keeps it fixed: plot against the resistance instead. Judged
+        // on every plotted candidate (those that meet the requirements and
+        // those that miss one), so the plot never becomes one column.
         let metric =
             |name: &str, i: usize| candidates[i].metrics.get(name).copied().unwrap_or(f64::NAN);
-        let x_of = |i: usize| pareto::settle(metric(&self.versus.0, i));
-        let fixed = ok.len() > 1 && ok.iter().all(|&i| x_of(i) == x_of(ok[0]));
-        let versus = if self.versus_default && fixed && obj.metric != "resistance_ohm_20c" {
-            ("resistance_ohm_20c".to_string(), false)
+        let plotted: Vec<usize> = (0..candidates.len())
+            .filter(|&i| matches!(candidates[i].status, Status::Ok | Status::FailsRequirement))
+            .collect();
+        let varies = |name: &str| {
+            let x = |i: usize| pareto::settle(metric(name, i));
+            plotted.len() > 1 && plotted.iter().any(|&i| x(i) != x(plotted[0]))
+        };
+        let versus = if self.versus_default && plotted.len() > 1 && !varies(&self.versus.0) {
+            DEFAULT_VERSUS
+                .iter()
+                .find(|m| **m != obj.metric && varies(m))
+                .map(|m| (m.to_string(), false))
+                .unwrap_or_else(|| self.versus.clone())
         } else {
             self.versus.clone()
         };
@@ -421,6 +463,113 @@ impl Sweep {
             best,
         }
     }
+}
+
+/// The design's own temperature limit, a requirement of every sweep:
+/// `Some((reason, relative shortfall))` when the candidate's steady
+/// temperature is above its `max_temperature` (or it has none: no steady
+/// state below the copper's limit).
+fn temperature_limit(metrics: &BTreeMap<String, f64>) -> Option<(String, f64)> {
+    let max = *metrics.get("max_temperature_c")?;
+    match metrics.get("temperature_c") {
+        Some(&t) if t <= max => None,
+        Some(&t) => Some((
+            format!(
+                "temperature_c <= max_temperature_c, the design's limit (is {t:.1} C, limit {max:.1} C)"
+            ),
+            (t - max) / max.abs().max(1.0),
+        )),
+        None => Some((
+            format!("no steady temperature below the design's limit {max:.1} C (thermal runaway)"),
+            f64::INFINITY,
+        )),
+    }
+}
+
+impl Sweep {
+    /// The design file of candidate `i` written as an edit of the base
+    /// design's text: its comments and layout stay, the varied keys take
+    /// the candidate's values (whole numbers written as integers, the
+    /// comment after a replaced value kept), a size key that gives way to a
+    /// varied one is removed, and `rules.profile` is replaced by `profile`
+    /// when given.
+    ///
+    /// # Errors
+    /// [`SweepError::Base`] if the base text is not TOML.
+    pub fn candidate_text(
+        &self,
+        base_text: &str,
+        i: usize,
+        profile: Option<&str>,
+    ) -> Result<String, SweepError> {
+        let mut doc: toml_edit::DocumentMut = base_text
+            .parse()
+            .map_err(|e: toml_edit::TomlError| SweepError::Base(e.to_string()))?;
+        let wanted = self.candidate_table(i);
+        for v in &self.vary {
+            let (table, key) = v.key.split_once('.').unwrap_or(("", &v.key));
+            let Some(value) = lookup(&wanted, table, key) else {
+                continue;
+            };
+            set_edit(&mut doc, table, key, edit_value(value));
+        }
+        // Size keys the candidate dropped.
+        if let Some(coil) = doc.get_mut("coil").and_then(|c| c.as_table_like_mut()) {
+            for k in ["inner_diameter", "turns", "outer_diameter"] {
+                if coil.contains_key(k) && lookup(&wanted, "coil", k).is_none() {
+                    coil.remove(k);
+                }
+            }
+        }
+        if let Some(p) = profile {
+            set_edit(&mut doc, "rules", "profile", toml_edit::Value::from(p));
+        }
+        Ok(doc.to_string())
+    }
+}
+
+/// `table.key` of a design table ("" = the root).
+fn lookup<'t>(t: &'t toml::Table, table: &str, key: &str) -> Option<&'t toml::Value> {
+    if table.is_empty() {
+        t.get(key)
+    } else {
+        t.get(table)?.as_table()?.get(key)
+    }
+}
+
+/// A sweep value as an edit value: whole floats become integers
+/// (`turns = 26`, not `26.0`).
+fn edit_value(v: &toml::Value) -> toml_edit::Value {
+    match v {
+        toml::Value::Float(f) if f.fract() == 0.0 && f.abs() < 1e15 => {
+            toml_edit::Value::from(*f as i64)
+        }
+        toml::Value::Float(f) => toml_edit::Value::from(*f),
+        toml::Value::Integer(n) => toml_edit::Value::from(*n),
+        toml::Value::String(s) => toml_edit::Value::from(s.as_str()),
+        toml::Value::Boolean(b) => toml_edit::Value::from(*b),
+        other => toml_edit::Value::from(other.to_string()),
+    }
+}
+
+/// Sets `table.key` in an edited document, keeping the old value's
+/// surrounding whitespace and comment; creates the table if needed.
+fn set_edit(doc: &mut toml_edit::DocumentMut, table: &str, key: &str, mut value: toml_edit::Value) {
+    let t: &mut dyn toml_edit::TableLike = if table.is_empty() {
+        doc.as_table_mut()
+    } else {
+        if doc.get(table).is_none() {
+            doc.insert(table, toml_edit::Item::Table(toml_edit::Table::new()));
+        }
+        match doc.get_mut(table).and_then(|t| t.as_table_like_mut()) {
+            Some(t) => t,
+            None => return,
+        }
+    };
+    if let Some(old) = t.get(key).and_then(|i| i.as_value()) {
+        *value.decor_mut() = old.decor().clone();
+    }
+    t.insert(key, toml_edit::Item::Value(value));
 }
 
 /// Sets a dotted key in a TOML table, creating tables as needed.
@@ -444,6 +593,28 @@ fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
 }
 
 impl Outcome {
+    /// Whether no candidate meets every requirement.
+    pub fn nothing_passes(&self) -> bool {
+        self.best.is_none()
+    }
+
+    /// Up to `n` candidates that miss a requirement, nearest first (smallest
+    /// relative shortfall; ties in generation order).
+    pub fn nearest_misses(&self, n: usize) -> Vec<&Candidate> {
+        let mut misses: Vec<&Candidate> = self
+            .candidates
+            .iter()
+            .filter(|c| c.status == Status::FailsRequirement)
+            .collect();
+        misses.sort_by(|a, b| {
+            a.shortfall
+                .unwrap_or(f64::INFINITY)
+                .total_cmp(&b.shortfall.unwrap_or(f64::INFINITY))
+        });
+        misses.truncate(n);
+        misses
+    }
+
     /// All candidates as CSV: rank, status, reason, parameters, metrics.
     pub fn csv(&self) -> String {
         let params: Vec<String> = self

@@ -161,3 +161,118 @@ fn bad_sweep_arguments_exit_2_and_write_nothing() {
         assert!(!out.exists(), "{args:?} wrote output");
     }
 }
+
+/// When no candidate meets the requirements the sweep exits 1 (README says
+/// so) and lists the nearest misses, smallest relative shortfall first;
+/// bounds may carry units; the design's own max_temperature is a
+/// requirement of every sweep.
+#[test]
+fn nothing_passes_exits_1_with_nearest_misses() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("sweep");
+    let (code, stdout, stderr) = coilwright(&[
+        "sweep",
+        &example(),
+        "--vary",
+        "turns=10..30:4",
+        "--require",
+        "temperature_c <= 30C",
+        "--require",
+        "inductance_h >= 1.5uH",
+        "--maximize",
+        "force_n",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 1, "{stdout}{stderr}");
+    assert!(
+        stdout.contains("no candidate meets every requirement"),
+        "{stdout}"
+    );
+    let misses: Vec<&str> = stdout
+        .lines()
+        .skip_while(|l| !l.starts_with("nearest misses"))
+        .skip(1)
+        .take_while(|l| l.contains("% short"))
+        .collect();
+    assert_eq!(misses.len(), 5, "{stdout}");
+    let pct: Vec<f64> = misses
+        .iter()
+        .map(|l| l.split_whitespace().next().unwrap().parse().unwrap())
+        .collect();
+    assert!(pct.windows(2).all(|w| w[0] <= w[1]), "{pct:?}");
+    // Fewer turns run cooler: the nearest miss is the 10-turn coil.
+    assert!(misses[0].contains("coil.turns=10"), "{stdout}");
+    // The table is still written (no best design).
+    assert!(out.join("candidates.csv").exists());
+    assert!(!out.join("best.toml").exists());
+}
+
+#[test]
+fn the_designs_max_temperature_is_a_requirement_of_every_sweep() {
+    // motor-stator: max_temperature 90 C; 0.8 A runs far hotter.
+    let stator = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/motor-stator.toml");
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("sweep");
+    let (code, stdout, stderr) = coilwright(&[
+        "sweep",
+        stator.to_str().unwrap(),
+        "--vary",
+        "drive.current=0.1A,0.8A",
+        "--maximize",
+        "force_n",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{stdout}{stderr}");
+    let csv = std::fs::read_to_string(out.join("candidates.csv")).unwrap();
+    let row = csv.lines().find(|l| l.contains("0.8A")).unwrap();
+    assert!(row.contains("fails_requirement"), "{row}");
+    assert!(row.contains("the design's limit"), "{row}");
+}
+
+#[test]
+fn best_design_keeps_the_base_comments_and_writes_whole_numbers_as_integers() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("sweep");
+    let (code, o, e) = coilwright(&[
+        "sweep",
+        &example(),
+        "--vary",
+        "turns=10..14:2",
+        "--maximize",
+        "force_per_sqrt_w_n",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{o}{e}");
+    let best = std::fs::read_to_string(out.join("best.toml")).unwrap();
+    let base = std::fs::read_to_string(example()).unwrap();
+    // Every comment line of the base design is still there.
+    for line in base.lines().filter(|l| l.starts_with('#')) {
+        assert!(best.contains(line), "lost {line:?}\n{best}");
+    }
+    let turns = best.lines().find(|l| l.starts_with("turns =")).unwrap();
+    assert!(!turns.contains(".0"), "{turns}");
+    assert!(turns.contains("# inner_diameter and turns"), "{turns}");
+}
+
+#[test]
+fn tradeoff_axis_moves_on_when_the_outer_size_is_fixed() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("sweep");
+    let (code, o, e) = coilwright(&[
+        "sweep",
+        &example(),
+        "--vary",
+        "drive.current=0.05A,0.1A,0.12A",
+        "--maximize",
+        "force_n",
+        "-o",
+        out.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{o}{e}");
+    let svg = std::fs::read_to_string(out.join("tradeoff.svg")).unwrap();
+    // Neither the fixed outer size nor the fixed resistance: the power.
+    assert!(svg.contains("vs power_w"), "{svg}");
+}
