@@ -386,7 +386,7 @@ fn init_writes_a_valid_design_and_refuses_to_overwrite() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let text = std::fs::read_to_string(dir.path().join("my-coil.toml")).unwrap();
     assert!(text.contains("name = \"my-coil\""));
-    coilwright::design::parse(&text).unwrap();
+    coilwright::pipeline::parse(&text).unwrap();
 
     std::fs::write(dir.path().join("my-coil.toml"), "# mine\n").unwrap();
     let o = run(dir.path(), &["init", "my-coil.toml"]);
