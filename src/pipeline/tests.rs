@@ -204,3 +204,99 @@ fn wrong_types_are_named() {
     let e = err(&BASE.replace("name = \"t\"", "name = \"a/b\""));
     assert_eq!(e.first().key, "name");
 }
+
+#[test]
+fn a_typo_is_one_problem_that_lists_the_table_keys() {
+    let e = err(&BASE.replace("trace_width", "trace_widht"));
+    assert_eq!(e.errors.len(), 1, "{e}");
+    let help = e.first().help.as_deref().unwrap();
+    assert!(help.starts_with("did you mean `trace_width`?"), "{help}");
+    assert!(help.contains("allowed in [coil]: shape, sides,"), "{help}");
+    // A misspelled table is one problem too, not also "needs a [coil] table".
+    let e = err(&BASE.replace("[coil]", "[coill]"));
+    assert_eq!(e.errors.len(), 1, "{e}");
+    assert_eq!(e.first().key, "coill");
+    // A key in the wrong table is sent home.
+    let e = err(&format!("{BASE}[via]\nmargin = 1\n"));
+    let help = e.first().help.as_deref().unwrap();
+    assert!(
+        help.starts_with("`margin` belongs in the [board] table;"),
+        "{help}"
+    );
+    assert!(
+        help.ends_with("allowed in [via]: drill, diameter"),
+        "{help}"
+    );
+}
+
+#[test]
+fn rule_limits_are_read_from_the_rule_registry() {
+    let d = parse(&format!(
+        "{BASE}[rules]\nprofile = \"fine\"\nmin_clearance = \"3mil\"\nmin_annular_ring = 0\n"
+    ))
+    .unwrap();
+    assert_eq!(d.rules.profile, "fine");
+    assert_eq!(d.rules.overrides.len(), 2);
+    assert!((d.rules.overrides["min_clearance"] - 0.0762).abs() < 1e-12);
+    assert_eq!(d.rules.overrides["min_annular_ring"], 0.0);
+    let e = err(&format!("{BASE}[rules]\nmin_drill = 0\n"));
+    assert_eq!(e.first().key, "rules.min_drill");
+    assert_eq!(e.first().message, "must be greater than zero");
+    let e = err(&format!("{BASE}[rules]\nmin_via = 0.2\n"));
+    assert_eq!(e.first().key, "rules.min_via");
+    assert!(
+        e.first()
+            .help
+            .as_deref()
+            .unwrap()
+            .contains("profile, min_trace_width, min_clearance, min_drill"),
+        "{e}"
+    );
+    // Without the rule registry's limits the reader knows no such key.
+    let text = format!("{BASE}[rules]\nmin_drill = 0.2\n");
+    assert!(crate::design::read(&text, &[]).is_err());
+    assert!(crate::design::read(&text, crate::rules::LIMITS).is_ok());
+}
+
+#[test]
+fn messages_never_repeat_their_key() {
+    let bad = [
+        BASE.replace("layers = 4", "layers = 40"),
+        BASE.replace("layers = 4", "layers = \"four\""),
+        BASE.replace("\"0.1mm\"\nclearance", "\"-0.1mm\"\nclearance"),
+        BASE.replace("\"0.1mm\"\nclearance", "0\nclearance"),
+        BASE.replace("\"0.1mm\"\nclearance", "nan\nclearance"),
+        BASE.replace("\"0.1mm\"\nclearance", "true\nclearance"),
+        BASE.replace("trace_width = \"0.1mm\"\n", ""),
+        BASE.replace("turns = 10", "turns = \"ten\""),
+        BASE.replace("turns = 10", "turns = 100"),
+        BASE.replace("name = \"t\"", "name = 3"),
+        BASE.replace("name = \"t\"", "name = \".t\""),
+        with("shape = \"hexagon\""),
+        with("sides = 5"),
+        with("corner = \"round\""),
+        with("corner_radius = \"1mm\""),
+        with("width = 3"),
+        format!(
+            "{BASE}[stackup]\ncopper = [\"1oz\"]\nbend = \"static\"\ndielectric_material = \"\"\n"
+        ),
+        format!("{BASE}[stackup]\nkind = \"rigid\"\nbend_radius = 3\ndielectric_constant = 200\n"),
+        format!("{BASE}[rules]\nprofile = \"\"\n"),
+        format!("{BASE}[magnet]\ndiameter = 3\n"),
+        format!("{BASE}[drive]\nemissivity = \"high\"\nfrequency = \"3parsec\"\n"),
+        format!("stackup = 1\n{BASE}"),
+    ];
+    let mut seen = 0;
+    for text in &bad {
+        for e in &err(text).errors {
+            seen += 1;
+            assert!(
+                !e.message.contains(&format!("`{}`", e.key)) && !e.message.starts_with(&e.key),
+                "{}: {}",
+                e.key,
+                e.message
+            );
+        }
+    }
+    assert!(seen > bad.len(), "{seen}");
+}

@@ -178,7 +178,7 @@ pub struct Rule {
 
 /// The rule registry: every rule, in check order (also the order of
 /// violations of equal severity).
-pub const RULES: [Rule; 11] = [
+pub const RULES: &[Rule] = &[
     trace_width::RULE,
     clearance::RULE,
     via_clearance::RULE,
@@ -242,7 +242,7 @@ pub fn check_with(
 ) -> Vec<Violation> {
     let ctx = Context::new(design, layout, profile, broadphase);
     let mut out = Vec::new();
-    for rule in &RULES {
+    for rule in RULES {
         (rule.check)(&ctx, &mut out);
     }
     sort(&mut out);

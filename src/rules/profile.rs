@@ -270,6 +270,35 @@ mod tests {
     }
 
     #[test]
+    fn limits_come_from_the_rule_registry_in_rule_order() {
+        let names: Vec<_> = LIMITS.iter().map(|l| l.name).collect();
+        assert_eq!(
+            names,
+            [
+                "min_trace_width",
+                "min_clearance",
+                "min_drill",
+                "min_annular_ring",
+                "min_hole_spacing",
+                "min_edge_clearance"
+            ]
+        );
+        let s = Profile::builtin("standard").unwrap();
+        let all: Vec<_> = s.limits().map(|(l, mm)| (l.name, mm)).collect();
+        let again = Profile::from_limits("standard", all.iter().copied()).unwrap();
+        assert_eq!(again, s);
+        let e = Profile::from_limits("x", all[1..].iter().copied()).unwrap_err();
+        assert_eq!(e, ProfileError::Missing("min_trace_width"));
+        let e = Profile::from_limits("x", [("min_colour", 1.0)]).unwrap_err();
+        assert_eq!(e, ProfileError::UnknownKey("min_colour".into()));
+        let json = serde_json::to_string(&s).unwrap();
+        assert!(
+            json.starts_with(r#"{"name":"standard","min_trace_width":0.1,"#),
+            "{json}"
+        );
+    }
+
+    #[test]
     fn unknown_key_is_named() {
         let t = Profile::builtin_text("standard").unwrap().to_string() + "min_via_size = 0.3\n";
         let e = Profile::from_toml(&t).unwrap_err();

@@ -475,3 +475,19 @@ fn closed_output_pipe_is_not_an_error() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert!(stderr(&o).is_empty(), "{}", stderr(&o));
 }
+
+#[test]
+fn the_key_heads_each_problem_once() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("d.toml"),
+        mutate("layers = 4", "layers = 33"),
+    )
+    .unwrap();
+    let err = stderr(&run(dir.path(), &["check", "d.toml"]));
+    assert!(
+        err.lines()
+            .any(|l| l == "error: coil.layers: 33 is out of range; it must be 1 to 32"),
+        "{err}"
+    );
+}
