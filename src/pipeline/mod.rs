@@ -1,7 +1,7 @@
 //! From a design file to copper that can be built, in three phases:
-//! [`design::read`] checks every key and value, [`sizes`] resolves the
+//! [`design::read`] checks every key and value, `sizes.rs` resolves the
 //! third of outer diameter, inner diameter and turns (a fit on the real
-//! spiral, in `geometry`), and [`copper`] builds the [`Board`]. A problem
+//! spiral, in `geometry`), and `copper.rs` builds the [`Board`]. A problem
 //! found after reading is turned into a [`DesignError`] at the key and span
 //! it is about, so that it reads like any other problem in the file.
 //!
