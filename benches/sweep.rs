@@ -18,7 +18,7 @@
 //! a sorted index instead of an R-tree and fewer edge distances.
 
 use coilwright::explore::{self, Evaluation, Objective, Sweep};
-use coilwright::{design, physics, rules};
+use coilwright::{physics, pipeline, rules};
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
 
@@ -40,7 +40,7 @@ voltage = "3.3V"
 "#;
 
 fn evaluate(text: &str) -> Evaluation {
-    let (d, l) = match design::parse_and_build(text) {
+    let (d, l) = match pipeline::parse_and_build(text) {
         Ok(built) => built,
         Err(e) => return Evaluation::Invalid(e.to_string()),
     };

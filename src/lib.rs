@@ -1,7 +1,8 @@
 //! coilwright: printed-circuit coils from a design file to fab-ready files.
 //!
 //! Data flows one way through pure stages: [`design`] (design file to a
-//! validated [`design::Design`]), [`geometry`] (copper on every layer as a
+//! validated [`design::DesignRequest`]), [`pipeline`] (sizes resolved: a
+//! [`design::Design`] that builds), [`geometry`] (copper on every layer as a
 //! [`geometry::Board`]), [`rules`] (fab rule check on the layout),
 //! [`physics`] (resistance, inductance, field, force, heating, bending) and
 //! [`export`] (Gerber, Excellon, job file, KiCad, SVG, report). Only the
@@ -11,9 +12,9 @@
 //! # Example: from a design file to fab files
 //!
 //! ```
-//! use coilwright::{design, export, geometry, physics, rules};
+//! use coilwright::{export, geometry, physics, pipeline, rules};
 //!
-//! let design = design::parse(r#"
+//! let design = pipeline::parse(r#"
 //!     name = "doc-coil"
 //!     [coil]
 //!     outer_diameter = "12mm"
@@ -41,4 +42,6 @@ pub mod explore;
 pub mod export;
 pub mod geometry;
 pub mod physics;
+pub mod pipeline;
 pub mod rules;
+pub mod suggest;

@@ -34,12 +34,9 @@ pub fn render_spec_errors(path: &Path, text: &str, errors: &DesignErrors) -> Str
 }
 
 fn render_one(r: &Renderer, path: &str, text: &str, e: &DesignError) -> String {
-    // Messages that already name their key in backticks need no prefix.
-    let title = if e.message.contains(&format!("`{}`", e.key)) {
-        e.message.clone()
-    } else {
-        format!("{}: {}", e.key, e.message)
-    };
+    // Messages never repeat their key: the title is the key, then what is
+    // wrong with it.
+    let title = format!("{}: {}", e.key, e.message);
     let mut report: Vec<Group> = Vec::new();
     let main = Level::ERROR.primary_title(title.as_str());
     let group = match &e.span {

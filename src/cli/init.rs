@@ -3,7 +3,8 @@
 
 use super::{Exit, Failure, print_out};
 use anyhow::{Context, anyhow};
-use coilwright::design::{nearest, templates};
+use coilwright::design::templates;
+use coilwright::suggest::closest;
 use std::io::Write;
 use std::path::Path;
 
@@ -25,7 +26,7 @@ pub fn run(template: &str, list: bool, force: bool, file: Option<&Path>) -> Resu
     };
     let Some(t) = templates().iter().find(|t| t.name == template) else {
         let names: Vec<&str> = templates().iter().map(|t| t.name).collect();
-        let hint = nearest(template, &names)
+        let hint = closest(template, names.iter().copied())
             .or_else(|| names.iter().copied().find(|n| n.starts_with(template)))
             .map(|n| format!("did you mean `{n}`? "))
             .unwrap_or_default();

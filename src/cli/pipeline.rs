@@ -50,7 +50,7 @@ pub fn load(path: &Path) -> Result<Loaded, Failure> {
 fn load_and_build(path: &Path) -> Result<(Loaded, Board), Failure> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("cannot read design file {}", path.display()))?;
-    match design::parse_and_build(&text) {
+    match coilwright::pipeline::parse_and_build(&text) {
         Ok((design, layout)) => Ok((
             Loaded {
                 path: path.to_path_buf(),
@@ -132,7 +132,8 @@ pub fn profile(loaded: &Loaded) -> Result<rules::Profile, Failure> {
             )
         })?
     };
-    Ok(base.with_overrides(&loaded.design.rules.overrides))
+    base.with_overrides(&loaded.design.rules.overrides)
+        .map_err(|e| fail(e.to_string(), None))
 }
 
 /// Loads, builds and checks a design file.

@@ -5,7 +5,6 @@ use super::out_dir;
 use super::pipeline::{self, Loaded};
 use super::{Exit, Failure, print_out};
 use anyhow::Context;
-use coilwright::design;
 use coilwright::explore::{self, Evaluation, Objective, Outcome, Requirement, Status, Sweep};
 use coilwright::export::OutFile;
 use coilwright::rules::Severity;
@@ -33,7 +32,7 @@ pub struct Args<'a> {
 
 /// Evaluates one candidate design file through the whole pipeline.
 fn evaluate(base: &Loaded, text: &str) -> Evaluation {
-    let (design, layout) = match design::parse_and_build(text) {
+    let (design, layout) = match coilwright::pipeline::parse_and_build(text) {
         Ok(built) => built,
         Err(errors) => {
             let e = errors.first();

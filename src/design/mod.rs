@@ -1,8 +1,15 @@
-//! The design file: parsing, units and validation into a [`Design`].
+//! The design file: reading, units and validation.
 //!
-//! [`parse`] reads the TOML text of a design file and returns a validated
-//! [`Design`] or every problem found as [`DesignErrors`], each naming its
-//! dotted key (`coil.trace_width`) and the byte span in the text.
+//! [`read`] reads the TOML text of a design file and returns a validated
+//! [`DesignRequest`] or every problem found as [`DesignErrors`], each naming
+//! its dotted key (`coil.trace_width`) and the byte span in the text. The
+//! coil's sizes are resolved and the copper built by
+//! [`crate::pipeline::parse`], which returns the [`Design`] every later
+//! stage takes (and maps problems found there back to keys of the file).
+//!
+//! Every key a design file may hold is listed once, in the key registry
+//! ([`keys::KEYS`]); the `[rules]` limit keys come from the rule registry
+//! and are handed to [`read`].
 //!
 //! ```
 //! let text = r#"
@@ -13,25 +20,29 @@
 //! clearance = "4mil"
 //! layers = 2
 //! "#;
-//! let design = coilwright::design::parse(text).unwrap();
-//! assert!((design.coil.clearance - 0.1016).abs() < 1e-12);
-//! let layout = coilwright::geometry::build(&design).unwrap();
-//! assert_eq!(layout.layers, 2);
+//! let request = coilwright::design::read(text, &[]).unwrap();
+//! assert!((request.coil.clearance - 0.1016).abs() < 1e-12);
+//! assert_eq!(request.coil.inner_diameter, None);
 //!
 //! let bad = text.replace("layers = 2", "layers = 40");
-//! let errors = coilwright::design::parse(&bad).unwrap_err();
+//! let errors = coilwright::design::read(&bad, &[]).unwrap_err();
 //! let e = errors.first();
 //! assert_eq!(e.key, "coil.layers");
 //! assert_eq!(e.line_col(&bad), Some((7, 10)));
 //! ```
 
 mod error;
+pub mod keys;
 mod model;
-mod parse;
+mod read;
+mod spans;
 mod templates;
 pub mod units;
 
 pub use error::{DesignError, DesignErrors, line_col};
+pub use keys::{Key, LimitKey};
 pub use model::*;
-pub use parse::{DEFAULT_CURRENT_A, MAX_SIZE_MM, MAX_TURNS, nearest, parse, parse_and_build};
+pub use read::read;
+pub use read::{DEFAULT_CURRENT_A, MAX_SIZE_MM, MAX_TURNS};
+pub use spans::KeySpans;
 pub use templates::{Template, templates};

@@ -1,10 +1,14 @@
 //! The validated design: every length in millimetres, every value checked.
 //!
-//! Produced by [`super::parse`] from a design file; the sizes (outer and
-//! inner diameter, turns) are already resolved, so every later stage can
-//! rely on all three.
+//! [`super::read`] turns a design file into a [`DesignRequest`]: every value
+//! checked, but the coil's sizes as given (two of outer diameter, inner
+//! diameter and turns). Resolving the third needs the geometry, so
+//! `crate::pipeline::parse` does it and returns the [`Design`], on which
+//! every later stage can rely on all three.
 
+use super::spans::KeySpans;
 use serde::Serialize;
+use std::collections::BTreeMap;
 
 /// A complete, validated coil design. Lengths are millimetres.
 #[derive(Debug, Clone, PartialEq, Serialize)]
@@ -205,25 +209,10 @@ pub struct BoardSettings {
 pub struct RulesRequest {
     /// Built-in profile name ("standard", "fine", "cautious") or a path.
     pub profile: String,
-    /// Overrides of individual rule values.
-    pub overrides: RuleOverrides,
-}
-
-/// Rule values a design may override; `None` keeps the profile's value.
-#[derive(Debug, Clone, Copy, PartialEq, Default, Serialize)]
-pub struct RuleOverrides {
-    /// Minimum track width, mm.
-    pub min_trace_width: Option<f64>,
-    /// Minimum copper-to-copper clearance, mm.
-    pub min_clearance: Option<f64>,
-    /// Minimum finished drill, mm.
-    pub min_drill: Option<f64>,
-    /// Minimum annular ring, mm.
-    pub min_annular_ring: Option<f64>,
-    /// Minimum hole-to-hole spacing (edge to edge), mm.
-    pub min_hole_spacing: Option<f64>,
-    /// Minimum copper-to-board-edge distance, mm.
-    pub min_edge_clearance: Option<f64>,
+    /// Rule limits the design overrides: limit key as in a rule profile
+    /// (`min_clearance`) to its value, mm. The keys are the rule registry's
+    /// limits (`rules::RULES`); the reader accepts no others.
+    pub overrides: BTreeMap<String, f64>,
 }
 
 /// An axially magnetised cylindrical permanent magnet on the coil axis.
@@ -305,7 +294,7 @@ impl Design {
             board: BoardSettings { margin: 0.5 },
             rules: RulesRequest {
                 profile: "standard".into(),
-                overrides: RuleOverrides::default(),
+                overrides: BTreeMap::new(),
             },
             magnet: Some(Magnet {
                 diameter: 5.0,
@@ -321,6 +310,98 @@ impl Design {
                 convection: None,
                 emissivity: 0.9,
             },
+        }
+    }
+}
+
+/// How many turns the design file asks for.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub enum TurnsRequest {
+    /// A given number of turns per layer.
+    Count(f64),
+    /// As many as fit (rounded down to 0.01 turn).
+    Max,
+}
+
+/// What `[coil]` asks for: the winding with its sizes not yet resolved.
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct CoilRequest {
+    /// Shape of the spiral (a rectangle carries its outer width and height).
+    pub shape: Shape,
+    /// Outer diameter, mm, if given (circle and polygon).
+    pub outer_diameter: Option<f64>,
+    /// Inner (free centre) diameter, mm, if given.
+    pub inner_diameter: Option<f64>,
+    /// Turns per layer, if given.
+    pub turns: Option<TurnsRequest>,
+    /// Track width, mm.
+    pub trace_width: f64,
+    /// Gap between neighbouring turns, mm.
+    pub clearance: f64,
+    /// Number of copper layers, 1..=32.
+    pub layers: u8,
+    /// Series or parallel-pairs.
+    pub wiring: Wiring,
+    /// Corner style (polygon and rectangle).
+    pub corner: Corner,
+}
+
+impl CoilRequest {
+    /// The coil with its three sizes resolved (outer and inner diameter,
+    /// mm; turns per layer).
+    pub fn resolved(&self, outer_diameter: f64, inner_diameter: f64, turns: f64) -> Coil {
+        Coil {
+            shape: self.shape,
+            outer_diameter,
+            inner_diameter,
+            turns,
+            trace_width: self.trace_width,
+            clearance: self.clearance,
+            layers: self.layers,
+            wiring: self.wiring,
+            corner: self.corner,
+        }
+    }
+}
+
+/// A design file read and validated, before the coil's sizes are resolved.
+#[derive(Debug, Clone, PartialEq)]
+pub struct DesignRequest {
+    /// Design name.
+    pub name: String,
+    /// What `[coil]` asks for.
+    pub coil: CoilRequest,
+    /// Layer stack.
+    pub stackup: Stackup,
+    /// Vias joining layers.
+    pub via: HoleSize,
+    /// Terminal pads.
+    pub terminal: HoleSize,
+    /// Board outline.
+    pub board: BoardSettings,
+    /// Fab rules to check against.
+    pub rules: RulesRequest,
+    /// Optional permanent magnet.
+    pub magnet: Option<Magnet>,
+    /// Electrical drive and thermal environment.
+    pub drive: Drive,
+    /// Where each key is in the text.
+    pub spans: KeySpans,
+}
+
+impl DesignRequest {
+    /// The design, given its resolved coil (see [`CoilRequest::resolved`]).
+    pub fn into_design(self, coil: Coil) -> Design {
+        Design {
+            name: self.name,
+            coil,
+            stackup: self.stackup,
+            via: self.via,
+            terminal: self.terminal,
+            board: self.board,
+            rules: self.rules,
+            magnet: self.magnet,
+            drive: self.drive,
         }
     }
 }

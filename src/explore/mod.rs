@@ -21,7 +21,7 @@ mod vary;
 pub use metrics::metrics;
 pub use pareto::{PlotPoint, front, settle};
 pub use require::{Op, Requirement, check_metric};
-pub use vary::{Kind, NUMERIC_KEYS, Value, Vary, parse as parse_vary, resolve_key};
+pub use vary::{Kind, Value, Vary, kind_of, numeric_keys, parse as parse_vary, resolve_key};
 
 use rayon::prelude::*;
 use serde::Serialize;
@@ -113,15 +113,6 @@ fn hint(s: &Option<String>) -> String {
     s.as_ref()
         .map(|s| format!("; did you mean '{s}'?"))
         .unwrap_or_default()
-}
-
-/// The closest name by Jaro-Winkler similarity, if reasonably close.
-pub(crate) fn nearest(typed: &str, names: impl Iterator<Item = String>) -> Option<String> {
-    names
-        .map(|n| (strsim::jaro_winkler(typed, &n), n))
-        .filter(|(s, _)| *s > 0.75)
-        .max_by(|a, b| a.0.total_cmp(&b.0))
-        .map(|(_, n)| n)
 }
 
 /// Maximize or minimize.

@@ -202,7 +202,8 @@ pub fn check_metric(metric: &str, known: &[String]) -> Result<(), SweepError> {
     } else {
         Err(SweepError::UnknownMetric {
             metric: metric.into(),
-            suggestion: super::nearest(metric, known.iter().cloned()),
+            suggestion: crate::suggest::closest(metric, known.iter().map(String::as_str))
+                .map(str::to_string),
         })
     }
 }

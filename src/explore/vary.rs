@@ -7,6 +7,8 @@
 //! apply; bare numbers stay numbers.
 
 use super::SweepError;
+use crate::design::{self, Key};
+use crate::suggest::closest;
 
 /// How a key's values are written.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -19,59 +21,25 @@ pub enum Kind {
     Quantity,
 }
 
-/// Numeric design keys that a sweep may vary, by full path.
-pub const NUMERIC_KEYS: &[(&str, Kind)] = &[
-    ("coil.outer_diameter", Kind::Quantity),
-    ("coil.inner_diameter", Kind::Quantity),
-    ("coil.turns", Kind::Number),
-    ("coil.trace_width", Kind::Quantity),
-    ("coil.clearance", Kind::Quantity),
-    ("coil.layers", Kind::Integer),
-    ("coil.sides", Kind::Integer),
-    ("coil.width", Kind::Quantity),
-    ("coil.height", Kind::Quantity),
-    ("coil.corner_radius", Kind::Quantity),
-    ("stackup.copper", Kind::Quantity),
-    ("stackup.dielectric", Kind::Quantity),
-    ("stackup.dielectric_constant", Kind::Number),
-    ("stackup.plating", Kind::Quantity),
-    ("stackup.cover", Kind::Quantity),
-    ("stackup.bend_radius", Kind::Quantity),
-    ("via.drill", Kind::Quantity),
-    ("via.diameter", Kind::Quantity),
-    ("terminal.drill", Kind::Quantity),
-    ("terminal.diameter", Kind::Quantity),
-    ("board.margin", Kind::Quantity),
-    ("rules.min_trace_width", Kind::Quantity),
-    ("rules.min_clearance", Kind::Quantity),
-    ("rules.min_drill", Kind::Quantity),
-    ("rules.min_annular_ring", Kind::Quantity),
-    ("rules.min_hole_spacing", Kind::Quantity),
-    ("rules.min_edge_clearance", Kind::Quantity),
-    ("magnet.diameter", Kind::Quantity),
-    ("magnet.thickness", Kind::Quantity),
-    ("magnet.remanence", Kind::Quantity),
-    ("magnet.gap", Kind::Quantity),
-    ("drive.voltage", Kind::Quantity),
-    ("drive.current", Kind::Quantity),
-    ("drive.ambient", Kind::Quantity),
-    ("drive.max_temperature", Kind::Quantity),
-    ("drive.frequency", Kind::Quantity),
-    ("drive.convection", Kind::Number),
-    ("drive.emissivity", Kind::Number),
-];
+/// How a sweep writes values of a design key: `None` for keys that hold
+/// words (shape, wiring, names), which cannot be swept.
+pub fn kind_of(key: &Key) -> Option<Kind> {
+    match key.kind {
+        design::keys::Kind::Length | design::keys::Kind::Quantity { .. } => Some(Kind::Quantity),
+        design::keys::Kind::Number => Some(Kind::Number),
+        design::keys::Kind::Integer => Some(Kind::Integer),
+        design::keys::Kind::Choice(_) | design::keys::Kind::Text => None,
+    }
+}
 
-/// Design keys that exist but are not numbers (cannot be swept).
-const OTHER_KEYS: &[&str] = &[
-    "name",
-    "coil.shape",
-    "coil.wiring",
-    "coil.corner",
-    "stackup.kind",
-    "stackup.dielectric_material",
-    "stackup.bend",
-    "rules.profile",
-];
+/// The design keys a sweep may vary, by full path, with how their values
+/// are written: every numeric key of [`crate::pipeline::design_keys`].
+pub fn numeric_keys() -> Vec<(String, Kind)> {
+    crate::pipeline::design_keys()
+        .iter()
+        .filter_map(|k| Some((k.path(), kind_of(k)?)))
+        .collect()
+}
 
 /// One value to try.
 #[derive(Debug, Clone, PartialEq)]
@@ -93,37 +61,38 @@ pub struct Vary {
 
 /// Resolves a key as typed (`turns`, `coil.turns`, `trace_width`) to its
 /// full path among the numeric keys.
-pub fn resolve_key(typed: &str) -> Result<(&'static str, Kind), SweepError> {
+pub fn resolve_key(typed: &str) -> Result<(String, Kind), SweepError> {
     let typed = typed.trim();
-    if let Some(&(k, kind)) = NUMERIC_KEYS.iter().find(|(k, _)| *k == typed) {
-        return Ok((k, kind));
+    let keys = crate::pipeline::design_keys();
+    let short = |k: &Key| k.name == typed;
+    let numeric: Vec<(&Key, Kind)> = keys.iter().filter_map(|k| Some((k, kind_of(k)?))).collect();
+    if let Some(&(k, kind)) = numeric.iter().find(|(k, _)| k.path() == typed) {
+        return Ok((k.path(), kind));
     }
-    let short: Vec<_> = NUMERIC_KEYS
-        .iter()
-        .filter(|(k, _)| k.rsplit('.').next() == Some(typed))
-        .collect();
-    match short.as_slice() {
-        [one] => return Ok((one.0, one.1)),
+    let matches: Vec<_> = numeric.iter().filter(|(k, _)| short(k)).collect();
+    match matches.as_slice() {
+        [one] => return Ok((one.0.path(), one.1)),
         [] => {}
         many => {
             return Err(SweepError::AmbiguousKey {
                 key: typed.into(),
-                candidates: many.iter().map(|(k, _)| k.to_string()).collect(),
+                candidates: many.iter().map(|(k, _)| k.path()).collect(),
             });
         }
     }
-    if OTHER_KEYS
+    if keys
         .iter()
-        .any(|k| *k == typed || k.rsplit('.').next() == Some(typed))
+        .any(|k| kind_of(k).is_none() && (k.path() == typed || short(k)))
     {
         return Err(SweepError::NotNumeric { key: typed.into() });
     }
-    let names = NUMERIC_KEYS
+    let names: Vec<String> = numeric
         .iter()
-        .flat_map(|(k, _)| [k.to_string(), k.rsplit('.').next().unwrap_or(k).to_string()]);
+        .flat_map(|(k, _)| [k.path(), k.name.to_string()])
+        .collect();
     Err(SweepError::UnknownKey {
         key: typed.into(),
-        suggestion: super::nearest(typed, names),
+        suggestion: closest(typed, names.iter().map(String::as_str)).map(str::to_string),
     })
 }
 
@@ -201,6 +170,7 @@ pub fn parse(arg: &str) -> Result<Vary, SweepError> {
         });
     };
     let (key, kind) = resolve_key(k)?;
+    let key = key.as_str();
     let vals = vals.trim();
     let bad = |message: String| SweepError::BadValues {
         arg: arg.into(),
@@ -325,5 +295,27 @@ mod tests {
             parse("diameter=1"),
             Err(SweepError::AmbiguousKey { .. })
         ));
+        match parse("drill=1") {
+            Err(SweepError::AmbiguousKey { candidates, .. }) => {
+                assert_eq!(candidates, ["via.drill", "terminal.drill"])
+            }
+            other => panic!("{other:?}"),
+        }
+    }
+
+    #[test]
+    fn keys_come_from_the_registries() {
+        let keys = numeric_keys();
+        let kind = |p: &str| keys.iter().find(|(k, _)| k == p).map(|(_, kind)| *kind);
+        assert_eq!(kind("coil.layers"), Some(Kind::Integer));
+        assert_eq!(kind("coil.turns"), Some(Kind::Number));
+        assert_eq!(kind("stackup.copper"), Some(Kind::Quantity));
+        assert_eq!(kind("rules.min_edge_clearance"), Some(Kind::Quantity));
+        assert_eq!(kind("coil.shape"), None);
+        assert_eq!(keys.len(), 38);
+        assert_eq!(
+            parse("min_drill=0.15mm,0.2mm").unwrap().key,
+            "rules.min_drill"
+        );
     }
 }

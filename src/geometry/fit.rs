@@ -11,16 +11,8 @@
 //! Millimetres.
 
 use super::spiral::{SpiralSpec, box_extent, radial_extent};
+pub use crate::design::TurnsRequest;
 use crate::design::{Corner, Shape};
-
-/// What the design file asked for.
-#[derive(Debug, Clone, Copy, PartialEq)]
-pub enum TurnsRequest {
-    /// A given number of turns per layer.
-    Count(f64),
-    /// As many as fit (rounded down to 0.01 turn).
-    Max,
-}
 
 /// The inputs of a fit.
 #[derive(Debug, Clone, Copy, PartialEq)]

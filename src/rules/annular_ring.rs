@@ -11,25 +11,35 @@
 //! under "standard" (0.1 mm): `annular-ring error all ...: 0.075000 < 0.100000 mm [via 0]`.
 
 use super::context::Context;
-use super::{RuleInfo, Severity, Violation, fails};
+use super::{Rule, Severity, Violation, fails};
+use crate::design::LimitKey;
 
 /// Stable id.
 pub const ID: &str = "annular-ring";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+/// The limit: smallest annular ring, (pad diameter - drill) / 2, mm.
+pub(super) const LIMIT: LimitKey = LimitKey {
+    name: "min_annular_ring",
+    zero_allowed: true,
+    doc: "smallest annular ring, (pad diameter - drill) / 2",
+};
+
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "(pad diameter - drill) / 2 of vias and pads",
+    limit: Some(LIMIT),
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
-    let req = ctx.profile.min_annular_ring;
+    let req = ctx.profile.min(&LIMIT);
     for h in &ctx.holes {
         let ring = (h.diameter - h.drill) / 2.0;
         if fails(ring, req) {
             out.push(Violation {
                 rule: ID,
-                severity: INFO.severity,
+                severity: RULE.severity,
                 measured: ring,
                 required: req,
                 layer: None,

@@ -17,17 +17,19 @@
 //! `bend-radius warning all ...: 3.000000 < 7.300000 mm []`.
 
 use super::context::Context;
-use super::{RuleInfo, Severity, Violation, fails};
+use super::{Rule, Severity, Violation, fails};
 use crate::design::{BendKind, BoardKind};
 use crate::geometry::Point;
 
 /// Stable id.
 pub const ID: &str = "bend-radius";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Warning,
     summary: "requested flex bend radius against the finished thickness",
+    limit: None,
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
@@ -45,7 +47,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
         };
         out.push(Violation {
             rule: ID,
-            severity: INFO.severity,
+            severity: RULE.severity,
             measured: bend.radius,
             required,
             layer: None,

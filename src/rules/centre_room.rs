@@ -20,16 +20,18 @@
 //! [track 22, pad 1]`.
 
 use super::context::Context;
-use super::{Item, RuleInfo, Severity, Violation, fails};
+use super::{Item, Rule, Severity, Violation, fails};
 use crate::geometry::{Place, Point, TrackRole, Vec2};
 
 /// Stable id.
 pub const ID: &str = "centre-room";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "free centre against what the centre vias and pad need",
+    limit: None,
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
@@ -63,12 +65,12 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
         return;
     };
     let measured = 2.0 * free.max(0.0);
-    let required = 2.0 * (reach + ctx.profile.min_clearance);
+    let required = 2.0 * (reach + ctx.profile.min(&super::clearance::LIMIT));
     if fails(measured, required) {
         let dir = at.to_vec2().normalized().unwrap_or(Vec2::new(1.0, 0.0));
         out.push(Violation {
             rule: ID,
-            severity: INFO.severity,
+            severity: RULE.severity,
             measured,
             required,
             layer: None,

@@ -24,21 +24,31 @@
 
 use super::context::{ADJACENT_CELLS, Context, Piece};
 use super::distance::{Closest, segment_segment};
-use super::{Item, RuleInfo, Severity, Violation, fails};
+use super::{Item, Rule, Severity, Violation, fails};
+use crate::design::LimitKey;
 use crate::geometry::Segment;
 use std::collections::BTreeMap;
 
 /// Stable id.
 pub const ID: &str = "clearance";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+/// The limit: smallest copper-to-copper gap, mm.
+pub(super) const LIMIT: LimitKey = LimitKey {
+    name: "min_clearance",
+    zero_allowed: false,
+    doc: "smallest copper-to-copper gap",
+};
+
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "copper to copper on a layer, turn to turn",
+    limit: Some(LIMIT),
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
-    let req = ctx.profile.min_clearance;
+    let req = ctx.profile.min(&LIMIT);
     // (track a, track b) -> closest failing approach.
     let mut worst: BTreeMap<(usize, usize), Closest> = BTreeMap::new();
     for layer in 1..=ctx.layers {
@@ -102,7 +112,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
         }
         out.push(Violation {
             rule: ID,
-            severity: INFO.severity,
+            severity: RULE.severity,
             measured: gap,
             required: req,
             layer: Some(a.layer),
@@ -226,7 +236,7 @@ mod tests {
             let arcs: Vec<(f64, f64)> =
                 arcs.iter().map(|&(r, s, ccw)| (r, if ccw { s } else { -s })).collect();
             let segs = chain(&arcs);
-            let (d, mut l) = crate::design::parse_and_build(
+            let (d, mut l) = crate::pipeline::parse_and_build(
                 "name = \"t\"\n[coil]\nouter_diameter = \"10mm\"\nturns = 2\n\
                  trace_width = \"0.15mm\"\nclearance = \"0.1mm\"\nlayers = 1\n",
             )
@@ -272,7 +282,7 @@ mod tests {
                 }
             }
             let gap = best - width;
-            let req = p.min_clearance;
+            let req = p.min(&LIMIT);
             if gap < req - 2e-3 {
                 prop_assert!(found <= gap + 1e-3, "{arcs:?}: sampled {gap}, rule {found}");
             } else if gap > req + 2e-3 {

@@ -323,8 +323,9 @@ impl<'a> Context<'a> {
             .chain(layout.pads.iter().flat_map(|p| p.joins.iter().copied()))
             .fold(layout.layers, u8::max)
             .max(1);
+        let min_clearance = profile.min(&super::clearance::LIMIT);
         let widest = layout.tracks.iter().map(|t| t.width).fold(0.0, f64::max);
-        let h = (widest + profile.min_clearance).max(1e-3);
+        let h = (widest + min_clearance).max(1e-3);
 
         // Paths: windings first, then lone tracks.
         let mut track_path: Vec<Option<(usize, f64)>> = vec![None; layout.tracks.len()];
@@ -355,14 +356,14 @@ impl<'a> Context<'a> {
                         _ => false,
                     };
             }
-            paths.push(path_info(wmax, profile.min_clearance));
+            paths.push(path_info(wmax, min_clearance));
             ends.push((w.from, id, 0.0));
             ends.push((w.to, id, s));
         }
         for (i, t) in layout.tracks.iter().enumerate() {
             if track_path[i].is_none() {
                 track_path[i] = Some((paths.len(), 0.0));
-                paths.push(path_info(t.width, profile.min_clearance));
+                paths.push(path_info(t.width, min_clearance));
             }
         }
 

@@ -11,24 +11,34 @@
 //! `drill error all at (0.275000, 0.000000): 0.150000 < 0.200000 mm [via 0]`.
 
 use super::context::Context;
-use super::{RuleInfo, Severity, Violation, fails};
+use super::{Rule, Severity, Violation, fails};
+use crate::design::LimitKey;
 
 /// Stable id.
 pub const ID: &str = "drill";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+/// The limit: smallest finished hole, mm.
+pub(super) const LIMIT: LimitKey = LimitKey {
+    name: "min_drill",
+    zero_allowed: false,
+    doc: "smallest finished hole",
+};
+
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "smallest finished hole of vias and pads",
+    limit: Some(LIMIT),
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
-    let req = ctx.profile.min_drill;
+    let req = ctx.profile.min(&LIMIT);
     for h in &ctx.holes {
         if fails(h.drill, req) {
             out.push(Violation {
                 rule: ID,
-                severity: INFO.severity,
+                severity: RULE.severity,
                 measured: h.drill,
                 required: req,
                 layer: None,

@@ -17,16 +17,26 @@
 
 use super::context::Context;
 use super::distance::{Closest, point_segment, segment_segment};
-use super::{Item, RuleInfo, Severity, Violation, fails};
+use super::{Item, Rule, Severity, Violation, fails};
+use crate::design::LimitKey;
 use crate::geometry::{Point, Segment};
 
 /// Stable id.
 pub const ID: &str = "edge-clearance";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+/// The limit: smallest copper-to-board-edge distance, mm.
+pub(super) const LIMIT: LimitKey = LimitKey {
+    name: "min_edge_clearance",
+    zero_allowed: true,
+    doc: "smallest copper-to-board-edge distance",
+};
+
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "copper to board edge",
+    limit: Some(LIMIT),
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
@@ -34,7 +44,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
     if edge.is_empty() {
         return;
     }
-    let req = ctx.profile.min_edge_clearance;
+    let req = ctx.profile.min(&LIMIT);
     // Polygons of the outline for the inside test only; the distances
     // themselves are exact. The coarse one (10 um chords) decides for
     // copper farther than 20 um from the edge, the fine one (1 nm) nearer.
@@ -63,7 +73,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
         };
         out.push(Violation {
             rule: ID,
-            severity: INFO.severity,
+            severity: RULE.severity,
             measured: gap,
             required: req,
             layer,

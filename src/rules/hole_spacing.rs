@@ -14,23 +14,33 @@
 //! `hole-spacing error all ...: 0.200000 < 0.250000 mm [via 0, via 1]`.
 
 use super::context::Context;
-use super::{RuleInfo, Severity, Violation};
+use super::{Rule, Severity, Violation};
+use crate::design::LimitKey;
 
 /// Stable id.
 pub const ID: &str = "hole-spacing";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+/// The limit: smallest hole-to-hole spacing, edge to edge, mm.
+pub(super) const LIMIT: LimitKey = LimitKey {
+    name: "min_hole_spacing",
+    zero_allowed: true,
+    doc: "smallest hole-to-hole spacing, edge to edge",
+};
+
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "hole edge to hole edge",
+    limit: Some(LIMIT),
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
-    let req = ctx.profile.min_hole_spacing;
+    let req = ctx.profile.min(&LIMIT);
     for (a, b, gap, at) in ctx.close_hole_pairs(|h| h.drill, req) {
         out.push(Violation {
             rule: ID,
-            severity: INFO.severity,
+            severity: RULE.severity,
             measured: gap,
             required: req,
             layer: None,

@@ -27,10 +27,16 @@
 //!
 //! # Adding a rule
 //! Add `src/rules/<name>.rs` with a module doc in three parts (what it
-//! checks, why it matters on a real board, an example), `pub const ID`, an
-//! `INFO` and `fn check(ctx: &Context, out: &mut Vec<Violation>)`; list it
-//! in [`RULES`] and in [`check_with`]; add a fixture that breaks it exactly
-//! once and one at the limit to `tests/suite/rules.rs`.
+//! checks, why it matters on a real board, an example), `pub const ID`,
+//! `fn check(ctx: &Context, out: &mut Vec<Violation>)` and a
+//! `pub(super) const RULE: Rule` naming them; if the rule has a limit, a
+//! `LIMIT: LimitKey` in the rule (read it with `ctx.profile.min(&LIMIT)`).
+//! Then add one line to [`RULES`]. Everything else derives from that list:
+//! [`check_with`] runs the rules in its order, rule profile files must set
+//! every limit, a design may override each under `[rules]`, and a sweep may
+//! vary it as `rules.<limit>`. Add a fixture that breaks it exactly once
+//! and one at the limit to `tests/suite/rules.rs`, and the limit to the
+//! built-in profiles (`templates/rules/*.toml`) and README's key table.
 //!
 //! # Units
 //! Millimetres.
@@ -51,10 +57,9 @@ mod via_clearance;
 mod via_via_clearance;
 
 pub use context::{ADJACENT_PITCHES, Broadphase, TOLERANCE};
-pub(crate) use profile::key_list;
 pub use profile::{Profile, ProfileError};
 
-use crate::design::Design;
+use crate::design::{Design, LimitKey};
 use crate::geometry::{Board, Point};
 use context::Context;
 use serde::Serialize;
@@ -153,31 +158,72 @@ impl fmt::Display for Violation {
     }
 }
 
-/// A rule's stable id, severity and one-line summary.
-#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
-pub struct RuleInfo {
+/// One rule: its stable id, severity, summary, the limit it checks against
+/// (if a profile sets one for it) and its check.
+#[derive(Debug, Clone, Copy, Serialize)]
+pub struct Rule {
     /// Stable id.
     pub id: &'static str,
     /// Severity of its violations.
     pub severity: Severity,
     /// What it checks.
     pub summary: &'static str,
+    /// The limit this rule owns: a key every rule profile sets and a design
+    /// may override under `[rules]`. Other rules may read it too.
+    pub limit: Option<LimitKey>,
+    /// Measures the layout and appends what breaks the rule.
+    #[serde(skip)]
+    check: fn(&Context, &mut Vec<Violation>),
 }
 
-/// Every rule, in check order.
-pub const RULES: [RuleInfo; 11] = [
-    trace_width::INFO,
-    clearance::INFO,
-    via_clearance::INFO,
-    pad_lead_clearance::INFO,
-    via_via_clearance::INFO,
-    drill::INFO,
-    annular_ring::INFO,
-    hole_spacing::INFO,
-    edge_clearance::INFO,
-    centre_room::INFO,
-    bend_radius::INFO,
+/// The rule registry: every rule, in check order (also the order of
+/// violations of equal severity).
+pub const RULES: &[Rule] = &[
+    trace_width::RULE,
+    clearance::RULE,
+    via_clearance::RULE,
+    pad_lead_clearance::RULE,
+    via_via_clearance::RULE,
+    drill::RULE,
+    annular_ring::RULE,
+    hole_spacing::RULE,
+    edge_clearance::RULE,
+    centre_room::RULE,
+    bend_radius::RULE,
 ];
+
+/// The limits of [`RULES`], in rule order: the length keys of a rule
+/// profile, and the `[rules]` keys a design may override.
+pub const LIMITS: &[LimitKey] = &limits::<{ limit_count() }>();
+
+const fn limit_count() -> usize {
+    let mut n = 0;
+    let mut i = 0;
+    while i < RULES.len() {
+        if RULES[i].limit.is_some() {
+            n += 1;
+        }
+        i += 1;
+    }
+    n
+}
+
+const fn limits<const N: usize>() -> [LimitKey; N] {
+    let mut out = [LimitKey {
+        name: "",
+        zero_allowed: false,
+        doc: "",
+    }; N];
+    let (mut i, mut j) = (0, 0);
+    while i < RULES.len() {
+        if let Some(l) = RULES[i].limit {
+            out[j] = l;
+            j += 1;
+        }
+        i += 1;
+    }
+    out
+}
 
 /// Checks a layout against a profile (use the design's own profile with
 /// [`Profile::with_overrides`] of `design.rules.overrides`). Returns every
@@ -196,17 +242,9 @@ pub fn check_with(
 ) -> Vec<Violation> {
     let ctx = Context::new(design, layout, profile, broadphase);
     let mut out = Vec::new();
-    trace_width::check(&ctx, &mut out);
-    clearance::check(&ctx, &mut out);
-    via_clearance::check(&ctx, &mut out);
-    pad_lead_clearance::check(&ctx, &mut out);
-    via_via_clearance::check(&ctx, &mut out);
-    drill::check(&ctx, &mut out);
-    annular_ring::check(&ctx, &mut out);
-    hole_spacing::check(&ctx, &mut out);
-    edge_clearance::check(&ctx, &mut out);
-    centre_room::check(&ctx, &mut out);
-    bend_radius::check(&ctx, &mut out);
+    for rule in RULES {
+        (rule.check)(&ctx, &mut out);
+    }
     sort(&mut out);
     out
 }

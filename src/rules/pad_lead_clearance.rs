@@ -21,15 +21,17 @@
 //! (7.230167, 7.230167): 0.050000 < 0.100000 mm [track 1, pad 0]`.
 
 use super::context::Context;
-use super::{RuleInfo, Severity, Violation, via_clearance};
+use super::{Rule, Severity, Violation, via_clearance};
 
 /// Stable id.
 pub const ID: &str = "pad-lead-clearance";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "via or pad to copper of layers it joins, away from its own lead",
+    limit: None,
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
@@ -43,7 +45,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
             })
             .collect();
         for &layer in &h.joins {
-            via_clearance::report(ctx, h, layer, &exclude, ID, INFO.severity, out);
+            via_clearance::report(ctx, h, layer, &exclude, ID, RULE.severity, out);
         }
     }
 }

@@ -9,26 +9,19 @@
 //! Millimetres. In a profile file a length is a bare number (mm) or a
 //! string with a unit: "0.1mm", "100um", "4mil", "0.004in".
 
-use crate::design::RuleOverrides;
-use serde::Serialize;
+use super::LIMITS;
+use crate::design::LimitKey;
+use serde::ser::{Serialize, SerializeMap, Serializer};
+use std::collections::BTreeMap;
 
-/// The rule values a layout is checked against. Lengths in mm.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+/// The rule values a layout is checked against: a name and one value per
+/// limit of the rule registry ([`LIMITS`]). Lengths in mm.
+#[derive(Debug, Clone, PartialEq)]
 pub struct Profile {
     /// Profile name ("standard", or whatever a file calls itself).
     pub name: String,
-    /// Narrowest track, mm.
-    pub min_trace_width: f64,
-    /// Smallest copper-to-copper gap, mm.
-    pub min_clearance: f64,
-    /// Smallest finished hole, mm.
-    pub min_drill: f64,
-    /// Smallest annular ring, (pad diameter - drill) / 2, mm.
-    pub min_annular_ring: f64,
-    /// Smallest hole-to-hole spacing, edge to edge, mm.
-    pub min_hole_spacing: f64,
-    /// Smallest copper-to-board-edge distance, mm.
-    pub min_edge_clearance: f64,
+    /// One value per limit, in the order of [`LIMITS`], mm.
+    values: Vec<f64>,
 }
 
 /// Why a profile file cannot be used. Each variant names the key.
@@ -38,7 +31,7 @@ pub enum ProfileError {
     #[error("rule profile is not valid TOML: {0}")]
     Syntax(String),
     /// A key the profile format does not know.
-    #[error("unknown key `{0}` in rule profile (known: {known})", known = KEYS.join(", "))]
+    #[error("unknown key `{0}` in rule profile (known: {known})", known = keys().collect::<Vec<_>>().join(", "))]
     UnknownKey(String),
     /// A required key is absent.
     #[error("rule profile lacks `{0}`")]
@@ -64,35 +57,12 @@ pub enum ProfileError {
     },
 }
 
-/// Length keys of a profile, in file order (also the lengths a design's
-/// `[rules]` table may override).
-const LENGTH_KEYS: [&str; 6] = [
-    "min_trace_width",
-    "min_clearance",
-    "min_drill",
-    "min_annular_ring",
-    "min_hole_spacing",
-    "min_edge_clearance",
-];
-
-/// Every key a profile file may contain.
-const KEYS: [&str; 8] = key_list(["name", "description"]);
-
-/// `first` followed by [`LENGTH_KEYS`], at compile time.
-pub(crate) const fn key_list<const A: usize, const N: usize>(
-    first: [&'static str; A],
-) -> [&'static str; N] {
-    assert!(
-        A + LENGTH_KEYS.len() == N,
-        "N must be A plus the length keys"
-    );
-    let mut out = [""; N];
-    let mut i = 0;
-    while i < N {
-        out[i] = if i < A { first[i] } else { LENGTH_KEYS[i - A] };
-        i += 1;
-    }
-    out
+/// Every key a profile file may contain, in file order: `name`,
+/// `description`, then the limits.
+fn keys() -> impl Iterator<Item = &'static str> {
+    ["name", "description"]
+        .into_iter()
+        .chain(LIMITS.iter().map(|l| l.name))
 }
 
 /// Built-in profiles: (name, TOML text).
@@ -109,6 +79,51 @@ const BUILTIN: [(&str, &str); 3] = [
 ];
 
 impl Profile {
+    /// A profile from a value for every limit of [`LIMITS`] (key, mm), in
+    /// any order. Unknown and missing keys are errors naming the key.
+    pub fn from_limits<'k>(
+        name: impl Into<String>,
+        values: impl IntoIterator<Item = (&'k str, f64)>,
+    ) -> Result<Profile, ProfileError> {
+        let mut slots: Vec<Option<f64>> = vec![None; LIMITS.len()];
+        for (key, mm) in values {
+            slots[index(key)?] = Some(mm);
+        }
+        let values = slots
+            .into_iter()
+            .zip(LIMITS)
+            .map(|(v, l)| v.ok_or(ProfileError::Missing(l.name)))
+            .collect::<Result<_, _>>()?;
+        Ok(Profile {
+            name: name.into(),
+            values,
+        })
+    }
+
+    /// The value of a limit by key (`min_clearance`), mm; `None` for a key
+    /// that is not a limit.
+    pub fn limit(&self, key: &str) -> Option<f64> {
+        index(key).ok().map(|i| self.values[i])
+    }
+
+    /// Sets the value of a limit by key, mm.
+    pub fn set_limit(&mut self, key: &str, mm: f64) -> Result<(), ProfileError> {
+        let i = index(key)?;
+        self.values[i] = mm;
+        Ok(())
+    }
+
+    /// Every limit with its value, in the order of [`LIMITS`].
+    pub fn limits(&self) -> impl Iterator<Item = (&'static LimitKey, f64)> + '_ {
+        LIMITS.iter().zip(self.values.iter().copied())
+    }
+
+    /// The value of one of the registry's limits, mm (what a rule reads).
+    pub(crate) fn min(&self, limit: &LimitKey) -> f64 {
+        self.limit(limit.name)
+            .expect("a rule's limit is in the registry, and every profile sets every limit")
+    }
+
     /// Names of the built-in profiles.
     pub fn builtin_names() -> impl Iterator<Item = &'static str> {
         BUILTIN.iter().map(|(n, _)| *n)
@@ -131,21 +146,20 @@ impl Profile {
     pub fn named(name: &str) -> Result<Profile, ProfileError> {
         Self::builtin(name).ok_or_else(|| ProfileError::UnknownProfile {
             name: name.to_string(),
-            suggestion: Self::builtin_names()
-                .map(|n| (strsim::jaro_winkler(n, name), n))
-                .filter(|(score, _)| *score > 0.8)
-                .max_by(|a, b| a.0.total_cmp(&b.0))
-                .map(|(_, n)| n),
+            suggestion: crate::suggest::closest(name, Self::builtin_names()),
         })
     }
 
-    /// Parses a profile file. Every length key is required; unknown keys
+    /// Parses a profile file. Every limit key is required; unknown keys
     /// are an error naming the key.
     pub fn from_toml(text: &str) -> Result<Profile, ProfileError> {
         let table: toml::Table = text
             .parse()
             .map_err(|e: toml::de::Error| ProfileError::Syntax(e.message().to_string()))?;
-        if let Some(k) = table.keys().find(|k| !KEYS.contains(&k.as_str())) {
+        if let Some(k) = table
+            .keys()
+            .find(|k| !keys().any(|known| known == k.as_str()))
+        {
             return Err(ProfileError::UnknownKey(k.clone()));
         }
         let name = match table.get("name") {
@@ -158,33 +172,47 @@ impl Profile {
                 });
             }
         };
-        let mut v = [0.0; 6];
-        for (slot, key) in v.iter_mut().zip(LENGTH_KEYS) {
-            let value = table.get(key).ok_or(ProfileError::Missing(key))?;
-            *slot = length(key, value)?;
+        let mut values = Vec::with_capacity(LIMITS.len());
+        for limit in LIMITS {
+            let value = table
+                .get(limit.name)
+                .ok_or(ProfileError::Missing(limit.name))?;
+            values.push(length(limit.name, value)?);
         }
-        Ok(Profile {
-            name,
-            min_trace_width: v[0],
-            min_clearance: v[1],
-            min_drill: v[2],
-            min_annular_ring: v[3],
-            min_hole_spacing: v[4],
-            min_edge_clearance: v[5],
-        })
+        Ok(Profile { name, values })
     }
 
-    /// This profile with a design's per-rule overrides applied.
-    pub fn with_overrides(&self, o: &RuleOverrides) -> Profile {
-        Profile {
-            name: self.name.clone(),
-            min_trace_width: o.min_trace_width.unwrap_or(self.min_trace_width),
-            min_clearance: o.min_clearance.unwrap_or(self.min_clearance),
-            min_drill: o.min_drill.unwrap_or(self.min_drill),
-            min_annular_ring: o.min_annular_ring.unwrap_or(self.min_annular_ring),
-            min_hole_spacing: o.min_hole_spacing.unwrap_or(self.min_hole_spacing),
-            min_edge_clearance: o.min_edge_clearance.unwrap_or(self.min_edge_clearance),
+    /// This profile with a design's per-rule overrides applied (limit key
+    /// to mm, as in `design.rules.overrides`).
+    pub fn with_overrides(
+        &self,
+        overrides: &BTreeMap<String, f64>,
+    ) -> Result<Profile, ProfileError> {
+        let mut p = self.clone();
+        for (key, &mm) in overrides {
+            p.set_limit(key, mm)?;
         }
+        Ok(p)
+    }
+}
+
+/// Where a limit key is in [`LIMITS`].
+fn index(key: &str) -> Result<usize, ProfileError> {
+    LIMITS
+        .iter()
+        .position(|l| l.name == key)
+        .ok_or_else(|| ProfileError::UnknownKey(key.to_string()))
+}
+
+impl Serialize for Profile {
+    /// As a profile file reads: `name`, then every limit, mm.
+    fn serialize<S: Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        let mut map = s.serialize_map(Some(1 + self.values.len()))?;
+        map.serialize_entry("name", &self.name)?;
+        for (limit, mm) in self.limits() {
+            map.serialize_entry(limit.name, &mm)?;
+        }
+        map.end()
     }
 }
 
@@ -219,12 +247,13 @@ mod tests {
             let p = Profile::builtin(n).unwrap();
             assert_eq!(p.name, n);
         }
-        let s = Profile::builtin("standard").unwrap();
-        assert_eq!((s.min_trace_width, s.min_clearance), (0.1, 0.1));
-        let f = Profile::builtin("fine").unwrap();
-        assert_eq!((f.min_trace_width, f.min_clearance), (0.075, 0.075));
-        let c = Profile::builtin("cautious").unwrap();
-        assert_eq!((c.min_trace_width, c.min_clearance), (0.15, 0.15));
+        let widths = |n: &str| {
+            let p = Profile::builtin(n).unwrap();
+            (p.limit("min_trace_width"), p.limit("min_clearance"))
+        };
+        assert_eq!(widths("standard"), (Some(0.1), Some(0.1)));
+        assert_eq!(widths("fine"), (Some(0.075), Some(0.075)));
+        assert_eq!(widths("cautious"), (Some(0.15), Some(0.15)));
         assert!(Profile::builtin("nonesuch").is_none());
     }
 
@@ -234,7 +263,39 @@ mod tests {
         assert!(e.to_string().contains("did you mean `standard`"), "{e}");
         let e = Profile::named("zzz").unwrap_err();
         assert!(!e.to_string().contains("did you mean"), "{e}");
-        assert_eq!(Profile::named("fine").unwrap().min_clearance, 0.075);
+        assert_eq!(
+            Profile::named("fine").unwrap().limit("min_clearance"),
+            Some(0.075)
+        );
+    }
+
+    #[test]
+    fn limits_come_from_the_rule_registry_in_rule_order() {
+        let names: Vec<_> = LIMITS.iter().map(|l| l.name).collect();
+        assert_eq!(
+            names,
+            [
+                "min_trace_width",
+                "min_clearance",
+                "min_drill",
+                "min_annular_ring",
+                "min_hole_spacing",
+                "min_edge_clearance"
+            ]
+        );
+        let s = Profile::builtin("standard").unwrap();
+        let all: Vec<_> = s.limits().map(|(l, mm)| (l.name, mm)).collect();
+        let again = Profile::from_limits("standard", all.iter().copied()).unwrap();
+        assert_eq!(again, s);
+        let e = Profile::from_limits("x", all[1..].iter().copied()).unwrap_err();
+        assert_eq!(e, ProfileError::Missing("min_trace_width"));
+        let e = Profile::from_limits("x", [("min_colour", 1.0)]).unwrap_err();
+        assert_eq!(e, ProfileError::UnknownKey("min_colour".into()));
+        let json = serde_json::to_string(&s).unwrap();
+        assert!(
+            json.starts_with(r#"{"name":"standard","min_trace_width":0.1,"#),
+            "{json}"
+        );
     }
 
     #[test]
@@ -265,14 +326,13 @@ mod tests {
             .replace("min_clearance = 0.1 ", "min_clearance = \"4mil\"")
             .replace("min_drill = 0.2 ", "min_drill = \"250um\"");
         let p = Profile::from_toml(&t).unwrap();
-        assert!((p.min_clearance - 0.1016).abs() < 1e-12);
-        assert!((p.min_drill - 0.25).abs() < 1e-12);
-        let o = RuleOverrides {
-            min_clearance: Some(0.09),
-            ..Default::default()
-        };
-        let q = p.with_overrides(&o);
-        assert_eq!(q.min_clearance, 0.09);
-        assert_eq!(q.min_trace_width, p.min_trace_width);
+        assert!((p.limit("min_clearance").unwrap() - 0.1016).abs() < 1e-12);
+        assert!((p.limit("min_drill").unwrap() - 0.25).abs() < 1e-12);
+        let o = BTreeMap::from([("min_clearance".to_string(), 0.09)]);
+        let q = p.with_overrides(&o).unwrap();
+        assert_eq!(q.limit("min_clearance"), Some(0.09));
+        assert_eq!(q.limit("min_trace_width"), p.limit("min_trace_width"));
+        let bad = BTreeMap::from([("min_colour".to_string(), 0.09)]);
+        assert!(p.with_overrides(&bad).is_err());
     }
 }

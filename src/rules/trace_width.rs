@@ -12,19 +12,29 @@
 //! "standard" profile (0.1 mm): `trace-width error L1: 0.090000 < 0.100000 mm`.
 
 use super::context::Context;
-use super::{Item, RuleInfo, Severity, Violation, fails};
+use super::{Item, Rule, Severity, Violation, fails};
+use crate::design::LimitKey;
 
 /// Stable id.
 pub const ID: &str = "trace-width";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+/// The limit: narrowest track, mm.
+pub(super) const LIMIT: LimitKey = LimitKey {
+    name: "min_trace_width",
+    zero_allowed: false,
+    doc: "narrowest track",
+};
+
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "narrowest copper track on each layer",
+    limit: Some(LIMIT),
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
-    let req = ctx.profile.min_trace_width;
+    let req = ctx.profile.min(&LIMIT);
     for layer in 1..=ctx.layers {
         let bad: Vec<usize> = (0..ctx.layout.tracks.len())
             .filter(|&i| {
@@ -42,7 +52,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
         let t = &ctx.layout.tracks[worst];
         out.push(Violation {
             rule: ID,
-            severity: INFO.severity,
+            severity: RULE.severity,
             measured: t.width,
             required: req,
             layer: Some(layer),

@@ -19,23 +19,25 @@
 
 use super::context::{Context, Hole, PolarBox};
 use super::distance::{Closest, point_segment};
-use super::{Item, RuleInfo, Severity, Violation, fails};
+use super::{Item, Rule, Severity, Violation, fails};
 use std::collections::BTreeMap;
 
 /// Stable id.
 pub const ID: &str = "via-clearance";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "via or pad to copper of layers it does not join",
+    limit: None,
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
     for h in &ctx.holes {
         for layer in 1..=ctx.layers {
             if !h.joins.contains(&layer) {
-                report(ctx, h, layer, &[], ID, INFO.severity, out);
+                report(ctx, h, layer, &[], ID, RULE.severity, out);
             }
         }
     }
@@ -53,7 +55,7 @@ pub(super) fn report(
     severity: Severity,
     out: &mut Vec<Violation>,
 ) {
-    let req = ctx.profile.min_clearance;
+    let req = ctx.profile.min(&super::clearance::LIMIT);
     let r = h.diameter / 2.0;
     let reach = r + req + ctx.max_hw_on(layer) + 1e-9;
     let mut worst: BTreeMap<usize, Closest> = BTreeMap::new();

@@ -14,23 +14,25 @@
 //! `via-via-clearance error all ...: 0.050000 < 0.100000 mm [via 0, via 1]`.
 
 use super::context::Context;
-use super::{RuleInfo, Severity, Violation};
+use super::{Rule, Severity, Violation};
 
 /// Stable id.
 pub const ID: &str = "via-via-clearance";
 
-pub(super) const INFO: RuleInfo = RuleInfo {
+pub(super) const RULE: Rule = Rule {
     id: ID,
     severity: Severity::Error,
     summary: "pad copper of two vias or terminal pads",
+    limit: None,
+    check,
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
-    let req = ctx.profile.min_clearance;
+    let req = ctx.profile.min(&super::clearance::LIMIT);
     for (a, b, gap, at) in ctx.close_hole_pairs(|h| h.diameter, req) {
         out.push(Violation {
             rule: ID,
-            severity: INFO.severity,
+            severity: RULE.severity,
             measured: gap,
             required: req,
             layer: None,

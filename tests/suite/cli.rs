@@ -386,7 +386,7 @@ fn init_writes_a_valid_design_and_refuses_to_overwrite() {
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     let text = std::fs::read_to_string(dir.path().join("my-coil.toml")).unwrap();
     assert!(text.contains("name = \"my-coil\""));
-    coilwright::design::parse(&text).unwrap();
+    coilwright::pipeline::parse(&text).unwrap();
 
     std::fs::write(dir.path().join("my-coil.toml"), "# mine\n").unwrap();
     let o = run(dir.path(), &["init", "my-coil.toml"]);
@@ -474,4 +474,20 @@ fn closed_output_pipe_is_not_an_error() {
     let o = child.wait_with_output().unwrap();
     assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
     assert!(stderr(&o).is_empty(), "{}", stderr(&o));
+}
+
+#[test]
+fn the_key_heads_each_problem_once() {
+    let dir = tempfile::tempdir().unwrap();
+    std::fs::write(
+        dir.path().join("d.toml"),
+        mutate("layers = 4", "layers = 33"),
+    )
+    .unwrap();
+    let err = stderr(&run(dir.path(), &["check", "d.toml"]));
+    assert!(
+        err.lines()
+            .any(|l| l == "error: coil.layers: 33 is out of range; it must be 1 to 32"),
+        "{err}"
+    );
 }

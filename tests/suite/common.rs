@@ -24,14 +24,20 @@ pub fn coilwright(args: &[&str]) -> (i32, String, String) {
 /// (the generator keeps pads a clearance apart, so holes are farther) and
 /// its board margin as edge clearance.
 pub fn own_profile(d: &Design) -> Profile {
-    Profile {
-        name: "own".into(),
-        min_trace_width: d.coil.trace_width,
-        min_clearance: d.coil.clearance,
-        min_drill: d.via.drill.min(d.terminal.drill),
-        min_annular_ring: ((d.via.diameter - d.via.drill) / 2.0)
-            .min((d.terminal.diameter - d.terminal.drill) / 2.0),
-        min_hole_spacing: d.coil.clearance,
-        min_edge_clearance: d.board.margin,
-    }
+    Profile::from_limits(
+        "own",
+        [
+            ("min_trace_width", d.coil.trace_width),
+            ("min_clearance", d.coil.clearance),
+            ("min_drill", d.via.drill.min(d.terminal.drill)),
+            (
+                "min_annular_ring",
+                ((d.via.diameter - d.via.drill) / 2.0)
+                    .min((d.terminal.diameter - d.terminal.drill) / 2.0),
+            ),
+            ("min_hole_spacing", d.coil.clearance),
+            ("min_edge_clearance", d.board.margin),
+        ],
+    )
+    .expect("every limit set")
 }

@@ -1,6 +1,7 @@
 //! Every starter template and every example design parses and builds.
 
-use coilwright::design::{Shape, parse};
+use coilwright::design::Shape;
+use coilwright::pipeline::parse;
 
 #[test]
 fn every_template_parses_and_builds() {

@@ -4,6 +4,7 @@
 //! - `cli`, `cli_rules`, `sweep`: run the built binary (bad input exits 2 and
 //!   names its key, overwrite protection, JSON outputs, exit codes);
 //! - `designs`: every template and example parses and builds;
+//! - `keys`: README's key table lists exactly the registered design keys;
 //! - `outputs`: SHA-256 of everything `build` writes for every example and
 //!   template (the guard for refactoring; bless deliberate changes);
 //! - `export_gerber`, `svg_golden`: golden files (insta snapshots in
@@ -28,6 +29,7 @@ mod export_gerber;
 mod geometry_props;
 mod geometry_sanity;
 mod interop;
+mod keys;
 mod magpylib_rerun;
 mod outputs;
 mod physics_magpylib;

@@ -413,7 +413,7 @@ fn sweep_metrics_match_the_full_report() {
     let mut designs = Vec::new();
     for f in ["fin-actuator", "wearable-buzzer", "octagon-charger"] {
         let text = std::fs::read_to_string(format!("{root}/examples/{f}.toml")).unwrap();
-        designs.push((f.to_string(), coilwright::design::parse(&text).unwrap()));
+        designs.push((f.to_string(), coilwright::pipeline::parse(&text).unwrap()));
     }
     let mut hex = Design::sample();
     hex.coil.shape = Shape::Polygon { sides: 6 };

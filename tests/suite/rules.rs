@@ -263,9 +263,9 @@ fn hole_spacing() {
     let d = tight();
     let l = build(&d);
     let mut p = standard();
-    p.min_hole_spacing = 0.35;
+    p.set_limit("min_hole_spacing", 0.35).unwrap();
     assert!(rules::is_clean(&rules::check(&d, &l, &p)));
-    p.min_hole_spacing = 0.4;
+    p.set_limit("min_hole_spacing", 0.4).unwrap();
     once("hole_spacing", &rules::check(&d, &l, &p), "hole-spacing");
 }
 
@@ -275,7 +275,7 @@ fn edge_clearance() {
     let d = Design::sample();
     let mut l = build(&d);
     let mut p = standard();
-    p.min_edge_clearance = 0.5;
+    p.set_limit("min_edge_clearance", 0.5).unwrap();
     assert!(rules::is_clean(&rules::check(&d, &l, &p)));
     // Terminal 1 pushed 0.25 mm outwards: 0.25 mm from the edge, under 0.3.
     l.pads[0].at = push_out(l.pads[0].at, 0.25);

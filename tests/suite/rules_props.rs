@@ -147,8 +147,9 @@ proptest! {
         prop_assume!(l.is_ok());
         let l = l.unwrap();
         let mut p = own_profile(&d);
-        p.min_trace_width *= kw;
-        p.min_clearance *= ks;
+        let (w, s) = (p.limit("min_trace_width").unwrap(), p.limit("min_clearance").unwrap());
+        p.set_limit("min_trace_width", w * kw).unwrap();
+        p.set_limit("min_clearance", s * ks).unwrap();
         let fast = rules::check_with(&d, &l, &p, Broadphase::Index);
         let slow = rules::check_with(&d, &l, &p, Broadphase::AllPairs);
         prop_assert_eq!(&fast, &slow, "{:?}\n{}", k, show(&fast));
@@ -181,7 +182,7 @@ proptest! {
         prop_assume!(l.is_ok());
         let v = rules::check(&d, &l.unwrap(), &p);
         prop_assert!(
-            v.iter().any(|x| x.rule == "clearance" && x.measured < p.min_clearance - 0.0009),
+            v.iter().any(|x| x.rule == "clearance" && x.measured < p.limit("min_clearance").unwrap() - 0.0009),
             "{:?}\n{}", k, show(&v)
         );
         d.coil.clearance += 0.001;

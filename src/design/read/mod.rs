@@ -1,0 +1,99 @@
+//! Reading a design file (TOML) into a validated [`DesignRequest`].
+//!
+//! Every value is read with its byte span, so that each problem points at
+//! the key or value it is about. Problems are collected rather than
+//! stopping at the first, as far as later checks do not depend on earlier
+//! values. One reader per table, each in its own file; `table.rs` holds
+//! the helpers they share, `known_keys.rs` the unknown-key check.
+
+mod board;
+mod coil;
+mod drive;
+mod holes;
+mod known_keys;
+mod magnet;
+mod name;
+mod rules;
+mod stackup;
+mod table;
+
+pub use coil::{MAX_SIZE_MM, MAX_TURNS};
+pub use drive::DEFAULT_CURRENT_A;
+
+use super::error::{DesignError, DesignErrors};
+use super::keys::LimitKey;
+use super::model::DesignRequest;
+use super::spans::KeySpans;
+use table::{Ctx, Table};
+use toml::de::DeTable;
+
+/// Reads and validates a design file.
+///
+/// `limits` are the `[rules]` keys that override rule limits (the rule
+/// registry's, `rules::LIMITS`; `crate::pipeline::parse` passes them).
+/// Returns every problem found (at least one) with the dotted key and the
+/// byte span it is about. Defaults are documented in the README's key
+/// reference.
+pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErrors> {
+    let doc = DeTable::parse(text).map_err(|e| DesignError {
+        key: "syntax".into(),
+        span: e.span(),
+        message: format!("TOML syntax error: {}", e.message().trim()),
+        help: Some("see https://toml.io for the file syntax".into()),
+    })?;
+    let mut cx = Ctx::new(limits);
+    let root = Table::root(doc.get_ref());
+    cx.check_keys(&root);
+    let name = name::read(&mut cx, &root);
+
+    let coil_t = cx.table(&root, "coil");
+    let stackup_t = cx.table(&root, "stackup");
+    let via_t = cx.table(&root, "via");
+    let terminal_t = cx.table(&root, "terminal");
+    let board_t = cx.table(&root, "board");
+    let rules_t = cx.table(&root, "rules");
+    let magnet_t = cx.table(&root, "magnet");
+    let drive_t = cx.table(&root, "drive");
+
+    let coil = coil::read(&mut cx, &coil_t);
+    let layers = coil.as_ref().and_then(|c| c.layers);
+    let stackup = stackup::read(&mut cx, &stackup_t, layers);
+    let via = holes::read(&mut cx, &via_t, holes::VIA);
+    let terminal = holes::read(&mut cx, &terminal_t, holes::TERMINAL);
+    let board = board::read(&mut cx, &board_t);
+    let rules = rules::read(&mut cx, &rules_t);
+    let magnet = magnet::read(&mut cx, &magnet_t);
+    let drive = drive::read(&mut cx, &drive_t);
+
+    let Ctx {
+        mut errors,
+        misspelled,
+        ..
+    } = cx;
+    // A key reported as a typo is absent: that it is missing is not news.
+    errors.retain(|e| !misspelled.contains(&e.key));
+    if !errors.is_empty() {
+        return Err(DesignErrors { errors });
+    }
+    let Some(coil) = coil else {
+        return Err(DesignError {
+            key: "coil".into(),
+            span: None,
+            message: "the design needs a [coil] table".into(),
+            help: Some("start from `coilwright init FILE`".into()),
+        }
+        .into());
+    };
+    Ok(DesignRequest {
+        name,
+        coil: coil.into_request(),
+        stackup,
+        via,
+        terminal,
+        board,
+        rules,
+        magnet,
+        drive,
+        spans: KeySpans::of(doc.get_ref()),
+    })
+}

@@ -1,0 +1,302 @@
+//! The pipeline end to end on small designs: defaults, units, problems
+//! named by key and span (also those found by the fit and the build).
+
+use super::parse;
+use crate::design::*;
+use crate::geometry;
+
+const BASE: &str = r#"
+name = "t"
+[coil]
+outer_diameter = "20mm"
+turns = 10
+trace_width = "0.1mm"
+clearance = "0.1mm"
+layers = 4
+"#;
+
+fn err(text: &str) -> DesignErrors {
+    parse(text).expect_err("should fail")
+}
+
+fn with(extra_coil: &str) -> String {
+    BASE.replace("layers = 4\n", &format!("layers = 4\n{extra_coil}\n"))
+}
+
+#[test]
+fn minimal_design_gets_defaults() {
+    let d = parse(BASE).unwrap();
+    assert_eq!(d.name, "t");
+    assert_eq!(d.coil.shape, Shape::Circle);
+    assert_eq!(d.coil.layers, 4);
+    assert_eq!(d.coil.turns, 10.0);
+    assert!((d.coil.outer_diameter - 20.0).abs() < 1e-6);
+    assert!(d.coil.inner_diameter > 0.0 && d.coil.inner_diameter < 20.0);
+    assert_eq!(d.stackup.kind, BoardKind::Flex);
+    assert_eq!(d.stackup.copper, vec![0.035; 4]);
+    assert_eq!(d.stackup.dielectric, vec![0.05; 3]);
+    assert_eq!(d.stackup.dielectric_material, "Polyimide");
+    assert_eq!(d.via.drill, 0.2);
+    assert_eq!(d.terminal.diameter, 0.8);
+    assert_eq!(d.board.margin, 0.5);
+    assert_eq!(d.rules.profile, "standard");
+    assert_eq!(d.magnet, None);
+    assert_eq!(d.drive.source, Source::Current(DEFAULT_CURRENT_A));
+    assert_eq!(d.drive.ambient, 25.0);
+    assert_eq!(d.drive.max_temperature, 80.0);
+    assert_eq!(d.drive.emissivity, 0.9);
+    geometry::build(&d).unwrap();
+}
+
+#[test]
+fn units_and_tables_are_read() {
+    let text = format!(
+        "{BASE}[stackup]\nkind = \"rigid\"\ncopper = [\"1oz\", \"0.5oz\", \"0.5oz\", \"1oz\"]\ndielectric = \"8mil\"\n\
+         [magnet]\ndiameter = 5\nthickness = \"2mm\"\nremanence = \"1.3T\"\ngap = \"500um\"\n\
+         [drive]\nvoltage = \"3.3V\"\nambient = \"30C\"\nfrequency = \"100kHz\"\n"
+    );
+    let d = parse(&text).unwrap();
+    assert_eq!(d.stackup.kind, BoardKind::Rigid);
+    assert_eq!(d.stackup.copper, vec![0.035, 0.0175, 0.0175, 0.035]);
+    assert!((d.stackup.dielectric[0] - 0.2032).abs() < 1e-12);
+    assert_eq!(d.stackup.dielectric_material, "FR4");
+    let m = d.magnet.unwrap();
+    assert_eq!((m.diameter, m.thickness, m.remanence), (5.0, 2.0, 1.3));
+    assert!((m.gap - 0.5).abs() < 1e-12);
+    assert_eq!(d.drive.source, Source::Voltage(3.3));
+    assert_eq!(d.drive.frequency, Some(1e5));
+}
+
+#[test]
+fn errors_name_key_and_span() {
+    let text = BASE.replace("\"0.1mm\"\nclearance", "\"-0.1mm\"\nclearance");
+    let e = err(&text);
+    let first = e.first();
+    assert_eq!(first.key, "coil.trace_width");
+    let span = first.span.clone().unwrap();
+    assert_eq!(&text[span], "\"-0.1mm\"");
+}
+
+#[test]
+fn unknown_key_suggests_nearest() {
+    let e = err(&BASE.replace("trace_width", "trace_widht"));
+    assert!(e.has_key("coil.trace_widht"), "{e}");
+    let u = e
+        .errors
+        .iter()
+        .find(|x| x.key == "coil.trace_widht")
+        .unwrap();
+    assert!(u.help.as_deref().unwrap().contains("trace_width"));
+    let e = err(&format!("{BASE}[coill]\nx = 1\n"));
+    assert_eq!(e.first().key, "coill");
+    assert_eq!(e.first().message, "unknown table");
+}
+
+#[test]
+fn several_errors_are_collected() {
+    let text = BASE
+        .replace("\"0.1mm\"\nclearance", "0\nclearance")
+        .replace("layers = 4", "layers = 40");
+    let e = err(&text);
+    assert!(
+        e.has_key("coil.trace_width") && e.has_key("coil.layers"),
+        "{e}"
+    );
+}
+
+#[test]
+fn fit_errors_map_to_keys() {
+    let e = err(&BASE.replace("turns = 10", "turns = 100"));
+    assert_eq!(e.first().key, "coil.turns");
+    assert!(e.first().message.contains("at most"), "{e}");
+    let e = err(&BASE.replace("turns = 10", "inner_diameter = \"0.3mm\""));
+    assert_eq!(e.first().key, "coil.inner_diameter");
+    assert!(e.first().message.contains("minimum"), "{e}");
+    let e = err(&with("inner_diameter = \"4mm\""));
+    assert_eq!(e.first().key, "coil");
+}
+
+#[test]
+fn shapes() {
+    let poly = with("shape = \"polygon\"\nsides = 6\ncorner = \"round\"");
+    let d = parse(&poly).unwrap();
+    assert_eq!(d.coil.shape, Shape::Polygon { sides: 6 });
+    assert_eq!(d.coil.corner, Corner::Round { radius: 0.2 });
+    let e = err(&with("shape = \"polygon\""));
+    assert!(e.has_key("coil.sides"));
+    let rect = BASE.replace(
+        "outer_diameter = \"20mm\"",
+        "shape = \"rectangle\"\nwidth = \"30mm\"\nheight = \"12mm\"",
+    );
+    let d = parse(&rect).unwrap();
+    assert!(matches!(d.coil.shape, Shape::Rectangle { .. }));
+    let e = err(&with("shape = \"hexagon\""));
+    assert_eq!(e.first().key, "coil.shape");
+}
+
+#[test]
+fn max_turns_fills_the_outer_size() {
+    let d = parse(&BASE.replace("turns = 10", "turns = \"max\"")).unwrap();
+    assert!(d.coil.turns > 10.0, "{}", d.coil.turns);
+    assert!(d.coil.outer_diameter <= 20.0 + 1e-9);
+}
+
+#[test]
+fn syntax_error_has_a_span() {
+    let e = err("name = \"x\"\n[coil\n");
+    assert_eq!(e.first().key, "syntax");
+    assert!(e.first().span.is_some());
+}
+
+#[test]
+fn parallel_pairs_need_even_layers() {
+    let e = err(&BASE.replace("layers = 4", "layers = 3\nwiring = \"parallel-pairs\""));
+    assert_eq!(e.first().key, "coil.wiring");
+    parse(&with("wiring = \"parallel-pairs\"")).unwrap();
+}
+
+#[test]
+fn drive_rules() {
+    let e = err(&format!("{BASE}[drive]\nvoltage = 3\ncurrent = 1\n"));
+    assert_eq!(e.first().key, "drive.current");
+    let e = err(&format!("{BASE}[drive]\nambient = 90\n"));
+    assert_eq!(e.first().key, "drive.ambient");
+    let e = err(&format!("{BASE}[drive]\nemissivity = 1.5\n"));
+    assert_eq!(e.first().key, "drive.emissivity");
+}
+
+#[test]
+fn rectangle_with_inner_diameter_and_polygon_with_max_turns() {
+    let rect = BASE
+        .replace(
+            "outer_diameter = \"20mm\"",
+            "shape = \"rectangle\"\nwidth = 30\nheight = 12",
+        )
+        .replace("turns = 10", "inner_diameter = \"3mm\"");
+    let d = parse(&rect).unwrap();
+    assert!((d.coil.inner_diameter - 3.0).abs() < 1e-9);
+    assert!(d.coil.turns > 1.0);
+    let e = err(&rect.replace("width = 30", "width = 30\nouter_diameter = 30"));
+    assert!(e.has_key("coil.outer_diameter"), "{e}");
+    let poly = BASE
+        .replace("turns = 10", "turns = \"max\"")
+        .replace("layers = 4", "layers = 4\nshape = \"polygon\"\nsides = 5");
+    let d = parse(&poly).unwrap();
+    assert!(d.coil.turns > 10.0);
+}
+
+#[test]
+fn absurd_sizes_fail_fast_with_a_key() {
+    let e = err(&BASE.replace("\"20mm\"", "1e9"));
+    assert_eq!(e.first().key, "coil.outer_diameter");
+    let e = err(&BASE
+        .replace("turns = 10", "turns = \"max\"")
+        .replace("\"0.1mm\"", "\"0.5um\""));
+    assert!(e.has_key("coil.trace_width"), "{e}");
+}
+
+#[test]
+fn wrong_types_are_named() {
+    let e = err(&BASE.replace("layers = 4", "layers = \"four\""));
+    assert_eq!(e.first().key, "coil.layers");
+    let e = err(&format!("coil = 3\n{}", BASE.replace("[coil]", "[x]")));
+    assert!(e.has_key("coil"), "{e}");
+    let e = err(&BASE.replace("name = \"t\"", "name = \"a/b\""));
+    assert_eq!(e.first().key, "name");
+}
+
+#[test]
+fn a_typo_is_one_problem_that_lists_the_table_keys() {
+    let e = err(&BASE.replace("trace_width", "trace_widht"));
+    assert_eq!(e.errors.len(), 1, "{e}");
+    let help = e.first().help.as_deref().unwrap();
+    assert!(help.starts_with("did you mean `trace_width`?"), "{help}");
+    assert!(help.contains("allowed in [coil]: shape, sides,"), "{help}");
+    // A misspelled table is one problem too, not also "needs a [coil] table".
+    let e = err(&BASE.replace("[coil]", "[coill]"));
+    assert_eq!(e.errors.len(), 1, "{e}");
+    assert_eq!(e.first().key, "coill");
+    // A key in the wrong table is sent home.
+    let e = err(&format!("{BASE}[via]\nmargin = 1\n"));
+    let help = e.first().help.as_deref().unwrap();
+    assert!(
+        help.starts_with("`margin` belongs in the [board] table;"),
+        "{help}"
+    );
+    assert!(
+        help.ends_with("allowed in [via]: drill, diameter"),
+        "{help}"
+    );
+}
+
+#[test]
+fn rule_limits_are_read_from_the_rule_registry() {
+    let d = parse(&format!(
+        "{BASE}[rules]\nprofile = \"fine\"\nmin_clearance = \"3mil\"\nmin_annular_ring = 0\n"
+    ))
+    .unwrap();
+    assert_eq!(d.rules.profile, "fine");
+    assert_eq!(d.rules.overrides.len(), 2);
+    assert!((d.rules.overrides["min_clearance"] - 0.0762).abs() < 1e-12);
+    assert_eq!(d.rules.overrides["min_annular_ring"], 0.0);
+    let e = err(&format!("{BASE}[rules]\nmin_drill = 0\n"));
+    assert_eq!(e.first().key, "rules.min_drill");
+    assert_eq!(e.first().message, "must be greater than zero");
+    let e = err(&format!("{BASE}[rules]\nmin_via = 0.2\n"));
+    assert_eq!(e.first().key, "rules.min_via");
+    assert!(
+        e.first()
+            .help
+            .as_deref()
+            .unwrap()
+            .contains("profile, min_trace_width, min_clearance, min_drill"),
+        "{e}"
+    );
+    // Without the rule registry's limits the reader knows no such key.
+    let text = format!("{BASE}[rules]\nmin_drill = 0.2\n");
+    assert!(crate::design::read(&text, &[]).is_err());
+    assert!(crate::design::read(&text, crate::rules::LIMITS).is_ok());
+}
+
+#[test]
+fn messages_never_repeat_their_key() {
+    let bad = [
+        BASE.replace("layers = 4", "layers = 40"),
+        BASE.replace("layers = 4", "layers = \"four\""),
+        BASE.replace("\"0.1mm\"\nclearance", "\"-0.1mm\"\nclearance"),
+        BASE.replace("\"0.1mm\"\nclearance", "0\nclearance"),
+        BASE.replace("\"0.1mm\"\nclearance", "nan\nclearance"),
+        BASE.replace("\"0.1mm\"\nclearance", "true\nclearance"),
+        BASE.replace("trace_width = \"0.1mm\"\n", ""),
+        BASE.replace("turns = 10", "turns = \"ten\""),
+        BASE.replace("turns = 10", "turns = 100"),
+        BASE.replace("name = \"t\"", "name = 3"),
+        BASE.replace("name = \"t\"", "name = \".t\""),
+        with("shape = \"hexagon\""),
+        with("sides = 5"),
+        with("corner = \"round\""),
+        with("corner_radius = \"1mm\""),
+        with("width = 3"),
+        format!(
+            "{BASE}[stackup]\ncopper = [\"1oz\"]\nbend = \"static\"\ndielectric_material = \"\"\n"
+        ),
+        format!("{BASE}[stackup]\nkind = \"rigid\"\nbend_radius = 3\ndielectric_constant = 200\n"),
+        format!("{BASE}[rules]\nprofile = \"\"\n"),
+        format!("{BASE}[magnet]\ndiameter = 3\n"),
+        format!("{BASE}[drive]\nemissivity = \"high\"\nfrequency = \"3parsec\"\n"),
+        format!("stackup = 1\n{BASE}"),
+    ];
+    let mut seen = 0;
+    for text in &bad {
+        for e in &err(text).errors {
+            seen += 1;
+            assert!(
+                !e.message.contains(&format!("`{}`", e.key)) && !e.message.starts_with(&e.key),
+                "{}: {}",
+                e.key,
+                e.message
+            );
+        }
+    }
+    assert!(seen > bad.len(), "{seen}");
+}
