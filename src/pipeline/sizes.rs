@@ -2,10 +2,16 @@
 //! and turns, the third, by the fit in `geometry`; a fit that fails becomes
 //! a problem at the size key that cannot be met.
 
-use crate::design::{Coil, DesignError, DesignErrors, DesignRequest, KeySpans, Shape};
+use crate::design::{Coil, Corner, DesignError, DesignErrors, DesignRequest, KeySpans, Shape};
 use crate::geometry::{self, FitError, FitInput};
 
 /// The coil of `request` with all three sizes.
+///
+/// A default corner radius (trace width + clearance, used when `corner =
+/// "round"` gives no `corner_radius`) that does not fit the innermost side
+/// gives way to the largest radius that does, less 10 % (rounded down to
+/// the micrometre): a default is never refused. A radius the file gives is
+/// kept or refused.
 pub(super) fn resolve(request: &DesignRequest, spans: &KeySpans) -> Result<Coil, DesignErrors> {
     let c = &request.coil;
     let min_id = geometry::min_inner_diameter(
@@ -17,19 +23,40 @@ pub(super) fn resolve(request: &DesignRequest, spans: &KeySpans) -> Result<Coil,
         request.via.diameter,
         request.terminal.diameter,
     );
-    let fit = FitInput {
-        shape: c.shape,
-        corner: c.corner,
-        trace_width: c.trace_width,
-        clearance: c.clearance,
-        outer_diameter: c.outer_diameter,
-        inner_diameter: c.inner_diameter,
-        turns: c.turns,
-        min_inner_diameter: min_id,
-    }
-    .resolve()
-    .map_err(|e| fit_error(e, spans, c.shape, c.inner_diameter.is_some()))?;
-    Ok(c.resolved(fit.outer_diameter, fit.inner_diameter, fit.turns))
+    let defaulted = matches!(c.corner, Corner::Round { .. }) && !spans.has("coil.corner_radius");
+    let mut corner = c.corner;
+    let mut tries = 0;
+    let fit = loop {
+        let fit = FitInput {
+            shape: c.shape,
+            corner,
+            trace_width: c.trace_width,
+            clearance: c.clearance,
+            outer_diameter: c.outer_diameter,
+            inner_diameter: c.inner_diameter,
+            turns: c.turns,
+            min_inner_diameter: min_id,
+        }
+        .resolve();
+        match fit {
+            Err(FitError::CornerTooLarge { max, .. }) if defaulted && tries < 8 && max > 0.0 => {
+                tries += 1;
+                let radius = (max * 0.9 * 1000.0).floor() / 1000.0;
+                corner = if radius > 0.0 {
+                    Corner::Round { radius }
+                } else {
+                    Corner::Sharp
+                };
+            }
+            other => {
+                break other
+                    .map_err(|e| fit_error(e, spans, c.shape, c.inner_diameter.is_some()))?;
+            }
+        }
+    };
+    let mut coil = c.resolved(fit.outer_diameter, fit.inner_diameter, fit.turns);
+    coil.corner = corner;
+    Ok(coil)
 }
 
 /// The problem a failed fit is, at the key to change.

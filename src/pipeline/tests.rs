@@ -216,17 +216,58 @@ fn a_typo_is_one_problem_that_lists_the_table_keys() {
     let e = err(&BASE.replace("[coil]", "[coill]"));
     assert_eq!(e.errors.len(), 1, "{e}");
     assert_eq!(e.first().key, "coill");
-    // A key in the wrong table is sent home.
+    // A key in the wrong table: what the table accepts first, then the
+    // key's home.
     let e = err(&format!("{BASE}[via]\nmargin = 1\n"));
     let help = e.first().help.as_deref().unwrap();
-    assert!(
-        help.starts_with("`margin` belongs in the [board] table;"),
-        "{help}"
+    assert_eq!(
+        help,
+        "allowed in [via]: drill, diameter; `margin` is a key of the [board] table"
     );
-    assert!(
-        help.ends_with("allowed in [via]: drill, diameter"),
-        "{help}"
-    );
+    let e = err(&format!("{BASE}[board]\nwidth = \"30mm\"\n"));
+    let help = e.first().help.as_deref().unwrap();
+    assert!(help.starts_with("allowed in [board]: margin;"), "{help}");
+}
+
+/// An unknown shape is the one problem reported: not also complaints about
+/// keys that belong to another shape.
+#[test]
+fn unknown_shape_is_one_problem() {
+    let text = "[coil]\nshape = \"hexagon\"\nsides = 6\nouter_diameter = \"20mm\"\nturns = 8\n\
+                trace_width = \"0.5mm\"\nclearance = \"0.2mm\"\nlayers = 2\ncorner = \"round\"\n";
+    let e = err(text);
+    assert_eq!(e.errors.len(), 1, "{e}");
+    assert_eq!(e.first().key, "coil.shape");
+}
+
+/// The default corner radius is always valid for the design it applies to
+/// (0.5 mm track: trace width + clearance is too large for the innermost
+/// side, so a smaller radius is used); a radius the file gives is checked.
+#[test]
+fn default_corner_radius_always_fits() {
+    let text = "[coil]\nshape = \"polygon\"\nsides = 6\nouter_diameter = \"20mm\"\nturns = 8\n\
+                trace_width = \"0.5mm\"\nclearance = \"0.2mm\"\nlayers = 2\ncorner = \"round\"\n";
+    let d = super::parse(text).unwrap();
+    match d.coil.corner {
+        crate::design::Corner::Round { radius } => {
+            assert!(radius > 0.0 && radius < 0.7, "{radius}")
+        }
+        c => panic!("{c:?}"),
+    }
+    let e = err(&text.replace(
+        "corner = \"round\"",
+        "corner = \"round\"\ncorner_radius = \"0.7mm\"",
+    ));
+    assert_eq!(e.first().key, "coil.corner_radius");
+}
+
+/// Parallel pairs on two layers would strand the inner end: refused at
+/// `wiring`.
+#[test]
+fn parallel_pairs_on_two_layers_is_refused() {
+    let e = err(&BASE.replace("layers = 4", "layers = 2\nwiring = \"parallel-pairs\""));
+    assert_eq!(e.first().key, "coil.wiring", "{e}");
+    assert!(e.first().message.contains("4 or more layers"), "{e}");
 }
 
 #[test]

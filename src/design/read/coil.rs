@@ -57,9 +57,18 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
         }
         return None;
     }
-    let shape_i = cx.choice(t, "shape").unwrap_or(0);
+    let shape_choice = cx.choice(t, "shape");
     let trace_width = cx.req_length(t, "trace_width", Sign::Positive);
     let clearance = cx.req_length(t, "clearance", Sign::Positive);
+    if t.has("shape") && shape_choice.is_none() {
+        // An unknown shape (already reported): which size and corner keys
+        // belong to it cannot be known, so nothing more is said about them.
+        if t.has("layers") {
+            cx.integer(t, "layers", 1, 32);
+        }
+        return None;
+    }
+    let shape_i = shape_choice.unwrap_or(0);
 
     // Shape-specific keys.
     let mut shape = Shape::Circle;
@@ -242,6 +251,16 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
             t.span_of("wiring"),
             format!("parallel-pairs wiring needs an even number of layers, but layers = {n}"),
             Some("use an even number of layers or wiring = \"series\"".into()),
+        );
+    } else if wiring == Wiring::ParallelPairs && layers == Some(2) {
+        cx.err(
+            t.key("wiring"),
+            t.span_of("wiring"),
+            "parallel-pairs wiring needs 4 or more layers: with 2 layers both carry the winding, \
+             so its inner end would be stranded in the centre with no free layer to bring it out",
+            Some(
+                "use wiring = \"series\" on 2 layers, or 4, 6, ... layers in parallel pairs".into(),
+            ),
         );
     }
     let round = cx.choice(t, "corner") == Some(1);

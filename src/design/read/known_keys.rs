@@ -34,7 +34,7 @@ impl Ctx<'_> {
                 }
                 None => keys::tables()
                     .find(|tab| *tab != t.path && self.keys_of(tab).contains(&name))
-                    .map(|home| format!("`{name}` belongs in the [{home}] table; ")),
+                    .map(|home| format!("`{name}` is a key of the [{home}] table; ")),
             };
             let accepted = format!(
                 "allowed {}: {}",
@@ -45,9 +45,12 @@ impl Ctx<'_> {
                 },
                 allowed.join(", ")
             );
-            let help = match hint {
-                Some(h) => h + &accepted,
-                None => accepted,
+            // What this table accepts comes first; a key of another table
+            // is named after it.
+            let help = match (hint, typo_of) {
+                (Some(h), Some(_)) => h + &accepted,
+                (Some(h), None) => format!("{accepted}; {}", h.trim_end_matches("; ")),
+                (None, _) => accepted,
             };
             self.err(t.key(name), Some(k.span()), what, Some(help));
         }
