@@ -3,7 +3,7 @@
 
 use super::pipeline;
 use super::{Exit, Failure, print_out};
-use coilwright::rules::{Severity, Violation};
+use coilwright::rules::{Severity, Violation, group};
 use serde_json::json;
 use std::path::Path;
 
@@ -75,11 +75,16 @@ fn severity_name(s: Severity) -> &'static str {
     }
 }
 
-/// `{"violations":[{rule, severity, measured, required, layer, x, y, items, message}]}`.
+/// `{"violations":[{rule, severity, measured, required, layer, x, y, items,
+/// message, count, extent, locations}]}`: one entry per group of
+/// violations ([`coilwright::rules::group`]); `measured`, `x`, `y`, `items`
+/// and `message` are those of the group's worst place, `locations` every
+/// place with what was measured there.
 pub fn violations_json(violations: &[Violation]) -> String {
-    let list: Vec<_> = violations
+    let list: Vec<_> = group(violations)
         .iter()
-        .map(|v| {
+        .map(|g| {
+            let v = &g.worst;
             json!({
                 "rule": v.rule,
                 "severity": severity_name(v.severity),
@@ -90,6 +95,12 @@ pub fn violations_json(violations: &[Violation]) -> String {
                 "y": v.at.y,
                 "items": v.items,
                 "message": v.message,
+                "count": g.count(),
+                "extent": {"x_min": g.extent_min.x, "y_min": g.extent_min.y,
+                           "x_max": g.extent_max.x, "y_max": g.extent_max.y},
+                "locations": g.members.iter()
+                    .map(|m| json!({"x": m.at.x, "y": m.at.y, "measured": m.measured}))
+                    .collect::<Vec<_>>(),
             })
         })
         .collect();
@@ -97,11 +108,13 @@ pub fn violations_json(violations: &[Violation]) -> String {
         .unwrap_or_else(|_| "{\"violations\":[]}".into())
 }
 
-/// A plain-text table of violations plus a count line; empty for none.
+/// A plain-text table of violations, one row per group (the worst place,
+/// how many places, and their extent), plus a count line; empty for none.
 pub fn violations_table(violations: &[Violation]) -> String {
     if violations.is_empty() {
         return String::new();
     }
+    let groups = group(violations);
     let header = [
         "rule",
         "severity",
@@ -110,20 +123,36 @@ pub fn violations_table(violations: &[Violation]) -> String {
         "y mm",
         "measured mm",
         "required mm",
+        "places",
         "message",
     ];
-    let rows: Vec<[String; 8]> = violations
+    let rows: Vec<[String; 9]> = groups
         .iter()
-        .map(|v| {
+        .map(|g| {
+            let v = &g.worst;
+            let message = if g.count() > 1 {
+                format!(
+                    "{} (worst of {} places from ({}, {}) to ({}, {}) mm)",
+                    v.message,
+                    g.count(),
+                    fixed(g.extent_min.x, 3),
+                    fixed(g.extent_min.y, 3),
+                    fixed(g.extent_max.x, 3),
+                    fixed(g.extent_max.y, 3)
+                )
+            } else {
+                v.message.clone()
+            };
             [
                 v.rule.to_string(),
                 severity_name(v.severity).to_string(),
                 v.layer.map_or("all".into(), |l| l.to_string()),
-                format!("{:.3}", v.at.x),
-                format!("{:.3}", v.at.y),
-                format!("{:.4}", v.measured),
-                format!("{:.4}", v.required),
-                v.message.clone(),
+                fixed(v.at.x, 3),
+                fixed(v.at.y, 3),
+                fixed(v.measured, 4),
+                fixed(v.required, 4),
+                g.count().to_string(),
+                message,
             ]
         })
         .collect();
@@ -138,7 +167,7 @@ pub fn violations_table(violations: &[Violation]) -> String {
         for (i, (c, w)) in cells.iter().zip(width).enumerate() {
             if i + 1 == cells.len() {
                 s.push_str(c);
-            } else if (3..7).contains(&i) {
+            } else if (3..8).contains(&i) {
                 s.push_str(&format!("{c:>w$}  "));
             } else {
                 s.push_str(&format!("{c:<w$}  "));
@@ -150,15 +179,31 @@ pub fn violations_table(violations: &[Violation]) -> String {
     for r in &rows {
         out.push_str(&line(r));
     }
-    let errors = violations
-        .iter()
-        .filter(|v| v.severity == Severity::Error)
-        .count();
+    let count = |sev: Severity, what: &str| {
+        let gs: Vec<_> = groups.iter().filter(|g| g.severity == sev).collect();
+        let places: usize = gs.iter().map(|g| g.count()).sum();
+        if places == gs.len() {
+            format!("{} {what}(s)", gs.len())
+        } else {
+            format!("{} {what}(s) at {places} places", gs.len())
+        }
+    };
     out.push_str(&format!(
-        "{errors} error(s), {} warning(s)\n",
-        violations.len() - errors
+        "{}, {}\n",
+        count(Severity::Error, "error"),
+        count(Severity::Warning, "warning")
     ));
     out
+}
+
+/// `v` with `decimals` decimals, never "-0.000".
+fn fixed(v: f64, decimals: usize) -> String {
+    let s = format!("{v:.decimals$}");
+    if s.starts_with('-') && s[1..].chars().all(|c| c == '0' || c == '.') {
+        s[1..].to_string()
+    } else {
+        s
+    }
 }
 
 /// "1 via", "3 vias".
@@ -199,6 +244,7 @@ mod tests {
         assert!(lines[1].contains("0.0800") && lines[1].contains("0.1000"));
         assert!(lines[1].ends_with("turns too close"));
         assert_eq!(lines[3], "1 error(s), 1 warning(s)");
+        assert!(lines[0].contains("places"));
         assert_eq!(violations_table(&[]), "");
     }
 
@@ -216,5 +262,31 @@ mod tests {
         assert_eq!(x["required"], 0.1);
         assert_eq!(x["items"][0]["kind"], "track");
         assert_eq!(x["message"], "turns too close");
+        assert_eq!(x["count"], 1);
+        assert_eq!(x["locations"][0]["x"], 1.5);
+    }
+
+    #[test]
+    fn places_along_one_track_are_one_row() {
+        let mut a = v(Severity::Error);
+        a.items = vec![Item::Track(3), Item::Track(9)];
+        let mut b = a.clone();
+        b.at = Point::new(-4.0, 1.0);
+        b.measured = 0.07;
+        b.items = vec![Item::Track(4), Item::Track(10)];
+        let t = violations_table(&[a.clone(), b.clone()]);
+        let lines: Vec<&str> = t.lines().collect();
+        assert_eq!(lines.len(), 3, "{t}");
+        assert!(
+            lines[1].contains("0.0700") && lines[1].contains("worst of 2 places"),
+            "{t}"
+        );
+        assert_eq!(lines[2], "1 error(s) at 2 places, 0 warning(s)");
+        let j: serde_json::Value = serde_json::from_str(&violations_json(&[a, b])).unwrap();
+        assert_eq!(j["violations"].as_array().unwrap().len(), 1);
+        assert_eq!(j["violations"][0]["count"], 2);
+        assert_eq!(j["violations"][0]["measured"], 0.07);
+        assert_eq!(j["violations"][0]["x"], -4.0);
+        assert_eq!(j["violations"][0]["locations"].as_array().unwrap().len(), 2);
     }
 }

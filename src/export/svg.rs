@@ -215,20 +215,46 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
             escape(&p.name)
         );
     }
-    // Violations.
-    for v in violations.iter().filter(|v| match view {
-        View::Layer(l) => v.layer.is_none_or(|x| x == l),
-        View::Stack => true,
-    }) {
+    // Violations, one mark per group (rule along one track, or at one
+    // set of holes): a ring at the worst place, a dashed box around every
+    // place when there are several, and the rule id with the count.
+    for g in crate::rules::group(violations)
+        .iter()
+        .filter(|g| match view {
+            View::Layer(l) => g.layer.is_none_or(|x| x == l),
+            View::Stack => true,
+        })
+    {
+        let v = &g.worst;
         let c = if v.severity == Severity::Error {
             MARK_ERROR
         } else {
             MARK_WARNING
         };
         let r = (layout.pitch * 3.0).max(font * 0.8);
+        let label = if g.count() > 1 {
+            format!("{} \u{d7}{}", v.rule, g.count())
+        } else {
+            v.rule.to_string()
+        };
+        let _ = write!(s, r#"<g class="violation">"#);
+        if g.count() > 1 {
+            let m = r * 0.6;
+            let _ = write!(
+                s,
+                r#"<rect x="{}" y="{}" width="{}" height="{}" fill="none" stroke="{c}" stroke-width="{}" stroke-dasharray="{} {}"/>"#,
+                mm(g.extent_min.x - m),
+                mm(-g.extent_max.y - m),
+                mm(g.extent_max.x - g.extent_min.x + 2.0 * m),
+                mm(g.extent_max.y - g.extent_min.y + 2.0 * m),
+                mm(r * 0.12),
+                mm(r * 0.4),
+                mm(r * 0.25)
+            );
+        }
         let _ = writeln!(
             s,
-            r#"<g class="violation"><circle cx="{}" cy="{}" r="{}" fill="none" stroke="{c}" stroke-width="{}"/><text x="{}" y="{}" font-size="{}" fill="{c}">{}</text></g>"#,
+            r#"<circle cx="{}" cy="{}" r="{}" fill="none" stroke="{c}" stroke-width="{}"/><text x="{}" y="{}" font-size="{}" fill="{c}">{}</text></g>"#,
             mm(v.at.x),
             mm(-v.at.y),
             mm(r),
@@ -236,7 +262,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
             mm(v.at.x + r * 1.1),
             mm(-v.at.y - r * 1.1),
             mm(font * 0.8),
-            escape(v.rule)
+            escape(&label)
         );
     }
     // Legend at the right.
@@ -252,8 +278,8 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     );
     ly += font * 1.5;
     let info = format!(
-        "{:.2} turns/layer, w {} mm, gap {} mm",
-        layout.turns,
+        "{} turns/layer, w {} mm, gap {} mm",
+        super::turns_text(layout.turns),
         mm(layout.trace_width),
         mm(layout.clearance)
     );
@@ -327,15 +353,39 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         mm(ly),
         mm(font * 0.8)
     );
+    ly += font * 1.1;
+    let _ = writeln!(
+        s,
+        r#"<path d="M{} {} h{}" stroke="{OUTLINE}" stroke-width="{}" stroke-dasharray="{} {}"/><text x="{}" y="{}" font-size="{}" fill="{INK}">board outline</text>"#,
+        mm(lx),
+        mm(ly - font * 0.3),
+        mm(font * 1.2),
+        mm(font * 0.08),
+        mm(font * 0.5),
+        mm(font * 0.3),
+        mm(lx + font * 1.6),
+        mm(ly),
+        mm(font * 0.8)
+    );
     if !violations.is_empty() {
         ly += font * 1.1;
+        let groups = crate::rules::group(violations).len();
         let _ = writeln!(
             s,
-            r#"<text x="{}" y="{}" font-size="{}" fill="{MARK_ERROR}">circles: {} rule violation(s)</text>"#,
+            r#"<text x="{}" y="{}" font-size="{}" fill="{MARK_ERROR}">rings: {} problem(s), {} place(s)</text>"#,
             mm(lx),
             mm(ly),
             mm(font * 0.8),
+            groups,
             violations.len()
+        );
+        ly += font * 1.1;
+        let _ = writeln!(
+            s,
+            r#"<text x="{}" y="{}" font-size="{}" fill="{MARK_ERROR}">dashed box: one problem, many places</text>"#,
+            mm(lx),
+            mm(ly),
+            mm(font * 0.8)
         );
     }
     // Scale bar: a round length about a quarter of the board.

@@ -49,6 +49,7 @@ mod context;
 mod distance;
 mod drill;
 mod edge_clearance;
+mod group;
 mod hole_spacing;
 mod pad_lead_clearance;
 mod profile;
@@ -57,6 +58,7 @@ mod via_clearance;
 mod via_via_clearance;
 
 pub use context::{ADJACENT_PITCHES, Broadphase, TOLERANCE};
+pub use group::{ViolationGroup, group};
 pub use profile::{Profile, ProfileError};
 
 use crate::design::{Design, LimitKey};

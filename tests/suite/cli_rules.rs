@@ -89,3 +89,44 @@ fn profile_from_a_file_next_to_the_design() {
     let (code, out, err) = coilwright(&["check", spec.to_str().unwrap()]);
     assert_eq!(code, 0, "{out}{err}");
 }
+
+/// Turns 0.07 mm apart break the clearance rule at many places along each
+/// layer's track: the table lists one row per rule and layer (worst place,
+/// count, extent), the JSON one entry per group with every location, the
+/// overlay one mark per group.
+#[test]
+fn many_clearance_problems_are_grouped() {
+    let dir = tempfile::tempdir().unwrap();
+    let spec = dir.path().join("tight.toml");
+    std::fs::write(
+        &spec,
+        "name = \"tight\"\n[coil]\nouter_diameter = \"16mm\"\nturns = 20\n\
+         trace_width = \"0.1mm\"\nclearance = \"0.07mm\"\nlayers = 2\n",
+    )
+    .unwrap();
+    let spec = spec.to_str().unwrap();
+    let (code, out, err) = coilwright(&["check", spec]);
+    assert_eq!(code, 1, "{out}{err}");
+    insta::assert_snapshot!("grouped_check_table", out);
+
+    let (_, out, _) = coilwright(&["check", spec, "--json"]);
+    let v: serde_json::Value = serde_json::from_str(&out).unwrap();
+    let list = v["violations"].as_array().unwrap();
+    let clearance: Vec<_> = list.iter().filter(|g| g["rule"] == "clearance").collect();
+    assert_eq!(clearance.len(), 2, "one group per layer");
+    for g in &clearance {
+        let n = g["count"].as_u64().unwrap();
+        assert!(n > 10, "{g}");
+        assert_eq!(g["locations"].as_array().unwrap().len() as u64, n);
+        for k in [
+            "rule", "severity", "measured", "required", "layer", "x", "y",
+        ] {
+            assert!(!g[k].is_null(), "{k} missing in {g}");
+        }
+    }
+
+    let svg = dir.path().join("tight.svg");
+    coilwright(&["check", spec, "--svg", svg.to_str().unwrap()]);
+    let text = std::fs::read_to_string(&svg).unwrap();
+    assert_eq!(text.matches(r#"class="violation""#).count(), list.len());
+}
