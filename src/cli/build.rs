@@ -40,7 +40,7 @@ pub fn run(spec: &Path, out: &Path, force: bool) -> Result<Exit, Failure> {
     let l = &checked.layout;
     let mut s = violations_table(&checked.violations);
     s.push_str(&format!(
-        "built {}: {} in {}\n  {} ({}), {:.2} turns per layer, outer {:.3} mm, inner {:.3} mm, trace length {:.1} mm\n",
+        "built {}: {} in {}\n  {} ({}), {} turns per layer, outer {}, inner {:.3} mm, trace length {:.1} mm\n",
         design.name,
         plural(files.len(), "file"),
         out.display(),
@@ -49,8 +49,8 @@ pub fn run(spec: &Path, out: &Path, force: bool) -> Result<Exit, Failure> {
             coilwright::design::Wiring::Series => "series",
             coilwright::design::Wiring::ParallelPairs => "parallel pairs",
         },
-        l.turns,
-        design.coil.outer_diameter,
+        design.coil.turns_text(),
+        design.coil.outer_size_text(),
         design.coil.inner_diameter,
         l.track_length(),
     ));

@@ -43,11 +43,11 @@ pub fn run(spec: &Path, json: bool, svg: Option<&Path>, force: bool) -> Result<E
         let mut s = violations_table(&checked.violations);
         if checked.violations.is_empty() {
             s.push_str(&format!(
-                "ok: {} is valid and passes the \"{}\" rules ({}, {:.2} turns per layer, {})\n",
+                "ok: {} is valid and passes the \"{}\" rules ({}, {} turns per layer, {})\n",
                 spec.display(),
                 checked.loaded.design.rules.profile,
                 plural(l.layers as usize, "layer"),
-                l.turns,
+                coilwright::design::turns_text(l.turns),
                 plural(l.vias.len(), "via")
             ));
         }

@@ -107,6 +107,30 @@ impl Coil {
     pub fn pitch(&self) -> f64 {
         self.trace_width + self.clearance
     }
+
+    /// The outer size as people read it: "12.000 mm" for a circle, "14.000
+    /// mm across corners" for a polygon, "24.000 x 12.000 mm" (width x
+    /// height) for a rectangle.
+    pub fn outer_size_text(&self) -> String {
+        match self.shape {
+            Shape::Circle => format!("{:.3} mm", self.outer_diameter),
+            Shape::Polygon { .. } => format!("{:.3} mm across corners", self.outer_diameter),
+            Shape::Rectangle { width, height } => format!("{width:.3} x {height:.3} mm"),
+        }
+    }
+
+    /// Turns per layer as people read them: to 0.01 turn, without trailing
+    /// zeros ("15.25", "17.5", "20").
+    pub fn turns_text(&self) -> String {
+        turns_text(self.turns)
+    }
+}
+
+/// Turns as shown to people: rounded to 0.01 turn, without trailing zeros
+/// ("15.25", "17.5", "20").
+pub fn turns_text(turns: f64) -> String {
+    let s = format!("{turns:.2}");
+    s.trim_end_matches('0').trim_end_matches('.').to_string()
 }
 
 /// Rigid or flexible board.

@@ -16,12 +16,7 @@ use crate::design::Design;
 use crate::geometry::Board;
 use crate::physics::Analysis;
 
-/// Turns as shown to people: rounded to 0.01 turn, without trailing zeros
-/// ("15.25", "17.5", "20").
-pub fn turns_text(turns: f64) -> String {
-    let s = format!("{turns:.2}");
-    s.trim_end_matches('0').trim_end_matches('.').to_string()
-}
+pub use crate::design::turns_text;
 
 /// One output file, not yet written.
 #[derive(Debug, Clone, PartialEq)]
