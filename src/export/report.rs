@@ -5,11 +5,9 @@
 use super::plot::line_plot;
 use super::{ExportError, OutFile};
 use crate::design::{Design, Magnet, Shape, Source};
-use crate::physics::mechanics::Mechanics;
-use crate::physics::resistance::Resistance;
 use crate::physics::{
-    Analysis, Caution, FieldReport, Impedance, InductanceReport, MagnetReport, ProfilePoint,
-    ThermalReport,
+    Analysis, Caution, FieldReport, Impedance, InductanceReport, MagnetReport, Mechanics,
+    ProfilePoint, Resistance, ThermalReport,
 };
 use std::fmt::Write as _;
 

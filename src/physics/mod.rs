@@ -51,6 +51,8 @@ pub use field::{FIELD_SAGITTA, FIELD_SAGITTA_METRICS, FieldReport, ProfilePoint}
 pub use impedance::Impedance;
 pub use inductance::InductanceReport;
 pub use magnet::{GapPoint, MagnetReport};
+pub use mechanics::Mechanics;
+pub use resistance::Resistance;
 pub use thermal::ThermalReport;
 
 use crate::design::Design;

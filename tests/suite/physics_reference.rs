@@ -30,7 +30,7 @@ fn single_layer_circle_against_published_formulas_and_grover_sum() {
     let cond = Conductor::new(&d, &layout).without_leads();
     let l = inductance::rings_inductance(&cond.rings());
     // The spiral's n turns match n concentric rings whose copper spans
-    // half a pitch less at each side (see physics::published_estimates).
+    // half a pitch less at each side (see physics::inductance::analyse).
     let p = layout.pitch * 1e-3;
     let d_out = 2.0 * layout.outer_radius * 1e-3 - p;
     let d_in = 2.0 * layout.inner_radius * 1e-3 + p;
