@@ -7,7 +7,8 @@
 //! [`physics`] (resistance, inductance, field, force, heating, bending) and
 //! [`export`] (Gerber, Excellon, job file, KiCad, SVG, report). Only the
 //! command-line front end (the `coilwright` binary, not part of the
-//! library) touches the file system.
+//! library) touches the file system. [`numeric`] holds the root finding,
+//! quadrature and elliptic integrals that geometry and physics share.
 //!
 //! # Example: from a design file to fab files
 //!
@@ -30,17 +31,21 @@
 //! let violations = rules::check(&design, &layout, &profile);
 //! assert!(rules::is_clean(&violations));
 //! let analysis = physics::analyse(&design, &layout).unwrap();
-//! assert!(analysis.resistance_ohm_20c > 0.0);
+//! assert!(analysis.resistance.total_ohm_20c > 0.0);
 //! let files = export::bundle(&design, &layout, &analysis).unwrap();
 //! assert!(files.iter().any(|f| f.path.ends_with("-L1-copper-top.gbr")));
 //! assert!(files.iter().any(|f| f.path == "manifest.json"));
 //! ```
 #![warn(missing_docs)]
+// The only exception is physics' SIMD module (vector paths of the field
+// and inductance sums), which allows it for itself.
+#![deny(unsafe_code)]
 
 pub mod design;
 pub mod explore;
 pub mod export;
 pub mod geometry;
+pub mod numeric;
 pub mod physics;
 pub mod pipeline;
 pub mod rules;

@@ -30,8 +30,8 @@ pub fn run(spec: &Path, out: &Path, force: bool) -> Result<Exit, Failure> {
     let analysis = pipeline::analysis(&checked)?;
     // Limits exceeded at the drive (temperature, current) and other
     // cautions from the analysis: said here too, not only in report.md.
-    for w in &analysis.warnings {
-        eprintln!("warning: {w}");
+    for c in &analysis.cautions {
+        eprintln!("warning: {c}");
     }
     let design = &checked.loaded.design;
     let files = export::bundle(design, &checked.layout, &analysis)

@@ -26,8 +26,8 @@ pub fn run(spec: &Path, json: bool, out: Option<&Path>, force: bool) -> Result<E
     // When the report goes to a file, limits exceeded (temperature,
     // current) are also said on the terminal.
     if out.is_some() {
-        for w in &analysis.warnings {
-            eprintln!("warning: {w}");
+        for c in &analysis.cautions {
+            eprintln!("warning: {c}");
         }
     }
     match out {

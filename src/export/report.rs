@@ -4,8 +4,11 @@
 
 use super::plot::line_plot;
 use super::{ExportError, OutFile};
-use crate::design::{Design, Source};
-use crate::physics::{Analysis, ProfilePoint};
+use crate::design::{Design, Magnet, Shape, Source};
+use crate::physics::{
+    Analysis, Caution, FieldReport, Impedance, InductanceReport, MagnetReport, Mechanics,
+    ProfilePoint, Resistance, ThermalReport,
+};
 use std::fmt::Write as _;
 
 /// `report.md`, `report.json` and the plots, in a fixed order.
@@ -104,23 +107,46 @@ fn si(v: f64, unit: &str) -> String {
     format!("{:.4} {p}{unit}", v * f)
 }
 
-/// The report for people, in Markdown: warnings first, then the numbers
-/// with units, the published estimates, the assumptions and cautions.
+/// The report for people, in Markdown: the design in one line, the
+/// cautions first, then the numbers with units (one section per quantity,
+/// each written from that quantity's report), the notes and the general
+/// cautions.
 pub fn markdown(design: &Design, a: &Analysis) -> String {
+    [
+        heading(design),
+        cautions(&a.cautions),
+        at_the_drive(a),
+        layers(&a.resistance),
+        inductance(&a.inductance, a.impedance.as_ref()),
+        field(&a.field),
+        match (&a.magnet, &design.magnet) {
+            (Some(m), Some(mg)) => force(m, mg),
+            _ => String::new(),
+        },
+        heating(&a.thermal, a.inputs.max_temperature_c),
+        bending(&a.mechanics),
+        notes(&a.notes),
+        general_cautions(),
+    ]
+    .concat()
+}
+
+/// Title and the design in one line.
+fn heading(design: &Design) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "# Coil report: {}\n", design.name);
     let c = &design.coil;
     let size = match c.shape {
-        crate::design::Shape::Rectangle { width, height } => {
+        Shape::Rectangle { width, height } => {
             format!("rectangle {width:.3} x {height:.3} mm")
         }
-        crate::design::Shape::Polygon { sides } => {
+        Shape::Polygon { sides } => {
             format!(
                 "{sides}-sided polygon, {:.3} mm across corners",
                 c.outer_diameter
             )
         }
-        crate::design::Shape::Circle => format!("circle, {:.3} mm outside", c.outer_diameter),
+        Shape::Circle => format!("circle, {:.3} mm outside", c.outer_diameter),
     };
     let _ = writeln!(
         s,
@@ -133,13 +159,26 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         c.wiring,
         design.stackup.kind
     );
-    if !a.warnings.is_empty() {
+    s
+}
+
+/// The analysis' cautions (none: no section).
+fn cautions(cautions: &[Caution]) -> String {
+    let mut s = String::new();
+    if !cautions.is_empty() {
         let _ = writeln!(s, "## Warnings\n");
-        for w in &a.warnings {
-            let _ = writeln!(s, "- **{w}**");
+        for c in cautions {
+            let _ = writeln!(s, "- **{c}**");
         }
         let _ = writeln!(s);
     }
+    s
+}
+
+/// The headline numbers at the drive, from every quantity.
+fn at_the_drive(a: &Analysis) -> String {
+    let mut s = String::new();
+    let (t, r) = (&a.thermal, &a.resistance);
     let drive = match a.inputs.drive {
         Source::Voltage(v) => format!("{v} V"),
         Source::Current(i) => format!("{i} A"),
@@ -150,28 +189,25 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         a.inputs.ambient_c
     );
     let _ = writeln!(s, "| quantity | value |\n|---|---|");
-    let temp = a
+    let temp = t
         .temperature_c
         .map_or("no steady state (burns out)".to_string(), |t| {
             format!("{t:.1} C")
         });
     let rows = [
-        ("current", format!("{:.4} A", a.current_a)),
-        ("voltage", format!("{:.4} V", a.voltage_v)),
-        ("power", format!("{:.4} W", a.power_w)),
+        ("current", format!("{:.4} A", t.current_a)),
+        ("voltage", format!("{:.4} V", t.voltage_v)),
+        ("power", format!("{:.4} W", t.power_w)),
         ("steady temperature", temp),
-        (
-            "resistance at 20 C",
-            format!("{:.4} ohm", a.resistance_ohm_20c),
-        ),
+        ("resistance at 20 C", format!("{:.4} ohm", r.total_ohm_20c)),
         (
             "resistance at operating temperature",
-            format!("{:.4} ohm", a.resistance_ohm_hot),
+            format!("{:.4} ohm", t.resistance_ohm_hot),
         ),
-        ("inductance", si(a.inductance_h, "H")),
+        ("inductance", si(a.inductance.inductance_h, "H")),
         (
             "field at the centre of the top copper, per ampere",
-            format!("{:.4} mT/A", a.field_center_t_per_a * 1e3),
+            format!("{:.4} mT/A", a.field.center_t_per_a * 1e3),
         ),
         (
             "field at the centre at the drive",
@@ -181,16 +217,19 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
             "max current / voltage for max_temperature",
             format!(
                 "{:.4} A / {:.4} V (at {} C)",
-                a.max_current_a, a.max_voltage_v, a.inputs.max_temperature_c
+                t.max_current_a, t.max_voltage_v, a.inputs.max_temperature_c
             ),
         ),
-        ("trace length", format!("{:.1} mm", a.trace_length_mm)),
-        ("finished thickness", format!("{:.3} mm", a.thickness_mm)),
+        ("trace length", format!("{:.1} mm", r.trace_length_mm)),
+        (
+            "finished thickness",
+            format!("{:.3} mm", a.mechanics.thickness_mm),
+        ),
         (
             "min bend radius, static / dynamic",
             format!(
                 "{:.2} mm / {:.2} mm",
-                a.bend_radius_min_mm, a.bend_radius_dynamic_mm
+                a.mechanics.bend_radius_min_mm, a.mechanics.bend_radius_dynamic_mm
             ),
         ),
     ];
@@ -215,23 +254,32 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         );
     }
     let _ = writeln!(s);
+    s
+}
 
+/// Length and resistance per layer, and the vias.
+fn layers(r: &Resistance) -> String {
+    let mut s = String::new();
     let _ = writeln!(
         s,
         "## Layers\n\n| layer | group | length (mm) | copper (um) | R at 20 C (ohm) |\n|---|---|---|---|---|"
     );
-    for l in &a.layers {
+    for l in &r.layers {
         let _ = writeln!(
             s,
             "| {} | {} | {:.1} | {:.1} | {:.4} |",
             l.layer, l.group, l.length_mm, l.copper_um, l.resistance_ohm_20c
         );
     }
-    let _ = writeln!(s, "\nVia barrels: {:.5} ohm at 20 C.\n", a.vias_ohm_20c);
+    let _ = writeln!(s, "\nVia barrels: {:.5} ohm at 20 C.\n", r.vias_ohm_20c);
+    s
+}
 
-    let i = &a.inductance;
+/// The inductance, the published estimates and the impedance.
+fn inductance(i: &InductanceReport, impedance: Option<&Impedance>) -> String {
+    let mut s = String::new();
     let _ = writeln!(s, "## Inductance\n");
-    let _ = writeln!(s, "- computed (all layers): {}", si(a.inductance_h, "H"));
+    let _ = writeln!(s, "- computed (all layers): {}", si(i.inductance_h, "H"));
     let _ = writeln!(
         s,
         "- computed, top layer alone (with its leads): {}",
@@ -271,7 +319,7 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
     if !any {
         let _ = writeln!(s, "  - none applies to this shape");
     }
-    if let Some(z) = &a.impedance {
+    if let Some(z) = impedance {
         let _ = writeln!(
             s,
             "- at {} Hz: reactance {:.4} ohm, |Z| {:.4} ohm, Q {:.3}; skin depth {:.1} um",
@@ -279,8 +327,12 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         );
     }
     let _ = writeln!(s);
+    s
+}
 
-    let f = &a.field;
+/// The field on the axis and across the coil.
+fn field(f: &FieldReport) -> String {
+    let mut s = String::new();
     let _ = writeln!(s, "## Field\n");
     let _ = writeln!(
         s,
@@ -304,34 +356,42 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         s,
         "\n![field on the axis](plots/field_axis.svg)\n\n![field across the coil](plots/field_radial.svg)\n"
     );
+    s
+}
 
-    if let (Some(m), Some(mg)) = (&a.magnet, &design.magnet) {
-        let _ = writeln!(s, "## Force on the magnet\n");
-        let _ = writeln!(
-            s,
-            "Cylinder {:.2} mm x {:.2} mm, Br {:.2} T, {:.2} mm above the top copper, magnetised away from the coil. Positive force pushes the magnet away; flip the magnet or the current to pull.\n",
-            mg.diameter, mg.thickness, mg.remanence, mg.gap
-        );
-        let _ = writeln!(
-            s,
-            "- Lorentz force on the real conductor in the magnet's field (magnet as surface current Br/mu0, Derby & Olbert 2010): {:.4} mN/A",
-            m.lorentz_n_per_a * 1e3
-        );
-        let _ = writeln!(
-            s,
-            "- cross-check, coil as coaxial loops with Maxwell's mutual inductance: {:.4} mN/A ({:.1} % apart)",
-            m.rings_n_per_a * 1e3,
-            100.0 * m.methods_difference
-        );
-        let _ = writeln!(
-            s,
-            "- the magnet's own field at the coil centre: {:.1} mT",
-            m.magnet_field_at_coil_t * 1e3
-        );
-        let _ = writeln!(s, "\n![force against gap](plots/force_gap.svg)\n");
-    }
+/// The force on the magnet by both methods.
+fn force(m: &MagnetReport, mg: &Magnet) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "## Force on the magnet\n");
+    let _ = writeln!(
+        s,
+        "Cylinder {:.2} mm x {:.2} mm, Br {:.2} T, {:.2} mm above the top copper, magnetised away from the coil. Positive force pushes the magnet away; flip the magnet or the current to pull.\n",
+        mg.diameter, mg.thickness, mg.remanence, mg.gap
+    );
+    let _ = writeln!(
+        s,
+        "- Lorentz force on the real conductor in the magnet's field (magnet as surface current Br/mu0, Derby & Olbert 2010): {:.4} mN/A",
+        m.lorentz_n_per_a * 1e3
+    );
+    let _ = writeln!(
+        s,
+        "- cross-check, coil as coaxial loops with Maxwell's mutual inductance: {:.4} mN/A ({:.1} % apart)",
+        m.rings_n_per_a * 1e3,
+        100.0 * m.methods_difference
+    );
+    let _ = writeln!(
+        s,
+        "- the magnet's own field at the coil centre: {:.1} mT",
+        m.magnet_field_at_coil_t * 1e3
+    );
+    let _ = writeln!(s, "\n![force against gap](plots/force_gap.svg)\n");
+    s
+}
 
-    let t = &a.thermal;
+/// Heat balance, time constant and pulse length (`max_temperature_c`: the
+/// design's limit, C).
+fn heating(t: &ThermalReport, max_temperature_c: f64) -> String {
+    let mut s = String::new();
     let _ = writeln!(s, "## Heating\n");
     let _ = writeln!(
         s,
@@ -352,49 +412,54 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
         Some(p) => {
             let _ = writeln!(
                 s,
-                "- from ambient, the drive may last {p:.3} s before the coil reaches {} C",
-                a.inputs.max_temperature_c
+                "- from ambient, the drive may last {p:.3} s before the coil reaches {max_temperature_c} C"
             );
         }
         None => {
             let _ = writeln!(
                 s,
-                "- the drive may stay on indefinitely (steady temperature below {} C)",
-                a.inputs.max_temperature_c
+                "- the drive may stay on indefinitely (steady temperature below {max_temperature_c} C)"
             );
         }
     }
+    s
+}
+
+/// Thickness and bend radii.
+fn bending(m: &Mechanics) -> String {
+    let mut s = String::new();
     let _ = writeln!(s, "\n## Bending\n");
     let _ = writeln!(
         s,
         "Finished thickness {:.3} mm; minimum bend radius {:.2} mm ({} x, bent once to install) and {:.2} mm ({} x, repeated bending): {}.\n",
-        a.mechanics.thickness_mm,
-        a.mechanics.bend_radius_min_mm,
-        a.mechanics.static_ratio,
-        a.mechanics.bend_radius_dynamic_mm,
-        a.mechanics.dynamic_ratio,
-        a.mechanics.source
-    );
-    let _ = writeln!(s, "## Notes\n");
-    for n in &a.notes {
-        let _ = writeln!(s, "- {n}");
-    }
-    let _ = writeln!(s, "\n## Cautions\n");
-    let _ = writeln!(
-        s,
-        "- These are estimates from models; measure a prototype before relying on them."
-    );
-    let _ = writeln!(
-        s,
-        "- Copper thickness, trace width and dielectric vary from fab to fab (copper +-10 % is common): check your fab's stack-up."
-    );
-    let _ = writeln!(
-        s,
-        "- Above about 80 C a coil burns skin on touch, and adhesives and dielectrics age; keep well below the dielectric's rating."
-    );
-    let _ = writeln!(
-        s,
-        "- Heating assumes still air around a board lying flat; an enclosure, a heat sink or nearby parts change it a lot."
+        m.thickness_mm,
+        m.bend_radius_min_mm,
+        m.static_ratio,
+        m.bend_radius_dynamic_mm,
+        m.dynamic_ratio,
+        m.source
     );
     s
+}
+
+/// Assumptions and approximations.
+fn notes(notes: &[String]) -> String {
+    let mut s = String::new();
+    let _ = writeln!(s, "## Notes\n");
+    for n in notes {
+        let _ = writeln!(s, "- {n}");
+    }
+    s
+}
+
+/// What holds for every design: the limits of the models.
+fn general_cautions() -> String {
+    [
+        "\n## Cautions\n\n",
+        "- These are estimates from models; measure a prototype before relying on them.\n",
+        "- Copper thickness, trace width and dielectric vary from fab to fab (copper +-10 % is common): check your fab's stack-up.\n",
+        "- Above about 80 C a coil burns skin on touch, and adhesives and dielectrics age; keep well below the dielectric's rating.\n",
+        "- Heating assumes still air around a board lying flat; an enclosure, a heat sink or nearby parts change it a lot.\n",
+    ]
+    .concat()
 }

@@ -4,8 +4,8 @@
 //! Sizes are measured on the copper the spiral really makes (edges of the
 //! traces), by building the spiral and measuring it, so that the three
 //! numbers always describe the same coil. Monotonic relations are solved by
-//! the Illinois variant of regula falsi with a bisection safeguard
-//! (Dowell & Jarratt, BIT 11, 1971), to a few units in the last place.
+//! [`largest_feasible`] (Illinois steps with a bisection safeguard), to a
+//! few units in the last place.
 //!
 //! # Units
 //! Millimetres.
@@ -13,6 +13,7 @@
 use super::spiral::{SpiralSpec, box_extent, radial_extent};
 pub use crate::design::TurnsRequest;
 use crate::design::{Corner, Shape};
+use crate::numeric::roots::largest_feasible;
 
 /// The inputs of a fit.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -258,64 +259,6 @@ impl FitInput {
     }
 }
 
-/// The largest `x` in `[lo, hi)` with `f(x) <= 0` for a function that grows
-/// with `x`, given `f(lo) <= 0 < f(hi)`: Illinois steps (regula falsi that
-/// halves the value kept at an end twice in a row), with a bisection
-/// whenever three steps have not halved the bracket, until the bracket is a
-/// few units in the last place wide; with `tol > 0`, also as soon as a step
-/// moves less than `tol`, returning that step's point (then within about
-/// `tol` of the root, on either side).
-pub(crate) fn largest_feasible<E>(
-    mut f: impl FnMut(f64) -> Result<f64, E>,
-    (mut lo, mut f_lo): (f64, f64),
-    (mut hi, mut f_hi): (f64, f64),
-    tol: f64,
-) -> Result<f64, E> {
-    let mut kept = 0i8; // +1: lo kept last time, -1: hi kept
-    let mut width_before = hi - lo;
-    let mut steps = 0;
-    let mut last = f64::NAN;
-    while f_lo != 0.0 && hi - lo > tol.max(4.0 * f64::EPSILON * hi.abs().max(lo.abs())) {
-        steps += 1;
-        let mut x = lo - f_lo * (hi - lo) / (f_hi - f_lo);
-        if steps % 4 == 0 {
-            if hi - lo > 0.5 * width_before {
-                x = 0.5 * (lo + hi);
-            }
-            width_before = hi - lo;
-        }
-        if !(x > lo && x < hi) {
-            x = 0.5 * (lo + hi);
-            if !(x > lo && x < hi) {
-                break;
-            }
-        }
-        let fx = f(x)?;
-        let small_step = tol > 0.0 && (x - last).abs() < tol;
-        last = x;
-        if fx <= 0.0 {
-            (lo, f_lo) = (x, fx);
-            if kept == -1 {
-                f_hi /= 2.0;
-            }
-            kept = -1;
-        } else {
-            (hi, f_hi) = (x, fx);
-            if kept == 1 {
-                f_lo /= 2.0;
-            }
-            kept = 1;
-        }
-        if small_step {
-            return Ok(x);
-        }
-        if steps > 400 {
-            break;
-        }
-    }
-    Ok(lo)
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -346,22 +289,6 @@ mod tests {
             .resolve()
             .unwrap();
         assert!((h.inner_diameter - 4.0).abs() < 1e-9);
-    }
-
-    #[test]
-    fn root_finder_converges_and_stays_feasible() {
-        type R = Result<f64, ()>;
-        // Smooth: x^3 = 2.
-        let f = |x: f64| -> R { Ok(x * x * x - 2.0) };
-        let exact = 2f64.cbrt();
-        let x = largest_feasible(f, (0.0, -2.0), (2.0, 6.0), 0.0).unwrap();
-        assert!(x <= exact && exact - x < 1e-14, "{x}");
-        let x = largest_feasible(f, (0.0, -2.0), (2.0, 6.0), 1e-6).unwrap();
-        assert!((x - exact).abs() < 1e-6, "{x}");
-        // A step: regula falsi stalls, the bisection safeguard finishes.
-        let step = |x: f64| -> R { Ok(if x < 0.3 { -1.0 } else { 1.0 }) };
-        let x = largest_feasible(step, (0.0, -1.0), (1.0, 1.0), 0.0).unwrap();
-        assert!(x < 0.3 && 0.3 - x < 1e-15, "{x}");
     }
 
     #[test]

@@ -11,7 +11,7 @@
 //! * [`cached_gmd`]: the closed form with a per-thread cache.
 
 use super::closed_forms::gmd_rect_self;
-use super::elliptic::rule;
+use crate::numeric::quadrature::rule;
 use std::collections::HashMap;
 use std::f64::consts::FRAC_PI_2;
 

@@ -20,13 +20,136 @@
 //! entering terminal 1 circulates clockwise seen from the top, so its field
 //! at the centre points into the board and repels a magnet whose north
 //! face points away; flip the magnet or the current to attract.
+//!
+//! [`analyse`] is the analysis phase ([`MagnetReport`]).
 
-use super::MU0;
-use super::conductor::{Filament, Piece, Ring, m};
-use super::elliptic::{cel, rule};
+use super::caution::{Caution, Findings, force_methods_differ};
+use super::closed_forms::magnet_on_axis;
+use super::conductor::{Conductor, Filament, Piece, Ring, m};
 use super::field::loop_field;
 use super::inductance::maxwell_mutual;
+use super::{Detail, MU0};
+use crate::design::{Design, Magnet, Shape};
 use crate::geometry::{Segment, Vec2};
+use crate::numeric::elliptic::cel;
+use crate::numeric::quadrature::rule;
+use serde::Serialize;
+
+/// Force on the magnet: at the drive, per ampere by both methods, and
+/// against the gap (serialised as report.json's `magnet` object).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct MagnetReport {
+    /// Axial force at the drive, N (positive: pushes the magnet away).
+    pub force_n: f64,
+    /// Per ampere, N/A.
+    pub force_per_a_n: f64,
+    /// Per square-root watt at the operating temperature, N/sqrt(W).
+    pub force_per_sqrt_w_n: f64,
+    /// Method A (Lorentz force on the real conductor), N per ampere.
+    pub lorentz_n_per_a: f64,
+    /// Method B (coaxial rings, Maxwell), N per ampere.
+    pub rings_n_per_a: f64,
+    /// |A - B| / |A|.
+    pub methods_difference: f64,
+    /// Force per ampere against the gap, N/A (method B for circular coils,
+    /// method A otherwise).
+    pub force_vs_gap: Vec<GapPoint>,
+    /// Magnet's own field on its axis at the top copper surface, T
+    /// (Derby & Olbert closed form).
+    pub magnet_field_at_coil_t: f64,
+}
+
+/// One point of the force-against-gap curve.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct GapPoint {
+    /// Gap from the top copper surface to the magnet face, mm.
+    pub gap_mm: f64,
+    /// Force per ampere, N/A.
+    pub force_n_per_a: f64,
+}
+
+/// The force phase of the analysis, for a design with a magnet: method A
+/// (Lorentz force on the real conductor) and method B (coaxial rings) per
+/// ampere, the force at the drive (`current_a` A, `power_w` W), the
+/// force against the gap (not for [`Detail::Metrics`]) and a caution (or,
+/// for rectangles, a note) when the two methods differ by more than 5 %.
+pub fn analyse(
+    design: &Design,
+    mg: &Magnet,
+    cond: &Conductor,
+    detail: Detail,
+    (current, power): (f64, f64),
+    findings: &mut Findings,
+) -> MagnetReport {
+    let full = detail == Detail::Full;
+    let circular = matches!(design.coil.shape, Shape::Circle);
+    let cyl = Cylinder {
+        radius: m(mg.diameter / 2.0),
+        length: m(mg.thickness),
+        remanence: mg.remanence,
+        gap: m(mg.gap),
+    };
+    let fa = force_lorentz_pieces(&cond.pieces, 1.0, &cyl);
+    let rings = cond.rings();
+    let fb = force_rings(&rings, 1.0, &cyl);
+    let diff = if fa != 0.0 {
+        ((fa - fb) / fa).abs()
+    } else {
+        0.0
+    };
+    let gap_max = (3.0 * mg.gap).max(mg.diameter).max(1.0);
+    // Circles: the ring model (agrees with the real conductor to a
+    // fraction of a percent, and is fast); other shapes: the real
+    // conductor on fewer points.
+    let (n_gap, by_rings) = match (full, circular) {
+        (false, _) => (0, true),
+        (true, true) => (40, true),
+        (true, false) => (20, false),
+    };
+    let curve = if n_gap == 0 {
+        Vec::new()
+    } else {
+        (0..=n_gap)
+            .map(|i| {
+                let g = gap_max * i as f64 / n_gap as f64;
+                let c = Cylinder { gap: m(g), ..cyl };
+                let f = if by_rings {
+                    force_rings(&rings, 1.0, &c)
+                } else {
+                    force_lorentz_pieces(&cond.pieces, 1.0, &c)
+                };
+                GapPoint {
+                    gap_mm: g,
+                    force_n_per_a: f,
+                }
+            })
+            .collect()
+    };
+    if diff > 0.05 {
+        if matches!(design.coil.shape, Shape::Rectangle { .. }) {
+            findings.note(format!(
+                "{}: expected for a rectangle, whose sides are far from circles; the real-conductor value is used",
+                force_methods_differ(diff)
+            ));
+        } else {
+            findings.caution(Caution::ForceRough { difference: diff });
+        }
+    }
+    MagnetReport {
+        force_n: fa * current,
+        force_per_a_n: fa,
+        force_per_sqrt_w_n: if power > 0.0 {
+            fa * current / power.sqrt()
+        } else {
+            0.0
+        },
+        lorentz_n_per_a: fa,
+        rings_n_per_a: fb,
+        methods_difference: diff,
+        force_vs_gap: curve,
+        magnet_field_at_coil_t: magnet_on_axis(mg.remanence, cyl.radius, cyl.length, cyl.gap),
+    }
+}
 
 /// A cylinder magnet in SI units.
 #[derive(Debug, Clone, Copy, PartialEq)]

@@ -4,11 +4,15 @@
 //! flex, 20 x for multilayer flex (bent once to install), 100 x for dynamic
 //! (repeated) bending: ratios commonly quoted from IPC-2223, common
 //! practice, no single source.
+//!
+//! [`analyse`] is the analysis phase ([`Mechanics`]).
 
+use super::caution::{Caution, Findings};
 use crate::design::{BendKind, BoardKind, Design};
 use serde::Serialize;
 
-/// Thickness and bending limits.
+/// Thickness and bending limits (serialised as report.json's `mechanics`
+/// object; thickness and bend radii also at the top level).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Mechanics {
     /// Copper + dielectric + cover (coverlay or solder mask) on both faces, mm.
@@ -47,6 +51,28 @@ pub fn mechanics(design: &Design) -> Mechanics {
         dynamic_ratio,
         source: source.into(),
     }
+}
+
+/// The bending phase of the analysis: [`mechanics`], with a caution when
+/// the design's own bend (`stackup.bend_radius`) is tighter than the
+/// minimum for its kind.
+pub fn analyse(design: &Design, findings: &mut Findings) -> Mechanics {
+    let mech = mechanics(design);
+    if let Some(b) = design.stackup.bend {
+        let need = match b.kind {
+            BendKind::Static => mech.bend_radius_min_mm,
+            BendKind::Dynamic => mech.bend_radius_dynamic_mm,
+        };
+        if b.radius < need {
+            findings.caution(Caution::BendTooTight {
+                radius_mm: b.radius,
+                minimum_mm: need,
+                bend: b.kind,
+                thickness_mm: mech.thickness_mm,
+            });
+        }
+    }
+    mech
 }
 
 #[cfg(test)]

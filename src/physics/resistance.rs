@@ -2,6 +2,8 @@
 //! resistivity 1.7241e-8 ohm m at 20 C, temperature coefficient
 //! 0.00393 /K. Track resistance from the centre-line length of every track
 //! and its rectangular section; via barrels as plated tubes.
+//!
+//! [`resistance`] is the analysis phase ([`Resistance`]).
 
 use super::conductor::{Conductor, m};
 use crate::design::Design;
@@ -45,9 +47,12 @@ pub struct LayerResistance {
     pub turns: f64,
 }
 
-/// Resistance breakdown of the coil at 20 C.
+/// Resistance breakdown of the coil at 20 C (all of it written at the top
+/// level of report.json, see [`super::Analysis`]).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Resistance {
+    /// Total centre-line length of copper tracks, mm (vias excluded).
+    pub trace_length_mm: f64,
     /// Per layer.
     pub layers: Vec<LayerResistance>,
     /// All via barrels together, as connected, ohm.
@@ -56,8 +61,12 @@ pub struct Resistance {
     pub total_ohm_20c: f64,
 }
 
-/// Resistance of the coil from its layout (terminal pads' barrels are not
-/// counted: the connection to the outside is the user's).
+/// The analysis note on what the via resistance counts.
+pub const VIAS_NOTE: &str = "via barrels counted as plated tubes between the copper centres of the layers they join; terminal pads' barrels not counted";
+
+/// The resistance phase of the analysis: resistance of the coil from its
+/// layout at 20 C (terminal pads' barrels are not counted: the connection
+/// to the outside is the user's).
 pub fn resistance(design: &Design, layout: &Board, cond: &Conductor) -> Resistance {
     let mut layers = Vec::new();
     for w in &layout.windings {
@@ -122,6 +131,7 @@ pub fn resistance(design: &Design, layout: &Board, cond: &Conductor) -> Resistan
         };
     }
     Resistance {
+        trace_length_mm: layout.track_length(),
         layers,
         vias_ohm_20c: vias,
         total_ohm_20c: total + vias,

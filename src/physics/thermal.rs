@@ -14,9 +14,17 @@
 //! `eps sigma (T^4 - Ta^4)` from each face. Copper resistance rises by
 //! 0.00393 /K (IACS), so the power depends on the temperature; the balance
 //! is solved for that temperature by bisection.
+//!
+//! [`analyse`] is the analysis phase: the operating point at the drive,
+//! the drive limits and the pulse length ([`ThermalReport`]).
 
+use super::caution::{Caution, Findings};
+use super::conductor::{Conductor, m};
 use super::resistance::at_temperature;
-use crate::design::{BoardKind, Source};
+use crate::design::{BoardKind, Design, Source};
+use crate::geometry::{Board as Layout, Segment};
+use crate::numeric::quadrature::adaptive_simpson;
+use crate::numeric::roots::bisect;
 use serde::Serialize;
 
 /// Stefan-Boltzmann constant, W/(m^2 K^4) (CODATA).
@@ -140,29 +148,18 @@ impl Board {
     }
 
     /// Steady temperature (C) for a drive: the root of
-    /// `power_in(T) = losses(T)`; `None` when none exists below 1000 C
-    /// (thermal runaway under current drive).
+    /// `power_in(T) = losses(T)` by bisection to 1e-10 K; `None` when none
+    /// exists below 1000 C (thermal runaway under current drive).
     pub fn steady(&self, source: Source) -> Option<f64> {
         let f = |t: f64| self.power_in(source, t) - self.losses(t).power_w;
-        let (mut lo, mut hi) = (self.ambient, T_CAP);
+        let (lo, hi) = (self.ambient, T_CAP);
         if f(lo) <= 0.0 {
             return Some(lo);
         }
         if f(hi) > 0.0 {
             return None;
         }
-        for _ in 0..200 {
-            let mid = 0.5 * (lo + hi);
-            if f(mid) > 0.0 {
-                lo = mid;
-            } else {
-                hi = mid;
-            }
-            if hi - lo < 1e-10 {
-                break;
-            }
-        }
-        Some(0.5 * (lo + hi))
+        Some(bisect(f, (lo, hi), 1e-10))
     }
 
     /// Largest current (A) and voltage (V) that hold the board at `t_max` (C).
@@ -203,45 +200,179 @@ impl Board {
         let f = |t: f64| {
             self.heat_capacity / (self.power_in(source, t) - self.losses(t).power_w).max(1e-300)
         };
-        let (a, b) = (self.ambient, t_max);
-        let (fa, fm, fb) = (f(a), f((a + b) / 2.0), f(b));
-        let whole = (b - a) / 6.0 * (fa + 4.0 * fm + fb);
-        Some(simpson(
-            &f,
-            (a, fa),
-            (b, fb),
-            fm,
-            whole,
-            1e-9 * whole.abs(),
-            40,
-        ))
+        Some(adaptive_simpson(f, self.ambient, t_max, 1e-9, 40))
     }
 }
 
-/// Adaptive Simpson on `[a, b]` with the end and middle values known and
-/// the whole-interval estimate `whole`; refines halves until the two
-/// halves agree with the whole within `15 tol` (Richardson), at most
-/// `depth` levels.
-fn simpson(
-    f: &impl Fn(f64) -> f64,
-    (a, fa): (f64, f64),
-    (b, fb): (f64, f64),
-    fm: f64,
-    whole: f64,
-    tol: f64,
-    depth: u32,
-) -> f64 {
-    let m = (a + b) / 2.0;
-    let (lm, rm) = ((a + m) / 2.0, (m + b) / 2.0);
-    let (flm, frm) = (f(lm), f(rm));
-    let left = (m - a) / 6.0 * (fa + 4.0 * flm + fm);
-    let right = (b - m) / 6.0 * (fm + 4.0 * frm + fb);
-    let delta = left + right - whole;
-    if depth == 0 || delta.abs() <= 15.0 * tol {
-        return left + right + delta / 15.0;
+/// Heating at the drive: the operating point, the drive limits that hold
+/// the board at max_temperature and how long the drive may last.
+///
+/// Serialised as report.json's `thermal` object; the fields marked
+/// `serde(skip)` (the operating point and the limits) are written at the
+/// top level instead (see [`super::Analysis`]).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct ThermalReport {
+    /// Steady copper temperature at the drive, C (`None`: no steady state
+    /// below 1000 C).
+    #[serde(skip)]
+    pub temperature_c: Option<f64>,
+    /// Temperature the operating point is taken at: the steady one, or
+    /// 1000 C when there is none, C.
+    #[serde(skip)]
+    pub operating_c: f64,
+    /// Resistance at the operating temperature, ohm.
+    #[serde(skip)]
+    pub resistance_ohm_hot: f64,
+    /// Current at the drive and operating temperature, A.
+    #[serde(skip)]
+    pub current_a: f64,
+    /// Voltage at the drive and operating temperature, V.
+    #[serde(skip)]
+    pub voltage_v: f64,
+    /// Power at the drive and operating temperature, W.
+    #[serde(skip)]
+    pub power_w: f64,
+    /// Largest voltage that keeps the coil at max_temperature, V.
+    #[serde(skip)]
+    pub max_voltage_v: f64,
+    /// Largest current that keeps the coil at max_temperature, A.
+    #[serde(skip)]
+    pub max_current_a: f64,
+    /// Area of one face of the board, mm^2.
+    pub area_mm2: f64,
+    /// Characteristic length area/perimeter, mm.
+    pub char_length_mm: f64,
+    /// Heat capacity of copper and dielectric, J/K.
+    pub heat_capacity_j_per_k: f64,
+    /// Loss coefficients at the operating temperature.
+    pub losses: Losses,
+    /// Thermal time constant C/G, s, with G the heat loss per kelvin
+    /// between ambient and the operating temperature (at most
+    /// max_temperature).
+    pub time_constant_s: f64,
+    /// How long the drive may last from ambient before reaching
+    /// max_temperature, s (`None`: indefinitely).
+    pub pulse_s: Option<f64>,
+    /// Where the convection coefficients come from.
+    pub convection_source: String,
+}
+
+/// The analysis note on the lumped model.
+pub const LUMPED_NOTE: &str =
+    "one temperature for the whole board (lumped); real hot spots are hotter";
+
+/// Operating temperature above which [`Caution::HotToTouch`] is raised, C
+/// (common practice).
+pub const HOT_TO_TOUCH_C: f64 = 80.0;
+
+/// The heating phase of the analysis: the board's heat balance at the
+/// drive (`r20`: the coil's resistance at 20 C, ohm), with the cautions
+/// when the design's max_temperature is exceeded or the board runs hot.
+pub fn analyse(
+    design: &Design,
+    layout: &Layout,
+    cond: &Conductor,
+    r20: f64,
+    findings: &mut Findings,
+) -> ThermalReport {
+    let drive = &design.drive;
+    let (area_mm2, per_mm) = outline_area(&layout.outline.segments);
+    let ((cu_rho, cu_c), (di_rho, di_c)) = heat_capacities(design.stackup.kind);
+    let cu_vol: f64 = cond
+        .pieces
+        .iter()
+        .map(|p| m(p.segment.length()) * p.width * p.thickness)
+        .sum();
+    let di_thick = m(design.stackup.dielectric.iter().sum::<f64>() + 2.0 * design.stackup.cover);
+    let area = area_mm2 * 1e-6;
+    let board = Board {
+        area,
+        perimeter: m(per_mm),
+        heat_capacity: cu_vol * cu_rho * cu_c + area * di_thick * di_rho * di_c,
+        r20,
+        ambient: drive.ambient,
+        emissivity: drive.emissivity,
+        convection: drive.convection,
+    };
+    let steady = board.steady(drive.source);
+    let t_op = steady.unwrap_or(Board::cap());
+    let r_hot = at_temperature(r20, t_op);
+    let (current, voltage) = match drive.source {
+        Source::Voltage(v) => (v / r_hot, v),
+        Source::Current(i) => (i, i * r_hot),
+    };
+    let (max_i, max_v) = board.limits(drive.max_temperature);
+    let losses = board.losses(t_op);
+    let pulse = board.pulse(drive.source, drive.max_temperature);
+    let tau = board.time_constant(t_op.min(drive.max_temperature.max(drive.ambient + 1.0)));
+    let convection_source = match drive.convection {
+        Some(hc) => format!("drive.convection = {hc} W/(m^2 K) on both faces (user value)"),
+        None => "natural convection, horizontal plate, hot face up 0.54 Ra^(1/4) and down 0.27 Ra^(1/4) (Incropera, Fundamentals of Heat and Mass Transfer, eqs 9.30-9.32; coefficients and air properties recalled from memory)".into(),
+    };
+    if drive.convection.is_none() && losses.rayleigh < 1e4 {
+        findings.note(format!(
+            "Rayleigh number {:.0} is below the range of the plate correlations (1e4..1e7): extrapolated; small boards may lose heat faster than predicted",
+            losses.rayleigh
+        ));
     }
-    simpson(f, (a, fa), (m, fm), flm, left, tol / 2.0, depth - 1)
-        + simpson(f, (m, fm), (b, fb), frm, right, tol / 2.0, depth - 1)
+    match steady {
+        None => findings.caution(Caution::NoSteadyState {
+            ceiling_c: Board::cap(),
+        }),
+        Some(t) if t > drive.max_temperature => findings.caution(Caution::TemperatureAboveLimit {
+            predicted_c: t,
+            limit_c: drive.max_temperature,
+        }),
+        _ => {}
+    }
+    if t_op > HOT_TO_TOUCH_C {
+        findings.caution(Caution::HotToTouch {
+            temperature_c: t_op,
+        });
+    }
+    if let Some(p) = pulse {
+        findings.note(format!(
+            "at the drive the board reaches max_temperature after {p:.3} s from ambient"
+        ));
+    }
+    ThermalReport {
+        temperature_c: steady,
+        operating_c: t_op,
+        resistance_ohm_hot: r_hot,
+        current_a: current,
+        voltage_v: voltage,
+        power_w: current * voltage,
+        max_voltage_v: max_v,
+        max_current_a: max_i,
+        area_mm2,
+        char_length_mm: area_mm2 / per_mm,
+        heat_capacity_j_per_k: board.heat_capacity,
+        losses,
+        time_constant_s: tau,
+        pulse_s: pulse,
+        convection_source,
+    }
+}
+
+/// Area (mm^2) and perimeter (mm) of the board outline (a closed loop).
+fn outline_area(outline: &[Segment]) -> (f64, f64) {
+    // Exact for lines and arcs: A = 1/2 closed integral of (x dy - y dx);
+    // along an arc about (cx, cy) of radius r sweeping phi that integral is
+    // r^2 phi + cx (y1 - y0) - cy (x1 - x0).
+    let mut twice = 0.0;
+    let mut per = 0.0;
+    for s in outline {
+        per += s.length();
+        let (p, q) = (s.start(), s.end());
+        twice += match s {
+            Segment::Line(_) => p.x * q.y - q.x * p.y,
+            Segment::Arc(a) => {
+                let r = a.radius();
+                r * r * a.sweep + a.center.x * (q.y - p.y) - a.center.y * (q.x - p.x)
+            }
+        };
+    }
+    ((twice / 2.0).abs(), per)
 }
 
 /// Density (kg/m^3) and specific heat (J/(kg K)) of copper and of the
@@ -260,6 +391,7 @@ pub fn heat_capacities(kind: BoardKind) -> ((f64, f64), (f64, f64)) {
 #[cfg(test)]
 mod tests {
     use super::*;
+    use crate::geometry::{Arc, Point};
 
     fn board(conv: Option<f64>) -> Board {
         Board {
@@ -376,5 +508,36 @@ mod tests {
             t <= t_cold * 1.0001 && t >= t_hot * 0.9999,
             "{t_hot} {t} {t_cold}"
         );
+    }
+
+    #[test]
+    fn outline_area_is_exact_for_lines_and_arcs() {
+        // A 10 x 6 rectangle with 1 mm round corners: 60 - (4 - pi) mm^2,
+        // perimeter 2 (8 + 4) + 2 pi (plane geometry).
+        let (w, h, r) = (5.0, 3.0, 1.0);
+        let corner = |cx: f64, cy: f64, a0: f64| {
+            let c = Point::new(cx, cy);
+            Segment::Arc(Arc::from_start(
+                c,
+                c + crate::geometry::Vec2::from_angle(a0) * r,
+                std::f64::consts::FRAC_PI_2,
+            ))
+        };
+        let s = vec![
+            Segment::line(Point::new(-w + r, -h), Point::new(w - r, -h)),
+            corner(w - r, -h + r, -std::f64::consts::FRAC_PI_2),
+            Segment::line(Point::new(w, -h + r), Point::new(w, h - r)),
+            corner(w - r, h - r, 0.0),
+            Segment::line(Point::new(w - r, h), Point::new(-w + r, h)),
+            corner(-w + r, h - r, std::f64::consts::FRAC_PI_2),
+            Segment::line(Point::new(-w, h - r), Point::new(-w, -h + r)),
+            corner(-w + r, -h + r, std::f64::consts::PI),
+        ];
+        let (a, p) = outline_area(&s);
+        assert!(
+            (a - (60.0 - (4.0 - std::f64::consts::PI))).abs() < 1e-12,
+            "{a}"
+        );
+        assert!((p - (24.0 + std::f64::consts::TAU)).abs() < 1e-12, "{p}");
     }
 }

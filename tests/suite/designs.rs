@@ -73,8 +73,8 @@ fn every_starter_is_an_example_and_is_sound() {
         let v = coilwright::rules::check(&d, &board, &profile);
         assert!(v.is_empty(), "{}: {v:?}", t.name);
         let a = coilwright::physics::analyse(&d, &board).unwrap();
-        assert!(a.warnings.is_empty(), "{}: {:?}", t.name, a.warnings);
-        let temperature = a.temperature_c.expect("a steady temperature");
+        assert!(a.cautions.is_empty(), "{}: {:?}", t.name, a.cautions);
+        let temperature = a.thermal.temperature_c.expect("a steady temperature");
         assert!(
             temperature < d.drive.max_temperature,
             "{}: {temperature} C",

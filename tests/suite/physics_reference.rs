@@ -6,7 +6,7 @@ use coilwright::geometry::build;
 use coilwright::physics::closed_forms::{self, MohanShape};
 use coilwright::physics::conductor::Conductor;
 use coilwright::physics::inductance::{self, maxwell_mutual};
-use coilwright::physics::{MU0, analyse, resistance, thermal};
+use coilwright::physics::{CautionKind, MU0, analyse, resistance, thermal};
 
 /// One-layer circular coil: 20 mm outside, 10 turns, 0.25/0.25 mm (the
 /// REFERENCES.md check coil).
@@ -30,7 +30,7 @@ fn single_layer_circle_against_published_formulas_and_grover_sum() {
     let cond = Conductor::new(&d, &layout).without_leads();
     let l = inductance::rings_inductance(&cond.rings());
     // The spiral's n turns match n concentric rings whose copper spans
-    // half a pitch less at each side (see physics::published_estimates).
+    // half a pitch less at each side (see physics::inductance::analyse).
     let p = layout.pitch * 1e-3;
     let d_out = 2.0 * layout.outer_radius * 1e-3 - p;
     let d_in = 2.0 * layout.inner_radius * 1e-3 + p;
@@ -63,7 +63,7 @@ fn single_layer_circle_against_published_formulas_and_grover_sum() {
     // The report's single-layer value includes the leads: a little more.
     let a = analyse(&d, &layout).unwrap();
     assert!(a.inductance.single_layer_h > l && a.inductance.single_layer_h < 1.15 * l);
-    assert!((a.inductance_h - a.inductance.single_layer_h).abs() < 1e-15);
+    assert!((a.inductance.inductance_h - a.inductance.single_layer_h).abs() < 1e-15);
 }
 
 #[test]
@@ -105,7 +105,7 @@ fn coupling_between_close_layers_stays_below_one() {
     let k = inductance::rings_mutual(&r1, &r2) / (l1 * l2).sqrt();
     assert!(k > 0.9 && k < 1.0, "k = {k}");
     let a = analyse(&d, &layout).unwrap();
-    assert!(a.inductance_h < 4.0 * l1.max(l2));
+    assert!(a.inductance.inductance_h < 4.0 * l1.max(l2));
 }
 
 #[test]
@@ -120,9 +120,9 @@ fn field_of_a_real_spiral_against_flat_spiral_closed_form() {
     let z = 0.035e-3 / 2.0; // top surface is half a copper thickness above the copper centre
     let exact = closed_forms::spiral_on_axis(1.0, 10.0, r1, r2, z);
     assert!(
-        (a.field_center_t_per_a / exact - 1.0).abs() < 0.02,
+        (a.field.center_t_per_a / exact - 1.0).abs() < 0.02,
         "{} vs {exact}",
-        a.field_center_t_per_a
+        a.field.center_t_per_a
     );
 }
 
@@ -133,16 +133,19 @@ fn resistance_of_a_layout_is_the_iacs_hand_calculation() {
     let layout = build(&d).unwrap();
     let a = analyse(&d, &layout).unwrap();
     let hand: f64 = a
+        .resistance
         .layers
         .iter()
         .map(|l| 1.7241e-8 * l.length_mm * 1e-3 / (0.1e-3 * 35e-6))
         .sum();
-    assert!((a.resistance_ohm_20c - a.vias_ohm_20c - hand).abs() < 1e-9 * hand);
-    let total_len: f64 = a.layers.iter().map(|l| l.length_mm).sum();
-    assert!((total_len - a.trace_length_mm).abs() < 1e-9);
-    let t = a.temperature_c.unwrap();
+    assert!((a.resistance.total_ohm_20c - a.resistance.vias_ohm_20c - hand).abs() < 1e-9 * hand);
+    let total_len: f64 = a.resistance.layers.iter().map(|l| l.length_mm).sum();
+    assert!((total_len - a.resistance.trace_length_mm).abs() < 1e-9);
+    let t = a.thermal.temperature_c.unwrap();
     assert!(
-        (a.resistance_ohm_hot - resistance::at_temperature(a.resistance_ohm_20c, t)).abs() < 1e-12
+        (a.thermal.resistance_ohm_hot - resistance::at_temperature(a.resistance.total_ohm_20c, t))
+            .abs()
+            < 1e-12
     );
 }
 
@@ -157,11 +160,11 @@ fn heating_satisfies_its_energy_balance() {
         d.drive.source = src;
         let layout = build(&d).unwrap();
         let a = analyse(&d, &layout).unwrap();
-        let t = a.temperature_c.unwrap();
+        let t = a.thermal.temperature_c.unwrap();
         // Electrical power at the solved temperature equals the heat leaving
         // both faces (convection up and down plus radiation).
         assert!(
-            (a.power_w / a.thermal.losses.power_w - 1.0).abs() < 1e-8,
+            (a.thermal.power_w / a.thermal.losses.power_w - 1.0).abs() < 1e-8,
             "{src:?}"
         );
         let h = &a.thermal.losses;
@@ -169,18 +172,18 @@ fn heating_satisfies_its_energy_balance() {
         let out = area
             * (h.h_top_w_per_m2k + h.h_bottom_w_per_m2k + 2.0 * h.h_radiation_w_per_m2k)
             * (t - 25.0);
-        assert!((out / a.power_w - 1.0).abs() < 1e-8);
+        assert!((out / a.thermal.power_w - 1.0).abs() < 1e-8);
         // At the limits the temperature is max_temperature.
         let b = thermal::Board {
             area,
             perimeter: area / (a.thermal.char_length_mm * 1e-3),
             heat_capacity: a.thermal.heat_capacity_j_per_k,
-            r20: a.resistance_ohm_20c,
+            r20: a.resistance.total_ohm_20c,
             ambient: 25.0,
             emissivity: 0.9,
             convection: None,
         };
-        let tm = b.steady(Source::Current(a.max_current_a)).unwrap();
+        let tm = b.steady(Source::Current(a.thermal.max_current_a)).unwrap();
         assert!((tm - 80.0).abs() < 1e-6);
     }
 }
@@ -191,12 +194,15 @@ fn overdriven_coil_warns() {
     d.drive.source = Source::Voltage(6.0);
     let layout = build(&d).unwrap();
     let a = analyse(&d, &layout).unwrap();
-    assert!(a.temperature_c.unwrap() > 80.0);
+    assert!(a.thermal.temperature_c.unwrap() > 80.0);
     assert!(
-        a.warnings[0].contains("exceeds max_temperature 80 C"),
+        a.cautions[0]
+            .to_string()
+            .contains("exceeds max_temperature 80 C"),
         "{:?}",
-        a.warnings
+        a.cautions
     );
+    assert_eq!(a.cautions[0].kind(), CautionKind::LimitExceeded);
     assert!(a.thermal.pulse_s.unwrap() > 0.0);
     let md = coilwright::export::report::markdown(&d, &a);
     assert!(md.find("## Warnings").unwrap() < md.find("## At the drive").unwrap());
@@ -212,8 +218,8 @@ fn two_layer_flex_bends_at_ten_times_its_thickness() {
     let layout = build(&d).unwrap();
     let a = analyse(&d, &layout).unwrap();
     let t = 0.018 * 2.0 + 0.025 + 2.0 * d.stackup.cover;
-    assert!((a.thickness_mm - t).abs() < 1e-12);
-    assert!((a.bend_radius_min_mm - 10.0 * t).abs() < 1e-12);
+    assert!((a.mechanics.thickness_mm - t).abs() < 1e-12);
+    assert!((a.mechanics.bend_radius_min_mm - 10.0 * t).abs() < 1e-12);
 }
 
 #[test]
@@ -246,7 +252,7 @@ fn json_has_the_contract_keys() {
     assert!(v["layers"][0]["length_mm"].as_f64().unwrap() > 0.0);
     let z = &v["impedance"];
     let x = z["reactance_ohm"].as_f64().unwrap();
-    assert!((x - 2.0 * std::f64::consts::PI * 100e3 * a.inductance_h).abs() < 1e-9 * x);
+    assert!((x - 2.0 * std::f64::consts::PI * 100e3 * a.inductance.inductance_h).abs() < 1e-9 * x);
     assert!(a.inductance.mohan_modified_wheeler_h.is_some());
     let _ = MU0;
 }
@@ -265,14 +271,14 @@ fn parallel_pairs_behave_like_one_layer_of_double_copper() {
     d.coil.wiring = coilwright::design::Wiring::ParallelPairs;
     let layout = build(&d).unwrap();
     let par = analyse(&d, &layout).unwrap();
-    let r1 = par.layers[0].resistance_ohm_20c;
-    let r2 = par.layers[1].resistance_ohm_20c;
-    let vias = par.vias_ohm_20c;
-    assert!((par.resistance_ohm_20c - vias - r1 * r2 / (r1 + r2)).abs() < 1e-12);
+    let r1 = par.resistance.layers[0].resistance_ohm_20c;
+    let r2 = par.resistance.layers[1].resistance_ohm_20c;
+    let vias = par.resistance.vias_ohm_20c;
+    assert!((par.resistance.total_ohm_20c - vias - r1 * r2 / (r1 + r2)).abs() < 1e-12);
     // L_series = L1 + L2 + 2M ~ 4 L_pair when the coupling is near 1.
-    let ratio = series.inductance_h / par.inductance_h;
+    let ratio = series.inductance.inductance_h / par.inductance.inductance_h;
     assert!(ratio > 3.5 && ratio < 4.0, "{ratio}");
-    let fr = series.field_center_t_per_a / par.field_center_t_per_a;
+    let fr = series.field.center_t_per_a / par.field.center_t_per_a;
     assert!((fr - 2.0).abs() < 0.05, "{fr}");
 }
 

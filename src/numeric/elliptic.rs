@@ -1,12 +1,12 @@
 //! Complete elliptic integrals of the first and second kind by the
 //! arithmetic-geometric mean (Abramowitz & Stegun, Handbook of Mathematical
-//! Functions, 17.6), Bulirsch's generalized complete elliptic integral
-//! `cel`, and Gauss-Legendre quadrature nodes.
+//! Functions, 17.6), one at a time ([`ke`]) and for a fixed number of
+//! moduli at once ([`ke_lanes`], the same bits), and Bulirsch's generalized
+//! complete elliptic integral [`cel`].
 //!
 //! The argument is the **modulus** `k` (not the parameter `m = k^2`).
 
 use std::f64::consts::FRAC_PI_2;
-use std::sync::OnceLock;
 
 /// Complete elliptic integrals `(K(k), E(k))` for modulus `0 <= k < 1`.
 ///
@@ -150,62 +150,6 @@ pub fn cel(kc: f64, p: f64, c: f64, s: f64) -> f64 {
     FRAC_PI_2 * (ss + cc * em) / (em * (em + pp))
 }
 
-/// Gauss-Legendre nodes and weights on [-1, 1] (Newton iteration on the
-/// Legendre polynomial; Golub-Welsch not needed for small orders).
-pub fn gauss_legendre(n: usize) -> (Vec<f64>, Vec<f64>) {
-    let mut x = vec![0.0; n];
-    let mut w = vec![0.0; n];
-    let m = n.div_ceil(2);
-    for i in 0..m {
-        let mut z = (std::f64::consts::PI * (i as f64 + 0.75) / (n as f64 + 0.5)).cos();
-        let mut dp = 1.0;
-        for _ in 0..100 {
-            let (mut p0, mut p1) = (1.0, z);
-            for j in 2..=n {
-                let p2 = ((2 * j - 1) as f64 * z * p1 - (j - 1) as f64 * p0) / j as f64;
-                p0 = p1;
-                p1 = p2;
-            }
-            if n == 1 {
-                p1 = z;
-                p0 = 1.0;
-            }
-            dp = n as f64 * (z * p1 - p0) / (z * z - 1.0);
-            let dz = p1 / dp;
-            z -= dz;
-            if dz.abs() < 1e-16 {
-                break;
-            }
-        }
-        x[i] = -z;
-        x[n - 1 - i] = z;
-        let wi = 2.0 / ((1.0 - z * z) * dp * dp);
-        w[i] = wi;
-        w[n - 1 - i] = wi;
-    }
-    if n % 2 == 1 {
-        // The middle node is exactly zero.
-        x[n / 2] = 0.0;
-    }
-    (x, w)
-}
-
-/// Cached Gauss-Legendre rules of a few fixed orders.
-pub fn rule(n: usize) -> &'static (Vec<f64>, Vec<f64>) {
-    static R2: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
-    static R4: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
-    static R8: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
-    static R16: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
-    static R24: OnceLock<(Vec<f64>, Vec<f64>)> = OnceLock::new();
-    match n {
-        0..=2 => R2.get_or_init(|| gauss_legendre(2)),
-        3..=4 => R4.get_or_init(|| gauss_legendre(4)),
-        5..=8 => R8.get_or_init(|| gauss_legendre(8)),
-        9..=16 => R16.get_or_init(|| gauss_legendre(16)),
-        _ => R24.get_or_init(|| gauss_legendre(24)),
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -239,7 +183,7 @@ mod tests {
                 "E {k}"
             );
         }
-        let (x, w) = gauss_legendre(8);
+        let (x, w) = crate::numeric::quadrature::gauss_legendre(8);
         for (kc, p, c, s) in [
             (0.4, 1.0, 1.0, -1.0),
             (0.05, 0.3, 1.0, 0.55),
@@ -264,17 +208,6 @@ mod tests {
                 "{kc} {p} {c} {s}: {v} {q}"
             );
         }
-    }
-
-    #[test]
-    fn gauss_integrates_polynomials() {
-        // An n-point rule is exact for degree 2n-1 (Gauss): int_-1^1 x^14 = 2/15.
-        let (x, w) = gauss_legendre(8);
-        let s: f64 = x.iter().zip(&w).map(|(x, w)| w * x.powi(14)).sum();
-        assert!((s - 2.0 / 15.0).abs() < 1e-14);
-        let (x, w) = gauss_legendre(5);
-        let s: f64 = x.iter().zip(&w).map(|(x, w)| w * x.powi(8)).sum();
-        assert!((s - 2.0 / 9.0).abs() < 1e-14);
     }
 
     #[test]

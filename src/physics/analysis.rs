@@ -1,0 +1,146 @@
+//! The result of the analysis: one report per quantity, the cautions and
+//! notes, and the inputs used; and its JSON form (`report.json`,
+//! `report --json`), whose keys are a fixed contract.
+
+use super::caution::Caution;
+use super::field::FieldReport;
+use super::impedance::Impedance;
+use super::inductance::InductanceReport;
+use super::magnet::MagnetReport;
+use super::mechanics::Mechanics;
+use super::resistance::{self, Resistance};
+use super::thermal::ThermalReport;
+use crate::design::{Design, Magnet, Source};
+use serde::Serialize;
+use serde::ser::{SerializeStruct, Serializer};
+
+/// Results of the analysis: one report per quantity (SI units in the field
+/// names), in the order the pipeline computes them.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Analysis {
+    /// Trace length and resistance at 20 C, per layer and of the vias.
+    pub resistance: Resistance,
+    /// Heating at the drive: operating point, drive limits, pulse length.
+    pub thermal: ThermalReport,
+    /// Inductance and the published estimates beside it.
+    pub inductance: InductanceReport,
+    /// Impedance at the drive frequency, if one is given.
+    pub impedance: Option<Impedance>,
+    /// Field profiles.
+    pub field: FieldReport,
+    /// Force on the magnet, if there is one.
+    pub magnet: Option<MagnetReport>,
+    /// Thickness and bending.
+    pub mechanics: Mechanics,
+    /// Limits of the design exceeded, and results to distrust, in the
+    /// order found (limits first).
+    pub cautions: Vec<Caution>,
+    /// Assumptions and approximations.
+    pub notes: Vec<String>,
+    /// The inputs used.
+    pub inputs: Inputs,
+}
+
+/// The inputs the analysis used.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Inputs {
+    /// Drive (voltage or current).
+    pub drive: Source,
+    /// Ambient, C.
+    pub ambient_c: f64,
+    /// Highest allowed temperature, C.
+    pub max_temperature_c: f64,
+    /// Convection override, W/(m^2 K).
+    pub convection_w_per_m2k: Option<f64>,
+    /// Emissivity.
+    pub emissivity: f64,
+    /// Frequency for impedance, Hz.
+    pub frequency_hz: Option<f64>,
+    /// Copper thickness per layer, um.
+    pub copper_um: Vec<f64>,
+    /// Dielectric thickness per gap, um.
+    pub dielectric_um: Vec<f64>,
+    /// Via plating, um.
+    pub plating_um: f64,
+    /// Cover thickness on each face, um.
+    pub cover_um: f64,
+    /// Magnet.
+    pub magnet: Option<Magnet>,
+    /// Resistivity at 20 C, ohm m.
+    pub resistivity_ohm_m: f64,
+    /// Temperature coefficient, 1/K.
+    pub temperature_coefficient_per_k: f64,
+}
+
+impl Inputs {
+    /// The inputs of a design's analysis.
+    pub fn of(design: &Design) -> Inputs {
+        let drive = &design.drive;
+        Inputs {
+            drive: drive.source,
+            ambient_c: drive.ambient,
+            max_temperature_c: drive.max_temperature,
+            convection_w_per_m2k: drive.convection,
+            emissivity: drive.emissivity,
+            frequency_hz: drive.frequency,
+            copper_um: design.stackup.copper.iter().map(|c| c * 1e3).collect(),
+            dielectric_um: design.stackup.dielectric.iter().map(|c| c * 1e3).collect(),
+            plating_um: design.stackup.plating * 1e3,
+            cover_um: design.stackup.cover * 1e3,
+            magnet: design.magnet,
+            resistivity_ohm_m: resistance::RHO_20,
+            temperature_coefficient_per_k: resistance::ALPHA_20,
+        }
+    }
+}
+
+/// The JSON report: the headline numbers at the top level (taken from the
+/// quantities' reports), then one object per quantity, the cautions as
+/// text (`warnings`), the notes and the inputs. Scripts rely on these keys
+/// and their order; the quantities' reports leave out (`serde(skip)`) what
+/// is written here at the top level.
+impl Serialize for Analysis {
+    fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        let (r, t, m) = (&self.resistance, &self.thermal, &self.mechanics);
+        let magnet = self.magnet.as_ref();
+        let mut s = serializer.serialize_struct("Analysis", 28)?;
+        s.serialize_field("trace_length_mm", &r.trace_length_mm)?;
+        s.serialize_field("resistance_ohm_20c", &r.total_ohm_20c)?;
+        s.serialize_field("resistance_ohm_hot", &t.resistance_ohm_hot)?;
+        s.serialize_field("inductance_h", &self.inductance.inductance_h)?;
+        s.serialize_field("field_center_t_per_a", &self.field.center_t_per_a)?;
+        s.serialize_field("force_n", &magnet.map(|x| x.force_n))?;
+        s.serialize_field("force_per_a_n", &magnet.map(|x| x.force_per_a_n))?;
+        s.serialize_field("force_per_sqrt_w_n", &magnet.map(|x| x.force_per_sqrt_w_n))?;
+        s.serialize_field("temperature_c", &t.temperature_c)?;
+        s.serialize_field("max_voltage_v", &t.max_voltage_v)?;
+        s.serialize_field("max_current_a", &t.max_current_a)?;
+        s.serialize_field("thickness_mm", &m.thickness_mm)?;
+        s.serialize_field("bend_radius_min_mm", &m.bend_radius_min_mm)?;
+        s.serialize_field("bend_radius_dynamic_mm", &m.bend_radius_dynamic_mm)?;
+        s.serialize_field("current_a", &t.current_a)?;
+        s.serialize_field("voltage_v", &t.voltage_v)?;
+        s.serialize_field("power_w", &t.power_w)?;
+        s.serialize_field("layers", &r.layers)?;
+        s.serialize_field("vias_ohm_20c", &r.vias_ohm_20c)?;
+        s.serialize_field("inductance", &self.inductance)?;
+        s.serialize_field("impedance", &self.impedance)?;
+        s.serialize_field("field", &self.field)?;
+        s.serialize_field("magnet", &self.magnet)?;
+        s.serialize_field("thermal", &self.thermal)?;
+        s.serialize_field("mechanics", &self.mechanics)?;
+        s.serialize_field("warnings", &Texts(&self.cautions))?;
+        s.serialize_field("notes", &self.notes)?;
+        s.serialize_field("inputs", &self.inputs)?;
+        s.end()
+    }
+}
+
+/// Cautions serialised as their text.
+struct Texts<'a>(&'a [Caution]);
+
+impl Serialize for Texts<'_> {
+    fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
+        serializer.collect_seq(self.0.iter().map(ToString::to_string))
+    }
+}
