@@ -449,7 +449,7 @@ pub fn legend(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     w.aperture(None, LEGEND_STROKE);
     // The name sits half-way between the axis and the outline's bottom,
     // unless a terminal land is there (then it goes above).
-    let (lo, hi) = layout.outline_bounds();
+    let crate::geometry::Rect { min: lo, max: hi } = layout.outline_bounds();
     let clear = |y: f64| {
         layout
             .pads

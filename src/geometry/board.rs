@@ -3,7 +3,7 @@
 //! the physics and every exporter (which translate it and never compute
 //! geometry of their own).
 
-use super::{Point, Segment};
+use super::{Point, Rect, Segment};
 use crate::design::Wiring;
 use serde::Serialize;
 
@@ -183,37 +183,33 @@ impl Board {
         self.tracks.iter().map(|t| t.segment.length()).sum()
     }
 
-    /// Axis-aligned bounds of all copper (track edges, pads, vias): (min, max), mm.
-    pub fn copper_bounds(&self) -> (Point, Point) {
-        let mut lo = Point::new(f64::INFINITY, f64::INFINITY);
-        let mut hi = Point::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
-        let mut grow = |a: Point, b: Point, r: f64| {
-            lo = Point::new(lo.x.min(a.x - r), lo.y.min(a.y - r));
-            hi = Point::new(hi.x.max(b.x + r), hi.y.max(b.y + r));
-        };
-        for t in &self.tracks {
-            let (a, b) = t.segment.bounds();
-            grow(a, b, t.width / 2.0);
-        }
-        for v in &self.vias {
-            grow(v.at, v.at, v.diameter / 2.0);
-        }
-        for p in &self.pads {
-            grow(p.at, p.at, p.diameter / 2.0);
-        }
-        (lo, hi)
+    /// Axis-aligned bounds of all copper (track edges, pads, vias), mm.
+    pub fn copper_bounds(&self) -> Rect {
+        let tracks = self
+            .tracks
+            .iter()
+            .map(|t| t.segment.bounding_box().inflate(t.width / 2.0));
+        let vias = self
+            .vias
+            .iter()
+            .map(|v| Rect::from_point(v.at).inflate(v.diameter / 2.0));
+        let pads = self
+            .pads
+            .iter()
+            .map(|p| Rect::from_point(p.at).inflate(p.diameter / 2.0));
+        tracks
+            .chain(vias)
+            .chain(pads)
+            .fold(Rect::EMPTY, Rect::union)
     }
 
-    /// Axis-aligned bounds of the outline: (min, max), mm.
-    pub fn outline_bounds(&self) -> (Point, Point) {
-        let mut lo = Point::new(f64::INFINITY, f64::INFINITY);
-        let mut hi = Point::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
-        for s in &self.outline.segments {
-            let (a, b) = s.bounds();
-            lo = Point::new(lo.x.min(a.x), lo.y.min(a.y));
-            hi = Point::new(hi.x.max(b.x), hi.y.max(b.y));
-        }
-        (lo, hi)
+    /// Axis-aligned bounds of the outline, mm.
+    pub fn outline_bounds(&self) -> Rect {
+        self.outline
+            .segments
+            .iter()
+            .map(|s| s.bounding_box())
+            .fold(Rect::EMPTY, Rect::union)
     }
 
     /// Signed angle the winding on `w` sweeps about the axis, radians

@@ -10,9 +10,6 @@ mod stitching;
 
 pub use board::{Board, Direction, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding};
 pub use fit::{Fit, FitError, FitInput, TurnsRequest};
-pub use primitives::{
-    Arc, Line, Point, Segment, Vec2, angle_between, arc_steps, closest_point, distance_point_line,
-    distance_point_segment,
-};
+pub use primitives::{Arc, Line, Nearest, Point, Rect, Segment, Vec2, angle_between, arc_steps};
 pub use spiral::{SpiralError, SpiralSpec, cut_at_polar_angle};
 pub use stitching::{GeometryError, build, min_inner_diameter};

@@ -259,19 +259,12 @@ pub fn cut_at_polar_angle(path: &[Segment], target: f64) -> Vec<Segment> {
         }
         let t = 0.5 * (lo + hi);
         if t > 1e-12 {
-            out.push(truncate(s, t));
+            // The first fraction `t`, begun exactly where the segment begins.
+            out.push(s.subsegment(0.0..t).with_start(s.start()));
         }
         return out;
     }
     out
-}
-
-/// The first fraction `t` of a segment.
-fn truncate(s: &Segment, t: f64) -> Segment {
-    match s {
-        Segment::Line(l) => Segment::line(l.start, l.start.lerp(l.end, t)),
-        Segment::Arc(a) => Segment::Arc(Arc::from_start(a.center, a.start, a.sweep * t)),
-    }
 }
 
 /// Smallest and largest distance of a path's centre line from the axis, mm.
@@ -287,10 +280,10 @@ pub fn radial_extent(path: &[Segment]) -> (f64, f64) {
 /// Largest |x| and |y| of a path's centre line, mm.
 pub fn box_extent(path: &[Segment]) -> (f64, f64) {
     path.iter().fold((0.0f64, 0.0f64), |(x, y), s| {
-        let (a, b) = s.bounds();
+        let b = s.bounding_box();
         (
-            x.max(a.x.abs()).max(b.x.abs()),
-            y.max(a.y.abs()).max(b.y.abs()),
+            x.max(b.min.x.abs()).max(b.max.x.abs()),
+            y.max(b.min.y.abs()).max(b.max.y.abs()),
         )
     })
 }

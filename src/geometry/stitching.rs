@@ -448,7 +448,7 @@ pub fn build(design: &Design) -> Result<Board, GeometryError> {
                 }
                 worst = worst.min(pts[i].distance(*q) - need);
                 for t in &targets {
-                    let d = super::distance_point_line(*q, pts[i], *t);
+                    let d = Segment::line(pts[i], *t).distance(*q);
                     worst = worst.min(d - (outer_dmax / 2.0 + w / 2.0 + s));
                 }
             }
@@ -820,7 +820,14 @@ impl Loop {
         };
         let mut dist = f64::INFINITY;
         for (index, s) in self.segs.iter().enumerate() {
-            let (point, t) = super::closest_point(p, s);
+            let n = s.nearest(p);
+            // Within the span, the point is re-evaluated from its parameter,
+            // as the pieces cut there begin ([`Segment::subsegment`]).
+            let (point, t) = if n.interior {
+                (s.point_at(n.t), n.t)
+            } else {
+                (n.point, n.t)
+            };
             let d = point.distance(p);
             if d < dist {
                 dist = d;
@@ -833,16 +840,11 @@ impl Loop {
     /// Part of segment `i` from fraction `t0` (starting exactly at `start`)
     /// to fraction `t1`.
     fn piece(&self, i: usize, start: Point, t0: f64, t1: f64) -> Segment {
-        match self.segs[i] {
-            Segment::Line(l) => {
-                let end = if t1 >= 1.0 {
-                    l.end
-                } else {
-                    l.start.lerp(l.end, t1)
-                };
-                Segment::line(start, end)
-            }
-            Segment::Arc(a) => Segment::Arc(Arc::from_start(a.center, start, a.sweep * (t1 - t0))),
+        let s = self.segs[i];
+        match s {
+            // Up to a line's end: keep that end exactly.
+            Segment::Line(_) if t1 >= 1.0 => s.with_start(start),
+            _ => s.subsegment(t0..t1).with_start(start),
         }
     }
 
@@ -875,18 +877,11 @@ impl Loop {
         let mut path = if len(&fwd) <= len(&back) { fwd } else { back };
         // Start exactly at `a` whichever way was taken.
         if let Some(first) = path.first_mut() {
-            *first = match *first {
-                Segment::Line(l) => Segment::line(a.point, l.end),
-                Segment::Arc(x) => Segment::Arc(Arc::from_start(x.center, a.point, x.sweep)),
-            };
+            *first = first.with_start(a.point);
         }
         // Rejoin consecutive pieces exactly (the first may have moved by rounding).
         for k in 1..path.len() {
-            let prev = path[k - 1].end();
-            path[k] = match path[k] {
-                Segment::Line(l) => Segment::line(prev, l.end),
-                Segment::Arc(x) => Segment::Arc(Arc::from_start(x.center, prev, x.sweep)),
-            };
+            path[k] = path[k].with_start(path[k - 1].end());
         }
         path
     }
