@@ -5,6 +5,7 @@ mod board;
 pub(crate) mod fit;
 mod primitives;
 pub mod round;
+mod shape;
 mod spiral;
 mod stitching;
 

@@ -139,7 +139,7 @@ pub fn min_inner_diameter(
 /// a lead ring inside the innermost turn (unless there is a single slot on
 /// the axis, straight inward from the inner end).
 fn centre_leads_need_ring(shape: &Shape, slots: usize) -> bool {
-    !matches!(shape, Shape::Circle) && slots > 1
+    !shape.turns_to_face_vias() && slots > 1
 }
 
 /// Radius of the circle of centre slots: zero for one slot, otherwise large
@@ -298,13 +298,7 @@ pub fn build(design: &Design) -> Result<Board, GeometryError> {
     }
 
     // Canonical spiral: inner end on +x, outward counter-clockwise.
-    let inner = {
-        let r = coil.inner_diameter / 2.0 + w / 2.0;
-        match coil.shape {
-            Shape::Rectangle { width, height } if height < width => r + (width - height) / 2.0,
-            _ => r,
-        }
-    };
+    let inner = coil.shape.spiral_inner(coil.inner_diameter, w);
     let spiral_spec = SpiralSpec {
         shape: coil.shape,
         corner: coil.corner,
@@ -351,12 +345,8 @@ pub fn build(design: &Design) -> Result<Board, GeometryError> {
     // Lead ring one pitch outside the winding (for polygons: the sides that
     // hold every layer's loop, mirrored layers included), vias one pad
     // further out.
-    let lead_ring = match (coil.shape, &lead_loop) {
-        (Shape::Polygon { .. } | Shape::Rectangle { .. }, Some(l)) => {
-            let sides = match coil.shape {
-                Shape::Polygon { sides } => sides as usize,
-                _ => 4,
-            };
+    let lead_ring = match (coil.shape.sides(), &lead_loop) {
+        (Some(sides), Some(l)) => {
             let mut segs = l.segs.clone();
             if coil.layers > 1 {
                 segs.extend(l.mirrored().segs);
