@@ -14,6 +14,8 @@
 mod circle;
 mod polygon;
 
+pub(super) use polygon::intersect;
+
 use super::{Segment, angle_between};
 use crate::design::{Corner, Shape};
 use std::f64::consts::{PI, TAU};

@@ -109,7 +109,7 @@ impl SpiralSpec {
         let mut out = Vec::with_capacity(2 * n);
         let mut at = v0;
         for k in first..close {
-            at = self.side_to_corner(&bases, k, at, &mut out);
+            at = self.side_to_corner(bases, k, at, &mut out);
         }
         out.push(Segment::line(at, v0));
         out
@@ -118,7 +118,7 @@ impl SpiralSpec {
 
 /// Intersection of the lines `n1 . x = d1` and `n2 . x = d2` (unit normals,
 /// not parallel).
-fn intersect(n1: Vec2, d1: f64, n2: Vec2, d2: f64) -> Point {
+pub(in crate::geometry) fn intersect(n1: Vec2, d1: f64, n2: Vec2, d2: f64) -> Point {
     let det = n1.cross(n2);
     Point::new((d1 * n2.y - d2 * n1.y) / det, (n1.x * d2 - n2.x * d1) / det)
 }
