@@ -29,9 +29,9 @@ use gerber_types::{
 
 /// Net name of terminal "1" (where the current enters) and of all coil
 /// copper: the coil is one conductor, tied to net 2 at terminal "2".
-pub const NET_1: &str = "COIL_1";
+pub const NET_1: &str = crate::geometry::COIL_NETS[0];
 /// Net name of terminal "2".
-pub const NET_2: &str = "COIL_2";
+pub const NET_2: &str = crate::geometry::COIL_NETS[1];
 /// Reference designator used in pin attributes and in KiCad.
 pub const REFDES: &str = "L1";
 

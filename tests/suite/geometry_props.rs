@@ -113,6 +113,13 @@ proptest! {
     #[test]
     fn conductor_is_one_chain(d in designs()) {
         let l = build(&d);
+        // One placed coil owns every track, via, pad and winding.
+        prop_assert_eq!(l.coils.len(), 1);
+        let c = &l.coils[0];
+        prop_assert_eq!(
+            (c.tracks.clone(), c.vias.clone(), c.pads.clone(), c.windings.clone()),
+            (0..l.tracks.len(), 0..l.vias.len(), 0..l.pads.len(), 0..l.windings.len())
+        );
         prop_assert_eq!(l.windings.len(), d.coil.layers as usize);
         prop_assert_eq!(l.windings[0].from, Node::Pad(0));
         prop_assert_eq!(l.windings.last().unwrap().to, Node::Pad(1));

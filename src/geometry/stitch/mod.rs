@@ -37,7 +37,8 @@ mod plan;
 mod ring;
 mod windings;
 
-use super::board::{Board, Outline};
+use super::Point;
+use super::board::{Board, COIL_NETS, Outline, PlacedCoil, Sense};
 use super::spiral::SpiralError;
 use crate::design::Design;
 use canonical::Canonical;
@@ -95,7 +96,24 @@ pub fn build(design: &Design) -> Result<Board, GeometryError> {
     );
     (board.inner_radius, board.outer_radius) = canonical.copper_radii(design.coil.trace_width);
     board.outline = outline::draw(&board, design, &outer);
+    board.coils.push(alone(&board));
     Ok(board)
+}
+
+/// A design's coil, alone on its board: at the origin, not rotated, as
+/// built, on the nets [`COIL_NETS`], owning every track, via, pad and
+/// winding.
+fn alone(board: &Board) -> PlacedCoil {
+    PlacedCoil {
+        position: Point::ORIGIN,
+        rotation: 0.0,
+        sense: Sense::Positive,
+        nets: COIL_NETS.map(String::from),
+        tracks: 0..board.tracks.len(),
+        vias: 0..board.vias.len(),
+        pads: 0..board.pads.len(),
+        windings: 0..board.windings.len(),
+    }
 }
 
 /// The board of a design before any copper is placed.
@@ -103,6 +121,7 @@ fn empty_board(design: &Design) -> Board {
     let coil = &design.coil;
     Board {
         name: design.name.clone(),
+        coils: vec![],
         layers: coil.layers,
         wiring: coil.wiring,
         tracks: vec![],
@@ -116,5 +135,26 @@ fn empty_board(design: &Design) -> Board {
         inner_radius: 0.0,
         outer_radius: 0.0,
         turns: coil.turns,
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn a_design_is_one_placed_coil_owning_all_its_copper() {
+        let board = build(&Design::sample()).unwrap();
+        assert_eq!(board.coils.len(), 1);
+        let coil = &board.coils[0];
+        assert_eq!((coil.position, coil.rotation), (Point::ORIGIN, 0.0));
+        assert_eq!(coil.sense, Sense::Positive);
+        assert_eq!(coil.nets, ["COIL_1".to_string(), "COIL_2".to_string()]);
+        assert!(!board.tracks.is_empty() && !board.vias.is_empty());
+        assert!((0..board.tracks.len()).all(|i| board.coil_of_track(i) == Some(coil)));
+        assert!((0..board.vias.len()).all(|i| board.coil_of_via(i) == Some(coil)));
+        assert!((0..board.pads.len()).all(|i| board.coil_of_pad(i) == Some(coil)));
+        assert_eq!(coil.windings, 0..board.windings.len());
+        assert_eq!(coil.to_board(Point::new(1.0, 2.0)), Point::new(1.0, 2.0));
     }
 }
