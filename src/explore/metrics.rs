@@ -53,7 +53,7 @@ pub fn metrics(
         Wiring::Series => f64::from(c.layers),
         Wiring::ParallelPairs => f64::from(c.layers) / 2.0,
     };
-    let (lo, hi) = layout.outline_bounds();
+    let crate::geometry::Rect { min: lo, max: hi } = layout.outline_bounds();
     for (k, v) in [
         ("outer_diameter_mm", c.outer_diameter),
         ("inner_diameter_mm", c.inner_diameter),

@@ -29,9 +29,9 @@ use gerber_types::{
 
 /// Net name of terminal "1" (where the current enters) and of all coil
 /// copper: the coil is one conductor, tied to net 2 at terminal "2".
-pub const NET_1: &str = "COIL_1";
+pub const NET_1: &str = crate::geometry::COIL_NETS[0];
 /// Net name of terminal "2".
-pub const NET_2: &str = "COIL_2";
+pub const NET_2: &str = crate::geometry::COIL_NETS[1];
 /// Reference designator used in pin attributes and in KiCad.
 pub const REFDES: &str = "L1";
 
@@ -449,7 +449,7 @@ pub fn legend(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     w.aperture(None, LEGEND_STROKE);
     // The name sits half-way between the axis and the outline's bottom,
     // unless a terminal land is there (then it goes above).
-    let (lo, hi) = layout.outline_bounds();
+    let crate::geometry::Rect { min: lo, max: hi } = layout.outline_bounds();
     let clear = |y: f64| {
         layout
             .pads

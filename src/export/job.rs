@@ -37,7 +37,7 @@ fn mm(x: f64) -> f64 {
 /// The job file for the given fab files.
 pub fn job(design: &Design, layout: &Board, files: &[JobEntry]) -> Result<Vec<u8>, ExportError> {
     let s = &design.stackup;
-    let (lo, hi) = layout.outline_bounds();
+    let crate::geometry::Rect { min: lo, max: hi } = layout.outline_bounds();
     let flex = s.kind == BoardKind::Flex;
     let cover_type = if flex { "Coverlay" } else { "SolderMask" };
     let cover_material = if flex {

@@ -212,7 +212,7 @@ fn keepout_zone(layout: &Board, f: Frame, indent: &str) -> String {
 pub fn footprint(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let stem = super::gerber::file_stem(&design.name);
     let f = Frame::LOCAL;
-    let (lo, hi) = layout.outline_bounds();
+    let crate::geometry::Rect { min: lo, max: hi } = layout.outline_bounds();
     let mut o = String::new();
     let _ = writeln!(
         o,

@@ -94,7 +94,7 @@ pub enum View {
 
 /// Draws a preview of `layout` as an SVG document.
 pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
-    let (lo, hi) = layout.outline_bounds();
+    let crate::geometry::Rect { min: lo, max: hi } = layout.outline_bounds();
     let legend_w = 0.8 * (hi.x - lo.x).max(hi.y - lo.y).max(12.0);
     let pad = 0.08 * (hi.x - lo.x).max(hi.y - lo.y).max(2.0);
     let (x0, y0) = (lo.x - pad, -hi.y - pad);

@@ -1,11 +1,16 @@
-//! The copper of a coil on every layer: tracks, vias, terminal pads and the
-//! board outline. Produced by [`super::build`]; consumed by the rule check,
-//! the physics and every exporter (which translate it and never compute
-//! geometry of their own).
+//! The copper of a board on every layer: tracks, vias, terminal pads, the
+//! placed coils that own them, and the board outline. Produced by
+//! [`super::build`]; consumed by the rule check, the physics and every
+//! exporter (which translate it and never compute geometry of their own).
 
-use super::{Point, Segment};
+use super::{Point, Rect, Segment};
 use crate::design::Wiring;
 use serde::Serialize;
+use std::ops::Range;
+
+/// Net names of a coil built alone: where the current enters (terminal
+/// "1" and all the coil's copper) and where it leaves (terminal "2").
+pub const COIL_NETS: [&str; 2] = ["COIL_1", "COIL_2"];
 
 /// What a track is for.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
@@ -117,6 +122,63 @@ pub struct Winding {
     pub turns: f64,
 }
 
+/// Which way a placed coil's current circulates seen from the top, relative
+/// to a coil as [`super::build`] makes it (current entering at the first
+/// net circulates clockwise seen from the top).
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Sense {
+    /// +1: as built.
+    Positive,
+    /// -1: the other way (mirrored copper, or the nets swapped).
+    Negative,
+}
+
+impl Sense {
+    /// +1.0 or -1.0.
+    pub fn sign(self) -> f64 {
+        match self {
+            Sense::Positive => 1.0,
+            Sense::Negative => -1.0,
+        }
+    }
+}
+
+/// One coil on the board: where it sits and which copper is its own.
+///
+/// A coil is built about the origin (its axis) and then placed: a point
+/// `p` of the built coil lies at [`PlacedCoil::to_board`]`(p)` on the board.
+/// Its tracks, vias, pads and windings are the index ranges below of the
+/// board's lists (a coil's items are contiguous).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PlacedCoil {
+    /// Position of the coil's axis on the board, mm.
+    pub position: Point,
+    /// Rotation about its axis, radians, counter-clockwise.
+    pub rotation: f64,
+    /// Circulation seen from the top.
+    pub sense: Sense,
+    /// Net names: where the current enters (terminal "1" and the coil's
+    /// copper) and where it leaves (terminal "2").
+    pub nets: [String; 2],
+    /// Its tracks: `Board::tracks[tracks]`.
+    pub tracks: Range<usize>,
+    /// Its vias: `Board::vias[vias]`.
+    pub vias: Range<usize>,
+    /// Its terminal pads: `Board::pads[pads]` ("1" first, then "2").
+    pub pads: Range<usize>,
+    /// Its windings: `Board::windings[windings]`.
+    pub windings: Range<usize>,
+}
+
+impl PlacedCoil {
+    /// The board position of the point `local` of the coil as built about
+    /// the origin: rotated by `rotation`, then moved to `position`.
+    pub fn to_board(&self, local: Point) -> Point {
+        self.position + local.rotated(self.rotation).to_vec2()
+    }
+}
+
 /// The closed board outline (profile), mm.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Outline {
@@ -125,11 +187,14 @@ pub struct Outline {
     pub segments: Vec<Segment>,
 }
 
-/// The coil's copper on every layer.
+/// The copper of every coil on the board, on every layer.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Board {
     /// Design name.
     pub name: String,
+    /// The coils on the board and the copper each owns (a design is one
+    /// coil at the origin).
+    pub coils: Vec<PlacedCoil>,
     /// Number of copper layers.
     pub layers: u8,
     /// Series or parallel-pairs.
@@ -138,7 +203,8 @@ pub struct Board {
     pub tracks: Vec<Track>,
     /// Plated vias joining layers.
     pub vias: Vec<Via>,
-    /// Terminal pads: `pads[0]` is "1", `pads[1]` is "2".
+    /// Terminal pads, each coil's "1" then "2" (one coil: `pads[0]` is "1",
+    /// `pads[1]` is "2").
     pub pads: Vec<Pad>,
     /// One entry per layer, in the order the current visits them (parallel
     /// windings of a pair are consecutive and share a group).
@@ -160,6 +226,21 @@ pub struct Board {
 }
 
 impl Board {
+    /// The coil that owns track `i`, if any.
+    pub fn coil_of_track(&self, i: usize) -> Option<&PlacedCoil> {
+        self.coils.iter().find(|c| c.tracks.contains(&i))
+    }
+
+    /// The coil that owns via `i`, if any.
+    pub fn coil_of_via(&self, i: usize) -> Option<&PlacedCoil> {
+        self.coils.iter().find(|c| c.vias.contains(&i))
+    }
+
+    /// The coil that owns pad `i`, if any.
+    pub fn coil_of_pad(&self, i: usize) -> Option<&PlacedCoil> {
+        self.coils.iter().find(|c| c.pads.contains(&i))
+    }
+
     /// Tracks of one winding, in current order.
     pub fn winding_tracks(&self, w: &Winding) -> &[Track] {
         &self.tracks[w.tracks.0..w.tracks.1]
@@ -183,37 +264,33 @@ impl Board {
         self.tracks.iter().map(|t| t.segment.length()).sum()
     }
 
-    /// Axis-aligned bounds of all copper (track edges, pads, vias): (min, max), mm.
-    pub fn copper_bounds(&self) -> (Point, Point) {
-        let mut lo = Point::new(f64::INFINITY, f64::INFINITY);
-        let mut hi = Point::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
-        let mut grow = |a: Point, b: Point, r: f64| {
-            lo = Point::new(lo.x.min(a.x - r), lo.y.min(a.y - r));
-            hi = Point::new(hi.x.max(b.x + r), hi.y.max(b.y + r));
-        };
-        for t in &self.tracks {
-            let (a, b) = t.segment.bounds();
-            grow(a, b, t.width / 2.0);
-        }
-        for v in &self.vias {
-            grow(v.at, v.at, v.diameter / 2.0);
-        }
-        for p in &self.pads {
-            grow(p.at, p.at, p.diameter / 2.0);
-        }
-        (lo, hi)
+    /// Axis-aligned bounds of all copper (track edges, pads, vias), mm.
+    pub fn copper_bounds(&self) -> Rect {
+        let tracks = self
+            .tracks
+            .iter()
+            .map(|t| t.segment.bounding_box().inflate(t.width / 2.0));
+        let vias = self
+            .vias
+            .iter()
+            .map(|v| Rect::from_point(v.at).inflate(v.diameter / 2.0));
+        let pads = self
+            .pads
+            .iter()
+            .map(|p| Rect::from_point(p.at).inflate(p.diameter / 2.0));
+        tracks
+            .chain(vias)
+            .chain(pads)
+            .fold(Rect::EMPTY, Rect::union)
     }
 
-    /// Axis-aligned bounds of the outline: (min, max), mm.
-    pub fn outline_bounds(&self) -> (Point, Point) {
-        let mut lo = Point::new(f64::INFINITY, f64::INFINITY);
-        let mut hi = Point::new(f64::NEG_INFINITY, f64::NEG_INFINITY);
-        for s in &self.outline.segments {
-            let (a, b) = s.bounds();
-            lo = Point::new(lo.x.min(a.x), lo.y.min(a.y));
-            hi = Point::new(hi.x.max(b.x), hi.y.max(b.y));
-        }
-        (lo, hi)
+    /// Axis-aligned bounds of the outline, mm.
+    pub fn outline_bounds(&self) -> Rect {
+        self.outline
+            .segments
+            .iter()
+            .map(|s| s.bounding_box())
+            .fold(Rect::EMPTY, Rect::union)
     }
 
     /// Signed angle the winding on `w` sweeps about the axis, radians

@@ -10,7 +10,7 @@
 //! # Units
 //! Millimetres.
 
-use super::spiral::{SpiralSpec, box_extent, radial_extent};
+use super::spiral::SpiralSpec;
 pub use crate::design::TurnsRequest;
 use crate::design::{Corner, Shape};
 use crate::numeric::roots::largest_feasible;
@@ -89,21 +89,12 @@ pub enum FitError {
 impl FitInput {
     /// The spiral's `inner` parameter for a free-centre diameter.
     fn inner_param(&self, inner_diameter: f64) -> f64 {
-        let r = inner_diameter / 2.0 + self.trace_width / 2.0;
-        match self.shape {
-            // The smaller half-size is the free radius; `inner` is the x half-size.
-            Shape::Rectangle { width, height } if height < width => r + (width - height) / 2.0,
-            _ => r,
-        }
+        self.shape.spiral_inner(inner_diameter, self.trace_width)
     }
 
     /// Free-centre diameter for a spiral `inner` parameter.
     fn inner_diameter_of(&self, inner: f64) -> f64 {
-        let r = match self.shape {
-            Shape::Rectangle { width, height } if height < width => inner - (width - height) / 2.0,
-            _ => inner,
-        };
-        2.0 * (r - self.trace_width / 2.0)
+        self.shape.inner_diameter_of(inner, self.trace_width)
     }
 
     fn spiral(&self, inner: f64, turns: f64) -> SpiralSpec {
@@ -124,29 +115,24 @@ impl FitInput {
             }
             _ => FitError::InnerNotInside,
         })?;
-        let hw = self.trace_width / 2.0;
-        Ok(match self.shape {
-            Shape::Rectangle { width, height } => {
-                let (x, y) = box_extent(&segs);
-                (x + hw - width / 2.0).max(y + hw - height / 2.0)
-            }
-            _ => radial_extent(&segs).1 + hw - outer / 2.0,
-        })
+        Ok(self.shape.overreach(&segs, self.trace_width / 2.0, outer))
     }
 
-    /// Outer diameter of the built copper, mm (rectangle: diagonal).
+    /// Outer diameter of the built copper, mm (a shape with its own size:
+    /// its diagonal).
     fn outer_of(&self, inner: f64, turns: f64) -> Result<f64, FitError> {
-        match self.shape {
-            Shape::Rectangle { width, height } => Ok(width.hypot(height)),
-            _ => Ok(2.0 * (self.excess(inner, turns, 0.0)?)),
+        match self.shape.own_size() {
+            Some((width, height)) => Ok(width.hypot(height)),
+            None => Ok(2.0 * (self.excess(inner, turns, 0.0)?)),
         }
     }
 
-    /// The outer size to fit into, mm (rectangle: unused placeholder).
+    /// The outer size to fit into, mm (a shape with its own size: an unused
+    /// placeholder).
     fn outer_limit(&self) -> Option<f64> {
-        match self.shape {
-            Shape::Rectangle { .. } => Some(0.0),
-            _ => self.outer_diameter,
+        match self.shape.own_size() {
+            Some(_) => Some(0.0),
+            None => self.outer_diameter,
         }
     }
 
@@ -244,9 +230,7 @@ impl FitInput {
                     turns: t,
                 })
             }
-            (None, Some(id), Some(TurnsRequest::Count(t)))
-                if !matches!(self.shape, Shape::Rectangle { .. }) =>
-            {
+            (None, Some(id), Some(TurnsRequest::Count(t))) if self.shape.own_size().is_none() => {
                 check_inner(id)?;
                 Ok(Fit {
                     outer_diameter: self.outer_of(self.inner_param(id), t)?,

@@ -1,18 +1,26 @@
 //! Copper geometry: primitives, the spiral of one layer, the stitching of
-//! layers with vias, and the resulting [`Board`].
+//! layers with vias, and the resulting [`Board`] of placed coils.
+//!
+//! Files: `primitives/` (Point, Vec2, Line, Arc, Segment, Rect and what they
+//! can do), `shape.rs` (everything that differs between coil shapes),
+//! `spiral/` (the canonical spiral, one builder per shape family), `fit.rs`
+//! (sizes from two of outer diameter, inner diameter and turns), `stitch/`
+//! ([`build`] and its phases), `board.rs` (the result), `round.rs` (the one
+//! rounding to nanometres every exporter uses).
 
 mod board;
 pub(crate) mod fit;
 mod primitives;
 pub mod round;
+mod shape;
 mod spiral;
-mod stitching;
+mod stitch;
 
-pub use board::{Board, Direction, Node, Outline, Pad, Place, Track, TrackRole, Via, Winding};
-pub use fit::{Fit, FitError, FitInput, TurnsRequest};
-pub use primitives::{
-    Arc, Line, Point, Segment, Vec2, angle_between, arc_steps, closest_point, distance_point_line,
-    distance_point_segment,
+pub use board::{
+    Board, COIL_NETS, Direction, Node, Outline, Pad, Place, PlacedCoil, Sense, Track, TrackRole,
+    Via, Winding,
 };
+pub use fit::{Fit, FitError, FitInput, TurnsRequest};
+pub use primitives::{Arc, Line, Nearest, Point, Rect, Segment, Vec2, angle_between, arc_steps};
 pub use spiral::{SpiralError, SpiralSpec, cut_at_polar_angle};
-pub use stitching::{GeometryError, build, min_inner_diameter};
+pub use stitch::{GeometryError, build, min_inner_diameter};

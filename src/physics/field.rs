@@ -115,7 +115,7 @@ pub fn analyse(
         })
         .collect();
     let h = design.magnet.map_or(0.5, |mg| mg.gap);
-    let (lo, hi) = layout.outline_bounds();
+    let crate::geometry::Rect { min: lo, max: hi } = layout.outline_bounds();
     let r_edge = m(lo.x.abs().max(lo.y.abs()).max(hi.x).max(hi.y)).max(1.2 * r_out);
     let n_r = if full { 101 } else { 13 };
     // Circles are round: one direction; other shapes: the mean of two.

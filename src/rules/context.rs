@@ -31,7 +31,6 @@
 //! Millimetres.
 
 use super::Item;
-use super::distance::sub_segment;
 use super::profile::Profile;
 use crate::design::Design;
 use crate::geometry::{Board, Node, Point, Segment, angle_between};
@@ -199,7 +198,7 @@ impl Piece {
         if t0 == 0.0 && t1 == 1.0 {
             self.seg
         } else {
-            sub_segment(&self.seg, t0, t1)
+            self.seg.subsegment(t0..t1)
         }
     }
 }
@@ -390,7 +389,7 @@ impl<'a> Context<'a> {
                 let seg = if n == 1 {
                     t.segment
                 } else {
-                    sub_segment(&t.segment, t0, t1)
+                    t.segment.subsegment(t0..t1)
                 };
                 pieces.push(Piece {
                     seg,

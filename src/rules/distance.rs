@@ -56,35 +56,10 @@ impl Closest {
     }
 }
 
-/// Closest point of a segment's centre line to `p`.
+/// `p` and the closest point of a segment's centre line to it
+/// ([`Segment::nearest_point`]).
 pub(crate) fn point_segment(p: Point, s: &Segment) -> Closest {
-    match s {
-        Segment::Line(l) => Closest::new(p, closest_on_line(p, l.start, l.end)),
-        Segment::Arc(a) => Closest::new(p, closest_on_arc(p, a)),
-    }
-}
-
-fn closest_on_line(p: Point, a: Point, b: Point) -> Point {
-    let ab = b - a;
-    let l2 = ab.dot(ab);
-    if l2 == 0.0 {
-        return a;
-    }
-    let t = ((p - a).dot(ab) / l2).clamp(0.0, 1.0);
-    a + ab * t
-}
-
-fn closest_on_arc(p: Point, a: &Arc) -> Point {
-    let v = p - a.center;
-    let lv = v.length();
-    if lv > 0.0 && a.contains_direction(v) {
-        return a.center + v * (a.radius() / lv);
-    }
-    if p.distance(a.start) <= p.distance(a.end) {
-        a.start
-    } else {
-        a.end
-    }
+    Closest::new(p, s.nearest_point(p))
 }
 
 /// Shortest distance between two segments' centre lines.
@@ -220,18 +195,6 @@ fn arc_arc(x: &Arc, y: &Arc) -> Closest {
     best
 }
 
-/// The part of a segment between fractions `t0` and `t1` (0..1) of its length.
-pub(crate) fn sub_segment(s: &Segment, t0: f64, t1: f64) -> Segment {
-    match s {
-        Segment::Line(l) => Segment::line(l.start.lerp(l.end, t0), l.start.lerp(l.end, t1)),
-        Segment::Arc(a) => Segment::Arc(Arc::from_start(
-            a.center,
-            a.point_at(t0),
-            a.sweep * (t1 - t0),
-        )),
-    }
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -242,7 +205,7 @@ mod tests {
     }
 
     /// Brute force, independent of this module: 1001 points of each centre
-    /// line against the other (`geometry::distance_point_segment`), and 0
+    /// line against the other (`Segment::distance`), and 0
     /// when chords of the two polylines cross. Chords deviate from the arcs
     /// by at most r (step)^2 / 8, about 2e-6 mm here.
     fn dense(a: &Segment, b: &Segment) -> f64 {
@@ -251,10 +214,10 @@ mod tests {
         let pb: Vec<Point> = (0..=n).map(|i| b.point_at(i as f64 / n as f64)).collect();
         let mut best = f64::INFINITY;
         for p in &pa {
-            best = best.min(crate::geometry::distance_point_segment(*p, b));
+            best = best.min(b.distance(*p));
         }
         for p in &pb {
-            best = best.min(crate::geometry::distance_point_segment(*p, a));
+            best = best.min(a.distance(*p));
         }
         let side = |o: Point, d: Point, p: Point| (d - o).cross(p - o).signum();
         for u in pa.windows(2) {
@@ -379,13 +342,5 @@ mod tests {
                 );
             }
         }
-    }
-
-    #[test]
-    fn sub_segments_join() {
-        let a = Segment::Arc(Arc::from_start(Point::ORIGIN, Point::new(1.0, 0.0), -2.0));
-        let p = sub_segment(&a, 0.25, 0.5);
-        assert!(p.start().distance(a.point_at(0.25)) < 1e-12);
-        assert!(p.end().distance(a.point_at(0.5)) < 1e-12);
     }
 }

@@ -243,7 +243,7 @@ fn other_gerbers_parse_and_hold_what_they_should() {
             (p.lines, p.arcs, p.flashes),
             (lines, l.outline.segments.len() - lines, 0)
         );
-        let (lo, hi) = l.outline_bounds();
+        let coilwright::geometry::Rect { min: lo, max: hi } = l.outline_bounds();
         // Outline arcs bulge past their end points; lines reach the bounds.
         assert!(p.lo.0 >= to_nm(lo.x) && p.hi.0 <= to_nm(hi.x));
         assert!(p.lo.1 >= to_nm(lo.y) && p.hi.1 <= to_nm(hi.y));

@@ -3,7 +3,7 @@
 use coilwright::design::{Corner, Design, Shape, Wiring};
 use coilwright::geometry::{
     self, Board, FitError, FitInput, Node, Segment, SpiralSpec, TrackRole, TurnsRequest,
-    distance_point_segment, round::to_nm,
+    round::to_nm,
 };
 use proptest::prelude::*;
 use std::f64::consts::{PI, TAU};
@@ -113,6 +113,13 @@ proptest! {
     #[test]
     fn conductor_is_one_chain(d in designs()) {
         let l = build(&d);
+        // One placed coil owns every track, via, pad and winding.
+        prop_assert_eq!(l.coils.len(), 1);
+        let c = &l.coils[0];
+        prop_assert_eq!(
+            (c.tracks.clone(), c.vias.clone(), c.pads.clone(), c.windings.clone()),
+            (0..l.tracks.len(), 0..l.vias.len(), 0..l.pads.len(), 0..l.windings.len())
+        );
         prop_assert_eq!(l.windings.len(), d.coil.layers as usize);
         prop_assert_eq!(l.windings[0].from, Node::Pad(0));
         prop_assert_eq!(l.windings.last().unwrap().to, Node::Pad(1));
@@ -163,9 +170,9 @@ proptest! {
         for t in l.tracks.iter().filter(|t| t.role == TrackRole::Winding) {
             match d.coil.shape {
                 Shape::Rectangle { width, height } => {
-                    let (a, b) = t.segment.bounds();
-                    prop_assert!(a.x - hw >= -width / 2.0 - 1e-9 && b.x + hw <= width / 2.0 + 1e-9);
-                    prop_assert!(a.y - hw >= -height / 2.0 - 1e-9 && b.y + hw <= height / 2.0 + 1e-9);
+                    let b = t.segment.bounding_box().inflate(hw);
+                    prop_assert!(b.min.x >= -width / 2.0 - 1e-9 && b.max.x <= width / 2.0 + 1e-9);
+                    prop_assert!(b.min.y >= -height / 2.0 - 1e-9 && b.max.y <= height / 2.0 + 1e-9);
                 }
                 _ => prop_assert!(t.segment.max_radius() + hw <= d.coil.outer_diameter / 2.0 + 1e-9),
             }
@@ -173,7 +180,7 @@ proptest! {
         }
         // Every copper item is at least the margin inside the outline.
         let outline = &l.outline.segments;
-        let edge = |p: geometry::Point| outline.iter().map(|s| distance_point_segment(p, s)).fold(f64::INFINITY, f64::min);
+        let edge = |p: geometry::Point| outline.iter().map(|s| s.distance(p)).fold(f64::INFINITY, f64::min);
         for t in &l.tracks {
             for p in t.segment.flatten(1e-4) {
                 prop_assert!(edge(p) >= d.board.margin + t.width / 2.0 - 1e-3);
@@ -201,7 +208,7 @@ proptest! {
             .collect();
         for (at, dia, joins) in &holes {
             for t in l.tracks.iter().filter(|t| !joins.contains(&t.layer)) {
-                let gap = distance_point_segment(*at, &t.segment) - dia / 2.0 - t.width / 2.0;
+                let gap = t.segment.distance(*at) - dia / 2.0 - t.width / 2.0;
                 prop_assert!(gap >= s - 1e-9, "hole at {at:?} is {gap} mm from a track on layer {}", t.layer);
             }
         }
@@ -269,7 +276,7 @@ proptest! {
                 .filter(|(_, (a, b))| *b <= theta - PI / 2.0 || *a >= theta + PI / 2.0)
                 .map(|(s, _)| s)
                 .collect();
-            let nearest = others.iter().map(|s| distance_point_segment(p, s)).fold(f64::INFINITY, f64::min);
+            let nearest = others.iter().map(|s| s.distance(p)).fold(f64::INFINITY, f64::min);
             prop_assert!(nearest >= pitch - 1e-9, "closer than a pitch: {nearest}");
             // The next turn out is exactly one pitch away (looking inward
             // from a sharp outer corner the gap is wider, by design).
@@ -278,7 +285,7 @@ proptest! {
                     .iter()
                     .zip(&spans)
                     .filter(|(_, (a, _))| *a >= theta + PI / 2.0)
-                    .map(|(s, _)| distance_point_segment(p, s))
+                    .map(|(s, _)| s.distance(p))
                     .fold(f64::INFINITY, f64::min);
                 prop_assert!((outward - pitch).abs() < 1e-9, "pitch {outward} != {pitch} at {p:?}");
             }

@@ -180,7 +180,7 @@ fn write_bundle(d: &Design, dir: &Path) {
         std::fs::create_dir_all(p.parent().unwrap()).unwrap();
         std::fs::write(p, &f.bytes).unwrap();
     }
-    let (lo, hi) = layout.outline_bounds();
+    let coilwright::geometry::Rect { min: lo, max: hi } = layout.outline_bounds();
     let expect = serde_json::json!({
         "design": d,
         "layout": layout,
