@@ -1,7 +1,7 @@
 //! `coilwright build SPEC -o DIR [--force]`: check, then write every output
 //! file into DIR, atomically.
 
-use super::check::{plural, violations_table};
+use super::check::{limits_text, plural, violations_table};
 use super::out_dir;
 use super::pipeline;
 use super::{Exit, Failure, print_out};
@@ -9,8 +9,9 @@ use anyhow::anyhow;
 use coilwright::export;
 use std::path::Path;
 
-/// Runs `build`.
-pub fn run(spec: &Path, out: &Path, force: bool) -> Result<Exit, Failure> {
+/// Runs `build`; `allow_over_limits` writes the files even when the
+/// prediction exceeds the design's own limits.
+pub fn run(spec: &Path, out: &Path, force: bool, allow_over_limits: bool) -> Result<Exit, Failure> {
     if out.exists() && !force {
         return Err(anyhow!(
             "{} exists; pass --force to replace it (nothing was written)",
@@ -28,10 +29,25 @@ pub fn run(spec: &Path, out: &Path, force: bool) -> Result<Exit, Failure> {
         return Ok(Exit::Violations);
     }
     let analysis = pipeline::analysis(&checked)?;
-    // Limits exceeded at the drive (temperature, current) and other
-    // cautions from the analysis: said here too, not only in report.md.
+    let over_limits = analysis.cautions.iter().any(|c| c.is_limit());
+    if over_limits && !allow_over_limits {
+        print_out(&limits_text(&analysis))?;
+        print_out(&format!(
+            "not built: the prediction exceeds the design's own limits above; lower the drive or change the coil, \
+             or pass --allow-over-limits to write the files anyway (nothing was written to {})\n",
+            out.display()
+        ))?;
+        return Ok(Exit::Violations);
+    }
+    // Limits exceeded (only with --allow-over-limits) and advice from the
+    // analysis: said here too, not only in report.md.
     for c in &analysis.cautions {
-        eprintln!("warning: {c}");
+        let what = if c.is_limit() {
+            "limit exceeded"
+        } else {
+            "advice"
+        };
+        eprintln!("warning: {what}: {c}");
     }
     let design = &checked.loaded.design;
     let files = export::bundle(design, &checked.layout, &analysis)

@@ -3,6 +3,7 @@
 
 use super::pipeline;
 use super::{Exit, Failure, print_out};
+use coilwright::physics::{Analysis, Caution};
 use coilwright::rules::{Severity, Violation, group};
 use serde_json::json;
 use std::path::Path;
@@ -36,19 +37,31 @@ pub fn run(spec: &Path, json: bool, svg: Option<&Path>, force: bool) -> Result<E
         }
         Err(f) => return Err(f),
     };
+    // The design's own limits (max_temperature at the drive) are checked
+    // with the rules: exceeding them is a problem of the design.
+    let analysis = pipeline::analysis(&checked)?;
+    let cautions = &analysis.cautions;
+    let over_limits = cautions.iter().any(Caution::is_limit);
     if json {
-        print_out(&format!("{}\n", violations_json(&checked.violations)))?;
+        let mut doc: serde_json::Value =
+            serde_json::from_str(&violations_json(&checked.violations))?;
+        doc["limits"] = cautions_json(cautions.iter().filter(|c| c.is_limit()));
+        doc["advice"] = cautions_json(cautions.iter().filter(|c| !c.is_limit()));
+        print_out(&format!("{}\n", serde_json::to_string_pretty(&doc)?))?;
     } else {
         let l = &checked.layout;
         let mut s = violations_table(&checked.violations);
-        if checked.violations.is_empty() {
+        s.push_str(&limits_text(&analysis));
+        if checked.violations.is_empty() && !over_limits {
             s.push_str(&format!(
-                "ok: {} is valid and passes the \"{}\" rules ({}, {} turns per layer, {})\n",
+                "ok: {} is valid, passes the \"{}\" rules and stays within its own limits ({}, {} turns per layer, {}, {:.0} C at the drive of {:.0} C allowed)\n",
                 spec.display(),
                 checked.loaded.design.rules.profile,
                 plural(l.layers as usize, "layer"),
                 coilwright::design::turns_text(l.turns),
-                plural(l.vias.len(), "via")
+                plural(l.vias.len(), "via"),
+                analysis.thermal.temperature_c.unwrap_or(f64::NAN),
+                checked.loaded.design.drive.max_temperature
             ));
         }
         print_out(&s)?;
@@ -61,7 +74,7 @@ pub fn run(spec: &Path, json: bool, svg: Option<&Path>, force: bool) -> Result<E
         );
         super::report::write_file(file, doc.as_bytes(), force)?;
     }
-    Ok(if checked.has_errors() {
+    Ok(if checked.has_errors() || over_limits {
         Exit::Violations
     } else {
         Exit::Ok
@@ -194,6 +207,33 @@ pub fn violations_table(violations: &[Violation]) -> String {
         count(Severity::Warning, "warning")
     ));
     out
+}
+
+/// Cautions as JSON: `[{"id", "message"}]`.
+fn cautions_json<'a>(cautions: impl Iterator<Item = &'a Caution>) -> serde_json::Value {
+    cautions
+        .map(|c| json!({"id": c.id(), "message": c.to_string()}))
+        .collect()
+}
+
+/// The design's own limits that the prediction exceeds (errors, listed
+/// with the rule problems, with the largest drive that stays within them),
+/// then advice; empty when there is neither.
+pub fn limits_text(analysis: &Analysis) -> String {
+    let cautions = &analysis.cautions;
+    let mut s = String::new();
+    for c in cautions.iter().filter(|c| c.is_limit()) {
+        s.push_str(&format!(
+            "limit exceeded ({}): {c}; at most {:.3} A / {:.3} V stays within it\n",
+            c.id(),
+            analysis.thermal.max_current_a,
+            analysis.thermal.max_voltage_v
+        ));
+    }
+    for c in cautions.iter().filter(|c| !c.is_limit()) {
+        s.push_str(&format!("advice ({}): {c}\n", c.id()));
+    }
+    s
 }
 
 /// `v` with `decimals` decimals, never "-0.000".

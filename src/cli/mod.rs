@@ -95,6 +95,10 @@ pub enum Command {
         /// the new one is complete).
         #[arg(long)]
         force: bool,
+        /// Write the files even when the predicted temperature exceeds the
+        /// design's own max_temperature (otherwise build refuses, exit 1).
+        #[arg(long)]
+        allow_over_limits: bool,
     },
     /// Predict resistance, inductance, field, force on the magnet, heating
     /// and bending of a design.
@@ -229,7 +233,12 @@ pub fn run(cli: Cli) -> ExitCode {
             svg,
             force,
         } => check::run(&spec, json, svg.as_deref(), force),
-        Command::Build { spec, out, force } => build::run(&spec, &out, force),
+        Command::Build {
+            spec,
+            out,
+            force,
+            allow_over_limits,
+        } => build::run(&spec, &out, force, allow_over_limits),
         Command::Report {
             spec,
             json,

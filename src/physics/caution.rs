@@ -66,9 +66,33 @@ pub enum Caution {
         /// Finished board thickness, mm.
         thickness_mm: f64,
     },
+    /// A flex board that bends repeatedly with more than two copper layers
+    /// in the bend: most fabs advise one or two (common practice, no
+    /// source), as the outer layers crack first.
+    DynamicBendManyLayers {
+        /// Copper layers in the bending zone.
+        layers: usize,
+    },
 }
 
 impl Caution {
+    /// Whether this caution is a limit of the design exceeded.
+    pub fn is_limit(&self) -> bool {
+        self.kind() == CautionKind::LimitExceeded
+    }
+
+    /// A stable id for scripts (`check --json`), e.g. "max-temperature".
+    pub fn id(&self) -> &'static str {
+        match self {
+            Caution::NoSteadyState { .. } => "thermal-runaway",
+            Caution::TemperatureAboveLimit { .. } => "max-temperature",
+            Caution::HotToTouch { .. } => "hot-to-touch",
+            Caution::ForceRough { .. } => "force-rough",
+            Caution::BendTooTight { .. } => "bend-too-tight",
+            Caution::DynamicBendManyLayers { .. } => "dynamic-bend-layers",
+        }
+    }
+
     /// Whether the caution is a limit of the design exceeded or advice.
     pub fn kind(&self) -> CautionKind {
         match self {
@@ -77,7 +101,8 @@ impl Caution {
             }
             Caution::HotToTouch { .. }
             | Caution::ForceRough { .. }
-            | Caution::BendTooTight { .. } => CautionKind::Advice,
+            | Caution::BendTooTight { .. }
+            | Caution::DynamicBendManyLayers { .. } => CautionKind::Advice,
         }
     }
 }
@@ -127,6 +152,10 @@ impl fmt::Display for Caution {
                     BendKind::Static => "static",
                     BendKind::Dynamic => "dynamic",
                 }
+            ),
+            Caution::DynamicBendManyLayers { layers } => write!(
+                f,
+                "{layers} copper layers bend repeatedly (bend = \"dynamic\"): most fabs advise one or two copper layers in a dynamic bending zone (common practice, no source)"
             ),
         }
     }

@@ -71,6 +71,10 @@ pub fn analyse(design: &Design, findings: &mut Findings) -> Mechanics {
                 thickness_mm: mech.thickness_mm,
             });
         }
+        let layers = design.stackup.copper.len();
+        if b.kind == BendKind::Dynamic && layers > 2 && design.stackup.kind == BoardKind::Flex {
+            findings.caution(Caution::DynamicBendManyLayers { layers });
+        }
     }
     mech
 }

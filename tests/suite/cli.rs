@@ -29,7 +29,7 @@ remanence = "1.3T"
 gap = "0.5mm"
 
 [drive]
-voltage = "3.3V"
+voltage = "1.5V"
 "#;
 
 fn run(dir: &Path, args: &[&str]) -> Output {
@@ -235,7 +235,7 @@ fn catalogue() -> Vec<Case> {
         ),
         case(
             "voltage and current",
-            mutate("voltage = \"3.3V\"", "voltage = \"3.3V\"\ncurrent = \"1A\""),
+            mutate("voltage = \"1.5V\"", "voltage = \"1.5V\"\ncurrent = \"1A\""),
             "drive.current",
             "\"1A\"",
             "not both",
@@ -243,8 +243,8 @@ fn catalogue() -> Vec<Case> {
         case(
             "negative temperature below absolute zero",
             mutate(
-                "voltage = \"3.3V\"",
-                "voltage = \"3.3V\"\nambient = \"-300C\"",
+                "voltage = \"1.5V\"",
+                "voltage = \"1.5V\"\nambient = \"-300C\"",
             ),
             "drive.ambient",
             "\"-300C\"",
@@ -490,4 +490,57 @@ fn the_key_heads_each_problem_once() {
             .any(|l| l == "error: coil.layers: 33 is out of range; it must be 1 to 32"),
         "{err}"
     );
+}
+
+/// The design's own max_temperature is a limit, not advice: the
+/// motor-stator starter driven at 0.8 A (about 460 C against 90 C) fails
+/// `check` (exit 1, listed with the rule problems, in JSON under
+/// `limits`), `build` refuses and writes nothing, and writes only with
+/// `--allow-over-limits`.
+#[test]
+fn limits_are_enforced_by_check_and_build() {
+    let dir = tempfile::tempdir().unwrap();
+    let stator = std::fs::read_to_string(
+        Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/motor-stator.toml"),
+    )
+    .unwrap();
+    let hot = stator.replace("current = \"0.2A\"", "current = \"0.8A\"");
+    assert_ne!(hot, stator);
+    std::fs::write(dir.path().join("hot.toml"), hot).unwrap();
+
+    let o = run(dir.path(), &["check", "hot.toml"]);
+    assert_eq!(o.status.code(), Some(1), "{}{}", stdout(&o), stderr(&o));
+    assert!(
+        stdout(&o).contains("limit exceeded (max-temperature)"),
+        "{}",
+        stdout(&o)
+    );
+    assert!(!stdout(&o).contains("ok:"));
+
+    let o = run(dir.path(), &["check", "hot.toml", "--json"]);
+    assert_eq!(o.status.code(), Some(1));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    assert_eq!(v["limits"][0]["id"], "max-temperature");
+    assert!(v["violations"].as_array().unwrap().is_empty());
+
+    let o = run(dir.path(), &["build", "hot.toml", "-o", "out"]);
+    assert_eq!(o.status.code(), Some(1), "{}{}", stdout(&o), stderr(&o));
+    assert!(stdout(&o).contains("--allow-over-limits"));
+    assert!(
+        !dir.path().join("out").exists(),
+        "build wrote files over its limits"
+    );
+
+    let o = run(
+        dir.path(),
+        &["build", "hot.toml", "-o", "out", "--allow-over-limits"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    assert!(stderr(&o).contains("limit exceeded"), "{}", stderr(&o));
+    assert!(dir.path().join("out/manifest.json").exists());
+
+    // The starter itself stays within its limits.
+    std::fs::write(dir.path().join("ok.toml"), stator).unwrap();
+    let o = run(dir.path(), &["check", "ok.toml"]);
+    assert_eq!(o.status.code(), Some(0), "{}", stdout(&o));
 }
