@@ -99,8 +99,16 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     let pad = 0.08 * (hi.x - lo.x).max(hi.y - lo.y).max(2.0);
     let (x0, y0) = (lo.x - pad, -hi.y - pad);
     let w = hi.x - lo.x + 2.0 * pad + legend_w;
-    let h = (hi.y - lo.y + 2.0 * pad).max(0.9 * legend_w);
-    let font = (0.035 * h).max(0.3);
+    let h_main = (hi.y - lo.y + 2.0 * pad).max(0.9 * legend_w);
+    let font = (0.035 * h_main).max(0.3);
+    let strip = LayerStrip::new(
+        layout,
+        view,
+        w - 2.0 * pad,
+        (hi.x - lo.x).max(hi.y - lo.y),
+        font,
+    );
+    let h = h_main + strip.height;
     let mut s = String::new();
     let _ = writeln!(
         s,
@@ -388,6 +396,10 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
             mm(font * 0.8)
         );
     }
+    // Each layer on its own, small, below the stacked view: where many
+    // turns blur together when stacked, each layer's direction stays
+    // visible here.
+    strip.draw(&mut s, layout, x0 + pad, y0 + h_main, lo.midpoint(hi), font);
     // Scale bar: a round length about a quarter of the board.
     let span = (hi.x - lo.x).max(1e-3);
     let bar = nice_length(span / 4.0);
@@ -426,6 +438,112 @@ fn nice_length(x: f64) -> f64 {
 
 /// `n` positions and current directions spread along the winding part of
 /// a layer's copper (by length).
+/// The row(s) of small per-layer views under a stacked preview.
+struct LayerStrip {
+    /// Layers per row.
+    per_row: usize,
+    /// Side of one small view, mm of the drawing.
+    cell: f64,
+    /// Scale from board mm to drawing mm inside a small view.
+    scale: f64,
+    /// Height the strip adds to the drawing, mm (0: no strip).
+    height: f64,
+}
+
+impl LayerStrip {
+    /// At most this many layers per row.
+    const MAX_PER_ROW: usize = 8;
+
+    fn new(layout: &Board, view: View, width: f64, board_size: f64, font: f64) -> LayerStrip {
+        let n = layout.layers as usize;
+        if view != View::Stack || n < 2 {
+            return LayerStrip {
+                per_row: 1,
+                cell: 0.0,
+                scale: 0.0,
+                height: 0.0,
+            };
+        }
+        let per_row = n.min(Self::MAX_PER_ROW);
+        let rows = n.div_ceil(per_row);
+        let cell = (width / per_row as f64).min(board_size * 0.45);
+        LayerStrip {
+            per_row,
+            cell,
+            scale: 0.85 * cell / board_size.max(1e-9),
+            height: rows as f64 * (cell + font * 1.4) + font * 0.6,
+        }
+    }
+
+    /// Draws the strip with its top-left corner at (`x`, `y`) (drawing
+    /// coordinates, y down); `centre` is the board's centre.
+    fn draw(&self, s: &mut String, layout: &Board, x: f64, y: f64, centre: Point, font: f64) {
+        if self.height == 0.0 {
+            return;
+        }
+        let k = self.scale;
+        for l in 1..=layout.layers {
+            let i = (l - 1) as usize;
+            let (col, row) = (i % self.per_row, i / self.per_row);
+            let cx = x + (col as f64 + 0.5) * self.cell;
+            let cy = y + font * 0.3 + row as f64 * (self.cell + font * 1.4) + self.cell / 2.0;
+            let colour = layer_colour(l, layout.layers);
+            // Board coordinates (y up) into the small view (y down).
+            let _ = writeln!(
+                s,
+                r#"<g class="layer-thumb" transform="translate({} {}) scale({}) translate({} {})" stroke="{colour}" fill="none" stroke-linecap="round" stroke-linejoin="round">"#,
+                mm(cx),
+                mm(cy),
+                mm(k),
+                mm(-centre.x),
+                mm(centre.y)
+            );
+            let stroke = layout.trace_width.max(0.6 * font / k * 0.08);
+            for w in layout.windings.iter().filter(|w| w.layer == l) {
+                let segs: Vec<Segment> =
+                    layout.winding_tracks(w).iter().map(|t| t.segment).collect();
+                let _ = writeln!(
+                    s,
+                    r#"<path d="{}" stroke-width="{}"/>"#,
+                    path_data(&segs),
+                    mm(stroke)
+                );
+                for (p, dir) in arrow_points(layout, w, 3) {
+                    let size = 0.9 * font / k;
+                    let tip = p + dir * (size * 0.6);
+                    let back = p - dir * (size * 0.4);
+                    let side = dir.perp() * (size * 0.35);
+                    let _ = writeln!(
+                        s,
+                        r#"<path d="M{} L{} L{} Z" fill="{colour}" stroke="{INK}" stroke-width="{}"/>"#,
+                        xy(tip),
+                        xy(back + side),
+                        xy(back - side),
+                        mm(size * 0.05)
+                    );
+                }
+            }
+            let _ = writeln!(s, "</g>");
+            let dir = layout
+                .windings
+                .iter()
+                .find(|w| w.layer == l)
+                .map(|w| match w.direction {
+                    Direction::Inward => "inward",
+                    Direction::Outward => "outward",
+                })
+                .unwrap_or("");
+            let _ = writeln!(
+                s,
+                r#"<text x="{}" y="{}" font-size="{}" fill="{INK}" text-anchor="middle">L{l} {dir}</text>"#,
+                mm(cx),
+                mm(cy + 0.45 * self.cell + font * 0.8),
+                mm(font * 0.7)
+            );
+        }
+    }
+}
+
 fn arrow_points(
     layout: &Board,
     w: &crate::geometry::Winding,

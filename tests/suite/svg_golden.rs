@@ -27,3 +27,22 @@ fn golden_layer_preview() {
     let l = geometry::build(&small()).unwrap();
     insta::assert_snapshot!("layer2", preview(&l, View::Layer(2), &[]));
 }
+
+/// The stacked preview of a many-turn, four-layer coil also draws each
+/// layer on its own (small, with its direction), so the layers stay
+/// readable where the stack blurs; a single-layer view does not.
+#[test]
+fn stacked_preview_shows_each_layer_on_its_own() {
+    let l = geometry::build(&Design::sample()).unwrap();
+    assert_eq!(l.layers, 4);
+    let stack = preview(&l, View::Stack, &[]);
+    assert_eq!(stack.matches(r#"class="layer-thumb""#).count(), 4);
+    for (k, dir) in ["L1 inward", "L2 outward", "L3 inward", "L4 outward"]
+        .iter()
+        .enumerate()
+    {
+        assert!(stack.contains(dir), "layer {} label missing", k + 1);
+    }
+    let one = preview(&l, View::Layer(2), &[]);
+    assert!(!one.contains("layer-thumb"));
+}
