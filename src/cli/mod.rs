@@ -32,7 +32,7 @@ use std::process::ExitCode;
         check it against your board maker's rules with `coilwright check`, write the \
         fab files with `coilwright build`, and read the predicted resistance, \
         inductance, force and heating with `coilwright report`.",
-    after_help = "Exit status: 0 ok, 1 rule violations found, 2 bad input or failure."
+    after_help = "Exit status: 0 ok, 1 problems found (rule violations, a design limit exceeded, no sweep candidate passes), 2 bad input or failure."
 )]
 pub struct Cli {
     /// What to do.
@@ -63,8 +63,11 @@ pub enum Command {
     },
     /// Validate a design file and check the generated copper against the
     /// fab rules.
-    #[command(after_help = "Exit status: 0 no errors (warnings may be printed), \
-        1 rule violations, 2 the design file has problems.")]
+    #[command(
+        after_help = "Exit status: 0 no errors (warnings and advice may be printed), \
+        1 rule violations or a limit of the design exceeded (max_temperature at the drive), \
+        2 the design file has problems."
+    )]
     Check {
         /// Design file (TOML).
         #[arg(value_name = "SPEC")]
@@ -126,7 +129,11 @@ pub enum Command {
         clearance_mm, ambient_c, max_temperature_c, board_width_mm, board_height_mm, \
         rule_errors, rule_warnings.\n\
         Every candidate goes through validation, the rule check and the analysis; \
-        invalid and rule-breaking ones stay in the table with the reason.")]
+        invalid and rule-breaking ones stay in the table with the reason. The design's \
+        own max_temperature is always a requirement. Bounds may carry units \
+        (\"inductance_h >= 1.5uH\", \"temperature_c <= 60C\").\n\
+        Exit status: 0 a candidate meets every requirement, 1 none does (the nearest \
+        misses are listed), 2 bad arguments.")]
     Sweep {
         /// Base design file (TOML); it must be valid.
         #[arg(value_name = "SPEC")]
@@ -151,9 +158,10 @@ pub enum Command {
         #[arg(long, value_name = "METRIC")]
         minimize: Option<String>,
         /// Second metric of the trade-off plot, with :max if larger is
-        /// better (default: outer_diameter_mm, smaller is better; the
-        /// resistance when the objective is the outer size or every
-        /// candidate has the same outer size).
+        /// better (default: outer_diameter_mm, smaller is better; when that
+        /// is the objective or the same for every candidate, the first of
+        /// resistance_ohm_20c, power_w, current_a, trace_length_mm,
+        /// thickness_mm that differs).
         #[arg(long, value_name = "METRIC[:max]")]
         versus: Option<String>,
         /// Folder for the table (CSV, JSON), the trade-off plot and the best
