@@ -7,6 +7,7 @@ pub mod font;
 pub mod gerber;
 pub mod job;
 pub mod kicad;
+pub mod kicad_lib;
 pub mod manifest;
 pub mod plot;
 pub mod report;
@@ -164,6 +165,21 @@ pub fn kicad_files(
         path: kicad::project_file_name(&stem),
         role: "kicad 6 project: design rules of the board".into(),
         bytes: kicad::project(design, layout)?,
+    });
+    files.push(OutFile {
+        path: kicad_lib::symbol_file_name(&stem),
+        role: "kicad 6 symbol library: the coil's symbol, linked to its footprint".into(),
+        bytes: kicad_lib::symbol(design)?,
+    });
+    files.push(OutFile {
+        path: kicad_lib::SYM_TABLE.into(),
+        role: "kicad project symbol library table (nickname coilwright)".into(),
+        bytes: kicad_lib::symbol_table(design),
+    });
+    files.push(OutFile {
+        path: kicad_lib::FP_TABLE.into(),
+        role: "kicad project footprint library table (nickname coilwright)".into(),
+        bytes: kicad_lib::footprint_table(design),
     });
     Ok(())
 }

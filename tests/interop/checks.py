@@ -6,6 +6,10 @@ Run with the interop venv (.venv-interop/bin/python, see setup.sh):
                                gerbonara every Excellon, no warning allowed
     checks.py geometry DIR     shapely on the parsed Gerbers/Excellon:
                                turn-to-turn gap, drill hits on copper
+    checks.py symbol DIR       kiutils reads the KiCad symbol library and the
+                               project library tables: two pins named as the
+                               footprint's pads, the Footprint property
+                               names the footprint, the tables' paths exist
     checks.py raster DIR KDIR  gerbv renders our copper Gerbers and the ones
                                KiCad plotted from our board (in KDIR) in the
                                same frame; copper pixels must agree
@@ -51,6 +55,52 @@ def strict_warnings():
     pdw = getattr(getattr(pyparsing, "warnings", None), "PyparsingDeprecationWarning", None)
     if pdw is not None:
         warnings.simplefilter("ignore", pdw)
+
+
+# ---------------------------------------------------------------- symbol
+
+
+def symbol(d):
+    """kiutils (PyPI), an independent reader of KiCad 6 files."""
+    from kiutils.footprint import Footprint
+    from kiutils.libraries import LibTable
+    from kiutils.symbol import SymbolLib
+
+    kdir = os.path.join(d, "kicad")
+    syms = glob.glob(os.path.join(kdir, "*.kicad_sym"))
+    if len(syms) != 1:
+        fail("kiutils", f"expected one symbol library, found {syms}")
+        return
+    lib = SymbolLib().from_file(syms[0])
+    if len(lib.symbols) != 1:
+        fail("kiutils", f"expected one symbol, found {len(lib.symbols)}")
+        return
+    sym = lib.symbols[0]
+    pins = sorted(p.number for u in sym.units for p in u.pins)
+    if pins != ["1", "2"]:
+        fail("kiutils", f"symbol pins {pins}, expected ['1', '2']")
+    props = {p.key: p.value for p in sym.properties}
+    mods = glob.glob(os.path.join(kdir, "*.pretty", "*.kicad_mod"))
+    fp = Footprint().from_file(mods[0])
+    fp_name = os.path.basename(mods[0])[: -len(".kicad_mod")]
+    if props.get("Footprint") != f"coilwright:{fp_name}":
+        fail("kiutils", f"Footprint property {props.get('Footprint')!r}, expected 'coilwright:{fp_name}'")
+    pads = sorted({p.number for p in fp.pads})
+    if pads != pins:
+        fail("kiutils", f"footprint pads {pads} differ from symbol pins {pins}")
+    if not props.get("Reference"):
+        fail("kiutils", "symbol has no Reference")
+    for name, want in (("sym-lib-table", syms[0]), ("fp-lib-table", os.path.dirname(mods[0]))):
+        table = LibTable().from_file(os.path.join(kdir, name))
+        libs = [(l.name, l.uri) for l in table.libs]
+        if len(libs) != 1 or libs[0][0] != "coilwright":
+            fail("kiutils", f"{name}: libraries {libs}, expected one named coilwright")
+            continue
+        path = libs[0][1].replace("${KIPRJMOD}", kdir)
+        if os.path.realpath(path) != os.path.realpath(want):
+            fail("kiutils", f"{name}: {libs[0][1]} does not point at {want}")
+    print(f"symbol: kiutils reads {os.path.basename(syms[0])}: pins {pins} = footprint pads, "
+          f"footprint coilwright:{fp_name}, both library tables resolve")
 
 
 # ---------------------------------------------------------------- readers
@@ -321,4 +371,4 @@ def raster(d, kdir):
 
 
 if __name__ == "__main__":
-    run({"readers": readers, "geometry": geometry, "raster": raster})
+    run({"symbol": symbol, "readers": readers, "geometry": geometry, "raster": raster})

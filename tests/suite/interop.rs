@@ -2,6 +2,8 @@
 //! and libraries that consume such files (sources named beside each check,
 //! see tests/interop/checks.py and tests/interop/kicad_checks.py):
 //!
+//! - kiutils reads the symbol library and the project library tables: two
+//!   pins named as the footprint's pads, the symbol linked to the footprint;
 //! - gerbonara and pygerber (strict) read every Gerber, gerbonara every
 //!   Excellon, with warnings turned into errors;
 //! - KiCad 6 pcbnew: the footprint loads, its arcs keep their side, placed
@@ -241,6 +243,7 @@ fn check_design(py: &Path, i: usize, root: &Path) -> Result<String, String> {
     );
     let mut errors = String::new();
     for (prog, args) in [
+        (py, vec![c, "symbol", dir_s]),
         (py, vec![c, "readers", dir_s]),
         (py, vec![c, "geometry", dir_s]),
         (sys, vec![k, "footprint", dir_s]),
