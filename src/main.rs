@@ -6,5 +6,10 @@ mod cli;
 use clap::Parser;
 
 fn main() -> std::process::ExitCode {
+    // COILWRIGHT_SIMD=plain: the same bits on every processor (the
+    // output-digest test uses it); otherwise the widest vector path.
+    if std::env::var_os("COILWRIGHT_SIMD").is_some_and(|v| v == "plain") {
+        coilwright::physics::use_plain_arithmetic();
+    }
     cli::run(cli::Cli::parse())
 }

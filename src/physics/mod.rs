@@ -53,6 +53,7 @@ pub use inductance::InductanceReport;
 pub use magnet::{GapPoint, MagnetReport};
 pub use mechanics::Mechanics;
 pub use resistance::Resistance;
+pub use simd::use_plain_arithmetic;
 pub use thermal::ThermalReport;
 
 use crate::design::Design;

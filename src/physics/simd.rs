@@ -20,6 +20,18 @@ use super::field::{self, Segments};
 use super::inductance;
 use std::f64::consts::PI;
 use std::sync::LazyLock;
+use std::sync::atomic::{AtomicBool, Ordering};
+
+/// Set by [`use_plain_arithmetic`]: every sum takes the plain path.
+static PLAIN_ONLY: AtomicBool = AtomicBool::new(false);
+
+/// Makes every vectorised sum take its plain path from now on, so that
+/// results are the same bits on every processor (the vector paths agree
+/// with the plain one to 1e-13, not bit for bit). For reproducible
+/// outputs, e.g. comparing files made on different machines; slower.
+pub fn use_plain_arithmetic() {
+    PLAIN_ONLY.store(true, Ordering::Relaxed);
+}
 
 /// A set of vector instructions the sums can use, from none to the widest.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
@@ -71,7 +83,11 @@ static DETECTED: LazyLock<Level> = LazyLock::new(|| {
 impl Level {
     /// The widest level this processor supports (detected on first use).
     pub(crate) fn detected() -> Level {
-        *DETECTED
+        if PLAIN_ONLY.load(Ordering::Relaxed) {
+            Level::Plain
+        } else {
+            *DETECTED
+        }
     }
 
     /// Whether this processor has the level's instructions.
