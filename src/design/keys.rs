@@ -135,13 +135,13 @@ pub const KEYS: &[Key] = &[
         "coil",
         "outer_diameter",
         Length,
-        "circle/polygon: outer size of the copper",
+        "circle/polygon: the winding's outer size, to the outer edge of the outermost turn's copper (polygon: across corners); the outer lead ring, vias and pads lie outside it",
     ),
     key(
         "coil",
         "inner_diameter",
         Length,
-        "free centre, inside the innermost turn",
+        "free centre: the circle inside the innermost turn's inner edge (polygon: across flats); the centre vias lie inside it",
     ),
     key(
         "coil",

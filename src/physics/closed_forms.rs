@@ -50,6 +50,13 @@ pub fn gmd_rect_self(b: f64, c: f64) -> f64 {
     0.2235 * (b + c)
 }
 
+/// The source of [`mohan_modified_wheeler`] and [`mohan_current_sheet`].
+pub const MOHAN_SOURCE: &str = "Mohan, Hershenson, Boyd, Lee, \"Simple accurate expressions for planar spiral inductances\", IEEE J. Solid-State Circuits 34(10), 1999";
+
+/// The source of [`wheeler_1928`].
+pub const WHEELER_1928_SOURCE: &str =
+    "Wheeler, \"Simple inductance formulas for radio coils\", Proc. IRE 16(10), 1928";
+
 /// Planar-spiral shapes covered by Mohan et al. (1999).
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
@@ -70,7 +77,9 @@ pub enum MohanShape {
 /// octagon 2.25/3.55. `None` for a circle (not covered).
 ///
 /// # Units
-/// `d_out`, `d_in` m (outer and inner copper size; across flats for polygons).
+/// `d_out`, `d_in` m: across the outer edge of the outermost turn and the
+/// inner edge of the innermost turn, across flats for polygons (see
+/// [`crate::physics::inductance::estimate_sizes`]).
 pub fn mohan_modified_wheeler(shape: MohanShape, n: f64, d_out: f64, d_in: f64) -> Option<f64> {
     let (k1, k2) = match shape {
         MohanShape::Square => (2.34, 2.75),

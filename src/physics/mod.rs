@@ -49,7 +49,7 @@ pub use analysis::{Analysis, Inputs};
 pub use caution::{Caution, CautionKind, Findings};
 pub use field::{FIELD_SAGITTA, FIELD_SAGITTA_METRICS, FieldReport, ProfilePoint};
 pub use impedance::Impedance;
-pub use inductance::InductanceReport;
+pub use inductance::{InductanceReport, PublishedEstimate};
 pub use magnet::{GapPoint, MagnetReport};
 pub use mechanics::Mechanics;
 pub use resistance::Resistance;
@@ -130,7 +130,7 @@ pub fn analyse_with(
     let mut found = Findings::default();
     let resistance = resistance::resistance(design, layout, &cond);
     let thermal = thermal::analyse(design, layout, &cond, resistance.total_ohm_20c, &mut found);
-    let inductance = inductance::analyse(design, layout, &cond);
+    let inductance = inductance::analyse(design, layout, &cond, detail);
     let field = field::analyse(design, layout, &cond, detail, thermal.current_a);
     let magnet = design.magnet.map(|mg| {
         let drive = (thermal.current_a, thermal.power_w);
