@@ -81,7 +81,8 @@ impl Axis {
 
 /// Marker lines and their labels: a muted brick red, our own choice, apart
 /// from the viridis lines.
-const MARK: &str = "#a4462f";
+pub(crate) const MARKER_COLOUR: &str = "#a4462f";
+const MARK: &str = MARKER_COLOUR;
 /// Marker label text: a darker shade of [`MARK`].
 const MARK_INK: &str = "#6e2a1b";
 /// Approximate advance of one character of the 11 px label font, px.
@@ -370,7 +371,12 @@ pub fn line_plot(
     let mut taken: Vec<PxBox> = Vec::new();
     if series.len() > 1 {
         let lx = w - r - 150.0;
-        taken.push((lx - 4.0, t + 4.0, w - r, t + 20.0 + 16.0 * series.len() as f64));
+        taken.push((
+            lx - 4.0,
+            t + 4.0,
+            w - r,
+            t + 20.0 + 16.0 * series.len() as f64,
+        ));
     }
     let area = (px(xa), py(yb), px(xb), py(ya));
     let shown: Vec<&Marker> = markers.iter().filter(|m| m.at.is_finite()).collect();
@@ -387,8 +393,7 @@ pub fn line_plot(
         let _ = writeln!(
             s,
             r#"<line x1="{mx:.2}" y1="{:.2}" x2="{mx:.2}" y2="{:.2}" stroke="{MARK}" stroke-width="1.5" stroke-dasharray="6 3"/>"#,
-            area.1,
-            area.3
+            area.1, area.3
         );
         if let Some(y) = m.point.filter(|y| y.is_finite()) {
             let _ = writeln!(
@@ -653,6 +658,54 @@ mod tests {
                 && (b.hi - 0.5).abs() < 1e-12
         );
         assert_eq!(b.label(0.30000000000000004), "0.3");
+    }
+
+    #[test]
+    fn marker_labels_keep_off_the_curve_and_each_other() {
+        let curve: Vec<(f64, f64)> = (0..=50)
+            .map(|i| {
+                let x = i as f64 * 0.2;
+                (x, 8.0 * (-x / 3.0).exp())
+            })
+            .collect();
+        let svg = line_plot(
+            "t",
+            "x",
+            "y",
+            &[("c", curve.clone())],
+            &[
+                Marker::new(0.5, "a long label at the steep start"),
+                Marker::new(2.0, "second label\nin two lines")
+                    .with_point(8.0 * (-2.0f64 / 3.0).exp()),
+            ],
+        );
+        // Marker lines at their x (plot area 78..620 px for 0..10).
+        for x in [0.5, 2.0] {
+            let want = format!(r#"<line x1="{:.2}""#, 78.0 + x / 10.0 * 542.0);
+            assert!(svg.contains(&want), "{want} missing");
+        }
+        let boxes: Vec<PxBox> = svg
+            .lines()
+            .filter(|l| l.contains("fill-opacity=\"0.9\""))
+            .map(|l| {
+                let v = |n: &str| -> f64 {
+                    let i = l.find(&format!(" {n}=\"")).unwrap() + n.len() + 3;
+                    l[i..].split('"').next().unwrap().parse().unwrap()
+                };
+                (v("x"), v("y"), v("x") + v("width"), v("y") + v("height"))
+            })
+            .collect();
+        assert_eq!(boxes.len(), 2);
+        assert!(!boxes_overlap(boxes[0], boxes[1]));
+        let px = |x: f64| 78.0 + x / 10.0 * 542.0;
+        let py = |y: f64| 400.0 - 56.0 - y / 8.0 * 304.0;
+        let pts: Vec<(f64, f64)> = curve.iter().map(|&(x, y)| (px(x), py(y))).collect();
+        for b in boxes {
+            assert!(
+                !pts.windows(2).any(|s| segment_hits(s[0], s[1], b)),
+                "{b:?}"
+            );
+        }
     }
 
     #[test]

@@ -294,7 +294,10 @@ fn at_the_drive(a: &Analysis) -> String {
         ("voltage", si(t.voltage_v, "V")),
         ("power", si(t.power_w, "W")),
         ("steady temperature", temp),
-        ("resistance at 20 C", format!("{} ohm", sig(r.total_ohm_20c, 4))),
+        (
+            "resistance at 20 C",
+            format!("{} ohm", sig(r.total_ohm_20c, 4)),
+        ),
         (
             "resistance at operating temperature",
             format!("{} ohm", sig(t.resistance_ohm_hot, 4)),
@@ -518,11 +521,7 @@ fn heating(t: &ThermalReport, max_temperature_c: f64) -> String {
         t.losses.rayleigh
     );
     let _ = writeln!(s, "- convection: {}", t.convection_source);
-    let _ = writeln!(
-        s,
-        "- thermal time constant {} s",
-        sig(t.time_constant_s, 3)
-    );
+    let _ = writeln!(s, "- thermal time constant {} s", sig(t.time_constant_s, 3));
     match t.pulse_s {
         Some(p) => {
             let _ = writeln!(
@@ -578,4 +577,138 @@ fn general_cautions() -> String {
         "- Heating assumes still air around a board lying flat; an enclosure, a heat sink or nearby parts change it a lot.\n",
     ]
     .concat()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::design::{BoardKind, Wiring};
+
+    fn report_of(d: &Design) -> (Board, Analysis) {
+        let board = crate::geometry::build(d).expect("sample builds");
+        let a = crate::physics::analyse(d, &board).expect("sample analyses");
+        (board, a)
+    }
+
+    /// The design line of the report (the first line after the title).
+    fn summary(md: &str) -> &str {
+        md.lines().nth(2).unwrap_or("")
+    }
+
+    #[test]
+    fn summary_rounds_turns_and_says_wiring_and_board_in_words() {
+        let mut d = Design::sample();
+        d.coil.turns = 15.24550251162513;
+        d.coil.layers = 2;
+        d.coil.wiring = Wiring::ParallelPairs;
+        d.stackup.kind = BoardKind::Rigid;
+        d.stackup.copper = vec![0.035; 2];
+        d.stackup.dielectric = vec![1.5];
+        let (board, _) = report_of(&Design::sample());
+        let line = heading(&d, &board);
+        assert!(line.contains("15.25 turns per layer"), "{line}");
+        assert!(!line.contains("15.2455"), "{line}");
+        assert!(
+            line.contains("parallel pairs wiring, rigid board"),
+            "{line}"
+        );
+        assert!(line.contains("2 layers"), "{line}");
+        let (board, a) = report_of(&Design::sample());
+        let md = markdown(&Design::sample(), &board, &a);
+        assert!(summary(&md).contains("series wiring, flex board"), "{md}");
+        assert!(!md.contains("Series") && !md.contains("Flex board"), "{md}");
+    }
+
+    #[test]
+    fn rectangle_is_described_by_width_and_height() {
+        let mut d = Design::sample();
+        d.coil.shape = Shape::Rectangle {
+            width: 24.0,
+            height: 12.0,
+        };
+        d.coil.outer_diameter = 24f64.hypot(12.0);
+        d.coil.inner_diameter = 4.0;
+        d.coil.turns = 8.0;
+        let (board, a) = report_of(&d);
+        let md = markdown(&d, &board, &a);
+        let line = summary(&md);
+        assert!(line.starts_with("rectangle 24.000 x 12.000 mm,"), "{line}");
+        assert!(!md.contains("26.833"), "the diagonal is not a size: {md}");
+        let copper = board.copper_bounds();
+        let extent = format!("{:.2} x {:.2} mm", copper.width(), copper.height());
+        assert!(md.contains(&extent), "{extent} missing: {md}");
+    }
+
+    #[test]
+    fn displayed_numbers_have_no_long_tails() {
+        let mut d = Design::sample();
+        d.drive.frequency = Some(130e3);
+        let (board, a) = report_of(&d);
+        let md = markdown(&d, &board, &a);
+        assert!(md.contains("at 130 kHz:"), "{md}");
+        // No number with more than 6 significant digits (the summary line
+        // once said 15.24550251162513).
+        let long = md
+            .split(|c: char| !(c.is_ascii_digit() || c == '.'))
+            .filter(|w| w.contains('.'))
+            .map(|w| w.replace('.', "").trim_start_matches('0').len())
+            .max();
+        assert!(long.unwrap_or(0) <= 6, "{md}");
+    }
+
+    #[test]
+    fn numbers_round_to_significant_digits_with_prefixes() {
+        assert_eq!(sig(0.38481, 4), "0.3848");
+        assert_eq!(sig(2886.4, 4), "2886");
+        assert_eq!(sig(9.99996, 4), "10.00");
+        assert_eq!(si(12.83e-6, "H"), "12.83 uH");
+        assert_eq!(si(0.12, "A"), "120.0 mA");
+        assert_eq!(si(0.99999, "V"), "1.000 V");
+        assert_eq!(si_given(130e3, "Hz"), "130 kHz");
+        assert_eq!(si_given(0.12, "A"), "120 mA");
+        assert_eq!(si_given(5.0, "V"), "5 V");
+        assert_eq!(millinewton(6.562e-4, ""), "0.6562 mN");
+        assert_eq!(mm(0.6), "0.6 mm");
+    }
+
+    #[test]
+    fn force_plot_marks_the_design_gap() {
+        let d = Design::sample();
+        let gap = d.magnet.expect("the sample has a magnet").gap;
+        let (board, a) = report_of(&d);
+        let plots = plots(&d, &board, &a);
+        let (_, _, svg) = plots
+            .iter()
+            .find(|p| p.0 == "force_gap.svg")
+            .expect("a force plot");
+        assert!(
+            svg.contains(&format!("design gap {}:", mm(gap))),
+            "no gap label: {svg}"
+        );
+        // The marker line and the operating-point dot share one x, and that
+        // x sits where the gap falls between the first and last gap ticks.
+        let marker_x = svg
+            .lines()
+            .find(|l| l.starts_with("<line") && l.contains(super::super::plot::MARKER_COLOUR))
+            .and_then(|l| attr(l, "x1"))
+            .expect("a marker line");
+        let dot = svg
+            .lines()
+            .find(|l| l.starts_with("<circle"))
+            .expect("an operating-point dot");
+        assert_eq!(attr(dot, "cx"), Some(marker_x));
+        let m = a.magnet.as_ref().expect("a magnet report");
+        let (g0, g1) = (
+            m.force_vs_gap.first().unwrap().gap_mm,
+            m.force_vs_gap.last().unwrap().gap_mm,
+        );
+        let axis = super::super::plot::Axis::nice(g0.min(gap), g1.max(gap), 8);
+        let want = 78.0 + (gap - axis.lo) / (axis.hi - axis.lo) * (640.0 - 78.0 - 20.0);
+        assert!((marker_x - want).abs() < 0.01, "{marker_x} vs {want}");
+    }
+
+    fn attr(line: &str, name: &str) -> Option<f64> {
+        let start = line.find(&format!(" {name}=\""))? + name.len() + 3;
+        line[start..].split('"').next()?.parse().ok()
+    }
 }
