@@ -53,7 +53,7 @@ fn report_8_layer_100_turns(c: &mut Criterion) {
         b.iter(|| {
             let a =
                 coilwright::physics::analyse(black_box(&d), black_box(&layout)).expect("analysis");
-            black_box(coilwright::export::report::files(&d, &a).expect("report"))
+            black_box(coilwright::export::report::files(&d, &layout, &a).expect("report"))
         })
     });
     g.finish();

@@ -21,7 +21,7 @@ fn main() -> Result<(), Box<dyn std::error::Error>> {
     }
     let layout = coilwright::geometry::build(&d)?;
     let a = coilwright::physics::analyse(&d, &layout)?;
-    for f in coilwright::export::report::files(&d, &a)? {
+    for f in coilwright::export::report::files(&d, &layout, &a)? {
         let p = dir.join(&f.path);
         std::fs::create_dir_all(p.parent().unwrap_or(&dir))?;
         std::fs::write(&p, &f.bytes)?;

@@ -61,10 +61,7 @@ pub fn run(spec: &Path, out: &Path, force: bool, allow_over_limits: bool) -> Res
         plural(files.len(), "file"),
         out.display(),
         plural(l.layers as usize, "layer"),
-        match design.coil.wiring {
-            coilwright::design::Wiring::Series => "series",
-            coilwright::design::Wiring::ParallelPairs => "parallel pairs",
-        },
+        design.coil.wiring.words(),
         design.coil.turns_text(),
         design.coil.outer_size_text(),
         design.coil.inner_diameter,

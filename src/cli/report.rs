@@ -21,7 +21,7 @@ pub fn run(spec: &Path, json: bool, out: Option<&Path>, force: bool) -> Result<E
     let text = if json {
         format!("{}\n", serde_json::to_string_pretty(&analysis)?)
     } else {
-        coilwright::export::report::markdown(&checked.loaded.design, &analysis)
+        coilwright::export::report::markdown(&checked.loaded.design, &checked.layout, &analysis)
     };
     // When the report goes to a file, limits exceeded (temperature,
     // current) are also said on the terminal.

@@ -78,6 +78,16 @@ pub enum Wiring {
     ParallelPairs,
 }
 
+impl Wiring {
+    /// As people write it: "series", "parallel pairs".
+    pub fn words(self) -> &'static str {
+        match self {
+            Wiring::Series => "series",
+            Wiring::ParallelPairs => "parallel pairs",
+        }
+    }
+}
+
 /// Winding geometry. All sizes resolved.
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Coil {
@@ -141,6 +151,16 @@ pub enum BoardKind {
     Flex,
     /// Rigid (FR-4, solder mask).
     Rigid,
+}
+
+impl BoardKind {
+    /// As people write it: "flex", "rigid".
+    pub fn words(self) -> &'static str {
+        match self {
+            BoardKind::Flex => "flex",
+            BoardKind::Rigid => "rigid",
+        }
+    }
 }
 
 /// Static (bent once to install) or dynamic (bent repeatedly).

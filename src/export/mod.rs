@@ -53,7 +53,7 @@ pub fn bundle(
     fab_files(design, layout, &mut files)?;
     kicad_files(design, layout, &mut files)?;
     files.extend(previews(layout, &[]));
-    files.extend(report::files(design, analysis)?);
+    files.extend(report::files(design, layout, analysis)?);
     let m = manifest::manifest(&design.name, &files)?;
     files.push(OutFile {
         path: manifest::FILE_NAME.into(),

@@ -79,12 +79,113 @@ impl Axis {
     }
 }
 
-/// A line plot with axes, ticks, grid, labels and a legend, as SVG text.
+/// Marker lines and their labels: a muted brick red, our own choice, apart
+/// from the viridis lines.
+pub(crate) const MARKER_COLOUR: &str = "#a4462f";
+const MARK: &str = MARKER_COLOUR;
+/// Marker label text: a darker shade of [`MARK`].
+const MARK_INK: &str = "#6e2a1b";
+/// Approximate advance of one character of the 11 px label font, px.
+const LABEL_CHAR_PX: f64 = 6.4;
+/// Height of one label line, px.
+const LABEL_LINE_PX: f64 = 14.0;
+
+/// A vertical line across a line plot where the design sits (its gap, its
+/// edges), with a label and optionally a dot on the curve.
+#[derive(Debug, Clone, PartialEq)]
+pub struct Marker {
+    /// Position on the x-axis, in the plot's x units.
+    pub at: f64,
+    /// Label; `\n` starts a new line.
+    pub label: String,
+    /// Value on the y-axis to mark with a dot (the operating point), in the
+    /// plot's y units.
+    pub point: Option<f64>,
+}
+
+impl Marker {
+    /// A marker line at `at` with a label and no dot.
+    pub fn new(at: f64, label: impl Into<String>) -> Marker {
+        Marker {
+            at,
+            label: label.into(),
+            point: None,
+        }
+    }
+
+    /// The same marker with a dot at `y` (the operating point).
+    pub fn with_point(mut self, y: f64) -> Marker {
+        self.point = Some(y);
+        self
+    }
+}
+
+/// An axis-aligned box in pixels: (left, top, right, bottom).
+type PxBox = (f64, f64, f64, f64);
+
+fn boxes_overlap(a: PxBox, b: PxBox) -> bool {
+    a.0 < b.2 && b.0 < a.2 && a.1 < b.3 && b.1 < a.3
+}
+
+/// Whether the segment from `p` to `q` (px) passes through `bx`: sampled
+/// every pixel or so, which is exact enough for placing labels.
+fn segment_hits(p: (f64, f64), q: (f64, f64), bx: PxBox) -> bool {
+    let n = ((q.0 - p.0).hypot(q.1 - p.1).ceil() as usize).clamp(1, 2000);
+    (0..=n).any(|k| {
+        let t = k as f64 / n as f64;
+        let (x, y) = (p.0 + (q.0 - p.0) * t, p.1 + (q.1 - p.1) * t);
+        x >= bx.0 && x <= bx.2 && y >= bx.1 && y <= bx.3
+    })
+}
+
+/// Where to put a marker label of `size` (px) beside the line at `x`
+/// inside `area`: the first place, from the top down, right of the line
+/// before left of it, that touches no curve, no other marker line and no
+/// label placed before; the top right if none is free.
+fn place_label(
+    x: f64,
+    size: (f64, f64),
+    area: PxBox,
+    curves: &[Vec<(f64, f64)>],
+    lines: &[f64],
+    taken: &[PxBox],
+) -> PxBox {
+    let (w, h) = size;
+    let clamp_x = |left: f64| left.clamp(area.0 + 2.0, (area.2 - w - 2.0).max(area.0 + 2.0));
+    let free = |b: PxBox| {
+        b.0 >= area.0
+            && b.2 <= area.2
+            && b.1 >= area.1
+            && b.3 <= area.3
+            && !taken.iter().any(|t| boxes_overlap(*t, b))
+            && !lines.iter().any(|l| *l > b.0 - 1.0 && *l < b.2 + 1.0)
+            && !curves
+                .iter()
+                .any(|c| c.windows(2).any(|s| segment_hits(s[0], s[1], b)))
+    };
+    let rows = ((area.3 - area.1 - h - 8.0) / 6.0).max(0.0) as usize;
+    (0..=rows)
+        .map(|r| area.1 + 4.0 + 6.0 * r as f64)
+        .flat_map(|top| {
+            [x + 5.0, x - 5.0 - w]
+                .into_iter()
+                .map(move |left| (left, top, left + w, top + h))
+        })
+        .find(|b| free(*b))
+        .unwrap_or_else(|| {
+            let left = clamp_x(x + 5.0);
+            (left, area.1 + 4.0, left + w, area.1 + 4.0 + h)
+        })
+}
+
+/// A line plot with axes, ticks, grid, labels, a legend and marker lines,
+/// as SVG text. The x range is widened to show every marker.
 pub fn line_plot(
     title: &str,
     xlabel: &str,
     ylabel: &str,
     series: &[(&str, Vec<(f64, f64)>)],
+    markers: &[Marker],
 ) -> String {
     let (w, h) = (640.0, 400.0);
     let (l, r, t, b) = (78.0, 20.0, 40.0, 56.0);
@@ -105,6 +206,10 @@ pub fn line_plot(
     }
     if !x0.is_finite() {
         (x0, x1, y0, y1) = (0.0, 1.0, 0.0, 1.0);
+    }
+    for m in markers.iter().filter(|m| m.at.is_finite()) {
+        x0 = x0.min(m.at);
+        x1 = x1.max(m.at);
     }
     y0 = y0.min(0.0);
     if y1 <= y0 {
@@ -217,7 +322,8 @@ pub fn line_plot(
         (py(ya) + py(yb)) / 2.0,
         esc(ylabel)
     );
-    // Series.
+    // Series, then the markers over them.
+    let mut curves = Vec::new();
     for (i, (name, pts)) in series.iter().enumerate() {
         let c = COLOURS[i % COLOURS.len()];
         let d: Vec<String> = pts
@@ -238,6 +344,12 @@ pub fn line_plot(
             r#"<path d="{}" fill="none" stroke="{c}" stroke-width="2"/>"#,
             d.join(" ")
         );
+        curves.push(
+            pts.iter()
+                .filter(|p| p.0.is_finite() && p.1.is_finite())
+                .map(|&(x, y)| (px(x), py(y)))
+                .collect::<Vec<_>>(),
+        );
         if series.len() > 1 {
             let ly = t + 14.0 + 16.0 * i as f64;
             let lx = w - r - 150.0;
@@ -252,6 +364,73 @@ pub fn line_plot(
                 lx + 26.0,
                 ly + 4.0,
                 esc(name)
+            );
+        }
+    }
+    // The legend (several series) is in the top right: labels keep off it.
+    let mut taken: Vec<PxBox> = Vec::new();
+    if series.len() > 1 {
+        let lx = w - r - 150.0;
+        taken.push((
+            lx - 4.0,
+            t + 4.0,
+            w - r,
+            t + 20.0 + 16.0 * series.len() as f64,
+        ));
+    }
+    let area = (px(xa), py(yb), px(xb), py(ya));
+    let shown: Vec<&Marker> = markers.iter().filter(|m| m.at.is_finite()).collect();
+    // Labels keep off the dots too.
+    for m in &shown {
+        if let Some(y) = m.point.filter(|y| y.is_finite()) {
+            let (cx, cy) = (px(m.at), py(y));
+            taken.push((cx - 7.0, cy - 7.0, cx + 7.0, cy + 7.0));
+        }
+    }
+    let lines: Vec<f64> = shown.iter().map(|m| px(m.at)).collect();
+    for (k, m) in shown.iter().enumerate() {
+        let mx = px(m.at);
+        let _ = writeln!(
+            s,
+            r#"<line x1="{mx:.2}" y1="{:.2}" x2="{mx:.2}" y2="{:.2}" stroke="{MARK}" stroke-width="1.5" stroke-dasharray="6 3"/>"#,
+            area.1, area.3
+        );
+        if let Some(y) = m.point.filter(|y| y.is_finite()) {
+            let _ = writeln!(
+                s,
+                r##"<circle cx="{mx:.2}" cy="{:.2}" r="4" fill="{MARK}" stroke="#ffffff" stroke-width="1.5"/>"##,
+                py(y)
+            );
+        }
+        let text: Vec<&str> = m.label.lines().collect();
+        let longest = text.iter().map(|l| l.chars().count()).max().unwrap_or(0);
+        let size = (
+            longest as f64 * LABEL_CHAR_PX + 8.0,
+            text.len() as f64 * LABEL_LINE_PX + 4.0,
+        );
+        let others: Vec<f64> = lines
+            .iter()
+            .enumerate()
+            .filter(|&(j, _)| j != k)
+            .map(|(_, l)| *l)
+            .collect();
+        let b = place_label(mx, size, area, &curves, &others, &taken);
+        taken.push(b);
+        let _ = writeln!(
+            s,
+            r##"<rect x="{:.2}" y="{:.2}" width="{:.2}" height="{:.2}" fill="#ffffff" fill-opacity="0.9"/>"##,
+            b.0,
+            b.1,
+            b.2 - b.0,
+            b.3 - b.1
+        );
+        for (i, line) in text.iter().enumerate() {
+            let _ = writeln!(
+                s,
+                r#"<text x="{:.2}" y="{:.2}" font-size="11" fill="{MARK_INK}">{}</text>"#,
+                b.0 + 4.0,
+                b.1 + 13.0 + LABEL_LINE_PX * i as f64,
+                esc(line)
             );
         }
     }
@@ -479,6 +658,54 @@ mod tests {
                 && (b.hi - 0.5).abs() < 1e-12
         );
         assert_eq!(b.label(0.30000000000000004), "0.3");
+    }
+
+    #[test]
+    fn marker_labels_keep_off_the_curve_and_each_other() {
+        let curve: Vec<(f64, f64)> = (0..=50)
+            .map(|i| {
+                let x = i as f64 * 0.2;
+                (x, 8.0 * (-x / 3.0).exp())
+            })
+            .collect();
+        let svg = line_plot(
+            "t",
+            "x",
+            "y",
+            &[("c", curve.clone())],
+            &[
+                Marker::new(0.5, "a long label at the steep start"),
+                Marker::new(2.0, "second label\nin two lines")
+                    .with_point(8.0 * (-2.0f64 / 3.0).exp()),
+            ],
+        );
+        // Marker lines at their x (plot area 78..620 px for 0..10).
+        for x in [0.5, 2.0] {
+            let want = format!(r#"<line x1="{:.2}""#, 78.0 + x / 10.0 * 542.0);
+            assert!(svg.contains(&want), "{want} missing");
+        }
+        let boxes: Vec<PxBox> = svg
+            .lines()
+            .filter(|l| l.contains("fill-opacity=\"0.9\""))
+            .map(|l| {
+                let v = |n: &str| -> f64 {
+                    let i = l.find(&format!(" {n}=\"")).unwrap() + n.len() + 3;
+                    l[i..].split('"').next().unwrap().parse().unwrap()
+                };
+                (v("x"), v("y"), v("x") + v("width"), v("y") + v("height"))
+            })
+            .collect();
+        assert_eq!(boxes.len(), 2);
+        assert!(!boxes_overlap(boxes[0], boxes[1]));
+        let px = |x: f64| 78.0 + x / 10.0 * 542.0;
+        let py = |y: f64| 400.0 - 56.0 - y / 8.0 * 304.0;
+        let pts: Vec<(f64, f64)> = curve.iter().map(|&(x, y)| (px(x), py(y))).collect();
+        for b in boxes {
+            assert!(
+                !pts.windows(2).any(|s| segment_hits(s[0], s[1], b)),
+                "{b:?}"
+            );
+        }
     }
 
     #[test]

@@ -2,9 +2,10 @@
 //! [`Analysis`] as JSON) and SVG plots (field on the axis, field across the
 //! coil, force against gap). Translates the analysis; computes nothing new.
 
-use super::plot::line_plot;
+use super::plot::{Marker, line_plot};
 use super::{ExportError, OutFile};
 use crate::design::{Design, Magnet, Shape, Source};
+use crate::geometry::Board;
 use crate::physics::{
     Analysis, Caution, FieldReport, Impedance, InductanceReport, MagnetReport, Mechanics,
     ProfilePoint, Resistance, ThermalReport,
@@ -15,14 +16,18 @@ use std::fmt::Write as _;
 ///
 /// # Errors
 /// [`ExportError::Unrepresentable`] if the analysis cannot be written as JSON.
-pub fn files(design: &Design, analysis: &Analysis) -> Result<Vec<OutFile>, ExportError> {
+pub fn files(
+    design: &Design,
+    board: &Board,
+    analysis: &Analysis,
+) -> Result<Vec<OutFile>, ExportError> {
     let json = serde_json::to_vec_pretty(analysis)
         .map_err(|e| ExportError::Unrepresentable(format!("report.json: {e}")))?;
     let mut out = vec![
         OutFile {
             path: "report.md".into(),
             role: "engineering report".into(),
-            bytes: markdown(design, analysis).into_bytes(),
+            bytes: markdown(design, board, analysis).into_bytes(),
         },
         OutFile {
             path: "report.json".into(),
@@ -30,7 +35,7 @@ pub fn files(design: &Design, analysis: &Analysis) -> Result<Vec<OutFile>, Expor
             bytes: json,
         },
     ];
-    for (name, role, svg) in plots(analysis) {
+    for (name, role, svg) in plots(design, board, analysis) {
         out.push(OutFile {
             path: format!("plots/{name}"),
             role: role.into(),
@@ -40,8 +45,30 @@ pub fn files(design: &Design, analysis: &Analysis) -> Result<Vec<OutFile>, Expor
     Ok(out)
 }
 
-/// The plots as (file name, role, SVG text).
-pub fn plots(a: &Analysis) -> Vec<(String, &'static str, String)> {
+/// The plots as (file name, role, SVG text), each with the design's
+/// operating point marked: the magnet's face (or the top copper) on the
+/// field along the axis, the winding's inner and outer edge on the field
+/// across the coil, the design's gap on the force against gap.
+pub fn plots(design: &Design, board: &Board, a: &Analysis) -> Vec<(String, &'static str, String)> {
+    let drive = si_given(a.thermal.current_a, "A");
+    let axis_marker = match &design.magnet {
+        Some(mg) => Marker::new(mg.gap, format!("magnet face (gap {})", mm(mg.gap))),
+        None => Marker::new(
+            0.0,
+            format!(
+                "top copper: {} mT/A,\n{} mT at the drive ({drive})",
+                sig(a.field.center_t_per_a * 1e3, 4),
+                sig(a.field.center_at_drive_t * 1e3, 4)
+            ),
+        )
+        .with_point(a.field.center_t_per_a * 1e3),
+    };
+    // A circle's winding edges are its radii; other shapes reach their
+    // nearest and farthest copper in different directions.
+    let (inner, outer) = match design.coil.shape {
+        Shape::Circle => ("inner edge", "outer edge"),
+        _ => ("nearest copper", "farthest copper"),
+    };
     let mut v = vec![
         (
             "field_axis.svg".to_string(),
@@ -51,6 +78,7 @@ pub fn plots(a: &Analysis) -> Vec<(String, &'static str, String)> {
                 "height above top copper (mm)",
                 "B (mT/A)",
                 &[("B on axis", to_xy(&a.field.axial, 1e3))],
+                &[axis_marker],
             ),
         ),
         (
@@ -58,21 +86,41 @@ pub fn plots(a: &Analysis) -> Vec<(String, &'static str, String)> {
             "plot: field across the coil",
             line_plot(
                 &format!(
-                    "Bz across the coil, {:.2} mm above the top copper (per ampere)",
-                    a.field.radial_height_mm
+                    "Bz across the coil, {} above the top copper (per ampere)",
+                    mm(a.field.radial_height_mm)
                 ),
                 "distance from axis (mm)",
                 "Bz (mT/A)",
                 &[("Bz", to_xy(&a.field.radial, 1e3))],
+                &[
+                    Marker::new(
+                        board.inner_radius,
+                        format!("{inner} {:.2} mm", board.inner_radius),
+                    ),
+                    Marker::new(
+                        board.outer_radius,
+                        format!("{outer} {:.2} mm", board.outer_radius),
+                    ),
+                ],
             ),
         ),
     ];
-    if let Some(m) = &a.magnet {
+    if let (Some(m), Some(mg)) = (&a.magnet, &design.magnet) {
         let pts: Vec<(f64, f64)> = m
             .force_vs_gap
             .iter()
             .map(|p| (p.gap_mm, p.force_n_per_a * 1e3))
             .collect();
+        let gap = Marker::new(
+            mg.gap,
+            format!(
+                "design gap {}: {},\n{} at the drive ({drive})",
+                mm(mg.gap),
+                millinewton(m.force_per_a_n, "/A"),
+                millinewton(m.force_n, "")
+            ),
+        )
+        .with_point(m.force_per_a_n * 1e3);
         v.push((
             "force_gap.svg".to_string(),
             "plot: force on the magnet against gap",
@@ -81,6 +129,7 @@ pub fn plots(a: &Analysis) -> Vec<(String, &'static str, String)> {
                 "gap from top copper to magnet (mm)",
                 "force (mN/A)",
                 &[("force", pts)],
+                &[gap],
             ),
         ));
     }
@@ -91,29 +140,70 @@ fn to_xy(p: &[ProfilePoint], scale: f64) -> Vec<(f64, f64)> {
     p.iter().map(|q| (q.at_mm, q.b_t_per_a * scale)).collect()
 }
 
+/// `v` to `n` significant digits in fixed notation ("0.3848", "2886",
+/// "12.80"); zero and non-finite values as Rust writes them.
+fn sig(v: f64, n: usize) -> String {
+    if v == 0.0 || !v.is_finite() {
+        return format!("{v}");
+    }
+    let digits = |mag: i32| (n as i32 - 1 - mag).max(0) as usize;
+    let mag = v.abs().log10().floor() as i32;
+    let text = format!("{v:.*}", digits(mag));
+    // Rounding up to the next power of ten (9.9996 -> 10.000) adds a digit.
+    match text.parse::<f64>() {
+        Ok(r) if r.abs() >= 10f64.powi(mag + 1) => format!("{v:.*}", digits(mag + 1)),
+        _ => text,
+    }
+}
+
+/// `v` with an SI prefix (n, u, m, k, M, G) chosen so that 1 <= mantissa
+/// < 1000, to 4 significant digits: "12.83 uH", "120.0 mA", "130.0 kHz".
 fn si(v: f64, unit: &str) -> String {
-    let a = v.abs();
-    let (f, p) = if a == 0.0 {
-        (1.0, "")
-    } else if a < 1e-6 {
-        (1e9, "n")
-    } else if a < 1e-3 {
-        (1e6, "u")
-    } else if a < 1.0 {
-        (1e3, "m")
-    } else {
-        (1.0, "")
-    };
-    format!("{:.4} {p}{unit}", v * f)
+    const PREFIXES: [&str; 7] = ["n", "u", "m", "", "k", "M", "G"];
+    if v == 0.0 || !v.is_finite() {
+        return format!("{v} {unit}");
+    }
+    let mut k = ((v.abs().log10() / 3.0).floor() as i32).clamp(-3, 3);
+    let mut text = sig(v / 10f64.powi(3 * k), 4);
+    if k < 3 && text.parse::<f64>().is_ok_and(|r| r.abs() >= 1000.0) {
+        k += 1;
+        text = sig(v / 10f64.powi(3 * k), 4);
+    }
+    format!("{text} {}{unit}", PREFIXES[(k + 3) as usize])
+}
+
+/// A value the user gave (drive, frequency), with an SI prefix and no
+/// trailing zeros: "120 mA", "130 kHz", "5 V".
+fn si_given(v: f64, unit: &str) -> String {
+    let s = si(v, unit);
+    match s.split_once(' ') {
+        Some((num, u)) if num.contains('.') => {
+            format!("{} {u}", num.trim_end_matches('0').trim_end_matches('.'))
+        }
+        _ => s,
+    }
+}
+
+/// A force (N, or N per `per`) in mN to 4 significant digits, the unit
+/// the force plot uses: "62.69 mN/A", "0.6562 mN".
+fn millinewton(v: f64, per: &str) -> String {
+    format!("{} mN{per}", sig(v * 1e3, 4))
+}
+
+/// A length in mm as people read it: up to 3 decimals, no trailing zeros
+/// ("0.6 mm", "6.24 mm", "12 mm").
+fn mm(v: f64) -> String {
+    let s = format!("{v:.3}");
+    format!("{} mm", s.trim_end_matches('0').trim_end_matches('.'))
 }
 
 /// The report for people, in Markdown: the design in one line, the
 /// cautions first, then the numbers with units (one section per quantity,
 /// each written from that quantity's report), the notes and the general
 /// cautions.
-pub fn markdown(design: &Design, a: &Analysis) -> String {
+pub fn markdown(design: &Design, board: &Board, a: &Analysis) -> String {
     [
-        heading(design),
+        heading(design, board),
         cautions(&a.cautions),
         at_the_drive(a),
         layers(&a.resistance),
@@ -131,33 +221,38 @@ pub fn markdown(design: &Design, a: &Analysis) -> String {
     .concat()
 }
 
-/// Title and the design in one line.
-fn heading(design: &Design) -> String {
+/// Title, the design in one line, and what its outer size measures
+/// against the whole copper.
+fn heading(design: &Design, board: &Board) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "# Coil report: {}\n", design.name);
     let c = &design.coil;
-    let size = match c.shape {
-        Shape::Rectangle { width, height } => {
-            format!("rectangle {width:.3} x {height:.3} mm")
-        }
-        Shape::Polygon { sides } => {
-            format!(
-                "{sides}-sided polygon, {:.3} mm across corners",
-                c.outer_diameter
-            )
-        }
-        Shape::Circle => format!("circle, {:.3} mm outside", c.outer_diameter),
+    let shape = match c.shape {
+        Shape::Rectangle { .. } => "rectangle".to_string(),
+        Shape::Polygon { sides } => format!("{sides}-sided polygon"),
+        Shape::Circle => "circle".to_string(),
     };
     let _ = writeln!(
         s,
-        "{size}, free centre {:.3} mm; {} layer(s), {} turns per layer, trace {:.3} mm, clearance {:.3} mm, {:?} wiring, {:?} board.\n",
+        "{shape} {}, free centre {:.3} mm; {}, {} turns per layer, trace {:.3} mm, clearance {:.3} mm, {} wiring, {} board.\n",
+        c.outer_size_text(),
         c.inner_diameter,
-        c.layers,
-        c.turns,
+        match c.layers {
+            1 => "1 layer".to_string(),
+            n => format!("{n} layers"),
+        },
+        c.turns_text(),
         c.trace_width,
         c.clearance,
-        c.wiring,
-        design.stackup.kind
+        c.wiring.words(),
+        design.stackup.kind.words(),
+    );
+    let copper = board.copper_bounds();
+    let _ = writeln!(
+        s,
+        "The outer size is that of the outermost turn; all copper, including the leads and the outer vias, measures {:.2} x {:.2} mm.\n",
+        copper.width(),
+        copper.height()
     );
     s
 }
@@ -180,8 +275,8 @@ fn at_the_drive(a: &Analysis) -> String {
     let mut s = String::new();
     let (t, r) = (&a.thermal, &a.resistance);
     let drive = match a.inputs.drive {
-        Source::Voltage(v) => format!("{v} V"),
-        Source::Current(i) => format!("{i} A"),
+        Source::Voltage(v) => si_given(v, "V"),
+        Source::Current(i) => si_given(i, "A"),
     };
     let _ = writeln!(
         s,
@@ -195,29 +290,34 @@ fn at_the_drive(a: &Analysis) -> String {
             format!("{t:.1} C")
         });
     let rows = [
-        ("current", format!("{:.4} A", t.current_a)),
-        ("voltage", format!("{:.4} V", t.voltage_v)),
-        ("power", format!("{:.4} W", t.power_w)),
+        ("current", si(t.current_a, "A")),
+        ("voltage", si(t.voltage_v, "V")),
+        ("power", si(t.power_w, "W")),
         ("steady temperature", temp),
-        ("resistance at 20 C", format!("{:.4} ohm", r.total_ohm_20c)),
+        (
+            "resistance at 20 C",
+            format!("{} ohm", sig(r.total_ohm_20c, 4)),
+        ),
         (
             "resistance at operating temperature",
-            format!("{:.4} ohm", t.resistance_ohm_hot),
+            format!("{} ohm", sig(t.resistance_ohm_hot, 4)),
         ),
         ("inductance", si(a.inductance.inductance_h, "H")),
         (
             "field at the centre of the top copper, per ampere",
-            format!("{:.4} mT/A", a.field.center_t_per_a * 1e3),
+            format!("{} mT/A", sig(a.field.center_t_per_a * 1e3, 4)),
         ),
         (
             "field at the centre at the drive",
-            format!("{:.4} mT", a.field.center_at_drive_t * 1e3),
+            format!("{} mT", sig(a.field.center_at_drive_t * 1e3, 4)),
         ),
         (
             "max current / voltage for max_temperature",
             format!(
-                "{:.4} A / {:.4} V (at {} C)",
-                t.max_current_a, t.max_voltage_v, a.inputs.max_temperature_c
+                "{} / {} (at {} C)",
+                si(t.max_current_a, "A"),
+                si(t.max_voltage_v, "V"),
+                a.inputs.max_temperature_c
             ),
         ),
         ("trace length", format!("{:.1} mm", r.trace_length_mm)),
@@ -239,18 +339,18 @@ fn at_the_drive(a: &Analysis) -> String {
     if let Some(m) = &a.magnet {
         let _ = writeln!(
             s,
-            "| force on the magnet at the drive | {:.4} mN |",
-            m.force_n * 1e3
+            "| force on the magnet at the drive | {} |",
+            millinewton(m.force_n, "")
         );
         let _ = writeln!(
             s,
-            "| force per ampere | {:.4} mN/A |",
-            m.force_per_a_n * 1e3
+            "| force per ampere | {} |",
+            millinewton(m.force_per_a_n, "/A")
         );
         let _ = writeln!(
             s,
-            "| force per square-root watt | {:.4} mN/sqrt(W) |",
-            m.force_per_sqrt_w_n * 1e3
+            "| force per square-root watt | {} |",
+            millinewton(m.force_per_sqrt_w_n, "/sqrt(W)")
         );
     }
     let _ = writeln!(s);
@@ -267,11 +367,19 @@ fn layers(r: &Resistance) -> String {
     for l in &r.layers {
         let _ = writeln!(
             s,
-            "| {} | {} | {:.1} | {:.1} | {:.4} |",
-            l.layer, l.group, l.length_mm, l.copper_um, l.resistance_ohm_20c
+            "| {} | {} | {:.1} | {:.1} | {} |",
+            l.layer,
+            l.group,
+            l.length_mm,
+            l.copper_um,
+            sig(l.resistance_ohm_20c, 4)
         );
     }
-    let _ = writeln!(s, "\nVia barrels: {:.5} ohm at 20 C.\n", r.vias_ohm_20c);
+    let _ = writeln!(
+        s,
+        "\nVia barrels: {} ohm at 20 C.\n",
+        sig(r.vias_ohm_20c, 3)
+    );
     s
 }
 
@@ -285,49 +393,68 @@ fn inductance(i: &InductanceReport, impedance: Option<&Impedance>) -> String {
         "- computed, top layer alone (with its leads): {}",
         si(i.single_layer_h, "H")
     );
-    let _ = writeln!(
-        s,
-        "- published single-layer estimates (d_out {:.3} mm, d_in {:.3} mm):",
-        i.d_out_mm, i.d_in_mm
-    );
-    let est = [
-        (
-            "Mohan et al. 1999, modified Wheeler",
-            i.mohan_modified_wheeler_h,
-        ),
-        (
-            "Mohan et al. 1999, current sheet (typically within 2-3 %)",
-            i.mohan_current_sheet_h,
-        ),
-        (
-            "Wheeler 1928 flat spiral (within 5 % for depth > 0.2 mean radius)",
-            i.wheeler_1928_h,
-        ),
-    ];
-    let mut any = false;
-    for (k, v) in est {
-        if let Some(v) = v {
-            any = true;
+    if let Some(w) = i.winding_h {
+        let _ = writeln!(
+            s,
+            "- computed, winding alone (every layer as built, no leads, no vias): {}",
+            si(w, "H")
+        );
+    }
+    if let Some(w1) = i.single_layer_winding_h {
+        let _ = writeln!(
+            s,
+            "- computed, top layer's winding alone (no leads, no vias): {}",
+            si(w1, "H")
+        );
+        let _ = writeln!(
+            s,
+            "- published estimates, each for {} (d_out {:.3} mm, d_in {:.3} mm as the sources define them), against the top layer's winding alone:",
+            crate::physics::inductance::ESTIMATE_INCLUDES,
+            i.d_out_mm,
+            i.d_in_mm
+        );
+        if i.estimates.is_empty() {
+            let _ = writeln!(s, "  - none applies to this shape");
+        }
+        for e in &i.estimates {
             let _ = writeln!(
                 s,
-                "  - {k}: {} ({:+.1} % from the computed single layer)",
-                si(v, "H"),
-                100.0 * (v / i.single_layer_h - 1.0)
+                "  - {} ({}; {}): {} ({:+.1} %)",
+                match e.name {
+                    "mohan_modified_wheeler" => "modified Wheeler formula",
+                    "mohan_current_sheet" => "current-sheet formula",
+                    "wheeler_1928" => "Wheeler's flat-spiral formula",
+                    other => other,
+                },
+                e.source,
+                e.stated_accuracy,
+                si(e.inductance_h, "H"),
+                100.0 * e.relative_difference
             );
         }
-    }
-    if !any {
-        let _ = writeln!(s, "  - none applies to this shape");
+        let _ = writeln!(s, "  - {}", w1_note(w1, i.single_layer_h));
     }
     if let Some(z) = impedance {
         let _ = writeln!(
             s,
-            "- at {} Hz: reactance {:.4} ohm, |Z| {:.4} ohm, Q {:.3}; skin depth {:.1} um",
-            z.frequency_hz, z.reactance_ohm, z.impedance_ohm, z.q, z.skin_depth_um
+            "- at {}: reactance {} ohm, |Z| {} ohm, Q {}; skin depth {:.1} um",
+            si_given(z.frequency_hz, "Hz"),
+            sig(z.reactance_ohm, 4),
+            sig(z.impedance_ohm, 4),
+            sig(z.q, 3),
+            z.skin_depth_um
         );
     }
     let _ = writeln!(s);
     s
+}
+
+/// How much the top layer's leads add to (or take from) its inductance.
+fn w1_note(winding: f64, with_leads: f64) -> String {
+    format!(
+        "the leads change the top layer's inductance by {:+.1} % (a lead ring running against the turns can lower it)",
+        100.0 * (with_leads / winding - 1.0)
+    )
 }
 
 /// The field on the axis and across the coil.
@@ -336,8 +463,8 @@ fn field(f: &FieldReport) -> String {
     let _ = writeln!(s, "## Field\n");
     let _ = writeln!(
         s,
-        "- on the axis at the top copper surface: {:.4} mT/A (pointing into the board for current entering terminal 1)",
-        f.center_t_per_a * 1e3
+        "- on the axis at the top copper surface: {} mT/A (pointing into the board for current entering terminal 1)",
+        sig(f.center_t_per_a * 1e3, 4)
     );
     let r = |x: Option<f64>| x.map_or("not reached".to_string(), |v| format!("{v:.2} mm"));
     let _ = writeln!(
@@ -370,13 +497,13 @@ fn force(m: &MagnetReport, mg: &Magnet) -> String {
     );
     let _ = writeln!(
         s,
-        "- Lorentz force on the real conductor in the magnet's field (magnet as surface current Br/mu0, Derby & Olbert 2010): {:.4} mN/A",
-        m.lorentz_n_per_a * 1e3
+        "- Lorentz force on the real conductor in the magnet's field (magnet as surface current Br/mu0, Derby & Olbert 2010): {}",
+        millinewton(m.lorentz_n_per_a, "/A")
     );
     let _ = writeln!(
         s,
-        "- cross-check, coil as coaxial loops with Maxwell's mutual inductance: {:.4} mN/A ({:.1} % apart)",
-        m.rings_n_per_a * 1e3,
+        "- cross-check, coil as coaxial loops with Maxwell's mutual inductance: {} ({:.1} % apart)",
+        millinewton(m.rings_n_per_a, "/A"),
         100.0 * m.methods_difference
     );
     let _ = writeln!(
@@ -395,8 +522,10 @@ fn heating(t: &ThermalReport, max_temperature_c: f64) -> String {
     let _ = writeln!(s, "## Heating\n");
     let _ = writeln!(
         s,
-        "- board face {:.1} mm^2, characteristic length {:.2} mm, heat capacity {:.4} J/K",
-        t.area_mm2, t.char_length_mm, t.heat_capacity_j_per_k
+        "- board face {:.1} mm^2, characteristic length {:.2} mm, heat capacity {} J/K",
+        t.area_mm2,
+        t.char_length_mm,
+        sig(t.heat_capacity_j_per_k, 3)
     );
     let _ = writeln!(
         s,
@@ -407,12 +536,13 @@ fn heating(t: &ThermalReport, max_temperature_c: f64) -> String {
         t.losses.rayleigh
     );
     let _ = writeln!(s, "- convection: {}", t.convection_source);
-    let _ = writeln!(s, "- thermal time constant {:.2} s", t.time_constant_s);
+    let _ = writeln!(s, "- thermal time constant {} s", sig(t.time_constant_s, 3));
     match t.pulse_s {
         Some(p) => {
             let _ = writeln!(
                 s,
-                "- from ambient, the drive may last {p:.3} s before the coil reaches {max_temperature_c} C"
+                "- from ambient, the drive may last {} s before the coil reaches {max_temperature_c} C",
+                sig(p, 3)
             );
         }
         None => {
@@ -462,4 +592,138 @@ fn general_cautions() -> String {
         "- Heating assumes still air around a board lying flat; an enclosure, a heat sink or nearby parts change it a lot.\n",
     ]
     .concat()
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::design::{BoardKind, Wiring};
+
+    fn report_of(d: &Design) -> (Board, Analysis) {
+        let board = crate::geometry::build(d).expect("sample builds");
+        let a = crate::physics::analyse(d, &board).expect("sample analyses");
+        (board, a)
+    }
+
+    /// The design line of the report (the first line after the title).
+    fn summary(md: &str) -> &str {
+        md.lines().nth(2).unwrap_or("")
+    }
+
+    #[test]
+    fn summary_rounds_turns_and_says_wiring_and_board_in_words() {
+        let mut d = Design::sample();
+        d.coil.turns = 15.24550251162513;
+        d.coil.layers = 2;
+        d.coil.wiring = Wiring::ParallelPairs;
+        d.stackup.kind = BoardKind::Rigid;
+        d.stackup.copper = vec![0.035; 2];
+        d.stackup.dielectric = vec![1.5];
+        let (board, _) = report_of(&Design::sample());
+        let line = heading(&d, &board);
+        assert!(line.contains("15.25 turns per layer"), "{line}");
+        assert!(!line.contains("15.2455"), "{line}");
+        assert!(
+            line.contains("parallel pairs wiring, rigid board"),
+            "{line}"
+        );
+        assert!(line.contains("2 layers"), "{line}");
+        let (board, a) = report_of(&Design::sample());
+        let md = markdown(&Design::sample(), &board, &a);
+        assert!(summary(&md).contains("series wiring, flex board"), "{md}");
+        assert!(!md.contains("Series") && !md.contains("Flex board"), "{md}");
+    }
+
+    #[test]
+    fn rectangle_is_described_by_width_and_height() {
+        let mut d = Design::sample();
+        d.coil.shape = Shape::Rectangle {
+            width: 24.0,
+            height: 12.0,
+        };
+        d.coil.outer_diameter = 24f64.hypot(12.0);
+        d.coil.inner_diameter = 4.0;
+        d.coil.turns = 8.0;
+        let (board, a) = report_of(&d);
+        let md = markdown(&d, &board, &a);
+        let line = summary(&md);
+        assert!(line.starts_with("rectangle 24.000 x 12.000 mm,"), "{line}");
+        assert!(!md.contains("26.833"), "the diagonal is not a size: {md}");
+        let copper = board.copper_bounds();
+        let extent = format!("{:.2} x {:.2} mm", copper.width(), copper.height());
+        assert!(md.contains(&extent), "{extent} missing: {md}");
+    }
+
+    #[test]
+    fn displayed_numbers_have_no_long_tails() {
+        let mut d = Design::sample();
+        d.drive.frequency = Some(130e3);
+        let (board, a) = report_of(&d);
+        let md = markdown(&d, &board, &a);
+        assert!(md.contains("at 130 kHz:"), "{md}");
+        // No number with more than 6 significant digits (the summary line
+        // once said 15.24550251162513).
+        let long = md
+            .split(|c: char| !(c.is_ascii_digit() || c == '.'))
+            .filter(|w| w.contains('.'))
+            .map(|w| w.replace('.', "").trim_start_matches('0').len())
+            .max();
+        assert!(long.unwrap_or(0) <= 6, "{md}");
+    }
+
+    #[test]
+    fn numbers_round_to_significant_digits_with_prefixes() {
+        assert_eq!(sig(0.38481, 4), "0.3848");
+        assert_eq!(sig(2886.4, 4), "2886");
+        assert_eq!(sig(9.99996, 4), "10.00");
+        assert_eq!(si(12.83e-6, "H"), "12.83 uH");
+        assert_eq!(si(0.12, "A"), "120.0 mA");
+        assert_eq!(si(0.99999, "V"), "1.000 V");
+        assert_eq!(si_given(130e3, "Hz"), "130 kHz");
+        assert_eq!(si_given(0.12, "A"), "120 mA");
+        assert_eq!(si_given(5.0, "V"), "5 V");
+        assert_eq!(millinewton(6.562e-4, ""), "0.6562 mN");
+        assert_eq!(mm(0.6), "0.6 mm");
+    }
+
+    #[test]
+    fn force_plot_marks_the_design_gap() {
+        let d = Design::sample();
+        let gap = d.magnet.expect("the sample has a magnet").gap;
+        let (board, a) = report_of(&d);
+        let plots = plots(&d, &board, &a);
+        let (_, _, svg) = plots
+            .iter()
+            .find(|p| p.0 == "force_gap.svg")
+            .expect("a force plot");
+        assert!(
+            svg.contains(&format!("design gap {}:", mm(gap))),
+            "no gap label: {svg}"
+        );
+        // The marker line and the operating-point dot share one x, and that
+        // x sits where the gap falls between the first and last gap ticks.
+        let marker_x = svg
+            .lines()
+            .find(|l| l.starts_with("<line") && l.contains(super::super::plot::MARKER_COLOUR))
+            .and_then(|l| attr(l, "x1"))
+            .expect("a marker line");
+        let dot = svg
+            .lines()
+            .find(|l| l.starts_with("<circle"))
+            .expect("an operating-point dot");
+        assert_eq!(attr(dot, "cx"), Some(marker_x));
+        let m = a.magnet.as_ref().expect("a magnet report");
+        let (g0, g1) = (
+            m.force_vs_gap.first().unwrap().gap_mm,
+            m.force_vs_gap.last().unwrap().gap_mm,
+        );
+        let axis = super::super::plot::Axis::nice(g0.min(gap), g1.max(gap), 8);
+        let want = 78.0 + (gap - axis.lo) / (axis.hi - axis.lo) * (640.0 - 78.0 - 20.0);
+        assert!((marker_x - want).abs() < 0.01, "{marker_x} vs {want}");
+    }
+
+    fn attr(line: &str, name: &str) -> Option<f64> {
+        let start = line.find(&format!(" {name}=\""))? + name.len() + 3;
+        line[start..].split('"').next()?.parse().ok()
+    }
 }

@@ -334,7 +334,7 @@ fn overdriven_coil_warns() {
     );
     assert_eq!(a.cautions[0].kind(), CautionKind::LimitExceeded);
     assert!(a.thermal.pulse_s.unwrap() > 0.0);
-    let md = coilwright::export::report::markdown(&d, &a);
+    let md = coilwright::export::report::markdown(&d, &layout, &a);
     assert!(md.find("## Warnings").unwrap() < md.find("## At the drive").unwrap());
 }
 
