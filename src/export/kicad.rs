@@ -138,7 +138,9 @@ fn mm(x: f64) -> String {
     format_mm(to_nm(x))
 }
 
-fn quote(s: &str) -> String {
+/// A KiCad s-expression string: quoted, with `"` and `\\` escaped and
+/// newlines as spaces.
+pub(crate) fn quote(s: &str) -> String {
     let mut o = String::from("\"");
     for c in s.chars() {
         match c {

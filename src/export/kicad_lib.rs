@@ -11,6 +11,7 @@
 
 use super::ExportError;
 use super::gerber::REFDES;
+use super::kicad::quote;
 use crate::design::Design;
 use std::fmt::Write as _;
 
@@ -27,20 +28,6 @@ pub const SYM_TABLE: &str = "kicad/sym-lib-table";
 
 /// Path of the project's footprint library table.
 pub const FP_TABLE: &str = "kicad/fp-lib-table";
-
-fn quote(s: &str) -> String {
-    let mut o = String::from("\"");
-    for c in s.chars() {
-        match c {
-            '"' => o.push_str("\\\""),
-            '\\' => o.push_str("\\\\"),
-            '\n' => o.push(' '),
-            c => o.push(c),
-        }
-    }
-    o.push('"');
-    o
-}
 
 /// A property of the symbol; `hide` for those not shown on the sheet.
 fn property(o: &mut String, id: u8, key: &str, value: &str, y: f64, hide: bool) {

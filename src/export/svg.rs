@@ -174,17 +174,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         for w in layout.windings.iter().filter(|w| w.layer == l) {
             for (p, dir) in arrow_points(layout, w, 4) {
                 let size = (layout.pitch * 2.5).max(font * 0.6);
-                let tip = p + dir * (size * 0.6);
-                let back = p - dir * (size * 0.4);
-                let side = dir.perp() * (size * 0.35);
-                let _ = writeln!(
-                    s,
-                    r#"<path d="M{} L{} L{} Z" fill="{colour}" stroke="{INK}" stroke-width="{}"/>"#,
-                    xy(tip),
-                    xy(back + side),
-                    xy(back - side),
-                    mm(size * 0.04)
-                );
+                arrow(&mut s, p, dir, size, &colour, 0.04);
             }
         }
     }
@@ -509,18 +499,7 @@ impl LayerStrip {
                     mm(stroke)
                 );
                 for (p, dir) in arrow_points(layout, w, 3) {
-                    let size = 0.9 * font / k;
-                    let tip = p + dir * (size * 0.6);
-                    let back = p - dir * (size * 0.4);
-                    let side = dir.perp() * (size * 0.35);
-                    let _ = writeln!(
-                        s,
-                        r#"<path d="M{} L{} L{} Z" fill="{colour}" stroke="{INK}" stroke-width="{}"/>"#,
-                        xy(tip),
-                        xy(back + side),
-                        xy(back - side),
-                        mm(size * 0.05)
-                    );
+                    arrow(s, p, dir, 0.9 * font / k, &colour, 0.05);
                 }
             }
             let _ = writeln!(s, "</g>");
@@ -542,6 +521,29 @@ impl LayerStrip {
             );
         }
     }
+}
+
+/// A current-direction arrow head of `size` (mm) at `p` pointing along
+/// `dir`, outlined with `outline` x `size`.
+fn arrow(
+    s: &mut String,
+    p: Point,
+    dir: crate::geometry::Vec2,
+    size: f64,
+    colour: &str,
+    outline: f64,
+) {
+    let tip = p + dir * (size * 0.6);
+    let back = p - dir * (size * 0.4);
+    let side = dir.perp() * (size * 0.35);
+    let _ = writeln!(
+        s,
+        r#"<path d="M{} L{} L{} Z" fill="{colour}" stroke="{INK}" stroke-width="{}"/>"#,
+        xy(tip),
+        xy(back + side),
+        xy(back - side),
+        mm(size * outline)
+    );
 }
 
 fn arrow_points(

@@ -162,28 +162,42 @@ fn bad_sweep_arguments_exit_2_and_write_nothing() {
     }
 }
 
+/// A temporary folder and the sweep output folder inside it.
+fn out_dir() -> (tempfile::TempDir, std::path::PathBuf) {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("sweep");
+    (dir, out)
+}
+
+/// Runs `coilwright sweep ARGS -o OUT`.
+fn sweep_into(out: &Path, args: &[&str]) -> (i32, String, String) {
+    let mut all = vec!["sweep"];
+    all.extend_from_slice(args);
+    all.extend_from_slice(&["-o", out.to_str().unwrap()]);
+    coilwright(&all)
+}
+
 /// When no candidate meets the requirements the sweep exits 1 (README says
 /// so) and lists the nearest misses, smallest relative shortfall first;
 /// bounds may carry units; the design's own max_temperature is a
 /// requirement of every sweep.
 #[test]
 fn nothing_passes_exits_1_with_nearest_misses() {
-    let dir = tempfile::tempdir().unwrap();
-    let out = dir.path().join("sweep");
-    let (code, stdout, stderr) = coilwright(&[
-        "sweep",
-        &example(),
-        "--vary",
-        "turns=10..30:4",
-        "--require",
-        "temperature_c <= 30C",
-        "--require",
-        "inductance_h >= 1.5uH",
-        "--maximize",
-        "force_n",
-        "-o",
-        out.to_str().unwrap(),
-    ]);
+    let (_dir, out) = out_dir();
+    let (code, stdout, stderr) = sweep_into(
+        &out,
+        &[
+            &example(),
+            "--vary",
+            "turns=10..30:4",
+            "--require",
+            "temperature_c <= 30C",
+            "--require",
+            "inductance_h >= 1.5uH",
+            "--maximize",
+            "force_n",
+        ],
+    );
     assert_eq!(code, 1, "{stdout}{stderr}");
     assert!(
         stdout.contains("no candidate meets every requirement"),
@@ -212,18 +226,17 @@ fn nothing_passes_exits_1_with_nearest_misses() {
 fn the_designs_max_temperature_is_a_requirement_of_every_sweep() {
     // motor-stator: max_temperature 90 C; 0.8 A runs far hotter.
     let stator = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples/motor-stator.toml");
-    let dir = tempfile::tempdir().unwrap();
-    let out = dir.path().join("sweep");
-    let (code, stdout, stderr) = coilwright(&[
-        "sweep",
-        stator.to_str().unwrap(),
-        "--vary",
-        "drive.current=0.1A,0.8A",
-        "--maximize",
-        "force_n",
-        "-o",
-        out.to_str().unwrap(),
-    ]);
+    let (_dir, out) = out_dir();
+    let (code, stdout, stderr) = sweep_into(
+        &out,
+        &[
+            stator.to_str().unwrap(),
+            "--vary",
+            "drive.current=0.1A,0.8A",
+            "--maximize",
+            "force_n",
+        ],
+    );
     assert_eq!(code, 0, "{stdout}{stderr}");
     let csv = std::fs::read_to_string(out.join("candidates.csv")).unwrap();
     let row = csv.lines().find(|l| l.contains("0.8A")).unwrap();
@@ -233,18 +246,17 @@ fn the_designs_max_temperature_is_a_requirement_of_every_sweep() {
 
 #[test]
 fn best_design_keeps_the_base_comments_and_writes_whole_numbers_as_integers() {
-    let dir = tempfile::tempdir().unwrap();
-    let out = dir.path().join("sweep");
-    let (code, o, e) = coilwright(&[
-        "sweep",
-        &example(),
-        "--vary",
-        "turns=10..14:2",
-        "--maximize",
-        "force_per_sqrt_w_n",
-        "-o",
-        out.to_str().unwrap(),
-    ]);
+    let (_dir, out) = out_dir();
+    let (code, o, e) = sweep_into(
+        &out,
+        &[
+            &example(),
+            "--vary",
+            "turns=10..14:2",
+            "--maximize",
+            "force_per_sqrt_w_n",
+        ],
+    );
     assert_eq!(code, 0, "{o}{e}");
     let best = std::fs::read_to_string(out.join("best.toml")).unwrap();
     let base = std::fs::read_to_string(example()).unwrap();
@@ -259,18 +271,17 @@ fn best_design_keeps_the_base_comments_and_writes_whole_numbers_as_integers() {
 
 #[test]
 fn tradeoff_axis_moves_on_when_the_outer_size_is_fixed() {
-    let dir = tempfile::tempdir().unwrap();
-    let out = dir.path().join("sweep");
-    let (code, o, e) = coilwright(&[
-        "sweep",
-        &example(),
-        "--vary",
-        "drive.current=0.05A,0.1A,0.12A",
-        "--maximize",
-        "force_n",
-        "-o",
-        out.to_str().unwrap(),
-    ]);
+    let (_dir, out) = out_dir();
+    let (code, o, e) = sweep_into(
+        &out,
+        &[
+            &example(),
+            "--vary",
+            "drive.current=0.05A,0.1A,0.12A",
+            "--maximize",
+            "force_n",
+        ],
+    );
     assert_eq!(code, 0, "{o}{e}");
     let svg = std::fs::read_to_string(out.join("tradeoff.svg")).unwrap();
     // Neither the fixed outer size nor the fixed resistance: the power.
