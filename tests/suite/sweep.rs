@@ -287,3 +287,27 @@ fn tradeoff_axis_moves_on_when_the_outer_size_is_fixed() {
     // Neither the fixed outer size nor the fixed resistance: the power.
     assert!(svg.contains("vs power_w"), "{svg}");
 }
+
+/// A best candidate with many flex layers comes with a note on cost,
+/// stiffness and bending (common practice).
+#[test]
+fn many_flex_layers_in_the_best_candidate_are_noted() {
+    let (_dir, out) = out_dir();
+    let (code, o, e) = sweep_into(
+        &out,
+        &[
+            &example(),
+            "--vary",
+            "layers=2,6",
+            "--vary",
+            "drive.current=0.02A",
+            "--maximize",
+            "inductance_h",
+        ],
+    );
+    assert_eq!(code, 0, "{o}{e}");
+    assert!(
+        o.contains("note: the best candidate has 6 copper layers on a flex board"),
+        "{o}"
+    );
+}
