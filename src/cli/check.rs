@@ -43,8 +43,7 @@ pub fn run(spec: &Path, json: bool, svg: Option<&Path>, force: bool) -> Result<E
     let cautions = &analysis.cautions;
     let over_limits = cautions.iter().any(Caution::is_limit);
     if json {
-        let mut doc: serde_json::Value =
-            serde_json::from_str(&violations_json(&checked.violations))?;
+        let mut doc = violations_json(&checked.violations);
         doc["limits"] = cautions_json(cautions.iter().filter(|c| c.is_limit()));
         doc["advice"] = cautions_json(cautions.iter().filter(|c| !c.is_limit()));
         print_out(&format!("{}\n", serde_json::to_string_pretty(&doc)?))?;
@@ -93,7 +92,7 @@ fn severity_name(s: Severity) -> &'static str {
 /// violations ([`coilwright::rules::group`]); `measured`, `x`, `y`, `items`
 /// and `message` are those of the group's worst place, `locations` every
 /// place with what was measured there.
-pub fn violations_json(violations: &[Violation]) -> String {
+pub fn violations_json(violations: &[Violation]) -> serde_json::Value {
     let list: Vec<_> = group(violations)
         .iter()
         .map(|g| {
@@ -117,8 +116,7 @@ pub fn violations_json(violations: &[Violation]) -> String {
             })
         })
         .collect();
-    serde_json::to_string_pretty(&json!({ "violations": list }))
-        .unwrap_or_else(|_| "{\"violations\":[]}".into())
+    json!({ "violations": list })
 }
 
 /// A plain-text table of violations, one row per group (the worst place,
@@ -290,8 +288,7 @@ mod tests {
 
     #[test]
     fn json_has_the_fixed_fields() {
-        let j: serde_json::Value =
-            serde_json::from_str(&violations_json(&[v(Severity::Warning)])).unwrap();
+        let j = violations_json(&[v(Severity::Warning)]);
         let x = &j["violations"][0];
         assert_eq!(x["rule"], "clearance");
         assert_eq!(x["severity"], "warning");
@@ -322,7 +319,7 @@ mod tests {
             "{t}"
         );
         assert_eq!(lines[2], "1 error(s) at 2 places, 0 warning(s)");
-        let j: serde_json::Value = serde_json::from_str(&violations_json(&[a, b])).unwrap();
+        let j = violations_json(&[a, b]);
         assert_eq!(j["violations"].as_array().unwrap().len(), 1);
         assert_eq!(j["violations"][0]["count"], 2);
         assert_eq!(j["violations"][0]["measured"], 0.07);

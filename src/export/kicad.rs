@@ -229,7 +229,7 @@ pub fn footprint(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError
             "Printed coil {}: {} layers, {} turns per layer, trace {} mm, clearance {} mm (coilwright)",
             design.name,
             layout.layers,
-            super::turns_text(layout.turns),
+            crate::design::turns_text(layout.turns),
             mm(layout.trace_width),
             mm(layout.clearance)
         ))

@@ -17,8 +17,6 @@ use crate::design::Design;
 use crate::geometry::Board;
 use crate::physics::Analysis;
 
-pub use crate::design::turns_text;
-
 /// One output file, not yet written.
 #[derive(Debug, Clone, PartialEq)]
 pub struct OutFile {

@@ -216,13 +216,11 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     // Violations, one mark per group (rule along one track, or at one
     // set of holes): a ring at the worst place, a dashed box around every
     // place when there are several, and the rule id with the count.
-    for g in crate::rules::group(violations)
-        .iter()
-        .filter(|g| match view {
-            View::Layer(l) => g.layer.is_none_or(|x| x == l),
-            View::Stack => true,
-        })
-    {
+    let groups = crate::rules::group(violations);
+    for g in groups.iter().filter(|g| match view {
+        View::Layer(l) => g.layer.is_none_or(|x| x == l),
+        View::Stack => true,
+    }) {
         let v = &g.worst;
         let c = if v.severity == Severity::Error {
             MARK_ERROR
@@ -277,7 +275,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     ly += font * 1.5;
     let info = format!(
         "{} turns/layer, w {} mm, gap {} mm",
-        super::turns_text(layout.turns),
+        crate::design::turns_text(layout.turns),
         mm(layout.trace_width),
         mm(layout.clearance)
     );
@@ -297,15 +295,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         {
             continue;
         }
-        let dir = layout
-            .windings
-            .iter()
-            .find(|w| w.layer == l)
-            .map(|w| match w.direction {
-                Direction::Inward => "inward",
-                Direction::Outward => "outward",
-            })
-            .unwrap_or("");
+        let dir = direction_word(layout, l);
         let weight = if view == View::Layer(l) {
             "bold"
         } else {
@@ -367,7 +357,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     );
     if !violations.is_empty() {
         ly += font * 1.1;
-        let groups = crate::rules::group(violations).len();
+        let groups = groups.len();
         let _ = writeln!(
             s,
             r#"<text x="{}" y="{}" font-size="{}" fill="{MARK_ERROR}">rings: {} problem(s), {} place(s)</text>"#,
@@ -503,15 +493,7 @@ impl LayerStrip {
                 }
             }
             let _ = writeln!(s, "</g>");
-            let dir = layout
-                .windings
-                .iter()
-                .find(|w| w.layer == l)
-                .map(|w| match w.direction {
-                    Direction::Inward => "inward",
-                    Direction::Outward => "outward",
-                })
-                .unwrap_or("");
+            let dir = direction_word(layout, l);
             let _ = writeln!(
                 s,
                 r#"<text x="{}" y="{}" font-size="{}" fill="{INK}" text-anchor="middle">L{l} {dir}</text>"#,
@@ -544,6 +526,20 @@ fn arrow(
         xy(back - side),
         mm(size * outline)
     );
+}
+
+/// "inward" or "outward": which way layer `l`'s winding runs from its
+/// first end ("" for a layer without one).
+fn direction_word(layout: &Board, l: u8) -> &'static str {
+    layout
+        .windings
+        .iter()
+        .find(|w| w.layer == l)
+        .map(|w| match w.direction {
+            Direction::Inward => "inward",
+            Direction::Outward => "outward",
+        })
+        .unwrap_or("")
 }
 
 fn arrow_points(
