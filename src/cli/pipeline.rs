@@ -50,6 +50,12 @@ pub fn load(path: &Path) -> Result<Loaded, Failure> {
 fn load_and_build(path: &Path) -> Result<(Loaded, Board), Failure> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("cannot read design file {}", path.display()))?;
+    build_text(path, text)
+}
+
+/// Validates and builds design text that belongs to the design file
+/// `path` (a rule profile path is relative to it; nothing is read here).
+fn build_text(path: &Path, text: String) -> Result<(Loaded, Board), Failure> {
     match coilwright::pipeline::parse_and_build(&text) {
         Ok((design, layout)) => Ok((
             Loaded {
@@ -139,6 +145,22 @@ pub fn profile(loaded: &Loaded) -> Result<rules::Profile, Failure> {
 /// Loads, builds and checks a design file.
 pub fn check(path: &Path) -> Result<Checked, Failure> {
     let (loaded, layout) = load_and_build(path)?;
+    checked(loaded, layout)
+}
+
+/// Builds and checks design text as if it were the design file `path`
+/// (the workbench's edits, which are not on disk).
+pub fn check_text(path: &Path, text: String) -> Result<Checked, Failure> {
+    let (loaded, layout) = build_text(path, text)?;
+    checked(loaded, layout)
+}
+
+/// Validates design text as if it were the design file `path`.
+pub fn load_text(path: &Path, text: String) -> Result<Loaded, Failure> {
+    build_text(path, text).map(|(loaded, _)| loaded)
+}
+
+fn checked(loaded: Loaded, layout: Board) -> Result<Checked, Failure> {
     let violations = violations(&loaded, &layout)?;
     Ok(Checked {
         loaded,

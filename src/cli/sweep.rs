@@ -31,7 +31,7 @@ pub struct Args<'a> {
 }
 
 /// Evaluates one candidate design file through the whole pipeline.
-fn evaluate(base: &Loaded, text: &str) -> Evaluation {
+pub(super) fn evaluate(base: &Loaded, text: &str) -> Evaluation {
     let (design, layout) = match coilwright::pipeline::parse_and_build(text) {
         Ok(built) => built,
         Err(errors) => {
@@ -80,6 +80,56 @@ fn evaluate(base: &Loaded, text: &str) -> Evaluation {
     }
 }
 
+/// The sweep of `base` that the arguments describe (shared by `sweep` and
+/// the workbench): the base design must be analysable, its report names
+/// the metrics that requirements, objective and `versus` may use.
+pub(super) fn prepare(
+    base: &Loaded,
+    vary: &[String],
+    require: &[String],
+    objective: (String, bool),
+    versus: Option<&str>,
+) -> Result<Sweep, Failure> {
+    // The base design must itself be valid: its report names the metrics.
+    let known: Vec<String> = match evaluate(base, &base.text) {
+        Evaluation::Metrics(m) | Evaluation::RuleViolation(m, _) => m.into_keys().collect(),
+        Evaluation::Invalid(r) => {
+            return Err(anyhow::anyhow!("the base design cannot be analysed: {r}").into());
+        }
+    };
+    let bad = |e: explore::SweepError| Failure::Other(anyhow::Error::new(e));
+    let vary = vary
+        .iter()
+        .map(|v| explore::parse_vary(v))
+        .collect::<Result<Vec<_>, _>>()
+        .map_err(bad)?;
+    if vary.is_empty() {
+        return Err(anyhow::anyhow!("give at least one --vary KEY=VALUES").into());
+    }
+    let require = require
+        .iter()
+        .map(|r| Requirement::parse(r, &known))
+        .collect::<Result<Vec<_>, _>>()
+        .map_err(bad)?;
+    let versus = versus.map(|v| match v.rsplit_once(':') {
+        Some((m, "max")) => (m.to_string(), true),
+        Some((m, "min")) => (m.to_string(), false),
+        _ => (v.to_string(), false),
+    });
+    Sweep::new(
+        &base.text,
+        vary,
+        require,
+        Objective {
+            metric: objective.0,
+            maximize: objective.1,
+        },
+        versus,
+        &known,
+    )
+    .map_err(bad)
+}
+
 /// Runs `sweep`.
 pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
     if let Some(dir) = a.out
@@ -89,46 +139,8 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
         return Err(anyhow::anyhow!("{} exists; pass --force to replace it", dir.display()).into());
     }
     let base = pipeline::load(a.spec)?;
-    // The base design must itself be valid: its report names the metrics.
-    let known: Vec<String> = match evaluate(&base, &base.text) {
-        Evaluation::Metrics(m) | Evaluation::RuleViolation(m, _) => m.into_keys().collect(),
-        Evaluation::Invalid(r) => {
-            return Err(anyhow::anyhow!("the base design cannot be analysed: {r}").into());
-        }
-    };
+    let sweep = prepare(&base, a.vary, a.require, a.objective.clone(), a.versus)?;
     let bad = |e: explore::SweepError| Failure::Other(anyhow::Error::new(e));
-    let vary = a
-        .vary
-        .iter()
-        .map(|v| explore::parse_vary(v))
-        .collect::<Result<Vec<_>, _>>()
-        .map_err(bad)?;
-    if vary.is_empty() {
-        return Err(anyhow::anyhow!("give at least one --vary KEY=VALUES").into());
-    }
-    let require = a
-        .require
-        .iter()
-        .map(|r| Requirement::parse(r, &known))
-        .collect::<Result<Vec<_>, _>>()
-        .map_err(bad)?;
-    let versus = a.versus.map(|v| match v.rsplit_once(':') {
-        Some((m, "max")) => (m.to_string(), true),
-        Some((m, "min")) => (m.to_string(), false),
-        _ => (v.to_string(), false),
-    });
-    let sweep = Sweep::new(
-        &base.text,
-        vary,
-        require,
-        Objective {
-            metric: a.objective.0.clone(),
-            maximize: a.objective.1,
-        },
-        versus,
-        &known,
-    )
-    .map_err(bad)?;
 
     let bar = if std::io::stderr().is_terminal() {
         indicatif::ProgressBar::new(sweep.len() as u64).with_style(
@@ -225,7 +237,7 @@ fn params_text(c: &explore::Candidate) -> String {
 }
 
 /// A short text summary: counts, best, and the top ten.
-fn summary(o: &Outcome, seconds: f64, flex: bool) -> String {
+pub(super) fn summary(o: &Outcome, seconds: f64, flex: bool) -> String {
     let n = o.candidates.len();
     let count = |s: Status| o.candidates.iter().filter(|c| c.status == s).count();
     let mut s = String::new();

@@ -502,7 +502,7 @@ impl Sweep {
             let Some(value) = lookup(&wanted, table, key) else {
                 continue;
             };
-            set_edit(&mut doc, table, key, edit_value(value));
+            crate::design::edit::set_value(&mut doc, table, key, edit_value(value));
         }
         // Size keys the candidate dropped.
         if let Some(coil) = doc.get_mut("coil").and_then(|c| c.as_table_like_mut()) {
@@ -513,7 +513,7 @@ impl Sweep {
             }
         }
         if let Some(p) = profile {
-            set_edit(&mut doc, "rules", "profile", toml_edit::Value::from(p));
+            crate::design::edit::set_value(&mut doc, "rules", "profile", toml_edit::Value::from(p));
         }
         Ok(doc.to_string())
     }
@@ -541,26 +541,6 @@ fn edit_value(v: &toml::Value) -> toml_edit::Value {
         toml::Value::Boolean(b) => toml_edit::Value::from(*b),
         other => toml_edit::Value::from(other.to_string()),
     }
-}
-
-/// Sets `table.key` in an edited document, keeping the old value's
-/// surrounding whitespace and comment; creates the table if needed.
-fn set_edit(doc: &mut toml_edit::DocumentMut, table: &str, key: &str, mut value: toml_edit::Value) {
-    let t: &mut dyn toml_edit::TableLike = if table.is_empty() {
-        doc.as_table_mut()
-    } else {
-        if doc.get(table).is_none() {
-            doc.insert(table, toml_edit::Item::Table(toml_edit::Table::new()));
-        }
-        match doc.get_mut(table).and_then(|t| t.as_table_like_mut()) {
-            Some(t) => t,
-            None => return,
-        }
-    };
-    if let Some(old) = t.get(key).and_then(|i| i.as_value()) {
-        *value.decor_mut() = old.decor().clone();
-    }
-    t.insert(key, toml_edit::Item::Value(value));
 }
 
 /// Sets a dotted key in a TOML table, creating tables as needed.
