@@ -21,7 +21,12 @@ pub enum EditError {
 /// document, keeping the old value's surrounding whitespace and comment;
 /// creates the table if needed. Nothing happens when `table` holds a value
 /// rather than a table.
-pub fn set_value(doc: &mut toml_edit::DocumentMut, table: &str, key: &str, mut value: toml_edit::Value) {
+pub fn set_value(
+    doc: &mut toml_edit::DocumentMut,
+    table: &str,
+    key: &str,
+    mut value: toml_edit::Value,
+) {
     let t: &mut dyn toml_edit::TableLike = if table.is_empty() {
         doc.as_table_mut()
     } else {
@@ -106,7 +111,11 @@ pub fn written_value(doc: &toml_edit::DocumentMut, path: &str) -> Option<String>
     let v = item.as_value()?;
     Some(match v {
         toml_edit::Value::String(s) => s.value().clone(),
-        other => other.to_string().trim().to_string(),
+        other => {
+            let mut bare = other.clone();
+            bare.decor_mut().clear();
+            bare.to_string()
+        }
     })
 }
 
@@ -159,6 +168,7 @@ mod tests {
         let doc: toml_edit::DocumentMut = TEXT.parse().unwrap();
         assert_eq!(written_value(&doc, "name").as_deref(), Some("a"));
         assert_eq!(written_value(&doc, "coil.turns").as_deref(), Some("20"));
+        assert_eq!(written_value(&doc, "coil.layers").as_deref(), Some("2"));
         assert_eq!(written_value(&doc, "coil.shape"), None);
     }
 }
