@@ -280,7 +280,9 @@ fn header<'r>(r: &'r tiny_http::Request, name: &'static str) -> Option<&'r str> 
 }
 
 fn respond_bytes(request: tiny_http::Request, status: u16, kind: &str, body: Vec<u8>) {
-    let mut resp = tiny_http::Response::from_data(body).with_status_code(status);
+    let mut resp = tiny_http::Response::from_data(body)
+        .with_status_code(status)
+        .with_chunked_threshold(usize::MAX);
     let headers = [
         ("Content-Type", kind),
         ("Cache-Control", "no-store"),
