@@ -219,11 +219,21 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
         }
         let st = Arc::clone(&state);
         std::thread::spawn(move || {
+            let _count = InFlight(&st.in_flight);
             handle(&st, request);
-            st.in_flight.fetch_sub(1, Ordering::SeqCst);
         });
     }
     Ok(Exit::Ok)
+}
+
+/// One request being handled; counted down when dropped (also when its
+/// thread panics).
+struct InFlight<'a>(&'a AtomicUsize);
+
+impl Drop for InFlight<'_> {
+    fn drop(&mut self) {
+        self.0.fetch_sub(1, Ordering::SeqCst);
+    }
 }
 
 /// The worker: computes the newest edit, one at a time.
@@ -244,12 +254,15 @@ fn update_worker(st: &State) {
         };
         let current = || st.updates.latest.load(Ordering::SeqCst) == job.seq;
         let v = if current() {
-            work::view(
-                &st.design_at,
-                st.profile_file.as_deref(),
-                &job.text,
-                &current,
-            )
+            // A bug deep in a computation must not stop the worker: the
+            // page is told and the next edit is computed as usual.
+            std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
+                work::view(&st.design_at, st.profile_file.as_deref(), &job.text, &current)
+            }))
+            .unwrap_or_else(|_| {
+                json!({"status": "failed",
+                       "message": "internal error while computing this design (please report it with the design text)"})
+            })
         } else {
             json!({"status": "superseded"})
         };
@@ -461,7 +474,10 @@ fn start_sweep(st: &Arc<State>, ask: work::SweepAsk) -> (u16, Value) {
     let total = sweep.len();
     let st = Arc::clone(st);
     std::thread::spawn(move || {
-        let v = work::run_sweep(&base, &sweep, threads, &done, &cancel);
+        let v = std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
+            work::run_sweep(&base, &sweep, threads, &done, &cancel)
+        }))
+        .unwrap_or_else(|_| json!({"failed": "internal error during the sweep"}));
         let mut slot = st.sweep.lock().unwrap_or_else(|e| e.into_inner());
         if let Some(run) = slot.as_mut().filter(|r| r.id == id) {
             run.result = Some(v);

@@ -393,6 +393,7 @@ async function pollSweep() {
 }
 
 function showSweep(r) {
+  if (r.failed) { $("sw-state").textContent = ""; say(`sweep failed: ${r.failed}`, true); return; }
   $("sw-result").hidden = false;
   document.body.dataset.sweep = "done";
   $("sw-plot").src = svgUrl(r.plot);
