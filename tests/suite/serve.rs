@@ -407,3 +407,20 @@ fn browser_edits_sweeps_writes_and_saves() {
         );
     }
 }
+
+#[test]
+fn bad_start_exits_2_and_says_why() {
+    let root = tempfile::tempdir().unwrap();
+    // A port already taken.
+    let taken = std::net::TcpListener::bind("127.0.0.1:0").unwrap();
+    let port = taken.local_addr().unwrap().port().to_string();
+    let (code, out, err) = super::common::coilwright(&["serve", "--port", &port]);
+    assert_eq!(code, 2, "{out}{err}");
+    assert!(err.contains(&format!("127.0.0.1:{port}")) && err.contains("--port 0"), "{err}");
+    // A design path that is a folder.
+    let dir = root.path().to_str().unwrap();
+    let (code, out, err) = super::common::coilwright(&["serve", dir, "--port", "0"]);
+    assert_eq!(code, 2, "{out}{err}");
+    assert!(err.contains("cannot read design file"), "{err}");
+    assert!(entries(root.path()).is_empty(), "nothing written");
+}

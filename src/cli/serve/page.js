@@ -80,7 +80,11 @@ function received(gen, v) {
   if (v.status === "ok") {
     S.last = v;
     showDesign(v);
-    setState("ready", "up to date");
+    const errs = v.problems.filter((p) => p.severity === "error").length;
+    const over = v.limits.length;
+    const notes = [errs ? `${errs} rule error${errs === 1 ? "" : "s"}` : "", over ? "limit exceeded" : ""]
+      .filter((x) => x);
+    setState("ready", "up to date" + (notes.length ? ": " + notes.join(", ") : ""));
   } else if (v.status === "errors") {
     setState("errors", `${v.errors.length} problem${v.errors.length === 1 ? "" : "s"} in the text`);
   } else {
@@ -333,8 +337,8 @@ function showProblems(problems) {
     const places = p.count > 1 ? `, worst of ${p.count} places` : "";
     const li = el("li", { className: p.severity },
       el("span", { className: "rule", textContent: p.rule }),
-      ` ${p.severity} at ${layer}x ${p.x.toFixed(3)}, y ${p.y.toFixed(3)} mm: ${p.message} ` +
-      `(measured ${p.measured.toFixed(4)} mm, needs ${p.required.toFixed(4)} mm${places})`);
+      ` ${p.severity} at ${layer}x ${fixed(p.x, 3)}, y ${fixed(p.y, 3)} mm: ${p.message} ` +
+      `(measured ${fixed(p.measured, 4)} mm, needs ${fixed(p.required, 4)} mm${places})`);
     li.title = "show it on the preview";
     li.addEventListener("click", () => {
       if (p.layer && S.view !== "stack" && S.view !== p.layer) { S.view = p.layer; showDesign(S.last); }
@@ -356,6 +360,12 @@ function showPlots(plots) {
 }
 
 // ---- sweep ----------------------------------------------------------------
+
+// `v` with `d` decimals, never "-0.000" (as the command line prints).
+function fixed(v, d) {
+  const s = v.toFixed(d);
+  return /^-[0.]+$/.test(s) ? s.slice(1) : s;
+}
 
 const lines = (id) => $(id).value.split("\n").map((s) => s.trim()).filter((s) => s);
 
