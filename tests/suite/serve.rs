@@ -416,7 +416,10 @@ fn bad_start_exits_2_and_says_why() {
     let port = taken.local_addr().unwrap().port().to_string();
     let (code, out, err) = super::common::coilwright(&["serve", "--port", &port]);
     assert_eq!(code, 2, "{out}{err}");
-    assert!(err.contains(&format!("127.0.0.1:{port}")) && err.contains("--port 0"), "{err}");
+    assert!(
+        err.contains(&format!("127.0.0.1:{port}")) && err.contains("--port 0"),
+        "{err}"
+    );
     // A design path that is a folder.
     let dir = root.path().to_str().unwrap();
     let (code, out, err) = super::common::coilwright(&["serve", dir, "--port", "0"]);
