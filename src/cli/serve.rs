@@ -132,8 +132,10 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
             true,
         ),
         _ => (
+            // The same starter as `coilwright init`'s default.
             coilwright::design::templates()
-                .first()
+                .iter()
+                .find(|t| t.name == "fin-actuator")
                 .map(|t| t.text.to_string())
                 .unwrap_or_default(),
             false,
@@ -145,10 +147,12 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
     };
     // The profile path of the design file given on the command line is
     // the only one the page's text may name.
+    // (Read as written, so that it holds even while the file has problems.)
     let profile_file = if from_file {
-        coilwright::pipeline::parse(&initial)
+        initial
+            .parse::<toml_edit::DocumentMut>()
             .ok()
-            .map(|d| d.rules.profile)
+            .and_then(|doc| coilwright::design::edit::written_value(&doc, "rules.profile"))
     } else {
         None
     };

@@ -427,3 +427,29 @@ fn bad_start_exits_2_and_says_why() {
     assert!(err.contains("cannot read design file"), "{err}");
     assert!(entries(root.path()).is_empty(), "nothing written");
 }
+
+#[test]
+fn the_command_lines_profile_file_is_read_and_no_other() {
+    let root = tempfile::tempdir().unwrap();
+    let rules = std::fs::read_to_string(repo().join("templates/rules/standard.toml")).unwrap();
+    std::fs::write(root.path().join("house.toml"), &rules).unwrap();
+    std::fs::write(root.path().join("other.toml"), &rules).unwrap();
+    let text = fin_text().replace("profile = \"standard\"", "profile = \"house.toml\"");
+    let design = root.path().join("fin.toml");
+    std::fs::write(&design, &text).unwrap();
+    let b = start(&design, &root.path().join("out"));
+    let (_, v) = post_own(
+        b.port,
+        "/api/view",
+        &serde_json::json!({"gen": 1, "text": text}),
+    );
+    assert_eq!(v["status"], "ok", "{v}");
+    let other = text.replace("house.toml", "other.toml");
+    let (_, v) = post_own(
+        b.port,
+        "/api/view",
+        &serde_json::json!({"gen": 2, "text": other}),
+    );
+    assert_eq!(v["status"], "errors", "{v}");
+    assert_eq!(v["errors"][0]["key"], "rules.profile", "{v}");
+}
