@@ -3,11 +3,12 @@
 //! A small HTTP server (tiny_http) bound to 127.0.0.1 serves one page built
 //! into the binary (`serve/page.*`) and a few JSON calls:
 //!
-//! - `POST /api/view {gen, text, set?}`: the design's previews, rule
-//!   problems, key numbers and plots (or its errors at line and column);
-//!   `set: {key, value}` first edits one key of the text (the form). One
-//!   worker computes; a newer edit supersedes a queued or running one,
-//!   which answers `superseded`.
+//! - `POST /api/view {gen, text, set?}`: the design's previews and rule
+//!   problems (or its errors at line and column); `set: {key, value}`
+//!   first edits one key of the text (the form). Then
+//!   `POST /api/predictions {gen, text}`: its key numbers, cautions and
+//!   plots (the analysis, the slow half). One worker computes; a newer
+//!   edit supersedes a queued or running one, which answers `superseded`.
 //! - `POST /api/sweep`, `GET /api/sweep`: a sweep of the design (at most
 //!   [`work::MAX_SWEEP`] candidates and [`work::SWEEP_TIME`]) on one
 //!   thread fewer than the machine has, so the page stays responsive.
@@ -84,8 +85,17 @@ struct Updates {
 
 struct Job {
     seq: u64,
+    phase: Phase,
     text: String,
     reply: mpsc::Sender<Value>,
+}
+
+/// Which half of a view a job computes: the copper and rule check come
+/// back first, the predictions (the slow analysis) in a second request.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+enum Phase {
+    Copper,
+    Predictions,
 }
 
 /// A view request from the page.
@@ -97,6 +107,16 @@ struct ViewAsk {
     edit: u64,
     text: String,
     set: Option<SetKey>,
+}
+
+/// A predictions request from the page.
+#[derive(Debug, Deserialize)]
+#[serde(deny_unknown_fields)]
+struct PredictAsk {
+    /// The page's own edit counter, echoed back.
+    #[serde(rename = "gen")]
+    edit: u64,
+    text: String,
 }
 
 /// One form field changed.
@@ -242,6 +262,8 @@ impl Drop for InFlight<'_> {
 
 /// The worker: computes the newest edit, one at a time.
 fn update_worker(st: &State) {
+    // The design text last checked, kept for its predictions.
+    let mut last: Option<(String, pipeline::Checked)> = None;
     loop {
         let job = {
             let mut slot = st.updates.slot.lock().unwrap_or_else(|e| e.into_inner());
@@ -261,9 +283,10 @@ fn update_worker(st: &State) {
             // A bug deep in a computation must not stop the worker: the
             // page is told and the next edit is computed as usual.
             std::panic::catch_unwind(std::panic::AssertUnwindSafe(|| {
-                work::view(&st.design_at, st.profile_file.as_deref(), &job.text, &current)
+                compute(st, &mut last, &job)
             }))
             .unwrap_or_else(|_| {
+                last = None;
                 json!({"status": "failed",
                        "message": "internal error while computing this design (please report it with the design text)"})
             })
@@ -274,13 +297,45 @@ fn update_worker(st: &State) {
     }
 }
 
+/// One job: the copper phase checks the text and keeps the result; the
+/// predictions phase analyses the kept design when the text is the same
+/// (else checks it again).
+fn compute(st: &State, last: &mut Option<(String, pipeline::Checked)>, job: &Job) -> Value {
+    let fresh = |text: &str| work::copper(&st.design_at, st.profile_file.as_deref(), text);
+    match job.phase {
+        Phase::Copper => {
+            let (v, checked) = fresh(&job.text);
+            *last = checked.map(|c| (job.text.clone(), c));
+            v
+        }
+        Phase::Predictions => {
+            if last.as_ref().is_none_or(|(t, _)| *t != job.text) {
+                let (v, checked) = fresh(&job.text);
+                *last = checked.map(|c| (job.text.clone(), c));
+                if last.is_none() {
+                    return v;
+                }
+            }
+            match last {
+                Some((_, checked)) => work::predictions(checked),
+                None => json!({"status": "failed", "message": "nothing to analyse"}),
+            }
+        }
+    }
+}
+
 /// Hands `text` to the worker and waits for its view (or `superseded`).
-fn submit(st: &State, text: String) -> Value {
+fn submit(st: &State, phase: Phase, text: String) -> Value {
     let seq = st.updates.latest.fetch_add(1, Ordering::SeqCst) + 1;
     let (reply, rx) = mpsc::channel();
     {
         let mut slot = st.updates.slot.lock().unwrap_or_else(|e| e.into_inner());
-        if let Some(old) = slot.replace(Job { seq, text, reply }) {
+        if let Some(old) = slot.replace(Job {
+            seq,
+            phase,
+            text,
+            reply,
+        }) {
             let _ = old.reply.send(json!({"status": "superseded"}));
         }
     }
@@ -398,6 +453,10 @@ fn handle(st: &Arc<State>, mut request: tiny_http::Request) {
             Ok(ask) => (200, view(st, ask)),
             Err(e) => e,
         },
+        ("POST", "/api/predictions") => match body::<PredictAsk>(&mut request) {
+            Ok(ask) => (200, predictions(st, ask)),
+            Err(e) => e,
+        },
         ("POST", "/api/sweep") => match body::<work::SweepAsk>(&mut request) {
             Ok(ask) => start_sweep(st, ask),
             Err(e) => e,
@@ -441,9 +500,19 @@ fn view(st: &State, ask: ViewAsk) -> Value {
             }
         }
     }
-    let mut v = submit(st, text.clone());
+    let mut v = submit(st, Phase::Copper, text.clone());
     v["gen"] = json!(ask.edit);
     v["text"] = json!(text);
+    v["server_ms"] = json!(started.elapsed().as_secs_f64() * 1e3);
+    v
+}
+
+/// The second half of a view: the predictions for the text the page
+/// shows (normally the one whose copper was just computed).
+fn predictions(st: &State, ask: PredictAsk) -> Value {
+    let started = Instant::now();
+    let mut v = submit(st, Phase::Predictions, ask.text);
+    v["gen"] = json!(ask.edit);
     v["server_ms"] = json!(started.elapsed().as_secs_f64() * 1e3);
     v
 }

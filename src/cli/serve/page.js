@@ -52,6 +52,7 @@ function edited(set) {
   S.gen += 1;
   S.editAt = performance.now();
   setState("computing", "computing…");
+  document.body.dataset.copper = "stale";
   const gen = S.gen;
   clearTimeout(S.timer);
   const send = () => {
@@ -62,11 +63,15 @@ function edited(set) {
   if (set) send(); else S.timer = setTimeout(send, 90);
 }
 
+// The copper and rule problems arrive first; the predictions (the slow
+// analysis) are asked for next, and the page says "computing" until they
+// are in.
 function received(gen, v) {
   if (v.status === "superseded" || gen !== S.gen) return; // stale: a newer edit is on its way
   if (v.status === "edit_refused") {
     setState("errors", "edit refused");
     say(`${v.key}: ${v.message}`, true);
+    shown(gen, v);
     return;
   }
   if (typeof v.text === "string" && v.text !== $("text").value) {
@@ -77,26 +82,54 @@ function received(gen, v) {
   }
   if (v.form) fillForm(v.form);
   showErrors(v);
+  document.body.dataset.copper = "fresh";
   if (v.status === "ok") {
     S.last = v;
-    showDesign(v);
-    const errs = v.problems.filter((p) => p.severity === "error").length;
-    const over = v.limits.length;
-    const notes = [errs ? `${errs} rule error${errs === 1 ? "" : "s"}` : "", over ? "limit exceeded" : ""]
-      .filter((x) => x);
-    setState("ready", "up to date" + (notes.length ? ": " + notes.join(", ") : ""));
-  } else if (v.status === "errors") {
+    showCopper(v);
+    S.copperMs = performance.now() - S.editAt;
+    setState("computing", "computing predictions…");
+    call("POST", "/api/predictions", { gen, text: $("text").value })
+      .then((p) => predicted(gen, p))
+      .catch((e) => { if (gen === S.gen) { setState("failed", "server unreachable"); say(String(e), true); } });
+    return;
+  }
+  if (v.status === "errors") {
     setState("errors", `${v.errors.length} problem${v.errors.length === 1 ? "" : "s"} in the text`);
   } else {
     setState("failed", "failed");
     say(v.message || "the computation failed", true);
   }
+  shown(gen, v);
+}
+
+function predicted(gen, v) {
+  if (v.status === "superseded" || gen !== S.gen) return;
+  if (v.status === "ok") {
+    showFacts(v);
+    const errs = S.last.problems.filter((p) => p.severity === "error").length;
+    const notes = [errs ? `${errs} rule error${errs === 1 ? "" : "s"}` : "", v.limits.length ? "limit exceeded" : ""]
+      .filter((x) => x);
+    setState("ready", "up to date" + (notes.length ? ": " + notes.join(", ") : ""));
+  } else if (v.status === "errors") {
+    showErrors(v);
+    setState("errors", "problems in the text");
+  } else {
+    setState("failed", "failed");
+    say(v.message || "the analysis failed", true);
+  }
+  shown(gen, v);
+}
+
+// Marks edit `gen` as the one on screen and logs how long it took.
+function shown(gen, v) {
   S.shown = gen;
   document.body.dataset.shownGen = String(gen);
   const ms = performance.now() - S.editAt;
   window.cwLastUpdateMs = ms;
+  window.cwCopperMs = S.copperMs || ms;
+  S.copperMs = 0;
   document.body.dataset.updateMs = ms.toFixed(1);
-  $("footer").textContent = `last update ${ms.toFixed(0)} ms after the edit (server ${Number(v.server_ms || 0).toFixed(0)} ms)`;
+  $("footer").textContent = `last update ${ms.toFixed(0)} ms after the edit (server ${Number(v.server_ms || 0).toFixed(0)} ms for the last part)`;
 }
 
 // ---- form --------------------------------------------------------------
@@ -176,7 +209,7 @@ function selectAt(line, column) {
 
 const svgUrl = (text) => "data:image/svg+xml;charset=utf-8," + encodeURIComponent(text);
 
-function showDesign(v) {
+function showCopper(v) {
   const n = v.layers.length;
   if (S.view !== "stack" && S.view > n) S.view = "stack";
   for (const l of [...S.hidden]) if (l > n) S.hidden.delete(l);
@@ -186,7 +219,7 @@ function showDesign(v) {
   const vb = (label, key) => {
     const b = el("button", { type: "button", textContent: label });
     b.classList.toggle("on", S.view === key);
-    b.addEventListener("click", () => { S.view = key; showDesign(S.last); });
+    b.addEventListener("click", () => { S.view = key; showCopper(S.last); });
     views.append(b);
   };
   vb("stacked", "stack");
@@ -232,11 +265,14 @@ function showDesign(v) {
     const f = el("figure", {}, el("img", { src: svgUrl(l.svg), alt: `copper layer ${l.layer}` }),
       el("figcaption", { textContent: `layer ${l.layer}` }));
     f.classList.toggle("on", S.view === l.layer);
-    f.addEventListener("click", () => { S.view = S.view === l.layer ? "stack" : l.layer; showDesign(S.last); });
+    f.addEventListener("click", () => { S.view = S.view === l.layer ? "stack" : l.layer; showCopper(S.last); });
     th.append(f);
   }
-  showNumbers(v);
   showProblems(v.problems);
+}
+
+function showFacts(v) {
+  showNumbers(v);
   showPlots(v.plots);
   const metrics = $("metrics");
   if (!metrics.children.length) {
@@ -341,7 +377,7 @@ function showProblems(problems) {
       `(measured ${fixed(p.measured, 4)} mm, needs ${fixed(p.required, 4)} mm${places})`);
     li.title = "show it on the preview";
     li.addEventListener("click", () => {
-      if (p.layer && S.view !== "stack" && S.view !== p.layer) { S.view = p.layer; showDesign(S.last); }
+      if (p.layer && S.view !== "stack" && S.view !== p.layer) { S.view = p.layer; showCopper(S.last); }
       const w = Math.max(S.base[2] / 12, 1);
       const h = w * S.base[3] / S.base[2];
       setBox([p.x - w / 2, -p.y - h / 2, w, h]);

@@ -223,56 +223,35 @@ pub fn errors_view(f: &Failure) -> Value {
     }
 }
 
-/// Computes the page's view of `text` (as the design file `path`):
-/// `current()` is asked between the stages and a `superseded` view is
-/// returned as soon as a newer edit has arrived.
-pub fn view(
-    path: &Path,
-    profile_file: Option<&str>,
-    text: &str,
-    current: &dyn Fn() -> bool,
-) -> Value {
-    let superseded = || json!({"status": "superseded"});
+/// The first phase of the page's view of `text` (as the design file
+/// `path`): validation, copper and rule check, shown as soon as they are
+/// known; the checked design is returned for the second phase. Errors in
+/// the text end here.
+pub fn copper(path: &Path, profile_file: Option<&str>, text: &str) -> (Value, Option<Checked>) {
     let form = form_values(text);
-    let checked = match pipeline::check_text(path, text.to_string(), profile_file) {
-        Ok(c) => c,
-        Err(f) => {
-            let mut v = errors_view(&f);
+    let mut v = match pipeline::check_text(path, text.to_string(), profile_file) {
+        Ok(checked) => {
+            let v = copper_view(&checked);
+            let mut v = v;
             v["form"] = form;
-            return v;
+            return (v, Some(checked));
         }
+        Err(f) => errors_view(&f),
     };
-    if !current() {
-        return superseded();
-    }
-    let analysis = match pipeline::analysis(&checked) {
-        Ok(a) => a,
-        Err(f) => return errors_view(&f),
-    };
-    if !current() {
-        return superseded();
-    }
-    let mut v = design_view(&checked, &analysis);
     v["form"] = form;
-    v
+    (v, None)
 }
 
-/// Previews, problems, numbers, cautions and plots of a checked design.
-fn design_view(checked: &Checked, analysis: &Analysis) -> Value {
+/// Previews and rule problems of a checked design.
+fn copper_view(checked: &Checked) -> Value {
     let l = &checked.layout;
     let design = &checked.loaded.design;
-    let report = serde_json::to_value(analysis).unwrap_or_default();
     let layers: Vec<Value> = (1..=l.layers)
         .map(|n| {
             json!({"layer": n, "colour": svg::layer_colour(n, l.layers),
                    "svg": svg::preview(l, svg::View::Layer(n), &checked.violations)})
         })
         .collect();
-    let plots: Vec<Value> = report::plots(design, l, analysis)
-        .into_iter()
-        .map(|(name, role, doc)| json!({"name": name, "title": role, "svg": doc}))
-        .collect();
-    let cautions = &analysis.cautions;
     json!({
         "status": "ok",
         "summary": format!(
@@ -286,6 +265,30 @@ fn design_view(checked: &Checked, analysis: &Analysis) -> Value {
         "stack": svg::preview(l, svg::View::Stack, &checked.violations),
         "layers": layers,
         "problems": violations_json(&checked.violations)["violations"],
+    })
+}
+
+/// The second phase: the analysis of a checked design as the page shows
+/// it (key numbers, limits exceeded, advice, plots, the whole report).
+pub fn predictions(checked: &Checked) -> Value {
+    let analysis = match pipeline::analysis(checked) {
+        Ok(a) => a,
+        Err(f) => return errors_view(&f),
+    };
+    predictions_view(checked, &analysis)
+}
+
+fn predictions_view(checked: &Checked, analysis: &Analysis) -> Value {
+    let l = &checked.layout;
+    let design = &checked.loaded.design;
+    let report = serde_json::to_value(analysis).unwrap_or_default();
+    let plots: Vec<Value> = report::plots(design, l, analysis)
+        .into_iter()
+        .map(|(name, role, doc)| json!({"name": name, "title": role, "svg": doc}))
+        .collect();
+    let cautions = &analysis.cautions;
+    json!({
+        "status": "ok",
         "numbers": numbers(&report),
         "limits": cautions_json(cautions.iter().filter(|c| c.is_limit())),
         "advice": cautions_json(cautions.iter().filter(|c| !c.is_limit())),
