@@ -34,8 +34,11 @@ mod analysis;
 pub mod caution;
 pub mod closed_forms;
 pub mod conductor;
+pub mod drive;
 pub mod field;
+pub mod fin;
 pub mod gmd;
+pub mod heating;
 pub mod impedance;
 pub mod inductance;
 pub mod magnet;
@@ -43,6 +46,7 @@ pub mod mechanics;
 pub mod resistance;
 #[allow(unsafe_code)]
 mod simd;
+pub mod spread;
 pub mod thermal;
 
 pub use analysis::{Analysis, Inputs};
@@ -54,6 +58,9 @@ pub use magnet::{GapPoint, MagnetReport};
 pub use mechanics::Mechanics;
 pub use resistance::Resistance;
 pub use simd::use_plain_arithmetic;
+pub use drive::DriveReport;
+pub use fin::FinReport;
+pub use heating::HeatingReport;
 pub use thermal::ThermalReport;
 
 use crate::design::Design;
@@ -129,8 +136,9 @@ pub fn analyse_with(
     let cond = Conductor::new(design, layout);
     let mut found = Findings::default();
     let resistance = resistance::resistance(design, layout, &cond);
-    let thermal = thermal::analyse(design, layout, &cond, resistance.total_ohm_20c, &mut found);
     let inductance = inductance::analyse(design, layout, &cond, detail);
+    let circuit = (resistance.total_ohm_20c, inductance.inductance_h);
+    let thermal = thermal::analyse(design, layout, &cond, circuit, &mut found);
     let field = field::analyse(design, layout, &cond, detail, thermal.current_a);
     let magnet = design.magnet.map(|mg| {
         let drive = (thermal.current_a, thermal.power_w);
@@ -139,6 +147,28 @@ pub fn analyse_with(
     let impedance =
         impedance::analyse(design, &cond, inductance.inductance_h, &thermal, &mut found);
     let mechanics = mechanics::analyse(design, &mut found);
+    let full = detail == Detail::Full;
+    let drive = drive::analyse(
+        &design.drive,
+        thermal.resistance_ohm_hot,
+        inductance.inductance_h,
+        magnet.as_ref().map(|m| m.force_per_a_n),
+        full,
+    );
+    let heating = heating::analyse(design, &thermal, full, &mut found);
+    let fin = match (&design.fin, &design.magnet, &magnet) {
+        (Some(f), Some(mg), Some(mr)) => Some(fin::analyse(
+            design,
+            layout,
+            &cond,
+            f,
+            (mg, mr),
+            &drive,
+            full,
+            &mut found,
+        )),
+        _ => None,
+    };
     found.note(inductance.method_note());
     found.note(resistance::VIAS_NOTE);
     found.note(thermal::LUMPED_NOTE);
@@ -150,6 +180,9 @@ pub fn analyse_with(
         field,
         magnet,
         mechanics,
+        drive,
+        heating,
+        fin,
         cautions: found.cautions,
         notes: found.notes,
         inputs: Inputs::of(design),
