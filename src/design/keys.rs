@@ -329,7 +329,12 @@ pub const KEYS: &[Key] = &[
         "moving-air only: speed of the air along the board",
     ),
     // [fin]
-    key("fin", "free_length", Length, "flexible fin: clamp to free end"),
+    key(
+        "fin",
+        "free_length",
+        Length,
+        "flexible fin: clamp to free end",
+    ),
     key("fin", "width", Length, "width of the fin"),
     key(
         "fin",
@@ -403,8 +408,7 @@ mod tests {
         assert_eq!(
             t,
             [
-                "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive",
-                "fin"
+                "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive", "fin"
             ]
         );
     }

@@ -4,9 +4,9 @@
 
 use super::caution::Caution;
 use super::drive::DriveReport;
+use super::field::FieldReport;
 use super::fin::FinReport;
 use super::heating::HeatingReport;
-use super::field::FieldReport;
 use super::impedance::Impedance;
 use super::inductance::InductanceReport;
 use super::magnet::MagnetReport;

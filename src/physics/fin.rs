@@ -162,17 +162,14 @@ pub struct Beam {
     mass: Vec<Vec<f64>>,
     /// Index of the load node's deflection.
     load_dof: usize,
+    /// Cholesky factor of the stiffness matrix.
+    chol: Vec<Vec<f64>>,
 }
 
 impl Beam {
     /// Meshes `[0, length]` with a node at `load_at` (m); `section(x)`
     /// gives `(EI, mu)`; `tip` (kg) sits at the load node.
-    pub fn new(
-        length: f64,
-        load_at: f64,
-        tip: f64,
-        section: impl Fn(f64) -> (f64, f64),
-    ) -> Beam {
+    pub fn new(length: f64, load_at: f64, tip: f64, section: impl Fn(f64) -> (f64, f64)) -> Beam {
         let total = 80usize;
         let n1 = ((total as f64 * load_at / length).round() as usize).max(8);
         let rest = length - load_at;
@@ -227,14 +224,20 @@ impl Beam {
         }
         let load_dof = 2 * (n1 - 1);
         mass[load_dof][load_dof] += tip;
-        Beam { k, mass, load_dof }
+        let chol = cholesky(&k);
+        Beam {
+            k,
+            mass,
+            load_dof,
+            chol,
+        }
     }
 
     /// Deflection at the load point per newton there, m/N.
     pub fn compliance(&self) -> f64 {
         let mut f = vec![0.0; self.k.len()];
         f[self.load_dof] = 1.0;
-        solve(&self.k, &f)[self.load_dof]
+        solve(&self.chol, &f)[self.load_dof]
     }
 
     /// First natural frequency, Hz (inverse iteration with the Rayleigh
@@ -245,7 +248,7 @@ impl Beam {
         let mut lambda = 0.0;
         for _ in 0..200 {
             let y = mul(&self.mass, &x);
-            let xn = solve(&self.k, &y);
+            let xn = solve(&self.chol, &y);
             let kx = mul(&self.k, &xn);
             let mx = mul(&self.mass, &xn);
             let num: f64 = xn.iter().zip(&kx).map(|(a, b)| a * b).sum();
@@ -269,8 +272,8 @@ fn mul(a: &[Vec<f64>], x: &[f64]) -> Vec<f64> {
         .collect()
 }
 
-/// Solves `a x = b` for a symmetric positive definite `a` (Cholesky).
-fn solve(a: &[Vec<f64>], b: &[f64]) -> Vec<f64> {
+/// The Cholesky factor `L` of a symmetric positive definite `a`.
+fn cholesky(a: &[Vec<f64>]) -> Vec<Vec<f64>> {
     let n = a.len();
     let mut l = vec![vec![0.0; n]; n];
     for i in 0..n {
@@ -283,6 +286,12 @@ fn solve(a: &[Vec<f64>], b: &[f64]) -> Vec<f64> {
             }
         }
     }
+    l
+}
+
+/// Solves `L L^T x = b` with the factor `l` of [`cholesky`].
+fn solve(l: &[Vec<f64>], b: &[f64]) -> Vec<f64> {
+    let n = l.len();
     let mut y = vec![0.0; n];
     for i in 0..n {
         let s: f64 = (0..i).map(|k| l[i][k] * y[k]).sum();
@@ -480,10 +489,9 @@ pub fn analyse(
                 }
             })
             .collect();
-        let force = harmonics.first().map_or(
-            f_per_a * drive.current_mean_a,
-            |h| h.force_n,
-        );
+        let force = harmonics
+            .first()
+            .map_or(f_per_a * drive.current_mean_a, |h| h.force_n);
         let f_top = (3.0 * f1).max(1.5 * drive.frequency_hz.unwrap_or(0.0));
         let response = (1..=300)
             .map(|i| {

@@ -101,9 +101,7 @@ pub fn analyse(
         })
     });
     let ripple = match (steady_avg, design.drive.waveform) {
-        (Some(ts), w) if w != Waveform::Dc => {
-            b.spread.peak * ripple_of(&b, wave, ts)
-        }
+        (Some(ts), w) if w != Waveform::Dc => b.spread.peak * ripple_of(&b, wave, ts),
         _ => 0.0,
     };
     let peak = th.temperature_c.map(|t| t + ripple);

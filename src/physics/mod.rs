@@ -51,16 +51,16 @@ pub mod thermal;
 
 pub use analysis::{Analysis, Inputs};
 pub use caution::{Caution, CautionKind, Findings};
+pub use drive::DriveReport;
 pub use field::{FIELD_SAGITTA, FIELD_SAGITTA_METRICS, FieldReport, ProfilePoint};
+pub use fin::FinReport;
+pub use heating::HeatingReport;
 pub use impedance::Impedance;
 pub use inductance::{InductanceReport, PublishedEstimate};
 pub use magnet::{GapPoint, MagnetReport};
 pub use mechanics::Mechanics;
 pub use resistance::Resistance;
 pub use simd::use_plain_arithmetic;
-pub use drive::DriveReport;
-pub use fin::FinReport;
-pub use heating::HeatingReport;
 pub use thermal::ThermalReport;
 
 use crate::design::Design;

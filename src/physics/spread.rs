@@ -103,7 +103,11 @@ impl Disc {
             .map(|i| {
                 let (a, b) = (i as f64 * dr, (i + 1) as f64 * dr);
                 let (lo, hi) = (a.max(self.r_in), b.min(self.r_out));
-                let heated = if hi > lo { pi * (hi * hi - lo * lo) } else { 0.0 };
+                let heated = if hi > lo {
+                    pi * (hi * hi - lo * lo)
+                } else {
+                    0.0
+                };
                 let mid = (a + b) / 2.0;
                 let k = if mid >= self.r_in && mid <= self.r_out {
                     self.k_winding
@@ -189,7 +193,10 @@ mod tests {
         // lateral flow, T - Ta = q / H everywhere (energy balance).
         let d = disc(0.01, 1e-5, 0.0, 10e-3);
         let s = d.spread(20.0);
-        assert!((s.peak - 1.0).abs() < 1e-9 && (s.winding - 1.0).abs() < 1e-9, "{s:?}");
+        assert!(
+            (s.peak - 1.0).abs() < 1e-9 && (s.winding - 1.0).abs() < 1e-9,
+            "{s:?}"
+        );
     }
 
     #[test]

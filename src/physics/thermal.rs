@@ -37,8 +37,8 @@
 
 use super::caution::{Caution, Findings};
 use super::conductor::{Conductor, m};
-use super::resistance::at_temperature;
 use super::drive::Wave;
+use super::resistance::at_temperature;
 use super::spread::{Disc, Spread};
 use crate::design::{BoardKind, Design, Source, Surroundings};
 use crate::geometry::{Board as Layout, Segment};
@@ -92,10 +92,8 @@ fn interpolate<const N: usize>(table: &[(f64, [f64; N])], t: f64) -> [f64; N] {
 /// coefficient 1/K (air: ideal gas, 1/T).
 fn fluid(medium: Surroundings, t_k: f64) -> (f64, f64, f64, f64) {
     if medium == Surroundings::Water {
-        let rows: Vec<(f64, [f64; 4])> = WATER
-            .iter()
-            .map(|r| (r.0, [r.1, r.2, r.3, r.4]))
-            .collect();
+        let rows: Vec<(f64, [f64; 4])> =
+            WATER.iter().map(|r| (r.0, [r.1, r.2, r.3, r.4])).collect();
         let [nu, k, pr, beta] = interpolate(&rows, t_k);
         (nu, k, pr, beta)
     } else {
@@ -462,10 +460,7 @@ pub fn analyse(
     // The spread depends on the loss coefficient, which depends on the
     // temperature: two passes settle it to well below 0.1 %.
     for _ in 0..2 {
-        let t = board
-            .steady(wave)
-            .unwrap_or(T_CAP)
-            .max(drive.ambient + 1.0);
+        let t = board.steady(wave).unwrap_or(T_CAP).max(drive.ambient + 1.0);
         board.spread = disc.spread(board.losses(t).both_faces());
     }
     let steady = board.steady(wave);

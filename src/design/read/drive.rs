@@ -77,13 +77,22 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Drive {
             t.key("waveform"),
             t.span_of("waveform"),
             "a waveform other than \"dc\" needs drive.frequency",
-            Some("give frequency = \"5Hz\" (the waveform's repetition rate), or waveform = \"dc\"".into()),
+            Some(
+                "give frequency = \"5Hz\" (the waveform's repetition rate), or waveform = \"dc\""
+                    .into(),
+            ),
         );
     }
     let duty = match t.get("duty") {
         None => None,
         Some(v) => {
-            let d = cx.number(t, "duty", f64::MIN, f64::MAX, "a fraction above 0 up to 1, e.g. 0.25");
+            let d = cx.number(
+                t,
+                "duty",
+                f64::MIN,
+                f64::MAX,
+                "a fraction above 0 up to 1, e.g. 0.25",
+            );
             match d {
                 Some(d) if d > 0.0 && d <= 1.0 => Some(d),
                 Some(d) => {

@@ -20,7 +20,10 @@ pub(super) fn read(cx: &mut Ctx, t: &Table, magnet: Option<&Magnet>) -> Option<F
             String::from("fin"),
             t.span.clone(),
             "a [fin] needs a [magnet]: the fin moves by the force between coil and magnet",
-            Some("add a [magnet] table (diameter, thickness, remanence, gap), or remove [fin]".into()),
+            Some(
+                "add a [magnet] table (diameter, thickness, remanence, gap), or remove [fin]"
+                    .into(),
+            ),
         );
     }
     let free_length = cx.req_length(t, "free_length", Sign::Positive);
@@ -46,7 +49,13 @@ pub(super) fn read(cx: &mut Ctx, t: &Table, magnet: Option<&Magnet>) -> Option<F
         .map_or(0.0, Mass::grams);
     let damping_ratio = match t.get("damping_ratio") {
         None => DEFAULT_DAMPING_RATIO,
-        Some(v) => match cx.number(t, "damping_ratio", f64::MIN, f64::MAX, "a number above 0 and below 1, e.g. 0.03") {
+        Some(v) => match cx.number(
+            t,
+            "damping_ratio",
+            f64::MIN,
+            f64::MAX,
+            "a number above 0 and below 1, e.g. 0.03",
+        ) {
             Some(z) if z > 0.0 && z < 1.0 => z,
             Some(z) => {
                 cx.err(
