@@ -283,8 +283,8 @@ fn waveform(a: &Analysis) -> String {
     );
     let _ = writeln!(
         s,
-        "- the coil as a series R-L load at its operating resistance: L/R = {} s (voltage drives rise and fall with it; a current source imposes its waveform)",
-        sig(d.l_over_r_s, 3)
+        "- the coil as a series R-L load at its operating resistance: L/R = {} (voltage drives rise and fall with it; a current source imposes its waveform)",
+        si(d.l_over_r_s, "s")
     );
     if let Some(f) = d.force_mean_n {
         let _ = writeln!(s, "- mean force on the magnet {}", millinewton(f, ""));
@@ -364,7 +364,7 @@ fn heating_over_time(a: &Analysis) -> String {
             );
         }
     }
-    if h.ripple_k > 0.0 {
+    if h.ripple_k >= 0.01 {
         let _ = writeln!(
             s,
             "- within each period the hottest copper swings {} K above its mean (the board answering the power's swing as a first-order system); peak {}",

@@ -164,6 +164,19 @@ impl Wave {
     /// Average power in a coil of resistance `r` (ohm) and inductance `l`
     /// (H), W: `r` times the square of the RMS current.
     pub fn power(&self, r: f64, l: f64) -> f64 {
+        let on = match self.source {
+            Source::Voltage(v) => v * v / r,
+            Source::Current(i) => i * i * r,
+        };
+        let d = self.duty.clamp(0.0, 1.0);
+        // Without inductance (or a current source) the closed forms.
+        match (self.waveform, self.source) {
+            (Waveform::Dc, _) => return on,
+            (Waveform::Sine, Source::Current(_)) => return on / 2.0,
+            (Waveform::Square, Source::Current(_)) if self.bipolar => return on,
+            (Waveform::Square | Waveform::Pulse, Source::Current(_)) => return on * d,
+            _ => {}
+        }
         let p = self.solve(r, l);
         r * p.rms() * p.rms()
     }

@@ -7,8 +7,9 @@
 //!   ambient by the classical fourth-order Runge-Kutta method; the hottest
 //!   copper follows the board average through the lateral spread (its
 //!   profile settles far faster than the board heats). The rise time is
-//!   read off this curve: when the hottest copper first reaches 63.2 % of
-//!   its final rise (the `1 - 1/e` point of a first-order rise).
+//!   that of this curve: when the hottest copper reaches 63.2 % of its
+//!   final rise (the `1 - 1/e` point of a first-order rise), computed
+//!   exactly by separating the variables (`t = int C dT / (P_in - P_out)`).
 //! * The ripple: within one period of the drive the power `i(t)^2 R`
 //!   swings; the board answers as the first-order system
 //!   `C dθ/dt = p(t) - G θ` linearised at the steady temperature
@@ -23,6 +24,7 @@ use super::drive::Wave;
 use super::resistance::at_temperature;
 use super::thermal::ThermalReport;
 use crate::design::{Design, Waveform};
+use crate::numeric::quadrature::adaptive_simpson;
 use serde::Serialize;
 
 /// One point of the heating curve.
@@ -69,16 +71,32 @@ pub fn analyse(
     let wave = Wave::of(&design.drive);
     let ta = b.ambient;
     let steady_avg = th.temperature_board_c;
-    // Integrate to the limit or well past the rise.
-    let tau = th.time_constant_s.max(1e-6);
-    let t_end = match (steady_avg, th.pulse_s) {
-        (_, Some(p)) => (1.5 * p).max(3.0 * tau.min(p * 10.0)),
-        (Some(_), None) => 6.0 * tau,
-        (None, None) => 6.0 * tau,
-    };
-    let steps = 2000;
-    let dt = t_end / steps as f64;
     let rate = |t: f64| (b.power_in(wave, t) - b.losses(t).power_w) / b.heat_capacity;
+    // Rise time: the time to reach 63.2 % of the final rise, by
+    // separation of variables t = int C / (P_in - P_out) dT (adaptive
+    // Simpson, as the pulse length), exact for the same balance the curve
+    // integrates.
+    let rise_time = steady_avg.and_then(|ts| {
+        if ts - ta <= 1e-9 {
+            return None;
+        }
+        let target = ta + (1.0 - (-1f64).exp()) * (ts - ta);
+        Some(adaptive_simpson(
+            |t| 1.0 / rate(t).max(1e-300),
+            ta,
+            target,
+            1e-9,
+            40,
+        ))
+    });
+    // The curve (full detail): RK4 to the limit or well past the rise.
+    let tau = rise_time.unwrap_or(th.time_constant_s).max(1e-6);
+    let t_end = match th.pulse_s {
+        Some(p) => (1.5 * p).max(3.0 * tau.min(p * 10.0)),
+        None => 6.0 * tau,
+    };
+    let steps = if full { 2000 } else { 0 };
+    let dt = t_end / steps.max(1) as f64;
     let mut curve = Vec::with_capacity(steps + 1);
     let mut t = ta;
     curve.push((0.0, t));
@@ -90,16 +108,6 @@ pub fn analyse(
         t = (t + dt / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4)).min(super::thermal::Board::cap());
         curve.push(((k + 1) as f64 * dt, t));
     }
-    let rise_time = steady_avg.and_then(|ts| {
-        let target = ta + (1.0 - (-1f64).exp()) * (ts - ta);
-        if ts - ta <= 0.0 {
-            return None;
-        }
-        curve.windows(2).find(|w| w[1].1 >= target).map(|w| {
-            let f = (target - w[0].1) / (w[1].1 - w[0].1);
-            w[0].0 + f * (w[1].0 - w[0].0)
-        })
-    });
     let ripple = match (steady_avg, design.drive.waveform) {
         (Some(ts), w) if w != Waveform::Dc => b.spread.peak * ripple_of(&b, wave, ts),
         _ => 0.0,
