@@ -412,17 +412,18 @@ impl ForceCurve<'_> {
     }
 }
 
-/// The fin phase of the analysis.
+/// The fin phase of the analysis, for a design with a `[fin]` and a
+/// magnet (`mr`: the force phase's report); `None` without a fin.
 pub fn analyse(
     design: &Design,
     layout: &Layout,
     cond: &Conductor,
-    fin: &Fin,
-    (mg, mr): (&Magnet, &MagnetReport),
+    mr: &MagnetReport,
     drive: &DriveReport,
     full: bool,
     found: &mut super::Findings,
-) -> FinReport {
+) -> Option<FinReport> {
+    let (fin, mg) = (design.fin.as_ref()?, design.magnet.as_ref()?);
     let lam = Laminate::of(design, layout, fin);
     let magnet_mass =
         NDFEB_DENSITY * std::f64::consts::PI * m(mg.diameter).powi(2) / 4.0 * m(mg.thickness);
@@ -527,7 +528,7 @@ pub fn analyse(
         BoardKind::Rigid => "rigid laminate modelled as a beam: copper 117 GPa, FR-4 22 GPa, solder mask 3 GPa, resin between tracks 3.5 GPa (moduli recalled from memory): a rigid board barely flaps",
     }
     .to_string();
-    FinReport {
+    Some(FinReport {
         bending_stiffness_n_m2: lam.section(0.0).0,
         bending_stiffness_coil_n_m2: lam.section(lam.load_at).0,
         stiffness_n_per_m: k,
@@ -547,7 +548,7 @@ pub fn analyse(
         section,
         response,
         materials_source,
-    }
+    })
 }
 
 /// The stable static separation change (m, positive: the gap opens) under

@@ -156,19 +156,9 @@ pub fn analyse_with(
         full,
     );
     let heating = heating::analyse(design, &thermal, full, &mut found);
-    let fin = match (&design.fin, &design.magnet, &magnet) {
-        (Some(f), Some(mg), Some(mr)) => Some(fin::analyse(
-            design,
-            layout,
-            &cond,
-            f,
-            (mg, mr),
-            &drive,
-            full,
-            &mut found,
-        )),
-        _ => None,
-    };
+    let fin = magnet
+        .as_ref()
+        .and_then(|mr| fin::analyse(design, layout, &cond, mr, &drive, full, &mut found));
     found.note(inductance.method_note());
     found.note(resistance::VIAS_NOTE);
     found.note(thermal::LUMPED_NOTE);
