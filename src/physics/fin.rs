@@ -31,6 +31,7 @@
 //!
 //! [`analyse`] is the analysis phase ([`FinReport`]).
 
+use super::caution::Caution;
 use super::conductor::{Conductor, m};
 use super::drive::DriveReport;
 use super::magnet::{Cylinder, MagnetReport, force_rings};
@@ -457,9 +458,7 @@ pub fn analyse(
     let deflection = equilibrium(|g| curve.at(g), g0, k, drive.current_mean_a);
     let stable = deflection.is_some();
     if !stable {
-        found.note(
-            "the fin: the mean force attracts and grows faster with the closing gap than the fin's stiffness: no stable position (pulled in)",
-        );
+        found.caution(Caution::FinPulledIn { gap_mm: mg.gap });
     } else if full {
         let (lo, hi) = (
             drive.harmonics.iter().map(|h| h.current_a).sum::<f64>(),
@@ -523,6 +522,14 @@ pub fn analyse(
     } else {
         (Vec::new(), Vec::new())
     };
+    let swing_peak = harmonics.iter().map(|h| h.amplitude_mm).sum::<f64>()
+        + deflection.map_or(0.0, |d| d.abs() * 1e3);
+    if stable && swing_peak >= mg.gap {
+        found.caution(Caution::SwingReachesGap {
+            swing_mm: swing_peak,
+            gap_mm: mg.gap,
+        });
+    }
     let materials_source = match design.stackup.kind {
         BoardKind::Flex => "flex laminate: copper 117 GPa, polyimide 2.5 GPa, coverlay with adhesive 2.0 GPa, adhesive between tracks 1.5 GPa (moduli recalled from memory); damping ratio default 0.03 (common practice, no source)",
         BoardKind::Rigid => "rigid laminate modelled as a beam: copper 117 GPa, FR-4 22 GPa, solder mask 3 GPa, resin between tracks 3.5 GPa (moduli recalled from memory): a rigid board barely flaps",
@@ -535,8 +542,7 @@ pub fn analyse(
         resonance_hz: f1,
         deflection_mm: deflection.map(|d| d * 1e3),
         amplitude_mm: amplitude,
-        swing_peak_mm: harmonics.iter().map(|h| h.amplitude_mm).sum::<f64>()
-            + deflection.map_or(0.0, |d| d.abs() * 1e3),
+        swing_peak_mm: swing_peak,
         stable,
         tip_mass_kg: tip,
         fin_mass_kg: (0..100)

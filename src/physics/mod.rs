@@ -5,9 +5,13 @@
 //!
 //! [`analyse_with`] reads as the pipeline: each phase is one call into
 //! the module of its quantity, which owns the code and the report struct:
-//! [`resistance`], [`thermal`] (operating point, drive limits, pulse),
-//! [`inductance`] (with the published estimates), [`impedance`], [`field`]
-//! (Biot-Savart), [`magnet`] (force), [`mechanics`] (thickness, bending).
+//! [`resistance`], [`inductance`] (with the published estimates),
+//! [`thermal`] (operating point under the drive's average power, hottest
+//! copper by the lateral [`spread`], drive limits, pulse), [`impedance`],
+//! [`field`] (Biot-Savart), [`magnet`] (force), [`mechanics`] (thickness,
+//! bending), [`drive`] (the waveform's current over a period, harmonics),
+//! [`heating`] (temperature from switch-on, ripple) and [`fin`] (the
+//! flexible fin's stiffness, resonance and swing).
 //! [`Analysis`] is made of their reports; the phases add [`Caution`]s and
 //! notes to one [`Findings`]. Beside them: [`conductor`] (the layout as
 //! current paths in SI units), [`gmd`] (geometric mean distances),
