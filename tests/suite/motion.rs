@@ -223,3 +223,32 @@ fn new_numbers_are_sweep_metrics_and_keys() {
     assert!(out.contains("4 meet the requirements"), "{out}");
     assert!(out.contains("fin.load_at=12mm"), "{out}");
 }
+
+#[test]
+fn an_attracting_mean_force_pulls_a_soft_fin_in() {
+    // A bipolar square of duty 0.1 spends 90 % of the period reversed: its
+    // mean current attracts the magnet. On a long soft fin 0.5 mm from the
+    // magnet the attraction grows faster than the stiffness: no balance
+    // before contact (pull-in), reported as `fin_stable = false` with a
+    // typed caution; a short stiff fin 1.5 mm away holds.
+    let soft = fin_starter()
+        .replace("bipolar = true ", "bipolar = true\nduty = 0.1 ")
+        .replace("gap = \"1.5mm\"", "gap = \"0.5mm\"")
+        .replace("free_length = \"15mm\"", "free_length = \"25mm\"")
+        .replace("load_at = \"10mm\"", "load_at = \"20mm\"");
+    let stiff = fin_starter().replace("bipolar = true ", "bipolar = true\nduty = 0.1 ");
+    let fin = |text: &str| {
+        let d = coilwright::pipeline::parse(text).unwrap();
+        let layout = build(&d).unwrap();
+        let a = analyse(&d, &layout).unwrap();
+        assert!(a.drive.current_mean_a < 0.0);
+        (a.fin.clone().unwrap(), a.cautions)
+    };
+    let (f, cautions) = fin(&soft);
+    assert!(!f.stable && f.deflection_mm.is_none());
+    assert!(cautions.iter().any(|c| c.id() == "fin-pulled-in"), "{cautions:?}");
+    let (f, _) = fin(&stiff);
+    assert!(f.stable);
+    let d = f.deflection_mm.unwrap();
+    assert!(d < 0.0 && d > -1.5, "{d}");
+}
