@@ -174,8 +174,9 @@ fn motion_plots(design: &Design, a: &Analysis, v: &mut Vec<(String, &'static str
     }
     let h = &a.heating;
     if !h.curve.is_empty() {
-        let hot: Vec<(f64, f64)> = h.curve.iter().map(|p| (p.t_s, p.hottest_c)).collect();
-        let avg: Vec<(f64, f64)> = h.curve.iter().map(|p| (p.t_s, p.board_c)).collect();
+        let ta = a.inputs.ambient_c;
+        let hot: Vec<(f64, f64)> = h.curve.iter().map(|p| (p.t_s, p.hottest_c - ta)).collect();
+        let avg: Vec<(f64, f64)> = h.curve.iter().map(|p| (p.t_s, p.board_c - ta)).collect();
         let mut marks = Vec::new();
         if let Some(r) = h.rise_time_s {
             marks.push(Marker::new(r, format!("63 % of the rise: {} s", sig(r, 3))));
@@ -190,16 +191,16 @@ fn motion_plots(design: &Design, a: &Analysis, v: &mut Vec<(String, &'static str
                         sig(t, 3)
                     ),
                 )
-                .with_point(a.inputs.max_temperature_c),
+                .with_point(a.inputs.max_temperature_c - ta),
             );
         }
         v.push((
             "heating.svg".to_string(),
             "plot: temperature from switch-on",
             line_plot(
-                "Temperature from switch-on (average power of the drive)",
+                &format!("Temperature rise from switch-on, above {ta} C ambient"),
                 "time (s)",
-                "temperature (C)",
+                "rise above ambient (K)",
                 &[("hottest copper", hot), ("board average", avg)],
                 &marks,
             ),
@@ -379,7 +380,7 @@ fn heating_over_time(a: &Analysis) -> String {
             "
 ![temperature from switch-on](plots/heating.svg)
 
-The board's energy balance integrated from ambient under the drive's average power (RK4); the hottest copper follows the board average through the lateral spread. The curve leaves out the ripple within each period."
+The board's energy balance integrated from ambient (RK4): under the drive's average power, or, when a period is longer than 1/100 of the rise, under the power within each period; the hottest copper follows the board average through the lateral spread (its profile settles far faster than the board heats). The rise time is that of the average power's curve."
         );
     }
     let _ = writeln!(s);

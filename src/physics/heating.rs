@@ -10,6 +10,8 @@
 //!   that of this curve: when the hottest copper reaches 63.2 % of its
 //!   final rise (the `1 - 1/e` point of a first-order rise), computed
 //!   exactly by separating the variables (`t = int C dT / (P_in - P_out)`).
+//!   Slow waveforms (period above 1/100 of the rise) are integrated with
+//!   the power within each period instead of its average.
 //! * The ripple: within one period of the drive the power `i(t)^2 R`
 //!   swings; the board answers as the first-order system
 //!   `C dθ/dt = p(t) - G θ` linearised at the steady temperature
@@ -95,16 +97,35 @@ pub fn analyse(
         Some(p) => (1.5 * p).max(3.0 * tau.min(p * 10.0)),
         None => 6.0 * tau,
     };
-    let steps = if full { 2000 } else { 0 };
+    // Slow waveforms (a period longer than 1/100 of the rise): the curve
+    // follows the power within each period, `i(t)^2 / I_rms^2` times the
+    // average power at the temperature (the current's shape taken at the
+    // operating resistance), in steps of at most 1/40 of a period.
+    let shape = (design.drive.waveform != Waveform::Dc && wave.frequency > 0.0)
+        .then(|| wave.solve(th.resistance_ohm_hot, b.inductance))
+        .filter(|p| p.period * 100.0 > tau && p.rms() > 0.0);
+    let steps = match (&shape, full) {
+        (_, false) => 0,
+        (Some(p), true) => ((t_end / (p.period / 40.0)).ceil() as usize).clamp(2000, 40_000),
+        (None, true) => 2000,
+    };
     let dt = t_end / steps.max(1) as f64;
+    let inst = |temp: f64, time: f64| match &shape {
+        Some(p) => {
+            let w = (p.at(time) / p.rms()).powi(2);
+            (w * b.power_in(wave, temp) - b.losses(temp).power_w) / b.heat_capacity
+        }
+        None => rate(temp),
+    };
     let mut curve = Vec::with_capacity(steps + 1);
     let mut t = ta;
     curve.push((0.0, t));
     for k in 0..steps {
-        let k1 = rate(t);
-        let k2 = rate(t + dt / 2.0 * k1);
-        let k3 = rate(t + dt / 2.0 * k2);
-        let k4 = rate(t + dt * k3);
+        let s0 = k as f64 * dt;
+        let k1 = inst(t, s0);
+        let k2 = inst(t + dt / 2.0 * k1, s0 + dt / 2.0);
+        let k3 = inst(t + dt / 2.0 * k2, s0 + dt / 2.0);
+        let k4 = inst(t + dt * k3, s0 + dt);
         t = (t + dt / 6.0 * (k1 + 2.0 * k2 + 2.0 * k3 + k4)).min(super::thermal::Board::cap());
         curve.push(((k + 1) as f64 * dt, t));
     }
@@ -123,9 +144,10 @@ pub fn analyse(
         });
     }
     let curve = if full {
+        let every = (curve.len() / 400).max(1);
         curve
             .iter()
-            .step_by(10)
+            .step_by(every)
             .map(|&(t_s, avg)| HeatPoint {
                 t_s,
                 hottest_c: b.hottest_at(avg),

@@ -246,7 +246,10 @@ fn an_attracting_mean_force_pulls_a_soft_fin_in() {
     };
     let (f, cautions) = fin(&soft);
     assert!(!f.stable && f.deflection_mm.is_none());
-    assert!(cautions.iter().any(|c| c.id() == "fin-pulled-in"), "{cautions:?}");
+    assert!(
+        cautions.iter().any(|c| c.id() == "fin-pulled-in"),
+        "{cautions:?}"
+    );
     let (f, _) = fin(&stiff);
     assert!(f.stable);
     let d = f.deflection_mm.unwrap();
