@@ -595,6 +595,40 @@ mod tests {
     }
 
     #[test]
+    fn plate_correlations_agree_with_the_classical_ones_in_their_range() {
+        // Raithby & Hollands' upward plate against Incropera eq. 9.30
+        // (0.54 Ra^(1/4), 1e4..1e7) and downward against eq. 9.32 of the
+        // 7th edition (0.52 Ra^(1/5), 1e4..1e9), air Pr = 0.71: independent
+        // fits of the same experiments, expected to agree within about
+        // 20 % (recalled coefficients, tag M). At small Ra the thin-layer form stays above
+        // the extrapolated power law (conduction does not vanish).
+        for ra in [1e5, 1e6, 1e7] {
+            let (up, down) = plate_nusselt(ra, 0.71);
+            let up_i = 0.54 * ra.powf(0.25);
+            let down_i = 0.52 * ra.powf(0.2);
+            assert!((up / up_i - 1.0).abs() < 0.2, "{ra}: {up} {up_i}");
+            assert!((down / down_i - 1.0).abs() < 0.2, "{ra}: {down} {down_i}");
+        }
+        let (up, down) = plate_nusselt(100.0, 0.71);
+        assert!(up > 0.54 * 100f64.powf(0.25) && down > 0.52 * 100f64.powf(0.2));
+        // Laminar flat plate, Incropera eq. 7.30: Re = 1e4, Pr = 0.71 gives
+        // Nu = 0.664 * 100 * 0.71^(1/3) = 59.2.
+        let mut b = board(None);
+        b.medium = Surroundings::MovingAir { air_speed_m_s: 3.0 };
+        let l = b.losses(40.0);
+        let re = l.reynolds.unwrap();
+        assert!(re > 1e3 && re < 1e4, "{re}");
+        let still = board(None).losses(40.0);
+        assert!(l.h_top_w_per_m2k > still.h_top_w_per_m2k);
+        // Water cools far better than air, and radiates nothing.
+        let mut w = board(None);
+        w.medium = Surroundings::Water;
+        let lw = w.losses(40.0);
+        assert!(lw.h_top_w_per_m2k > 10.0 * still.h_top_w_per_m2k);
+        assert_eq!(lw.h_radiation_w_per_m2k, 0.0);
+    }
+
+    #[test]
     fn steady_state_satisfies_its_energy_balance() {
         for conv in [None, Some(10.0)] {
             let b = board(conv);
