@@ -400,9 +400,8 @@ fn fin(a: &Analysis) -> String {
     );
     let _ = writeln!(
         s,
-        "- bending stiffness EI {} N m^2 between clamp and coil, {} N m^2 through the coil's centre (transformed section of the laminate)",
-        sig(f.bending_stiffness_n_m2, 3),
-        sig(f.bending_stiffness_coil_n_m2, 3)
+        "- bending stiffness EI {:.3e} N m^2 between clamp and coil, {:.3e} N m^2 through the coil's centre (transformed section of the laminate)",
+        f.bending_stiffness_n_m2, f.bending_stiffness_coil_n_m2
     );
     let _ = writeln!(
         s,
