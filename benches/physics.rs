@@ -1,6 +1,7 @@
 //! Benchmarks of the analysis: the Biot-Savart sum (10,000 segments x
-//! 10,000 points) and the full analysis of an 8-layer, 100-turn coil
-//! (target under 1 s).
+//! 10,000 points), the full analysis of an 8-layer, 100-turn coil
+//! (target under 1 s) and the full report of the fin starter with its
+//! square-wave drive and `[fin]` (target under 50 ms).
 
 use coilwright::design::Design;
 use coilwright::physics::field::Segments;
@@ -59,5 +60,26 @@ fn report_8_layer_100_turns(c: &mut Criterion) {
     g.finish();
 }
 
-criterion_group!(benches, biot_savart, report_8_layer_100_turns);
+fn report_fin_starter(c: &mut Criterion) {
+    let text = include_str!("../examples/fin-actuator.toml");
+    let mut g = c.benchmark_group("report");
+    g.sample_size(20).measurement_time(Duration::from_secs(10));
+    g.bench_function("fin_starter_square_wave_and_fin", |b| {
+        b.iter(|| {
+            let d = coilwright::pipeline::parse(black_box(text)).expect("design");
+            let layout = coilwright::geometry::build(&d).expect("layout");
+            let a = coilwright::physics::analyse(&d, &layout).expect("analysis");
+            assert!(a.fin.is_some());
+            black_box(coilwright::export::report::files(&d, &layout, &a).expect("report"))
+        })
+    });
+    g.finish();
+}
+
+criterion_group!(
+    benches,
+    biot_savart,
+    report_8_layer_100_turns,
+    report_fin_starter
+);
 criterion_main!(benches);

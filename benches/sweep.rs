@@ -101,6 +101,38 @@ fn bench(c: &mut Criterion) {
             criterion::BatchSize::PerIteration,
         )
     });
+    // The fin starter (square-wave drive, heating over time, the fin):
+    // new candidates each time, as in README's sweep of that design.
+    let fin = include_str!("../examples/fin-actuator.toml");
+    let known_fin: Vec<String> = match evaluate(fin) {
+        Evaluation::Metrics(m) => m.into_keys().collect(),
+        _ => panic!("fin starter must evaluate"),
+    };
+    let fin_batch = |first: f64| {
+        let vary = format!("turns={first}..{}:0.05", first + 3.0);
+        Sweep::new(
+            fin,
+            vec![explore::parse_vary(&vary).expect("vary")],
+            vec![],
+            Objective {
+                metric: "fin_amplitude_mm".into(),
+                maximize: true,
+            },
+            None,
+            &known_fin,
+        )
+        .expect("sweep")
+    };
+    g.bench_function("61 new fin-starter candidates each time, all cores", |b| {
+        b.iter_batched(
+            || {
+                shift.set(shift.get() + 1);
+                fin_batch(14.0 + f64::from(shift.get()) * 1e-4)
+            },
+            |s| s.run(evaluate, || {}),
+            criterion::BatchSize::PerIteration,
+        )
+    });
     g.finish();
 }
 

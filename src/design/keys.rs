@@ -35,6 +35,8 @@ pub enum Kind {
     Choice(&'static [&'static str]),
     /// Free text.
     Text,
+    /// `true` or `false`.
+    Switch,
 }
 
 /// One key of a design file.
@@ -101,7 +103,7 @@ const fn key(table: &'static str, name: &'static str, kind: Kind, doc: &'static 
     }
 }
 
-use Kind::{Choice, Integer, Length, Number, Text};
+use Kind::{Choice, Integer, Length, Number, Switch, Text};
 
 /// Every design-file key but the rule limits, table by table in file order.
 pub const KEYS: &[Key] = &[
@@ -287,7 +289,7 @@ pub const KEYS: &[Key] = &[
         "drive",
         "frequency",
         Kind::Quantity { unit: "Hz" },
-        "frequency for impedance and Q",
+        "frequency of the waveform, and for impedance and Q",
     ),
     key(
         "drive",
@@ -296,6 +298,68 @@ pub const KEYS: &[Key] = &[
         "heat transfer coefficient, W/(m^2 K)",
     ),
     key("drive", "emissivity", Number, "surface emissivity, 0 to 1"),
+    key(
+        "drive",
+        "waveform",
+        Choice(&["dc", "square", "sine", "pulse"]),
+        "shape of the drive over time; the amplitude is voltage or current",
+    ),
+    key(
+        "drive",
+        "duty",
+        Number,
+        "square/pulse: fraction of the period on, above 0 up to 1",
+    ),
+    key(
+        "drive",
+        "bipolar",
+        Switch,
+        "square: polarity reverses each half period (H-bridge) instead of off",
+    ),
+    key(
+        "drive",
+        "surroundings",
+        Choice(&["still-air", "moving-air", "water"]),
+        "what the board gives its heat to",
+    ),
+    key(
+        "drive",
+        "air_speed",
+        Kind::Quantity { unit: "m/s" },
+        "moving-air only: speed of the air along the board",
+    ),
+    // [fin]
+    key(
+        "fin",
+        "free_length",
+        Length,
+        "flexible fin: clamp to free end",
+    ),
+    key("fin", "width", Length, "width of the fin"),
+    key(
+        "fin",
+        "load_at",
+        Length,
+        "clamp to the coil's centre (default: the free end)",
+    ),
+    key(
+        "fin",
+        "moving",
+        Choice(&["coil", "magnet"]),
+        "which part rides on the fin",
+    ),
+    key(
+        "fin",
+        "added_mass",
+        Kind::Quantity { unit: "g" },
+        "extra mass at the load point",
+    ),
+    key(
+        "fin",
+        "damping_ratio",
+        Number,
+        "damping of the first mode (default 0.03)",
+    ),
 ];
 
 /// Every design-file key: [`KEYS`] with `limits` as `[rules]` keys after
@@ -344,7 +408,7 @@ mod tests {
         assert_eq!(
             t,
             [
-                "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive"
+                "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive", "fin"
             ]
         );
     }

@@ -44,6 +44,6 @@ pub use error::{DesignError, DesignErrors, line_col};
 pub use keys::{Key, LimitKey};
 pub use model::*;
 pub use read::read;
-pub use read::{DEFAULT_CURRENT_A, MAX_SIZE_MM, MAX_TURNS};
+pub use read::{DEFAULT_CURRENT_A, DEFAULT_DAMPING_RATIO, MAX_SIZE_MM, MAX_TURNS};
 pub use spans::KeySpans;
 pub use templates::{Template, templates};

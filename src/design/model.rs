@@ -31,6 +31,8 @@ pub struct Design {
     pub magnet: Option<Magnet>,
     /// Electrical drive and thermal environment.
     pub drive: Drive,
+    /// Optional flexible fin carrying the coil or the magnet.
+    pub fin: Option<Fin>,
 }
 
 /// Outline of the spiral.
@@ -297,6 +299,73 @@ pub struct Drive {
     pub convection: Option<f64>,
     /// Surface emissivity for radiation (0..1).
     pub emissivity: f64,
+    /// Shape of the drive over time.
+    pub waveform: Waveform,
+    /// Fraction of the period the drive is on (square and pulse), 0 < duty <= 1.
+    pub duty: f64,
+    /// Square wave: the polarity reverses each half period (an H-bridge)
+    /// instead of switching off.
+    pub bipolar: bool,
+    /// What the board gives its heat to.
+    pub surroundings: Surroundings,
+}
+
+/// The drive's shape over time; the amplitude is the source's voltage or
+/// current, the period `1 / drive.frequency`.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Waveform {
+    /// Constant.
+    Dc,
+    /// On for `duty` of the period, then off (or reversed, `bipolar`).
+    Square,
+    /// Sinusoid of the given amplitude (peak).
+    Sine,
+    /// On for `duty` of the period, then off: a pulse train.
+    Pulse,
+}
+
+/// What the board gives its heat to.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum Surroundings {
+    /// Still air: natural convection and radiation.
+    StillAir,
+    /// Air moving along the board at `air_speed_m_s`.
+    MovingAir {
+        /// Air speed, m/s.
+        air_speed_m_s: f64,
+    },
+    /// Still water: natural convection in water, no radiation.
+    Water,
+}
+
+/// Which part rides on the flexible fin.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Moving {
+    /// The coil moves; the magnet is fixed.
+    Coil,
+    /// The magnet moves (glued to the fin); the coil is fixed.
+    Magnet,
+}
+
+/// The flexible fin: a strip of the board clamped at one end, carrying
+/// the coil (or the magnet) at `load_at`. Lengths in mm.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Fin {
+    /// Clamp to free end, mm.
+    pub free_length: f64,
+    /// Width of the strip, mm.
+    pub width: f64,
+    /// Clamp to the coil's centre, mm (at most `free_length`).
+    pub load_at: f64,
+    /// Which part rides on the fin.
+    pub moving: Moving,
+    /// Extra mass at the load point, g.
+    pub added_mass: f64,
+    /// Damping ratio of the first mode.
+    pub damping_ratio: f64,
 }
 
 impl Design {
@@ -353,7 +422,12 @@ impl Design {
                 frequency: None,
                 convection: None,
                 emissivity: 0.9,
+                waveform: Waveform::Dc,
+                duty: 1.0,
+                bipolar: false,
+                surroundings: Surroundings::StillAir,
             },
+            fin: None,
         }
     }
 }
@@ -429,6 +503,8 @@ pub struct DesignRequest {
     pub magnet: Option<Magnet>,
     /// Electrical drive and thermal environment.
     pub drive: Drive,
+    /// Optional flexible fin.
+    pub fin: Option<Fin>,
     /// Where each key is in the text.
     pub spans: KeySpans,
 }
@@ -446,6 +522,7 @@ impl DesignRequest {
             rules: self.rules,
             magnet: self.magnet,
             drive: self.drive,
+            fin: self.fin,
         }
     }
 }

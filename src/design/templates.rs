@@ -45,6 +45,16 @@ const TEMPLATES: &[Template] = &[
         description: "rigid 2-layer rounded-rectangle voice coil that buzzes a 6 mm magnet in a badge",
         text: include_str!("../../examples/wearable-buzzer.toml"),
     },
+    Template {
+        name: "chime-speaker",
+        description: "flexible 4-layer circular coil used as a small speaker: a 1 kHz on/off square wave moves a membrane under a 6 mm magnet",
+        text: include_str!("../../examples/chime-speaker.toml"),
+    },
+    Template {
+        name: "bath-paddle",
+        description: "rigid 2-layer circular coil in water that kicks a bath-toy paddle with 0.4 s pulses of 1.2 A",
+        text: include_str!("../../examples/bath-paddle.toml"),
+    },
 ];
 
 /// The starter designs, in `--list` order.

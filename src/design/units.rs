@@ -439,6 +439,66 @@ impl Quantity for Frequency {
 }
 impl_traits!(Frequency);
 
+/// A mass, stored in grams.
+#[derive(Debug, Clone, Copy, PartialEq, PartialOrd)]
+pub struct Mass(f64);
+
+impl Mass {
+    /// The mass in grams.
+    pub fn grams(self) -> f64 {
+        self.0
+    }
+}
+
+impl Quantity for Mass {
+    fn value(self) -> f64 {
+        self.0
+    }
+    const WHAT: &'static str = "mass";
+    const ALLOWED: &'static str = "grams as a bare number or with g or mg, e.g. \"0.1g\", \"50mg\"";
+    fn from_number(value: f64) -> Result<Self, UnitError> {
+        Ok(Mass(non_negative(value, Self::WHAT, Self::ALLOWED)?))
+    }
+    fn from_text(text: &str) -> Result<Self, UnitError> {
+        prefixed(
+            text,
+            "g",
+            &[("", 1.0), ("m", 1e-3), ("k", 1e3)],
+            Self::WHAT,
+            Self::ALLOWED,
+        )
+        .map(Mass)
+    }
+}
+impl_traits!(Mass);
+
+/// A speed, stored in metres per second.
+#[derive(Debug, Clone, Copy, PartialEq, PartialOrd)]
+pub struct Speed(f64);
+
+impl Speed {
+    /// The speed in metres per second.
+    pub fn metres_per_second(self) -> f64 {
+        self.0
+    }
+}
+
+impl Quantity for Speed {
+    fn value(self) -> f64 {
+        self.0
+    }
+    const WHAT: &'static str = "speed";
+    const ALLOWED: &'static str =
+        "metres per second as a bare number or with m/s, e.g. 2, \"1.5m/s\"";
+    fn from_number(value: f64) -> Result<Self, UnitError> {
+        Ok(Speed(non_negative(value, Self::WHAT, Self::ALLOWED)?))
+    }
+    fn from_text(text: &str) -> Result<Self, UnitError> {
+        prefixed(text, "m/s", &[("", 1.0)], Self::WHAT, Self::ALLOWED).map(Speed)
+    }
+}
+impl_traits!(Speed);
+
 impl fmt::Display for Length {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         write!(f, "{} mm", self.0)
@@ -451,6 +511,16 @@ mod tests {
 
     fn near(a: f64, b: f64) {
         assert!((a - b).abs() < 1e-12, "{a} != {b}");
+    }
+
+    #[test]
+    fn masses_and_speeds() {
+        near("0.1g".parse::<Mass>().unwrap().grams(), 0.1);
+        near("50mg".parse::<Mass>().unwrap().grams(), 0.05);
+        near(Mass::from_number(2.0).unwrap().grams(), 2.0);
+        near("1.5m/s".parse::<Speed>().unwrap().metres_per_second(), 1.5);
+        assert!("3kn".parse::<Speed>().is_err());
+        assert!("-1g".parse::<Mass>().is_err());
     }
 
     #[test]

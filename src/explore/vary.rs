@@ -28,7 +28,9 @@ pub fn kind_of(key: &Key) -> Option<Kind> {
         design::keys::Kind::Length | design::keys::Kind::Quantity { .. } => Some(Kind::Quantity),
         design::keys::Kind::Number => Some(Kind::Number),
         design::keys::Kind::Integer => Some(Kind::Integer),
-        design::keys::Kind::Choice(_) | design::keys::Kind::Text => None,
+        design::keys::Kind::Choice(_) | design::keys::Kind::Text | design::keys::Kind::Switch => {
+            None
+        }
     }
 }
 
@@ -312,7 +314,10 @@ mod tests {
         assert_eq!(kind("stackup.copper"), Some(Kind::Quantity));
         assert_eq!(kind("rules.min_edge_clearance"), Some(Kind::Quantity));
         assert_eq!(kind("coil.shape"), None);
-        assert_eq!(keys.len(), 38);
+        assert_eq!(kind("fin.free_length"), Some(Kind::Quantity));
+        assert_eq!(kind("drive.duty"), Some(Kind::Number));
+        assert_eq!(kind("drive.bipolar"), None);
+        assert_eq!(keys.len(), 45);
         assert_eq!(
             parse("min_drill=0.15mm,0.2mm").unwrap().key,
             "rules.min_drill"

@@ -105,6 +105,7 @@ pub fn plots(design: &Design, board: &Board, a: &Analysis) -> Vec<(String, &'sta
             ),
         ),
     ];
+    motion_plots(design, a, &mut v);
     if let (Some(m), Some(mg)) = (&a.magnet, &design.magnet) {
         let pts: Vec<(f64, f64)> = m
             .force_vs_gap
@@ -134,6 +135,340 @@ pub fn plots(design: &Design, board: &Board, a: &Analysis) -> Vec<(String, &'sta
         ));
     }
     v
+}
+
+/// The plots of the drive over time, the heating from switch-on and the
+/// fin's response.
+fn motion_plots(design: &Design, a: &Analysis, v: &mut Vec<(String, &'static str, String)>) {
+    let d = &a.drive;
+    if !d.current_curve.is_empty() {
+        let pts: Vec<(f64, f64)> = d
+            .current_curve
+            .iter()
+            .map(|p| (p.t_s * 1e3, p.value * 1e3))
+            .collect();
+        let period_ms = d.frequency_hz.map_or(1.0, |f| 1e3 / f);
+        v.push((
+            "current.svg".to_string(),
+            "plot: current over two periods",
+            line_plot(
+                &format!(
+                    "Coil current, {}{} (periodic state, two periods)",
+                    waveform_words(d),
+                    d.frequency_hz
+                        .map_or(String::new(), |f| format!(" at {}", si_given(f, "Hz")))
+                ),
+                "time (ms)",
+                "current (mA)",
+                &[("current", pts)],
+                &[Marker::new(
+                    period_ms,
+                    format!(
+                        "one period; RMS {}, peak {}",
+                        si(d.current_rms_a, "A"),
+                        si(d.current_peak_a, "A")
+                    ),
+                )],
+            ),
+        ));
+    }
+    let h = &a.heating;
+    if !h.curve.is_empty() {
+        let ta = a.inputs.ambient_c;
+        let hot: Vec<(f64, f64)> = h.curve.iter().map(|p| (p.t_s, p.hottest_c - ta)).collect();
+        let avg: Vec<(f64, f64)> = h.curve.iter().map(|p| (p.t_s, p.board_c - ta)).collect();
+        let mut marks = Vec::new();
+        if let Some(r) = h.rise_time_s {
+            marks.push(Marker::new(r, format!("63 % of the rise: {} s", sig(r, 3))));
+        }
+        if let Some(t) = h.time_to_max_temperature_s {
+            marks.push(
+                Marker::new(
+                    t,
+                    format!(
+                        "max_temperature {} C after {} s",
+                        a.inputs.max_temperature_c,
+                        sig(t, 3)
+                    ),
+                )
+                .with_point(a.inputs.max_temperature_c - ta),
+            );
+        }
+        v.push((
+            "heating.svg".to_string(),
+            "plot: temperature from switch-on",
+            line_plot(
+                &format!("Temperature rise from switch-on, above {ta} C ambient"),
+                "time (s)",
+                "rise above ambient (K)",
+                &[("hottest copper", hot), ("board average", avg)],
+                &marks,
+            ),
+        ));
+    }
+    if let (Some(f), Some(fd)) = (&a.fin, &design.fin) {
+        let pts: Vec<(f64, f64)> = f
+            .response
+            .iter()
+            .map(|p| (p.frequency_hz, p.amplitude_mm))
+            .collect();
+        let mut marks = vec![Marker::new(
+            f.resonance_hz,
+            format!("first resonance {} Hz", sig(f.resonance_hz, 3)),
+        )];
+        if let Some(fr) = d.frequency_hz {
+            marks.push(
+                Marker::new(
+                    fr,
+                    format!(
+                        "drive {}: {} mm",
+                        si_given(fr, "Hz"),
+                        sig(f.amplitude_mm, 3)
+                    ),
+                )
+                .with_point(f.amplitude_mm),
+            );
+        }
+        v.push((
+            "fin_response.svg".to_string(),
+            "plot: fin swing against frequency",
+            line_plot(
+                &format!(
+                    "Fin swing at {} from the clamp against frequency (drive's fundamental force)",
+                    mm(fd.load_at)
+                ),
+                "frequency (Hz)",
+                "amplitude (mm)",
+                &[("amplitude", pts)],
+                &marks,
+            ),
+        ));
+    }
+}
+
+/// The waveform in words: "bipolar square, duty 0.5".
+fn waveform_words(d: &crate::physics::DriveReport) -> String {
+    use crate::design::Waveform;
+    match d.waveform {
+        Waveform::Dc => "dc".into(),
+        Waveform::Sine => "sine".into(),
+        Waveform::Square if d.bipolar => format!("bipolar square, duty {}", d.duty),
+        Waveform::Square => format!("on/off square, duty {}", d.duty),
+        Waveform::Pulse => format!("pulses, duty {}", d.duty),
+    }
+}
+
+/// The drive over time: RMS, peak, power, harmonics.
+fn waveform(a: &Analysis) -> String {
+    let d = &a.drive;
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        "## Drive over time
+"
+    );
+    let _ = writeln!(
+        s,
+        "- waveform: {}{}",
+        waveform_words(d),
+        d.frequency_hz
+            .map_or(String::new(), |f| format!(" at {}", si_given(f, "Hz")))
+    );
+    let _ = writeln!(
+        s,
+        "- current: RMS {}, peak {}, mean {}; average power {}",
+        si(d.current_rms_a, "A"),
+        si(d.current_peak_a, "A"),
+        si(d.current_mean_a, "A"),
+        si(d.power_avg_w, "W")
+    );
+    let _ = writeln!(
+        s,
+        "- the coil as a series R-L load at its operating resistance: L/R = {} (voltage drives rise and fall with it; a current source imposes its waveform)",
+        si(d.l_over_r_s, "s")
+    );
+    if let Some(f) = d.force_mean_n {
+        let _ = writeln!(s, "- mean force on the magnet {}", millinewton(f, ""));
+    }
+    if !d.harmonics.is_empty() {
+        let _ = writeln!(
+            s,
+            "
+| harmonic | frequency | current amplitude | force amplitude |
+|---|---|---|---|"
+        );
+        for h in &d.harmonics {
+            let _ = writeln!(
+                s,
+                "| {} | {} | {} | {} |",
+                h.n,
+                si_given(h.frequency_hz, "Hz"),
+                si(h.current_a, "A"),
+                h.force_n.map_or("-".to_string(), |f| millinewton(f, ""))
+            );
+        }
+    }
+    if !d.current_curve.is_empty() {
+        let _ = writeln!(
+            s,
+            "
+![current over two periods](plots/current.svg)
+
+The current over two periods in the periodic state (after the switch-on transient of a few L/R has died away)."
+        );
+    }
+    let _ = writeln!(s);
+    s
+}
+
+/// Heating over time from switch-on.
+fn heating_over_time(a: &Analysis) -> String {
+    let (h, t) = (&a.heating, &a.thermal);
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        "## Heating over time and the hottest copper
+"
+    );
+    let _ = writeln!(
+        s,
+        "- hottest copper rises {:.2} x as much as the board average, the winding's mean {:.2} x (the winding's losses spread radially through the layers on a disc of the board's area; leads outside the winding left out)",
+        t.spread.peak, t.spread.winding
+    );
+    match h.rise_time_s {
+        Some(r) => {
+            let _ = writeln!(
+                s,
+                "- rise time (63 % of the final rise, read from the curve): {} s; the lumped C/G is {} s",
+                sig(r, 3),
+                sig(t.time_constant_s, 3)
+            );
+        }
+        None => {
+            let _ = writeln!(s, "- no steady state: the copper keeps heating");
+        }
+    }
+    match h.time_to_max_temperature_s {
+        Some(x) => {
+            let _ = writeln!(
+                s,
+                "- the hottest copper reaches max_temperature ({} C) {} s after switch-on",
+                a.inputs.max_temperature_c,
+                sig(x, 3)
+            );
+        }
+        None => {
+            let _ = writeln!(
+                s,
+                "- the hottest copper never reaches max_temperature ({} C)",
+                a.inputs.max_temperature_c
+            );
+        }
+    }
+    if h.ripple_k >= 0.01 {
+        let _ = writeln!(
+            s,
+            "- within each period the hottest copper swings {} K above its mean (the board answering the power's swing as a first-order system); peak {}",
+            sig(h.ripple_k, 3),
+            h.temperature_peak_c
+                .map_or("-".to_string(), |p| format!("{p:.1} C"))
+        );
+    }
+    if !h.curve.is_empty() {
+        let _ = writeln!(
+            s,
+            "
+![temperature from switch-on](plots/heating.svg)
+
+The board's energy balance integrated from ambient (RK4): under the drive's average power, or, when a period is longer than 1/100 of the rise, under the power within each period; the hottest copper follows the board average through the lateral spread (its profile settles far faster than the board heats). The rise time is that of the average power's curve."
+        );
+    }
+    let _ = writeln!(s);
+    s
+}
+
+/// The fin's stiffness, resonance and swing.
+fn fin(a: &Analysis) -> String {
+    let Some(f) = &a.fin else {
+        return String::new();
+    };
+    let mut s = String::new();
+    let _ = writeln!(
+        s,
+        "## The fin
+"
+    );
+    let _ = writeln!(
+        s,
+        "- bending stiffness EI {:.3e} N m^2 between clamp and coil, {:.3e} N m^2 through the coil's centre (transformed section of the laminate)",
+        f.bending_stiffness_n_m2, f.bending_stiffness_coil_n_m2
+    );
+    let _ = writeln!(
+        s,
+        "- stiffness at the load point {} N/m; fin mass {} g, mass at the load point {} g ({} rides on the fin)",
+        sig(f.stiffness_n_per_m, 4),
+        sig(f.fin_mass_kg * 1e3, 3),
+        sig(f.tip_mass_kg * 1e3, 3),
+        match f.moving {
+            crate::design::Moving::Coil => "the coil",
+            crate::design::Moving::Magnet => "the magnet",
+        }
+    );
+    let _ = writeln!(
+        s,
+        "- first resonance {} Hz (Euler-Bernoulli beam, finite elements)",
+        sig(f.resonance_hz, 4)
+    );
+    match f.deflection_mm {
+        Some(d) => {
+            let _ = writeln!(
+                s,
+                "- static deflection under the mean force {} mm (positive: the gap opens), with the force following the gap",
+                sig(d, 3)
+            );
+        }
+        None => {
+            let _ = writeln!(
+                s,
+                "- **no stable position**: the mean force attracts and grows faster than the fin's stiffness as the gap closes; the fin is pulled in"
+            );
+        }
+    }
+    let _ = writeln!(
+        s,
+        "- swing at the drive frequency {} mm (one mode, damping ratio {}); all harmonics together at most {} mm",
+        sig(f.amplitude_mm, 3),
+        f.damping_ratio,
+        sig(f.swing_peak_mm, 3)
+    );
+    if f.harmonics.len() > 1 {
+        let _ = writeln!(
+            s,
+            "
+| harmonic | frequency | force amplitude | swing amplitude |
+|---|---|---|---|"
+        );
+        for h in &f.harmonics {
+            let _ = writeln!(
+                s,
+                "| {} | {} | {} | {} mm |",
+                h.n,
+                si_given(h.frequency_hz, "Hz"),
+                millinewton(h.force_n, ""),
+                sig(h.amplitude_mm, 3)
+            );
+        }
+    }
+    let _ = writeln!(s, "- {}", f.materials_source);
+    let _ = writeln!(
+        s,
+        "
+![fin swing against frequency](plots/fin_response.svg)
+
+The swing at the load point against frequency under the drive's fundamental force, one mode with the stated damping: a linear estimate, valid while the swing is small against the gap.
+"
+    );
+    s
 }
 
 fn to_xy(p: &[ProfilePoint], scale: f64) -> Vec<(f64, f64)> {
@@ -213,7 +548,10 @@ pub fn markdown(design: &Design, board: &Board, a: &Analysis) -> String {
             (Some(m), Some(mg)) => force(m, mg),
             _ => String::new(),
         },
+        waveform(a),
         heating(&a.thermal, a.inputs.max_temperature_c),
+        heating_over_time(a),
+        fin(a),
         bending(&a.mechanics),
         notes(&a.notes),
         general_cautions(),
@@ -293,7 +631,12 @@ fn at_the_drive(a: &Analysis) -> String {
         ("current", si(t.current_a, "A")),
         ("voltage", si(t.voltage_v, "V")),
         ("power", si(t.power_w, "W")),
-        ("steady temperature", temp),
+        ("steady temperature, hottest copper", temp),
+        (
+            "steady temperature, board average",
+            t.temperature_board_c
+                .map_or("no steady state".to_string(), |t| format!("{t:.1} C")),
+        ),
         (
             "resistance at 20 C",
             format!("{} ohm", sig(r.total_ohm_20c, 4)),
@@ -589,7 +932,7 @@ fn general_cautions() -> String {
         "- These are estimates from models; measure a prototype before relying on them.\n",
         "- Copper thickness, trace width and dielectric vary from fab to fab (copper +-10 % is common): check your fab's stack-up.\n",
         "- Above about 80 C a coil burns skin on touch, and adhesives and dielectrics age; keep well below the dielectric's rating.\n",
-        "- Heating assumes still air around a board lying flat; an enclosure, a heat sink or nearby parts change it a lot.\n",
+        "- Heating assumes the board lies flat in its surroundings (still air, moving air or still water as the design says); an enclosure, a heat sink or nearby parts change it a lot.\n",
     ]
     .concat()
 }

@@ -3,7 +3,10 @@
 //! `report --json`), whose keys are a fixed contract.
 
 use super::caution::Caution;
+use super::drive::DriveReport;
 use super::field::FieldReport;
+use super::fin::FinReport;
+use super::heating::HeatingReport;
 use super::impedance::Impedance;
 use super::inductance::InductanceReport;
 use super::magnet::MagnetReport;
@@ -32,6 +35,12 @@ pub struct Analysis {
     pub magnet: Option<MagnetReport>,
     /// Thickness and bending.
     pub mechanics: Mechanics,
+    /// The drive over time: current, power, harmonics.
+    pub drive: DriveReport,
+    /// Heating over time from switch-on.
+    pub heating: HeatingReport,
+    /// The flexible fin's motion, if the design has a `[fin]`.
+    pub fin: Option<FinReport>,
     /// Limits of the design exceeded, and results to distrust, in the
     /// order found (limits first).
     pub cautions: Vec<Caution>,
@@ -54,8 +63,18 @@ pub struct Inputs {
     pub convection_w_per_m2k: Option<f64>,
     /// Emissivity.
     pub emissivity: f64,
-    /// Frequency for impedance, Hz.
+    /// Frequency of the waveform and for impedance, Hz.
     pub frequency_hz: Option<f64>,
+    /// Waveform.
+    pub waveform: crate::design::Waveform,
+    /// Fraction of the period on.
+    pub duty: f64,
+    /// Square: reverses instead of off.
+    pub bipolar: bool,
+    /// What the board gives its heat to.
+    pub surroundings: crate::design::Surroundings,
+    /// The fin.
+    pub fin: Option<crate::design::Fin>,
     /// Copper thickness per layer, um.
     pub copper_um: Vec<f64>,
     /// Dielectric thickness per gap, um.
@@ -83,6 +102,11 @@ impl Inputs {
             convection_w_per_m2k: drive.convection,
             emissivity: drive.emissivity,
             frequency_hz: drive.frequency,
+            waveform: drive.waveform,
+            duty: drive.duty,
+            bipolar: drive.bipolar,
+            surroundings: drive.surroundings,
+            fin: design.fin,
             copper_um: design.stackup.copper.iter().map(|c| c * 1e3).collect(),
             dielectric_um: design.stackup.dielectric.iter().map(|c| c * 1e3).collect(),
             plating_um: design.stackup.plating * 1e3,
@@ -103,7 +127,9 @@ impl Serialize for Analysis {
     fn serialize<S: Serializer>(&self, serializer: S) -> Result<S::Ok, S::Error> {
         let (r, t, m) = (&self.resistance, &self.thermal, &self.mechanics);
         let magnet = self.magnet.as_ref();
-        let mut s = serializer.serialize_struct("Analysis", 28)?;
+        let fin = self.fin.as_ref();
+        let (d, h) = (&self.drive, &self.heating);
+        let mut s = serializer.serialize_struct("Analysis", 45)?;
         s.serialize_field("trace_length_mm", &r.trace_length_mm)?;
         s.serialize_field("resistance_ohm_20c", &r.total_ohm_20c)?;
         s.serialize_field("resistance_ohm_hot", &t.resistance_ohm_hot)?;
@@ -129,6 +155,25 @@ impl Serialize for Analysis {
         s.serialize_field("magnet", &self.magnet)?;
         s.serialize_field("thermal", &self.thermal)?;
         s.serialize_field("mechanics", &self.mechanics)?;
+        s.serialize_field("current_rms_a", &d.current_rms_a)?;
+        s.serialize_field("current_peak_a", &d.current_peak_a)?;
+        s.serialize_field("power_avg_w", &d.power_avg_w)?;
+        s.serialize_field("temperature_peak_c", &h.temperature_peak_c)?;
+        s.serialize_field("temperature_board_c", &t.temperature_board_c)?;
+        s.serialize_field("time_to_max_temperature_s", &h.time_to_max_temperature_s)?;
+        s.serialize_field("rise_time_s", &h.rise_time_s)?;
+        s.serialize_field(
+            "fin_bending_stiffness_n_m2",
+            &fin.map(|f| f.bending_stiffness_n_m2),
+        )?;
+        s.serialize_field("fin_stiffness_n_per_m", &fin.map(|f| f.stiffness_n_per_m))?;
+        s.serialize_field("fin_resonance_hz", &fin.map(|f| f.resonance_hz))?;
+        s.serialize_field("fin_deflection_mm", &fin.and_then(|f| f.deflection_mm))?;
+        s.serialize_field("fin_amplitude_mm", &fin.map(|f| f.amplitude_mm))?;
+        s.serialize_field("fin_stable", &fin.map(|f| f.stable))?;
+        s.serialize_field("drive", &self.drive)?;
+        s.serialize_field("heating", &self.heating)?;
+        s.serialize_field("fin", &self.fin)?;
         s.serialize_field("warnings", &Texts(&self.cautions))?;
         s.serialize_field("notes", &self.notes)?;
         s.serialize_field("inputs", &self.inputs)?;

@@ -73,6 +73,21 @@ pub enum Caution {
         /// Copper layers in the bending zone.
         layers: usize,
     },
+    /// The fin has no stable position: the mean force attracts and grows
+    /// faster than the fin's stiffness as the gap closes (pull-in).
+    FinPulledIn {
+        /// Gap at rest, mm.
+        gap_mm: f64,
+    },
+    /// The fin's swing (static deflection plus every harmonic's amplitude)
+    /// reaches the gap: the coil would strike the magnet, and the linear
+    /// estimate of the swing no longer holds.
+    SwingReachesGap {
+        /// Largest swing, mm.
+        swing_mm: f64,
+        /// Gap at rest, mm.
+        gap_mm: f64,
+    },
 }
 
 impl Caution {
@@ -90,6 +105,8 @@ impl Caution {
             Caution::ForceRough { .. } => "force-rough",
             Caution::BendTooTight { .. } => "bend-too-tight",
             Caution::DynamicBendManyLayers { .. } => "dynamic-bend-layers",
+            Caution::FinPulledIn { .. } => "fin-pulled-in",
+            Caution::SwingReachesGap { .. } => "swing-reaches-gap",
         }
     }
 
@@ -102,7 +119,9 @@ impl Caution {
             Caution::HotToTouch { .. }
             | Caution::ForceRough { .. }
             | Caution::BendTooTight { .. }
-            | Caution::DynamicBendManyLayers { .. } => CautionKind::Advice,
+            | Caution::DynamicBendManyLayers { .. }
+            | Caution::FinPulledIn { .. }
+            | Caution::SwingReachesGap { .. } => CautionKind::Advice,
         }
     }
 }
@@ -156,6 +175,14 @@ impl fmt::Display for Caution {
             Caution::DynamicBendManyLayers { layers } => write!(
                 f,
                 "{layers} copper layers bend repeatedly (bend = \"dynamic\"): most fabs advise one or two copper layers in a dynamic bending zone (common practice, no source)"
+            ),
+            Caution::FinPulledIn { gap_mm } => write!(
+                f,
+                "the fin has no stable position: the magnet's mean pull grows faster than the fin's stiffness and closes the {gap_mm} mm gap (pull-in); stiffen the fin, widen the gap or reverse the drive's mean"
+            ),
+            Caution::SwingReachesGap { swing_mm, gap_mm } => write!(
+                f,
+                "the fin swings up to {swing_mm:.2} mm, as much as the {gap_mm} mm gap: the coil would strike the magnet, and the linear swing estimate no longer holds"
             ),
         }
     }

@@ -5,9 +5,13 @@
 //!
 //! [`analyse_with`] reads as the pipeline: each phase is one call into
 //! the module of its quantity, which owns the code and the report struct:
-//! [`resistance`], [`thermal`] (operating point, drive limits, pulse),
-//! [`inductance`] (with the published estimates), [`impedance`], [`field`]
-//! (Biot-Savart), [`magnet`] (force), [`mechanics`] (thickness, bending).
+//! [`resistance`], [`inductance`] (with the published estimates),
+//! [`thermal`] (operating point under the drive's average power, hottest
+//! copper by the lateral [`spread`], drive limits, pulse), [`impedance`],
+//! [`field`] (Biot-Savart), [`magnet`] (force), [`mechanics`] (thickness,
+//! bending), [`drive`] (the waveform's current over a period, harmonics),
+//! [`heating`] (temperature from switch-on, ripple) and [`fin`] (the
+//! flexible fin's stiffness, resonance and swing).
 //! [`Analysis`] is made of their reports; the phases add [`Caution`]s and
 //! notes to one [`Findings`]. Beside them: [`conductor`] (the layout as
 //! current paths in SI units), [`gmd`] (geometric mean distances),
@@ -34,8 +38,11 @@ mod analysis;
 pub mod caution;
 pub mod closed_forms;
 pub mod conductor;
+pub mod drive;
 pub mod field;
+pub mod fin;
 pub mod gmd;
+pub mod heating;
 pub mod impedance;
 pub mod inductance;
 pub mod magnet;
@@ -43,11 +50,15 @@ pub mod mechanics;
 pub mod resistance;
 #[allow(unsafe_code)]
 mod simd;
+pub mod spread;
 pub mod thermal;
 
 pub use analysis::{Analysis, Inputs};
 pub use caution::{Caution, CautionKind, Findings};
+pub use drive::DriveReport;
 pub use field::{FIELD_SAGITTA, FIELD_SAGITTA_METRICS, FieldReport, ProfilePoint};
+pub use fin::FinReport;
+pub use heating::HeatingReport;
 pub use impedance::Impedance;
 pub use inductance::{InductanceReport, PublishedEstimate};
 pub use magnet::{GapPoint, MagnetReport};
@@ -129,8 +140,9 @@ pub fn analyse_with(
     let cond = Conductor::new(design, layout);
     let mut found = Findings::default();
     let resistance = resistance::resistance(design, layout, &cond);
-    let thermal = thermal::analyse(design, layout, &cond, resistance.total_ohm_20c, &mut found);
     let inductance = inductance::analyse(design, layout, &cond, detail);
+    let circuit = (resistance.total_ohm_20c, inductance.inductance_h);
+    let thermal = thermal::analyse(design, layout, &cond, circuit, &mut found);
     let field = field::analyse(design, layout, &cond, detail, thermal.current_a);
     let magnet = design.magnet.map(|mg| {
         let drive = (thermal.current_a, thermal.power_w);
@@ -139,6 +151,18 @@ pub fn analyse_with(
     let impedance =
         impedance::analyse(design, &cond, inductance.inductance_h, &thermal, &mut found);
     let mechanics = mechanics::analyse(design, &mut found);
+    let full = detail == Detail::Full;
+    let drive = drive::analyse(
+        &design.drive,
+        thermal.resistance_ohm_hot,
+        inductance.inductance_h,
+        magnet.as_ref().map(|m| m.force_per_a_n),
+        full,
+    );
+    let heating = heating::analyse(design, &thermal, full, &mut found);
+    let fin = magnet
+        .as_ref()
+        .and_then(|mr| fin::analyse(design, layout, &cond, mr, &drive, full, &mut found));
     found.note(inductance.method_note());
     found.note(resistance::VIAS_NOTE);
     found.note(thermal::LUMPED_NOTE);
@@ -150,6 +174,9 @@ pub fn analyse_with(
         field,
         magnet,
         mechanics,
+        drive,
+        heating,
+        fin,
         cautions: found.cautions,
         notes: found.notes,
         inputs: Inputs::of(design),

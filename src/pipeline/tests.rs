@@ -166,6 +166,44 @@ fn drive_rules() {
 }
 
 #[test]
+fn waveform_surroundings_and_fin_are_read() {
+    let d = parse(BASE).unwrap();
+    assert_eq!(d.drive.waveform, Waveform::Dc);
+    assert_eq!(d.drive.surroundings, Surroundings::StillAir);
+    assert_eq!(d.fin, None);
+    let text = format!(
+        "{BASE}[magnet]\ndiameter = 5\nthickness = 2\nremanence = 1.3\ngap = 1\n\
+         [drive]\ncurrent = \"0.1A\"\nwaveform = \"square\"\nfrequency = \"5Hz\"\nbipolar = true\n\
+         surroundings = \"moving-air\"\nair_speed = \"1.5m/s\"\n\
+         [fin]\nfree_length = \"20mm\"\nwidth = \"12mm\"\nmoving = \"magnet\"\nadded_mass = \"50mg\"\n"
+    );
+    let d = parse(&text).unwrap();
+    assert_eq!(d.drive.waveform, Waveform::Square);
+    assert_eq!(d.drive.duty, 0.5);
+    assert!(d.drive.bipolar);
+    assert_eq!(
+        d.drive.surroundings,
+        Surroundings::MovingAir { air_speed_m_s: 1.5 }
+    );
+    let f = d.fin.unwrap();
+    assert_eq!((f.free_length, f.width, f.load_at), (20.0, 12.0, 20.0));
+    assert_eq!(f.moving, Moving::Magnet);
+    assert!((f.added_mass - 0.05).abs() < 1e-12);
+    assert_eq!(f.damping_ratio, DEFAULT_DAMPING_RATIO);
+    // A sine takes no duty; bipolar only for squares; moving air needs a speed.
+    let e = err(&format!(
+        "{BASE}[drive]\nwaveform = \"sine\"\nfrequency = 50\nduty = 0.3\n"
+    ));
+    assert_eq!(e.first().key, "drive.duty");
+    let e = err(&format!(
+        "{BASE}[drive]\nwaveform = \"pulse\"\nfrequency = 50\nbipolar = true\n"
+    ));
+    assert_eq!(e.first().key, "drive.bipolar");
+    let e = err(&format!("{BASE}[drive]\nsurroundings = \"moving-air\"\n"));
+    assert_eq!(e.first().key, "drive.surroundings");
+}
+
+#[test]
 fn rectangle_with_inner_diameter_and_polygon_with_max_turns() {
     let rect = BASE
         .replace(

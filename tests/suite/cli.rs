@@ -250,6 +250,84 @@ fn catalogue() -> Vec<Case> {
             "\"-300C\"",
             "absolute zero",
         ),
+        case(
+            "duty of zero",
+            mutate(
+                "voltage = \"1.5V\"",
+                "voltage = \"1.5V\"\nwaveform = \"square\"\nfrequency = \"5Hz\"\nduty = 0",
+            ),
+            "drive.duty",
+            "duty = |0",
+            "above 0 up to 1",
+        ),
+        case(
+            "duty above one",
+            mutate(
+                "voltage = \"1.5V\"",
+                "voltage = \"1.5V\"\nwaveform = \"pulse\"\nfrequency = \"5Hz\"\nduty = 1.5",
+            ),
+            "drive.duty",
+            "duty = |1.5",
+            "out of range",
+        ),
+        case(
+            "waveform without frequency",
+            mutate(
+                "voltage = \"1.5V\"",
+                "voltage = \"1.5V\"\nwaveform = \"square\"",
+            ),
+            "drive.waveform",
+            "\"square\"",
+            "needs drive.frequency",
+        ),
+        case(
+            "air speed without moving air",
+            mutate("voltage = \"1.5V\"", "voltage = \"1.5V\"\nair_speed = \"2m/s\""),
+            "drive.air_speed",
+            "\"2m/s\"",
+            "moving-air",
+        ),
+        case(
+            "load point beyond the fin",
+            format!("{BASE}\n[fin]\nfree_length = \"20mm\"\nwidth = \"14mm\"\nload_at = \"25mm\"\n"),
+            "fin.load_at",
+            "\"25mm\"",
+            "beyond free_length",
+        ),
+        case(
+            "zero fin length",
+            format!("{BASE}\n[fin]\nfree_length = 0\nwidth = \"14mm\"\n"),
+            "fin.free_length",
+            "free_length = |0",
+            "greater than zero",
+        ),
+        case(
+            "negative added mass",
+            format!("{BASE}\n[fin]\nfree_length = \"20mm\"\nwidth = \"14mm\"\nadded_mass = \"-0.1g\"\n"),
+            "fin.added_mass",
+            "\"-0.1g\"",
+            "negative",
+        ),
+        case(
+            "zero damping",
+            format!("{BASE}\n[fin]\nfree_length = \"20mm\"\nwidth = \"14mm\"\ndamping_ratio = 0\n"),
+            "fin.damping_ratio",
+            "damping_ratio = |0",
+            "out of range",
+        ),
+        case(
+            "fin without a magnet",
+            format!(
+                "{}\n[fin]\nfree_length = \"20mm\"\nwidth = \"14mm\"\n",
+                BASE.replace(
+                    "[magnet]\ndiameter = \"5mm\"\nthickness = \"2mm\"\nremanence = \"1.3T\"\ngap = \"0.5mm\"\n",
+                    ""
+                )
+            ),
+            "fin",
+            "[|fin]",
+            "needs a [magnet]",
+        ),
     ]
 }
 

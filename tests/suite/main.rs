@@ -11,8 +11,9 @@
 //!   `snapshots/`) and parsed-back exporter output;
 //! - `geometry_props`, `geometry_sanity`, `rules_props`, `rules`: property
 //!   tests and rule fixtures;
-//! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`: checks
-//!   against outside truth, the source named beside each value;
+//! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`, `motion`:
+//!   checks against outside truth, the source named beside each value
+//!   (`motion`: waveforms, heating over time, the fin);
 //! - `interop`: our files read by KiCad, gerbv, gerbonara, pygerber and
 //!   shapely (needs `tests/interop/setup.sh`);
 //! - `serve`: the workbench's request guard over plain HTTP, and the
@@ -33,6 +34,7 @@ mod geometry_sanity;
 mod interop;
 mod keys;
 mod magpylib_rerun;
+mod motion;
 mod outputs;
 mod physics_magpylib;
 mod physics_reference;

@@ -1,7 +1,7 @@
 //! `[drive]`: the source and the thermal environment.
 
-use super::super::model::{Drive, Source};
-use super::super::units::{Current, Frequency, Temperature, Voltage};
+use super::super::model::{Drive, Source, Surroundings, Waveform};
+use super::super::units::{Current, Frequency, Speed, Temperature, Voltage};
 use super::table::{Ctx, Sign, Table};
 
 /// Current used when a design gives neither voltage nor current, A.
@@ -66,6 +66,93 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Drive {
             "a plain number from 0 to 1, e.g. 0.9",
         )
         .unwrap_or(0.9);
+    let waveform = match cx.choice(t, "waveform") {
+        Some(1) => Waveform::Square,
+        Some(2) => Waveform::Sine,
+        Some(3) => Waveform::Pulse,
+        _ => Waveform::Dc,
+    };
+    if waveform != Waveform::Dc && frequency.is_none() && !t.has("frequency") {
+        cx.err(
+            t.key("waveform"),
+            t.span_of("waveform"),
+            "a waveform other than \"dc\" needs drive.frequency",
+            Some(
+                "give frequency = \"5Hz\" (the waveform's repetition rate), or waveform = \"dc\""
+                    .into(),
+            ),
+        );
+    }
+    let duty = match t.get("duty") {
+        None => None,
+        Some(v) => {
+            let d = cx.number(
+                t,
+                "duty",
+                f64::MIN,
+                f64::MAX,
+                "a fraction above 0 up to 1, e.g. 0.25",
+            );
+            match d {
+                Some(d) if d > 0.0 && d <= 1.0 => Some(d),
+                Some(d) => {
+                    cx.err(
+                        t.key("duty"),
+                        Some(v.span()),
+                        format!("{d} is out of range"),
+                        Some("allowed: a fraction above 0 up to 1, e.g. 0.25".into()),
+                    );
+                    None
+                }
+                None => None,
+            }
+        }
+    };
+    if duty.is_some() && !matches!(waveform, Waveform::Square | Waveform::Pulse) {
+        cx.err(
+            t.key("duty"),
+            t.span_of("duty"),
+            "applies only to waveform = \"square\" or \"pulse\"",
+            Some("remove duty, or choose a square or pulse waveform".into()),
+        );
+    }
+    let bipolar = cx.switch(t, "bipolar").unwrap_or(false);
+    if bipolar && waveform != Waveform::Square {
+        cx.err(
+            t.key("bipolar"),
+            t.span_of("bipolar"),
+            "applies only to waveform = \"square\"",
+            Some("remove bipolar, or choose waveform = \"square\"".into()),
+        );
+    }
+    let air_speed = cx
+        .quantity::<Speed>(t, "air_speed", Sign::Positive)
+        .map(Speed::metres_per_second);
+    let surroundings = match cx.choice(t, "surroundings") {
+        Some(1) => {
+            if air_speed.is_none() && !t.has("air_speed") {
+                cx.err(
+                    t.key("surroundings"),
+                    t.span_of("surroundings"),
+                    "moving air needs drive.air_speed",
+                    Some("give air_speed = \"1m/s\"".into()),
+                );
+            }
+            Surroundings::MovingAir {
+                air_speed_m_s: air_speed.unwrap_or(1.0),
+            }
+        }
+        Some(2) => Surroundings::Water,
+        _ => Surroundings::StillAir,
+    };
+    if t.has("air_speed") && !matches!(surroundings, Surroundings::MovingAir { .. }) {
+        cx.err(
+            t.key("air_speed"),
+            t.span_of("air_speed"),
+            "applies only to surroundings = \"moving-air\"",
+            Some("set surroundings = \"moving-air\", or remove air_speed".into()),
+        );
+    }
     Drive {
         source,
         ambient,
@@ -73,5 +160,13 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Drive {
         frequency,
         convection,
         emissivity,
+        waveform,
+        duty: duty.unwrap_or(if waveform == Waveform::Dc || waveform == Waveform::Sine {
+            1.0
+        } else {
+            0.5
+        }),
+        bipolar,
+        surroundings,
     }
 }

@@ -9,6 +9,7 @@
 mod board;
 mod coil;
 mod drive;
+mod fin;
 mod holes;
 mod known_keys;
 mod magnet;
@@ -19,6 +20,7 @@ mod table;
 
 pub use coil::{MAX_SIZE_MM, MAX_TURNS};
 pub use drive::DEFAULT_CURRENT_A;
+pub use fin::DEFAULT_DAMPING_RATIO;
 
 use super::error::{DesignError, DesignErrors};
 use super::keys::LimitKey;
@@ -54,6 +56,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let rules_t = cx.table(&root, "rules");
     let magnet_t = cx.table(&root, "magnet");
     let drive_t = cx.table(&root, "drive");
+    let fin_t = cx.table(&root, "fin");
 
     let coil = coil::read(&mut cx, &coil_t);
     let layers = coil.as_ref().and_then(|c| c.layers);
@@ -64,6 +67,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let rules = rules::read(&mut cx, &rules_t);
     let magnet = magnet::read(&mut cx, &magnet_t);
     let drive = drive::read(&mut cx, &drive_t);
+    let fin = fin::read(&mut cx, &fin_t, magnet.as_ref());
 
     let Ctx {
         mut errors,
@@ -94,6 +98,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
         rules,
         magnet,
         drive,
+        fin,
         spans: KeySpans::of(doc.get_ref()),
     })
 }

@@ -369,6 +369,23 @@ impl<'l> Ctx<'l> {
         }
     }
 
+    /// An optional `true` / `false`.
+    pub fn switch(&mut self, t: &Table, k: &str) -> Option<bool> {
+        let v = t.get(k)?;
+        match v.get_ref() {
+            DeValue::Boolean(b) => Some(*b),
+            other => {
+                self.err(
+                    t.key(k),
+                    Some(v.span()),
+                    format!("must be true or false, found {}", other.type_str()),
+                    Some("allowed: true, false (without quotes)".into()),
+                );
+                None
+            }
+        }
+    }
+
     /// An optional string.
     pub fn string<'a>(&mut self, t: &Table<'a, '_>, k: &str) -> Option<&'a str> {
         let v = t.get(k)?;
