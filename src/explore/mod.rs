@@ -16,15 +16,17 @@
 mod metrics;
 mod pareto;
 mod require;
+mod stream;
 mod vary;
 
 pub use metrics::metrics;
 pub use pareto::{PlotPoint, front, settle};
 pub use require::{Op, Requirement, check_metric};
+pub use stream::{CHUNK, PLOT_POINTS, Row, Shard, Summary, TOP, Tally, csv_header, csv_row};
 pub use vary::{Kind, Value, Vary, kind_of, numeric_keys, parse as parse_vary, resolve_key};
 
 use rayon::prelude::*;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 
 /// Bad sweep arguments.
@@ -104,6 +106,14 @@ pub enum SweepError {
         /// Nearest known metric.
         suggestion: Option<String>,
     },
+    /// A `--shard` that does not parse.
+    #[error("--shard {text}: {message}")]
+    BadShard {
+        /// As typed.
+        text: String,
+        /// What is wrong.
+        message: String,
+    },
     /// The base design file is not a TOML table.
     #[error("the base design is not valid TOML: {0}")]
     Base(String),
@@ -158,7 +168,7 @@ pub struct Sweep {
 }
 
 /// Why a candidate was set aside.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Status {
     /// Valid, passes the rule check and meets every requirement.
@@ -328,71 +338,80 @@ impl Sweep {
             .collect()
     }
 
+    /// Evaluates candidate `i` (`eval` takes the candidate's design file
+    /// text) and judges it against the requirements and the design's own
+    /// temperature limit.
+    pub fn candidate(&self, i: usize, eval: impl Fn(&str) -> Evaluation) -> Candidate {
+        let text = toml::to_string(&self.candidate_table(i)).unwrap_or_default();
+        let params = self.params(i);
+        match eval(&text) {
+            Evaluation::Invalid(reason) => Candidate {
+                params,
+                status: Status::Invalid,
+                reason,
+                metrics: BTreeMap::new(),
+                rank: None,
+                pareto: false,
+                shortfall: None,
+            },
+            Evaluation::RuleViolation(metrics, reason) => Candidate {
+                params,
+                status: Status::RuleViolation,
+                reason,
+                metrics,
+                rank: None,
+                pareto: false,
+                shortfall: None,
+            },
+            Evaluation::Metrics(metrics) => {
+                let limit = temperature_limit(&metrics);
+                let failed: Vec<String> = limit
+                    .iter()
+                    .map(|(text, _)| text.clone())
+                    .chain(
+                        self.require
+                            .iter()
+                            .filter(|r| r.holds(&metrics) != Some(true))
+                            .map(|r| {
+                                let got = metrics
+                                    .get(&r.metric)
+                                    .map_or("missing".into(), |v| format!("{v:.4}"));
+                                format!("{} (is {got})", r.text)
+                            }),
+                    )
+                    .collect();
+                let shortfall = self
+                    .require
+                    .iter()
+                    .filter_map(|r| r.shortfall(&metrics))
+                    .chain(limit.map(|(_, gap)| gap))
+                    .reduce(f64::max);
+                Candidate {
+                    params,
+                    status: if failed.is_empty() {
+                        Status::Ok
+                    } else {
+                        Status::FailsRequirement
+                    },
+                    reason: failed.join("; "),
+                    metrics,
+                    rank: None,
+                    pareto: false,
+                    shortfall,
+                }
+            }
+        }
+    }
+
     /// Evaluates every candidate (in parallel) with `eval`, which receives
     /// the candidate's design-file text; `tick` is called once per candidate.
+    /// Keeps every candidate in memory: for small sweeps (the command line
+    /// streams with [`Sweep::stream`] and a [`Tally`]).
     pub fn run(&self, eval: impl Fn(&str) -> Evaluation + Sync, tick: impl Fn() + Sync) -> Outcome {
         let mut candidates: Vec<Candidate> = (0..self.len())
             .into_par_iter()
             .map(|i| {
-                let text = toml::to_string(&self.candidate_table(i)).unwrap_or_default();
-                let params = self.params(i);
-                let c = match eval(&text) {
-                    Evaluation::Invalid(reason) => Candidate {
-                        params,
-                        status: Status::Invalid,
-                        reason,
-                        metrics: BTreeMap::new(),
-                        rank: None,
-                        pareto: false,
-                        shortfall: None,
-                    },
-                    Evaluation::RuleViolation(metrics, reason) => Candidate {
-                        params,
-                        status: Status::RuleViolation,
-                        reason,
-                        metrics,
-                        rank: None,
-                        pareto: false,
-                        shortfall: None,
-                    },
-                    Evaluation::Metrics(metrics) => {
-                        let limit = temperature_limit(&metrics);
-                        let failed: Vec<String> = limit
-                            .iter()
-                            .map(|(text, _)| text.clone())
-                            .chain(
-                                self.require
-                                    .iter()
-                                    .filter(|r| r.holds(&metrics) != Some(true))
-                                    .map(|r| {
-                                        let got = metrics
-                                            .get(&r.metric)
-                                            .map_or("missing".into(), |v| format!("{v:.4}"));
-                                        format!("{} (is {got})", r.text)
-                                    }),
-                            )
-                            .collect();
-                        let shortfall = self
-                            .require
-                            .iter()
-                            .filter_map(|r| r.shortfall(&metrics))
-                            .chain(limit.map(|(_, gap)| gap))
-                            .reduce(f64::max);
-                        Candidate {
-                            params,
-                            status: if failed.is_empty() {
-                                Status::Ok
-                            } else {
-                                Status::FailsRequirement
-                            },
-                            reason: failed.join("; "),
-                            metrics,
-                            rank: None,
-                            pareto: false,
-                            shortfall,
-                        }
-                    }
-                };
+                let c = self.candidate(i, &eval);
                 tick();
                 c
             })
