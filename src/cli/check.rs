@@ -208,7 +208,7 @@ pub fn violations_table(violations: &[Violation]) -> String {
 }
 
 /// Cautions as JSON: `[{"id", "message"}]`.
-fn cautions_json<'a>(cautions: impl Iterator<Item = &'a Caution>) -> serde_json::Value {
+pub(super) fn cautions_json<'a>(cautions: impl Iterator<Item = &'a Caution>) -> serde_json::Value {
     cautions
         .map(|c| json!({"id": c.id(), "message": c.to_string()}))
         .collect()

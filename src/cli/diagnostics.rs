@@ -18,11 +18,20 @@ fn renderer() -> Renderer {
 
 /// Renders design-file problems as text (one block per problem).
 pub fn render_spec_errors(path: &Path, text: &str, errors: &DesignErrors) -> String {
+    render_with(&renderer(), path, text, errors)
+}
+
+/// [`render_spec_errors`] without colour, for showing elsewhere than a
+/// terminal (the workbench page).
+pub fn render_spec_errors_plain(path: &Path, text: &str, errors: &DesignErrors) -> String {
+    render_with(&Renderer::plain(), path, text, errors)
+}
+
+fn render_with(r: &Renderer, path: &Path, text: &str, errors: &DesignErrors) -> String {
     let path = path.display().to_string();
-    let r = renderer();
     let mut out = String::new();
     for e in &errors.errors {
-        out.push_str(&render_one(&r, &path, text, e));
+        out.push_str(&render_one(r, &path, text, e));
         out.push_str("\n\n");
     }
     let n = errors.errors.len();

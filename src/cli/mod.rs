@@ -12,6 +12,7 @@ mod init;
 mod out_dir;
 pub mod pipeline;
 mod report;
+mod serve;
 mod sweep;
 
 use clap::{Parser, Subcommand};
@@ -186,6 +187,27 @@ pub enum Command {
         #[arg(long)]
         force: bool,
     },
+    /// Open a workbench page on this computer: edit a design and watch the
+    /// copper, rule problems and predictions follow; sweep; write files.
+    #[command(
+        after_help = "Examples:\n  coilwright serve fin.toml -o fin-out\n  coilwright serve --port 0\n\n\
+        The server listens on 127.0.0.1 only and answers only its own page. \
+        \"Save design\" writes only the design file named here, \"Write files\" \
+        only the -o folder (asking before replacing it). Stop it with Ctrl-C."
+    )]
+    Serve {
+        /// Design file to open (and the only file "Save design" writes);
+        /// if it does not exist yet the page starts from a template.
+        #[arg(value_name = "DESIGN.toml")]
+        design: Option<PathBuf>,
+        /// Output folder for "Write files" (build's files, written
+        /// atomically; an existing folder is replaced only after asking).
+        #[arg(short = 'o', long = "out", value_name = "DIR")]
+        out: Option<PathBuf>,
+        /// Port on 127.0.0.1; 0 picks a free one.
+        #[arg(long, value_name = "N", default_value_t = 8470)]
+        port: u16,
+    },
 }
 
 /// What `sweep` does instead of sweeping.
@@ -287,6 +309,11 @@ pub fn run(cli: Cli) -> ExitCode {
             out,
             force,
         } => report::run(&spec, json, out.as_deref(), force),
+        Command::Serve { design, out, port } => serve::run(serve::Args {
+            design: design.as_deref(),
+            out: out.as_deref(),
+            port,
+        }),
         Command::Sweep {
             action: Some(SweepAction::Merge { dirs, out, force }),
             ..

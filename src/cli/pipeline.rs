@@ -50,6 +50,12 @@ pub fn load(path: &Path) -> Result<Loaded, Failure> {
 fn load_and_build(path: &Path) -> Result<(Loaded, Board), Failure> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("cannot read design file {}", path.display()))?;
+    build_text(path, text)
+}
+
+/// Validates and builds design text that belongs to the design file
+/// `path` (a rule profile path is relative to it; nothing is read here).
+fn build_text(path: &Path, text: String) -> Result<(Loaded, Board), Failure> {
     match coilwright::pipeline::parse_and_build(&text) {
         Ok((design, layout)) => Ok((
             Loaded {
@@ -95,21 +101,7 @@ pub fn profile_path(loaded: &Loaded) -> Option<PathBuf> {
 /// relative to the design file.
 pub fn profile(loaded: &Loaded) -> Result<rules::Profile, Failure> {
     let name = &loaded.design.rules.profile;
-    let fail = |message: String, help: Option<String>| {
-        let needle = format!("\"{name}\"");
-        let span = loaded.text.find(&needle).map(|i| i..i + needle.len());
-        Failure::Spec {
-            path: loaded.path.clone(),
-            text: loaded.text.clone(),
-            errors: design::DesignError {
-                key: "rules.profile".into(),
-                span,
-                message,
-                help,
-            }
-            .into(),
-        }
-    };
+    let fail = |message: String, help: Option<String>| profile_error(loaded, message, help);
     let base = if let Some(path) = profile_path(loaded) {
         let text = std::fs::read_to_string(&path).map_err(|e| {
             fail(
@@ -139,6 +131,66 @@ pub fn profile(loaded: &Loaded) -> Result<rules::Profile, Failure> {
 /// Loads, builds and checks a design file.
 pub fn check(path: &Path) -> Result<Checked, Failure> {
     let (loaded, layout) = load_and_build(path)?;
+    checked(loaded, layout)
+}
+
+/// Builds and checks design text as if it were the design file `path`
+/// (the workbench's edits, which are not on disk). A rule profile named
+/// by a path is read only when it is `profile_file`, the one the design
+/// file on the command line names: no other path comes from the page.
+pub fn check_text(
+    path: &Path,
+    text: String,
+    profile_file: Option<&str>,
+) -> Result<Checked, Failure> {
+    let (loaded, layout) = build_text(path, text)?;
+    only_profile_file(&loaded, profile_file)?;
+    checked(loaded, layout)
+}
+
+/// Validates design text as if it were the design file `path`, with
+/// [`check_text`]'s rule for a profile path.
+pub fn load_text(path: &Path, text: String, profile_file: Option<&str>) -> Result<Loaded, Failure> {
+    let (loaded, _) = build_text(path, text)?;
+    only_profile_file(&loaded, profile_file)?;
+    Ok(loaded)
+}
+
+/// Refuses a rule profile path other than `allowed` (a design error at
+/// `rules.profile`).
+fn only_profile_file(loaded: &Loaded, allowed: Option<&str>) -> Result<(), Failure> {
+    if profile_path(loaded).is_some() && Some(loaded.design.rules.profile.as_str()) != allowed {
+        let builtin = rules::Profile::builtin_names()
+            .collect::<Vec<_>>()
+            .join(", ");
+        return Err(profile_error(
+            loaded,
+            "the workbench reads no file named in the page: a profile path is taken only as the design file on the command line gives it".into(),
+            Some(format!("choose a built-in profile ({builtin}), or edit the design file and restart the workbench")),
+        ));
+    }
+    Ok(())
+}
+
+/// A design error at `rules.profile`, pointing at its value.
+fn profile_error(loaded: &Loaded, message: String, help: Option<String>) -> Failure {
+    let name = &loaded.design.rules.profile;
+    let needle = format!("\"{name}\"");
+    let span = loaded.text.find(&needle).map(|i| i..i + needle.len());
+    Failure::Spec {
+        path: loaded.path.clone(),
+        text: loaded.text.clone(),
+        errors: design::DesignError {
+            key: "rules.profile".into(),
+            span,
+            message,
+            help,
+        }
+        .into(),
+    }
+}
+
+fn checked(loaded: Loaded, layout: Board) -> Result<Checked, Failure> {
     let violations = violations(&loaded, &layout)?;
     Ok(Checked {
         loaded,

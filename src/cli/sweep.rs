@@ -87,7 +87,7 @@ struct Record {
 }
 
 /// Evaluates one candidate design file through the whole pipeline.
-fn evaluate(base: &Loaded, text: &str) -> Evaluation {
+pub(super) fn evaluate(base: &Loaded, text: &str) -> Evaluation {
     let (design, layout) = match coilwright::pipeline::parse_and_build(text) {
         Ok(built) => built,
         Err(errors) => {
@@ -134,6 +134,40 @@ fn evaluate(base: &Loaded, text: &str) -> Evaluation {
         }
         Evaluation::RuleViolation(m, format!("rule violation: {}", first.join(", ")))
     }
+}
+
+/// The metrics a base design's report has (sorted): the names that
+/// requirements, objective and `versus` may use; the base must be
+/// analysable.
+fn base_metrics(base: &Loaded) -> Result<Vec<String>, Failure> {
+    let mut known: Vec<String> = match evaluate(base, &base.text) {
+        Evaluation::Metrics(m) | Evaluation::RuleViolation(m, _) => m.into_keys().collect(),
+        Evaluation::Invalid(r) => {
+            return Err(anyhow::anyhow!("the base design cannot be analysed: {r}").into());
+        }
+    };
+    known.sort();
+    Ok(known)
+}
+
+/// The sweep of `base` that the arguments describe (shared by `sweep` and
+/// the workbench).
+pub(super) fn prepare(
+    base: &Loaded,
+    vary: &[String],
+    require: &[String],
+    objective: (String, bool),
+    versus: Option<&str>,
+) -> Result<Sweep, Failure> {
+    let known = base_metrics(base)?;
+    make_sweep(
+        &base.text,
+        vary,
+        require,
+        (&objective.0, objective.1),
+        versus,
+        &known,
+    )
 }
 
 /// The sweep of a base design and the arguments (`known`: the metrics).
@@ -197,15 +231,25 @@ impl Tables {
             csv: open("candidates.csv")?,
             jsonl: open("candidates.jsonl")?,
         };
-        t.csv.write_all(header.as_bytes()).context("cannot write candidates.csv")?;
+        t.csv
+            .write_all(header.as_bytes())
+            .context("cannot write candidates.csv")?;
         Ok(t)
     }
 
     fn finish(mut self) -> Result<(), Failure> {
         self.csv.flush().context("cannot write candidates.csv")?;
-        self.jsonl.flush().context("cannot write candidates.jsonl")?;
-        self.csv.get_ref().sync_all().context("cannot write candidates.csv")?;
-        self.jsonl.get_ref().sync_all().context("cannot write candidates.jsonl")?;
+        self.jsonl
+            .flush()
+            .context("cannot write candidates.jsonl")?;
+        self.csv
+            .get_ref()
+            .sync_all()
+            .context("cannot write candidates.csv")?;
+        self.jsonl
+            .get_ref()
+            .sync_all()
+            .context("cannot write candidates.jsonl")?;
         Ok(())
     }
 }
@@ -219,14 +263,7 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
         return Err(anyhow::anyhow!("{} exists; pass --force to replace it", dir.display()).into());
     }
     let base = pipeline::load(a.spec)?;
-    // The base design must itself be valid: its report names the metrics.
-    let mut known: Vec<String> = match evaluate(&base, &base.text) {
-        Evaluation::Metrics(m) | Evaluation::RuleViolation(m, _) => m.into_keys().collect(),
-        Evaluation::Invalid(r) => {
-            return Err(anyhow::anyhow!("the base design cannot be analysed: {r}").into());
-        }
-    };
-    known.sort();
+    let known = base_metrics(&base)?;
     let sweep = make_sweep(
         &base.text,
         a.vary,
@@ -346,7 +383,8 @@ fn write_row(t: &mut Tables, i: usize, c: &Candidate, metrics: &[String]) -> Res
     t.csv
         .write_all(explore::csv_row(i, c, metrics, false).as_bytes())
         .context("cannot write candidates.csv")?;
-    let mut line = serde_json::to_string(&Row::of(i, c)).context("cannot write candidates.jsonl")?;
+    let mut line =
+        serde_json::to_string(&Row::of(i, c)).context("cannot write candidates.jsonl")?;
     line.push('\n');
     t.jsonl
         .write_all(line.as_bytes())
@@ -449,7 +487,11 @@ pub fn merge(dirs: &[PathBuf], out: &Path, force: bool) -> Result<Exit, Failure>
     for d in dirs {
         let path = d.join("sweep.json");
         let text = std::fs::read_to_string(&path).with_context(|| {
-            format!("{} is not a sweep folder (cannot read {})", d.display(), path.display())
+            format!(
+                "{} is not a sweep folder (cannot read {})",
+                d.display(),
+                path.display()
+            )
         })?;
         let r: Record = serde_json::from_str(&text)
             .with_context(|| format!("{} is not a sweep record", path.display()))?;
@@ -497,7 +539,10 @@ pub fn merge(dirs: &[PathBuf], out: &Path, force: bool) -> Result<Exit, Failure>
             .collect();
         return Err(anyhow::anyhow!(
             "the folders hold shards {} of {n}; {}",
-            have.iter().map(|k| k.to_string()).collect::<Vec<_>>().join(", "),
+            have.iter()
+                .map(|k| k.to_string())
+                .collect::<Vec<_>>()
+                .join(", "),
             if missing.is_empty() {
                 "a shard is given twice".to_string()
             } else {
@@ -523,12 +568,16 @@ pub fn merge(dirs: &[PathBuf], out: &Path, force: bool) -> Result<Exit, Failure>
     for (r, d) in &records {
         let open = |name: &str| -> Result<std::io::BufReader<std::fs::File>, Failure> {
             let path = d.join(name);
-            Ok(std::io::BufReader::new(std::fs::File::open(&path).with_context(
-                || format!("cannot read {}", path.display()),
-            )?))
+            Ok(std::io::BufReader::new(
+                std::fs::File::open(&path)
+                    .with_context(|| format!("cannot read {}", path.display()))?,
+            ))
         };
         let mut csv = open("candidates.csv")?.lines();
-        let got = csv.next().transpose().context("cannot read candidates.csv")?;
+        let got = csv
+            .next()
+            .transpose()
+            .context("cannot read candidates.csv")?;
         if got.as_deref() != Some(header.trim_end()) {
             return Err(anyhow::anyhow!(
                 "{}: candidates.csv has other columns than the first shard's",
@@ -543,8 +592,12 @@ pub fn merge(dirs: &[PathBuf], out: &Path, force: bool) -> Result<Exit, Failure>
         let mut next = r.first;
         for line in open("candidates.jsonl")?.lines() {
             let line = line.context("cannot read candidates.jsonl")?;
-            let row: Row = serde_json::from_str(&line)
-                .with_context(|| format!("{}: a line of candidates.jsonl is not a candidate", d.display()))?;
+            let row: Row = serde_json::from_str(&line).with_context(|| {
+                format!(
+                    "{}: a line of candidates.jsonl is not a candidate",
+                    d.display()
+                )
+            })?;
             if row.index != next {
                 return Err(anyhow::anyhow!(
                     "{}: candidate {} where {next} was expected",
@@ -580,7 +633,11 @@ pub fn merge(dirs: &[PathBuf], out: &Path, force: bool) -> Result<Exit, Failure>
     };
     let nothing = summary.nothing_passes();
     finish_folder(staging, out, &sweep, &summary, record)?;
-    Ok(if nothing { Exit::NothingPasses } else { Exit::Ok })
+    Ok(if nothing {
+        Exit::NothingPasses
+    } else {
+        Exit::Ok
+    })
 }
 
 /// A candidate's parameters as `key=value` words.
@@ -594,7 +651,7 @@ fn params_text(c: &Candidate) -> String {
 
 /// A short text summary: counts, best, and the top ten (`seconds` NaN:
 /// no timing, as after a merge).
-fn summary_text(o: &Summary, seconds: f64, flex: bool) -> String {
+pub(super) fn summary_text(o: &Summary, seconds: f64, flex: bool) -> String {
     let n = o.evaluated;
     let mut s = String::new();
     let timing = if seconds.is_finite() {

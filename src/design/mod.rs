@@ -31,6 +31,7 @@
 //! assert_eq!(e.line_col(&bad), Some((7, 10)));
 //! ```
 
+pub mod edit;
 mod error;
 pub mod keys;
 mod model;

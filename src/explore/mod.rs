@@ -25,7 +25,6 @@ pub use require::{Op, Requirement, check_metric};
 pub use stream::{CHUNK, PLOT_POINTS, Row, Shard, Summary, TOP, Tally, csv_header, csv_row};
 pub use vary::{Kind, Value, Vary, kind_of, numeric_keys, parse as parse_vary, resolve_key};
 
-use rayon::prelude::*;
 use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 
@@ -214,21 +213,6 @@ pub struct Candidate {
     pub shortfall: Option<f64>,
 }
 
-/// The result of a sweep.
-#[derive(Debug, Clone, Serialize)]
-pub struct Outcome {
-    /// The objective.
-    pub objective: Objective,
-    /// Requirements as typed.
-    pub requirements: Vec<String>,
-    /// The trade-off plot's x metric.
-    pub versus: String,
-    /// All candidates in generation order.
-    pub candidates: Vec<Candidate>,
-    /// Index of the best candidate.
-    pub best: Option<usize>,
-}
-
 impl Sweep {
     /// Checks the sweep against the metric names a report has.
     pub fn new(
@@ -403,82 +387,17 @@ impl Sweep {
         }
     }
 
-    /// Evaluates every candidate (in parallel) with `eval`, which receives
-    /// the candidate's design-file text; `tick` is called once per candidate.
-    /// Keeps every candidate in memory: for small sweeps (the command line
-    /// streams with [`Sweep::stream`] and a [`Tally`]).
-    pub fn run(&self, eval: impl Fn(&str) -> Evaluation + Sync, tick: impl Fn() + Sync) -> Outcome {
-        let mut candidates: Vec<Candidate> = (0..self.len())
-            .into_par_iter()
-            .map(|i| {
-                let c = self.candidate(i, &eval);
-                tick();
-                c
-            })
-            .collect();
-        // Rank the ok candidates.
-        let obj = &self.objective;
-        let value = |c: &Candidate| c.metrics.get(&obj.metric).copied().unwrap_or(f64::NAN);
-        let mut ok: Vec<usize> = (0..candidates.len())
-            .filter(|&i| candidates[i].status == Status::Ok && value(&candidates[i]).is_finite())
-            .collect();
-        ok.sort_by(|&a, &b| {
-            let (x, y) = (value(&candidates[a]), value(&candidates[b]));
-            let o = if obj.maximize {
-                y.total_cmp(&x)
-            } else {
-                x.total_cmp(&y)
-            };
-            o.then(a.cmp(&b))
-        });
-        for (r, &i) in ok.iter().enumerate() {
-            candidates[i].rank = Some(r + 1);
-        }
-        let best = ok.first().copied();
-        // The default second metric (the outer size) says nothing when the
-        // sweep keeps it fixed: plot against the resistance instead. Judged
-        // on every plotted candidate (those that meet the requirements and
-        // those that miss one), so the plot never becomes one column.
-        let metric =
-            |name: &str, i: usize| candidates[i].metrics.get(name).copied().unwrap_or(f64::NAN);
-        let plotted: Vec<usize> = (0..candidates.len())
-            .filter(|&i| matches!(candidates[i].status, Status::Ok | Status::FailsRequirement))
-            .collect();
-        let varies = |name: &str| {
-            let x = |i: usize| pareto::settle(metric(name, i));
-            plotted.len() > 1 && plotted.iter().any(|&i| x(i) != x(plotted[0]))
-        };
-        let versus = if self.versus_default && plotted.len() > 1 && !varies(&self.versus.0) {
-            DEFAULT_VERSUS
-                .iter()
-                .find(|m| **m != obj.metric && varies(m))
-                .map(|m| (m.to_string(), false))
-                .unwrap_or_else(|| self.versus.clone())
-        } else {
-            self.versus.clone()
-        };
-        // Pareto front among ok candidates.
-        let pts: Vec<(f64, f64)> = ok
-            .iter()
-            .map(|&i| (metric(&versus.0, i), value(&candidates[i])))
-            .collect();
-        for k in front(&pts, versus.1, obj.maximize) {
-            candidates[ok[k]].pareto = true;
-        }
-        Outcome {
-            objective: obj.clone(),
-            requirements: self.require.iter().map(|r| r.text.clone()).collect(),
-            versus: versus.0,
-            candidates,
-            best,
-        }
+    /// Evaluates every candidate with `eval` (in parallel, in chunks) and
+    /// returns the tally's summary: [`Sweep::stream`] with a [`Tally`],
+    /// for callers that need no table of every candidate.
+    pub fn summarise(&self, eval: impl Fn(&str) -> Evaluation + Sync) -> Summary {
+        let mut tally = Tally::new(self);
+        let never = std::sync::atomic::AtomicBool::new(false);
+        self.stream(0..self.len(), eval, &never, |i, c| tally.add(i, &c));
+        tally.finish()
     }
 }
 
-/// The design's own temperature limit, a requirement of every sweep:
-/// `Some((reason, relative shortfall))` when the candidate's steady
-/// temperature is above its `max_temperature` (or it has none: no steady
-/// state below the copper's limit).
 fn temperature_limit(metrics: &BTreeMap<String, f64>) -> Option<(String, f64)> {
     let max = *metrics.get("max_temperature_c")?;
     match metrics.get("temperature_c") {
@@ -521,7 +440,7 @@ impl Sweep {
             let Some(value) = lookup(&wanted, table, key) else {
                 continue;
             };
-            set_edit(&mut doc, table, key, edit_value(value));
+            crate::design::edit::set_value(&mut doc, table, key, edit_value(value));
         }
         // Size keys the candidate dropped.
         if let Some(coil) = doc.get_mut("coil").and_then(|c| c.as_table_like_mut()) {
@@ -532,7 +451,7 @@ impl Sweep {
             }
         }
         if let Some(p) = profile {
-            set_edit(&mut doc, "rules", "profile", toml_edit::Value::from(p));
+            crate::design::edit::set_value(&mut doc, "rules", "profile", toml_edit::Value::from(p));
         }
         Ok(doc.to_string())
     }
@@ -562,26 +481,6 @@ fn edit_value(v: &toml::Value) -> toml_edit::Value {
     }
 }
 
-/// Sets `table.key` in an edited document, keeping the old value's
-/// surrounding whitespace and comment; creates the table if needed.
-fn set_edit(doc: &mut toml_edit::DocumentMut, table: &str, key: &str, mut value: toml_edit::Value) {
-    let t: &mut dyn toml_edit::TableLike = if table.is_empty() {
-        doc.as_table_mut()
-    } else {
-        if doc.get(table).is_none() {
-            doc.insert(table, toml_edit::Item::Table(toml_edit::Table::new()));
-        }
-        match doc.get_mut(table).and_then(|t| t.as_table_like_mut()) {
-            Some(t) => t,
-            None => return,
-        }
-    };
-    if let Some(old) = t.get(key).and_then(|i| i.as_value()) {
-        *value.decor_mut() = old.decor().clone();
-    }
-    t.insert(key, toml_edit::Item::Value(value));
-}
-
 /// Sets a dotted key in a TOML table, creating tables as needed.
 fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
     let mut parts: Vec<&str> = key.split('.').collect();
@@ -600,148 +499,6 @@ fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
         };
     }
     cur.insert(last.to_string(), value);
-}
-
-impl Outcome {
-    /// Whether no candidate meets every requirement.
-    pub fn nothing_passes(&self) -> bool {
-        self.best.is_none()
-    }
-
-    /// Up to `n` candidates that miss a requirement, nearest first (smallest
-    /// relative shortfall; ties in generation order).
-    pub fn nearest_misses(&self, n: usize) -> Vec<&Candidate> {
-        let mut misses: Vec<&Candidate> = self
-            .candidates
-            .iter()
-            .filter(|c| c.status == Status::FailsRequirement)
-            .collect();
-        misses.sort_by(|a, b| {
-            a.shortfall
-                .unwrap_or(f64::INFINITY)
-                .total_cmp(&b.shortfall.unwrap_or(f64::INFINITY))
-        });
-        misses.truncate(n);
-        misses
-    }
-
-    /// All candidates as CSV: rank, status, reason, parameters, metrics.
-    pub fn csv(&self) -> String {
-        let params: Vec<String> = self
-            .candidates
-            .first()
-            .map(|c| c.params.iter().map(|(k, _)| k.clone()).collect())
-            .unwrap_or_default();
-        let mut metrics: Vec<String> = self
-            .candidates
-            .iter()
-            .flat_map(|c| c.metrics.keys().cloned())
-            .collect();
-        metrics.sort();
-        metrics.dedup();
-        let mut out = String::new();
-        let mut header = vec![
-            "index".to_string(),
-            "rank".into(),
-            "status".into(),
-            "pareto".into(),
-        ];
-        header.extend(params.iter().cloned());
-        header.extend(metrics.iter().cloned());
-        header.push("reason".into());
-        out.push_str(
-            &header
-                .iter()
-                .map(|h| csv_field(h))
-                .collect::<Vec<_>>()
-                .join(","),
-        );
-        out.push('\n');
-        for (i, c) in self.candidates.iter().enumerate() {
-            let mut row = vec![
-                i.to_string(),
-                c.rank.map(|r| r.to_string()).unwrap_or_default(),
-                serde_json::to_value(&c.status)
-                    .ok()
-                    .and_then(|v| v.as_str().map(String::from))
-                    .unwrap_or_default(),
-                c.pareto.to_string(),
-            ];
-            row.extend(c.params.iter().map(|(_, v)| v.clone()));
-            row.extend(
-                metrics
-                    .iter()
-                    .map(|m| c.metrics.get(m).map(|v| format!("{v}")).unwrap_or_default()),
-            );
-            row.push(c.reason.clone());
-            out.push_str(
-                &row.iter()
-                    .map(|h| csv_field(h))
-                    .collect::<Vec<_>>()
-                    .join(","),
-            );
-            out.push('\n');
-        }
-        out
-    }
-
-    /// The trade-off plot (SVG).
-    pub fn plot(&self) -> String {
-        let obj = &self.objective.metric;
-        let analysed: Vec<usize> = (0..self.candidates.len())
-            .filter(|&i| {
-                matches!(
-                    self.candidates[i].status,
-                    Status::Ok | Status::FailsRequirement
-                )
-            })
-            .collect();
-        let points: Vec<PlotPoint> = analysed
-            .iter()
-            .map(|&i| {
-                let c = &self.candidates[i];
-                PlotPoint {
-                    x: c.metrics.get(&self.versus).copied().unwrap_or(f64::NAN),
-                    y: c.metrics.get(obj).copied().unwrap_or(f64::NAN),
-                    feasible: c.status == Status::Ok,
-                }
-            })
-            .collect();
-        let mut front_idx: Vec<usize> = analysed
-            .iter()
-            .enumerate()
-            .filter(|(_, i)| self.candidates[**i].pareto)
-            .map(|(k, _)| k)
-            .collect();
-        front_idx.sort_by(|a, b| points[*a].x.total_cmp(&points[*b].x));
-        let best = self
-            .best
-            .and_then(|b| analysed.iter().position(|&i| i == b));
-        let title = format!(
-            "{} {} vs {} ({} of {} candidates meet the requirements)",
-            if self.objective.maximize {
-                "maximize"
-            } else {
-                "minimize"
-            },
-            obj,
-            self.versus,
-            self.candidates
-                .iter()
-                .filter(|c| c.status == Status::Ok)
-                .count(),
-            self.candidates.len()
-        );
-        crate::export::plot::tradeoff(&points, &front_idx, best, &self.versus, obj, &title)
-    }
-}
-
-fn csv_field(s: &str) -> String {
-    if s.contains([',', '"', '\n']) {
-        format!("\"{}\"", s.replace('"', "\"\""))
-    } else {
-        s.to_string()
-    }
 }
 
 #[cfg(test)]
@@ -812,24 +569,22 @@ layers = 2
         )
         .unwrap();
         assert_eq!(s.len(), 6);
-        let out = s.run(fake, || {});
+        let out = s.summarise(fake);
         // turns*layers <= 20: (2,4),(2,6),(2,8),(4,4) pass; best is 16 (2x8 or 4x4, first wins by order).
-        let ok = out
-            .candidates
-            .iter()
-            .filter(|c| c.status == Status::Ok)
-            .count();
-        assert_eq!(ok, 4);
-        let best = &out.candidates[out.best.unwrap()];
+        assert_eq!(out.ok, 4);
+        assert_eq!(out.fails_requirement, 2);
+        assert_eq!(out.best, Some(2));
+        let best = out.best_candidate().unwrap();
         assert_eq!(best.metrics["force_n"], 16.0);
+        assert_eq!(best.rank, Some(1));
+        let ranks: Vec<usize> = out.top.iter().map(|t| t.0).collect();
+        assert_eq!(ranks, vec![2, 3, 1, 0]);
         assert!(
-            out.candidates
+            out.misses
                 .iter()
-                .any(|c| c.status == Status::FailsRequirement
+                .all(|(_, c)| c.status == Status::FailsRequirement
                     && c.reason.contains("temperature_c <= 40"))
         );
-        let csv = out.csv();
-        assert_eq!(csv.lines().count(), 7);
         assert!(out.plot().starts_with("<svg"));
     }
 
@@ -850,7 +605,7 @@ layers = 2
                 &known(),
             )
             .unwrap()
-            .run(fake, || {})
+            .summarise(fake)
         };
         assert_eq!(run(None).versus, "resistance_ohm_20c");
         let chosen = run(Some(("outer_diameter_mm".into(), false)));

@@ -441,12 +441,12 @@ impl Tally {
             }
         }
         self.analysed += 1;
-        if index % self.step == 0 {
+        if index.is_multiple_of(self.step) {
             self.dots.push(dot);
             while self.dots.len() > PLOT_POINTS {
                 self.step *= 2;
                 let step = self.step;
-                self.dots.retain(|d| d.index % step == 0);
+                self.dots.retain(|d| d.index.is_multiple_of(step));
             }
         }
     }
@@ -454,7 +454,7 @@ impl Tally {
     /// The summary: ranking, the front on the chosen axis, the plot.
     pub fn finish(self) -> Summary {
         // The default x axis gives way when it is the same for every
-        // analysed candidate (see `Sweep::run`).
+        // analysed candidate: the first of DEFAULT_VERSUS that differs.
         let axis = if self.versus_default && self.analysed > 1 && !self.varies[0].1 {
             (1..self.axes.len())
                 .find(|&k| self.varies[k].1)
@@ -608,7 +608,9 @@ mod tests {
         // `front` equals `front` over every point.
         let mut seed = 12345u64;
         let mut next = || {
-            seed = seed.wrapping_mul(6364136223846793005).wrapping_add(1442695040888963407);
+            seed = seed
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
             ((seed >> 33) % 20) as f64
         };
         for _ in 0..50 {
@@ -620,7 +622,10 @@ mod tests {
             let mut kept = f.points.clone();
             kept.sort_by_key(|p| p.2);
             let xy: Vec<(f64, f64)> = kept.iter().map(|p| (p.0, p.1)).collect();
-            let streamed: Vec<usize> = front(&xy, false, false).iter().map(|&k| kept[k].2).collect();
+            let streamed: Vec<usize> = front(&xy, false, false)
+                .iter()
+                .map(|&k| kept[k].2)
+                .collect();
             assert_eq!(streamed, front(&pts, false, false));
         }
     }

@@ -14,7 +14,9 @@
 //! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`: checks
 //!   against outside truth, the source named beside each value;
 //! - `interop`: our files read by KiCad, gerbv, gerbonara, pygerber and
-//!   shapely (needs `tests/interop/setup.sh`).
+//!   shapely (needs `tests/interop/setup.sh`);
+//! - `serve`: the workbench's request guard over plain HTTP, and the
+//!   browser test (chromium + Selenium, needs `tests/interop/setup.sh`).
 //!
 //! Shared helpers live in `common` (the binary runner, profiles) and
 //! `reference_designs` (the designs the reference checks use).
@@ -36,5 +38,6 @@ mod physics_magpylib;
 mod physics_reference;
 mod rules;
 mod rules_props;
+mod serve;
 mod svg_golden;
 mod sweep;
