@@ -179,6 +179,12 @@ pub enum Command {
         /// folders with `sweep merge`.
         #[arg(long, value_name = "K/N")]
         shard: Option<String>,
+        /// After the grid, refine the best 3 candidates over the continuous
+        /// --vary keys (lengths, turns, drive values; whole-number keys stay
+        /// on the grid) with the Nelder-Mead method, within the swept ranges
+        /// and every requirement; best.toml then holds the refined design.
+        #[arg(long, conflicts_with = "shard")]
+        refine: bool,
         /// Folder for the candidate tables (CSV, JSON Lines), the ranking,
         /// the Pareto front, the trade-off plot and the best design file.
         #[arg(short = 'o', long = "out", value_name = "DIR")]
@@ -329,6 +335,7 @@ pub fn run(cli: Cli) -> ExitCode {
             out,
             force,
             shard,
+            refine,
         } => sweep::run(sweep::Args {
             spec: spec.as_deref().unwrap_or(std::path::Path::new("")),
             vary: &vary,
@@ -340,6 +347,7 @@ pub fn run(cli: Cli) -> ExitCode {
             },
             versus: versus.as_deref(),
             shard: shard.as_deref(),
+            refine,
             out: out.as_deref(),
             force,
         }),

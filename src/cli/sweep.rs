@@ -37,6 +37,8 @@ pub struct Args<'a> {
     pub versus: Option<&'a str>,
     /// `--shard K/N`.
     pub shard: Option<&'a str>,
+    /// `--refine`.
+    pub refine: bool,
     /// Output folder.
     pub out: Option<&'a Path>,
     /// Replace the output folder.
@@ -84,6 +86,9 @@ struct Record {
     /// Counts, best index, the plot's axis and thinning.
     #[serde(default)]
     results: serde_json::Value,
+    /// What `--refine` found (null without it).
+    #[serde(default)]
+    refine: serde_json::Value,
 }
 
 /// Evaluates one candidate design file through the whole pipeline.
@@ -344,6 +349,19 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
             range.len()
         );
     }
+    let refined = if a.refine && complete && summary.best.is_some() {
+        let starts: Vec<usize> = summary
+            .top
+            .iter()
+            .take(explore::REFINE_STARTS)
+            .map(|t| t.0)
+            .collect();
+        let r = sweep.refine(&starts, |t| evaluate(&base, t), explore::REFINE_EVALUATIONS);
+        text.push_str(&refine_text(r.as_ref(), &summary.objective));
+        r
+    } else {
+        None
+    };
     print_out(&text)?;
     if let (Some(staging), Some(tables), Some(dir)) = (staging, tables, a.out) {
         tables.finish()?;
@@ -366,8 +384,9 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
             evaluated,
             complete,
             results: serde_json::Value::Null,
+            refine: serde_json::Value::Null,
         };
-        finish_folder(staging, dir, &sweep, &summary, record)?;
+        finish_folder(staging, dir, &sweep, &summary, refined.as_ref(), record)?;
     }
     Ok(if !complete {
         Exit::Interrupted
@@ -400,6 +419,7 @@ fn finish_folder(
     dir: &Path,
     sweep: &Sweep,
     summary: &Summary,
+    refined: Option<&explore::Refinement>,
     mut record: Record,
 ) -> Result<(), Failure> {
     let params: Vec<String> = sweep.vary.iter().map(|v| v.key.clone()).collect();
@@ -411,6 +431,17 @@ fn finish_folder(
         s.into_bytes()
     };
     record.results = serde_json::to_value(summary).context("cannot write sweep.json")?;
+    if let Some(r) = refined {
+        record.refine = serde_json::json!({
+            "method": "Nelder-Mead (Nelder and Mead 1965)",
+            "keys": r.keys,
+            "from_index": r.from,
+            "grid_value": r.grid_value,
+            "value": r.value,
+            "evaluations": r.evaluations,
+            "params": r.candidate.params,
+        });
+    }
     let mut files = vec![
         OutFile {
             path: "ranking.csv".into(),
@@ -432,8 +463,21 @@ fn finish_folder(
         },
     ];
     if let (Some(b), Some(c)) = (summary.best, summary.best_candidate()) {
+        // The refined design when refinement found one, else the best grid
+        // point.
+        let (c, table, how) = match refined {
+            Some(r) if r.value != r.grid_value => (
+                &r.candidate,
+                r.table.clone(),
+                format!(
+                    ", refined by Nelder-Mead from candidate {} in {} evaluations",
+                    r.from, r.evaluations
+                ),
+            ),
+            _ => (c, sweep.candidate_table(b), String::new()),
+        };
         let mut text = format!(
-            "# Best candidate of `coilwright sweep {}`: {} {} = {}\n# Parameters: {}\n# Build it with: coilwright build best.toml -o best\n\n",
+            "# Best candidate of `coilwright sweep {}`{how}: {} {} = {}\n# Parameters: {}\n# Build it with: coilwright build best.toml -o best\n\n",
             record.spec,
             if summary.objective.maximize {
                 "maximum"
@@ -453,7 +497,7 @@ fn finish_folder(
         );
         text.push_str(
             &sweep
-                .candidate_text(&record.base_text, b, record.profile.as_deref())
+                .table_text(&record.base_text, &table, record.profile.as_deref())
                 .map_err(|e| Failure::Other(anyhow::Error::new(e)))?,
         );
         files.push(OutFile {
@@ -632,12 +676,37 @@ pub fn merge(dirs: &[PathBuf], out: &Path, force: bool) -> Result<Exit, Failure>
         ..first
     };
     let nothing = summary.nothing_passes();
-    finish_folder(staging, out, &sweep, &summary, record)?;
+    finish_folder(staging, out, &sweep, &summary, None, record)?;
     Ok(if nothing {
         Exit::NothingPasses
     } else {
         Exit::Ok
     })
+}
+
+/// What refinement found, for the summary.
+fn refine_text(r: Option<&explore::Refinement>, obj: &Objective) -> String {
+    let Some(r) = r else {
+        return "\nrefine: no continuous --vary key (whole-number keys such as layers stay on the grid) or no refined design met every requirement\n".into();
+    };
+    if r.value == r.grid_value {
+        return format!(
+            "\nrefine: nothing better than the best grid point within the swept ranges ({} evaluations, Nelder-Mead over {})\n",
+            r.evaluations,
+            r.keys.join(", ")
+        );
+    }
+    let gain = (r.value - r.grid_value) / r.grid_value.abs().max(1e-300) * 100.0;
+    format!(
+        "\nrefined (Nelder-Mead over {}, from candidate {}, {} evaluations): {} {:.6} -> {:.6} ({gain:+.2} %)\n  {}\n",
+        r.keys.join(", "),
+        r.from,
+        r.evaluations,
+        obj.metric,
+        r.grid_value,
+        r.value,
+        params_text(&r.candidate)
+    )
 }
 
 /// A candidate's parameters as `key=value` words.

@@ -15,12 +15,16 @@
 
 mod metrics;
 mod pareto;
+mod refine;
 mod require;
 mod stream;
 mod vary;
 
 pub use metrics::metrics;
 pub use pareto::{PlotPoint, front, settle};
+pub use refine::{
+    EVALUATIONS as REFINE_EVALUATIONS, Minimum, Refinement, STARTS as REFINE_STARTS, nelder_mead,
+};
 pub use require::{Op, Requirement, check_metric};
 pub use stream::{CHUNK, PLOT_POINTS, Row, Shard, Summary, TOP, Tally, csv_header, csv_row};
 pub use vary::{Kind, Value, Vary, kind_of, numeric_keys, parse as parse_vary, resolve_key};
@@ -326,8 +330,18 @@ impl Sweep {
     /// text) and judges it against the requirements and the design's own
     /// temperature limit.
     pub fn candidate(&self, i: usize, eval: impl Fn(&str) -> Evaluation) -> Candidate {
-        let text = toml::to_string(&self.candidate_table(i)).unwrap_or_default();
-        let params = self.params(i);
+        self.judge(&self.candidate_table(i), self.params(i), eval)
+    }
+
+    /// Evaluates a design table (a candidate's, or one with refined values)
+    /// and judges it as [`Sweep::candidate`] does.
+    pub fn judge(
+        &self,
+        table: &toml::Table,
+        params: Vec<(String, String)>,
+        eval: impl Fn(&str) -> Evaluation,
+    ) -> Candidate {
+        let text = toml::to_string(table).unwrap_or_default();
         match eval(&text) {
             Evaluation::Invalid(reason) => Candidate {
                 params,
@@ -431,13 +445,23 @@ impl Sweep {
         i: usize,
         profile: Option<&str>,
     ) -> Result<String, SweepError> {
+        self.table_text(base_text, &self.candidate_table(i), profile)
+    }
+
+    /// [`Sweep::candidate_text`] of any design table made from the base
+    /// (such as a refined candidate's).
+    pub fn table_text(
+        &self,
+        base_text: &str,
+        wanted: &toml::Table,
+        profile: Option<&str>,
+    ) -> Result<String, SweepError> {
         let mut doc: toml_edit::DocumentMut = base_text
             .parse()
             .map_err(|e: toml_edit::TomlError| SweepError::Base(e.to_string()))?;
-        let wanted = self.candidate_table(i);
         for v in &self.vary {
             let (table, key) = v.key.split_once('.').unwrap_or(("", &v.key));
-            let Some(value) = lookup(&wanted, table, key) else {
+            let Some(value) = lookup(wanted, table, key) else {
                 continue;
             };
             crate::design::edit::set_value(&mut doc, table, key, edit_value(value));
@@ -445,7 +469,7 @@ impl Sweep {
         // Size keys the candidate dropped.
         if let Some(coil) = doc.get_mut("coil").and_then(|c| c.as_table_like_mut()) {
             for k in ["inner_diameter", "turns", "outer_diameter"] {
-                if coil.contains_key(k) && lookup(&wanted, "coil", k).is_none() {
+                if coil.contains_key(k) && lookup(wanted, "coil", k).is_none() {
                     coil.remove(k);
                 }
             }
@@ -482,7 +506,7 @@ fn edit_value(v: &toml::Value) -> toml_edit::Value {
 }
 
 /// Sets a dotted key in a TOML table, creating tables as needed.
-fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
+pub(crate) fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
     let mut parts: Vec<&str> = key.split('.').collect();
     let last = parts.pop().unwrap_or(key);
     let mut cur = t;

@@ -505,3 +505,42 @@ fn ctrl_c_writes_what_was_evaluated_and_marks_it_incomplete() {
     assert_eq!(code, 2);
     assert!(e.contains("incomplete"), "{e}");
 }
+
+/// `--refine` on the README's sweep: the refined design is at least as good
+/// as the best grid point, stays within the swept ranges, keeps layers on
+/// the grid and passes `check`.
+#[test]
+fn refine_improves_on_the_grid_and_the_result_passes_check() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("refined");
+    let (code, o, e) = readme_sweep(&out, &["--refine"]);
+    assert_eq!(code, 0, "{o}{e}");
+    assert!(o.contains("refined (Nelder-Mead"), "{o}");
+    let record: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(out.join("sweep.json")).unwrap()).unwrap();
+    let r = &record["refine"];
+    let (grid, value) = (
+        r["grid_value"].as_f64().unwrap(),
+        r["value"].as_f64().unwrap(),
+    );
+    assert!(value >= grid, "{r}");
+    assert!(r["evaluations"].as_u64().unwrap() <= 500, "{r}");
+    let best = out.join("best.toml");
+    let (code, o, e) = coilwright(&["check", best.to_str().unwrap()]);
+    assert_eq!(code, 0, "{o}{e}");
+    let (code, json, e) = coilwright(&["report", best.to_str().unwrap(), "--json"]);
+    assert_eq!(code, 0, "{e}");
+    let report: serde_json::Value = serde_json::from_str(&json).unwrap();
+    let t = report["temperature_c"].as_f64().unwrap();
+    assert!(t <= 80.0, "refined design at {t} C breaks the requirement");
+    let text = std::fs::read_to_string(&best).unwrap();
+    let layers = text.lines().find(|l| l.starts_with("layers")).unwrap();
+    let layers = layers.split('#').next().unwrap().trim();
+    assert!(
+        ["layers = 2", "layers = 4", "layers = 6"].contains(&layers),
+        "{layers}"
+    );
+    // --refine needs the whole sweep.
+    let (code, _, e) = readme_sweep(&dir.path().join("x"), &["--refine", "--shard", "1/2"]);
+    assert_eq!(code, 2, "{e}");
+}
