@@ -1,7 +1,10 @@
 //! Rule check speed: an 8-layer circular coil with 100 turns per layer,
 //! the same coil with every track cut into 10 (ten times the segments, same
 //! copper), and an 8-layer coil with 1000 turns per layer (ten times the
-//! segments and the turns; about a hundred times the copper length).
+//! segments and the turns; about a hundred times the copper length); and
+//! the growth with the turn count of an 8-layer hexagon with sharp corners
+//! (100, 200, 400 and 1000 turns) and of a long rectangle, whose straight
+//! sides the index measures with the layer's own gauge.
 
 use coilwright::design::Design;
 use coilwright::geometry::{self, Arc, Board, Segment};
@@ -80,7 +83,38 @@ fn bench(c: &mut Criterion) {
     g.bench_function("check 8 layers x 1000 turns", |b| {
         b.iter(|| rules::check(black_box(&d1000), black_box(&l1000), &profile))
     });
+    for turns in [100, 200, 400, 1000] {
+        let (d, l) = polygon_coil("shape = \"polygon\"\nsides = 6", turns);
+        assert!(rules::is_clean(&rules::check(&d, &l, &profile)));
+        g.bench_function(format!("check 8 layers x {turns} turns hexagon"), |b| {
+            b.iter(|| rules::check(black_box(&d), black_box(&l), &profile))
+        });
+    }
+    let (d, l) = polygon_coil(
+        "shape = \"rectangle\"\nwidth = \"200mm\"\nheight = \"130mm\"",
+        300,
+    );
+    assert!(rules::is_clean(&rules::check(&d, &l, &profile)));
+    g.bench_function("check 8 layers x 300 turns rectangle 200 x 130 mm", |b| {
+        b.iter(|| rules::check(black_box(&d), black_box(&l), &profile))
+    });
     g.finish();
+}
+
+/// An 8-layer coil of 0.1/0.1 mm track with `turns` turns about a 6 mm
+/// free centre (rectangles: a free centre of their own), sharp corners.
+fn polygon_coil(shape: &str, turns: u32) -> (Design, Board) {
+    let inner = if shape.contains("rectangle") {
+        ""
+    } else {
+        "inner_diameter = \"6mm\"\n"
+    };
+    let text = format!(
+        "name = \"bench\"\n[coil]\n{shape}\n{inner}turns = {turns}\n\
+         trace_width = \"0.1mm\"\nclearance = \"0.1mm\"\nlayers = 8\n\
+         [stackup]\nkind = \"rigid\"\ncopper = \"1oz\"\ndielectric = \"0.1mm\"\n"
+    );
+    coilwright::pipeline::parse_and_build(&text).expect("bench design")
 }
 
 criterion_group!(benches, bench);

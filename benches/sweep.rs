@@ -86,7 +86,7 @@ fn bench(c: &mut Criterion) {
     let mut g = c.benchmark_group("sweep batch");
     g.sample_size(10);
     g.bench_function("61 candidates, all cores", |b| {
-        b.iter(|| sweep.run(evaluate, || {}))
+        b.iter(|| sweep.summarise(evaluate))
     });
     // New designs every time (turns shifted by 1e-4 per run), so nothing
     // computed for one batch helps the next: the figure a real sweep sees.
@@ -97,7 +97,7 @@ fn bench(c: &mut Criterion) {
                 shift.set(shift.get() + 1);
                 batch(17.0 + f64::from(shift.get()) * 1e-4)
             },
-            |s| s.run(evaluate, || {}),
+            |s| s.summarise(evaluate),
             criterion::BatchSize::PerIteration,
         )
     });

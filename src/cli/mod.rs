@@ -133,12 +133,21 @@ pub enum Command {
         invalid and rule-breaking ones stay in the table with the reason. The design's \
         own max_temperature is always a requirement. Bounds may carry units \
         (\"inductance_h >= 1.5uH\", \"temperature_c <= 60C\").\n\
+        Candidates are written to DIR/candidates.csv and candidates.jsonl as they are \
+        evaluated (memory stays bounded); ranking.csv, front.csv, tradeoff.svg, best.toml and \
+        sweep.json follow at the end. Split a large sweep over machines with --shard K/N \
+        and join the folders with `coilwright sweep merge DIR... -o OUT`.\n\
         Exit status: 0 a candidate meets every requirement, 1 none does (the nearest \
-        misses are listed), 2 bad arguments.")]
+        misses are listed), 2 bad arguments, 130 stopped by Ctrl-C (what was evaluated \
+        is written and marked incomplete).")]
+    #[command(args_conflicts_with_subcommands = true, subcommand_negates_reqs = true)]
     Sweep {
+        /// Join shard folders.
+        #[command(subcommand)]
+        action: Option<SweepAction>,
         /// Base design file (TOML); it must be valid.
-        #[arg(value_name = "SPEC")]
-        spec: PathBuf,
+        #[arg(value_name = "SPEC", required = true)]
+        spec: Option<PathBuf>,
         /// A design key and the values to try: a list (layers=2,4,6), a range
         /// with step 1 (turns=4..20) or a range with a step
         /// (trace_width=0.1mm..0.2mm:0.05mm). Repeat for more keys.
@@ -165,8 +174,19 @@ pub enum Command {
         /// thickness_mm that differs).
         #[arg(long, value_name = "METRIC[:max]")]
         versus: Option<String>,
-        /// Folder for the table (CSV, JSON), the trade-off plot and the best
-        /// design file.
+        /// Evaluate only the K-th of N contiguous slices of the candidate
+        /// list (1 <= K <= N), e.g. one task of a job array; join the
+        /// folders with `sweep merge`.
+        #[arg(long, value_name = "K/N")]
+        shard: Option<String>,
+        /// After the grid, refine the best 3 candidates over the continuous
+        /// --vary keys (lengths, turns, drive values; whole-number keys stay
+        /// on the grid) with the Nelder-Mead method, within the swept ranges
+        /// and every requirement; best.toml then holds the refined design.
+        #[arg(long, conflicts_with = "shard")]
+        refine: bool,
+        /// Folder for the candidate tables (CSV, JSON Lines), the ranking,
+        /// the Pareto front, the trade-off plot and the best design file.
         #[arg(short = 'o', long = "out", value_name = "DIR")]
         out: Option<PathBuf>,
         /// Replace DIR if it exists.
@@ -196,6 +216,24 @@ pub enum Command {
     },
 }
 
+/// What `sweep` does instead of sweeping.
+#[derive(Debug, Subcommand)]
+pub enum SweepAction {
+    /// Join the folders of a sweep's shards (`--shard K/N`, every K once)
+    /// into the folder one unsharded run writes.
+    Merge {
+        /// Shard folders, in any order.
+        #[arg(value_name = "DIR", required = true)]
+        dirs: Vec<PathBuf>,
+        /// Output folder.
+        #[arg(short = 'o', long = "out", value_name = "OUT", required = true)]
+        out: PathBuf,
+        /// Replace OUT if it exists.
+        #[arg(long)]
+        force: bool,
+    },
+}
+
 /// How a command ended.
 #[derive(Debug, Clone, Copy, PartialEq, Eq)]
 pub enum Exit {
@@ -205,6 +243,8 @@ pub enum Exit {
     Violations,
     /// A sweep in which no candidate meets every requirement.
     NothingPasses,
+    /// A sweep stopped by Ctrl-C (its folder marked incomplete).
+    Interrupted,
 }
 
 /// Why a command failed.
@@ -281,6 +321,11 @@ pub fn run(cli: Cli) -> ExitCode {
             port,
         }),
         Command::Sweep {
+            action: Some(SweepAction::Merge { dirs, out, force }),
+            ..
+        } => sweep::merge(&dirs, &out, force),
+        Command::Sweep {
+            action: None,
             spec,
             vary,
             require,
@@ -289,8 +334,10 @@ pub fn run(cli: Cli) -> ExitCode {
             versus,
             out,
             force,
+            shard,
+            refine,
         } => sweep::run(sweep::Args {
-            spec: &spec,
+            spec: spec.as_deref().unwrap_or(std::path::Path::new("")),
             vary: &vary,
             require: &require,
             objective: match (maximize, minimize) {
@@ -299,6 +346,8 @@ pub fn run(cli: Cli) -> ExitCode {
                 (None, None) => (String::new(), true),
             },
             versus: versus.as_deref(),
+            shard: shard.as_deref(),
+            refine,
             out: out.as_deref(),
             force,
         }),
@@ -306,6 +355,7 @@ pub fn run(cli: Cli) -> ExitCode {
     match result {
         Ok(Exit::Ok) | Err(Failure::BrokenPipe) => ExitCode::SUCCESS,
         Ok(Exit::Violations | Exit::NothingPasses) => ExitCode::from(1),
+        Ok(Exit::Interrupted) => ExitCode::from(130),
         Err(f) => {
             diagnostics::render_failure(&f);
             ExitCode::from(2)

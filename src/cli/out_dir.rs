@@ -87,39 +87,96 @@ fn sync_dir(dir: &Path) {
 /// folder is replaced only after the new one is complete. The parent
 /// folder is created if needed.
 pub fn write(dir: &Path, files: &[OutFile], force: bool) -> Result<(), OutDirError> {
-    let mut seen = std::collections::BTreeSet::new();
-    let rel: Vec<PathBuf> = files
-        .iter()
-        .map(|f| {
-            if !seen.insert(f.path.as_str()) {
-                return Err(OutDirError::Duplicate(f.path.clone()));
-            }
-            relative(&f.path)
+    let staging = Staging::new(dir, force)?;
+    staging.add(files)?;
+    staging.commit()
+}
+
+/// An output folder being filled: a hidden temporary folder next to the
+/// target, renamed into place by [`Staging::commit`] and removed if the
+/// staging is dropped without it. For outputs that grow while the command
+/// runs (a sweep's candidate tables), written into [`Staging::path`].
+pub struct Staging {
+    tmp: PathBuf,
+    dir: PathBuf,
+    parent: PathBuf,
+    name: String,
+    force: bool,
+    done: bool,
+}
+
+impl Staging {
+    /// Checks the target (exists without `force`, not a folder, not
+    /// nameable) and creates the temporary folder.
+    pub fn new(dir: &Path, force: bool) -> Result<Staging, OutDirError> {
+        let exists = fs::symlink_metadata(dir).ok();
+        match &exists {
+            Some(m) if !m.is_dir() => return Err(OutDirError::NotADir(dir.to_path_buf())),
+            Some(_) if !force => return Err(OutDirError::Exists(dir.to_path_buf())),
+            _ => {}
+        }
+        let name = dir
+            .file_name()
+            .ok_or_else(|| OutDirError::BadTarget(dir.to_path_buf()))?
+            .to_string_lossy()
+            .into_owned();
+        let parent = match dir.parent() {
+            Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
+            _ => PathBuf::from("."),
+        };
+        fs::create_dir_all(&parent).map_err(io(&parent))?;
+        let tmp = sibling(&parent, &name, "tmp");
+        fs::create_dir(&tmp).map_err(io(&tmp))?;
+        Ok(Staging {
+            tmp,
+            dir: dir.to_path_buf(),
+            parent,
+            name,
+            force,
+            done: false,
         })
-        .collect::<Result<_, _>>()?;
-    let exists = fs::symlink_metadata(dir).ok();
-    match &exists {
-        Some(m) if !m.is_dir() => return Err(OutDirError::NotADir(dir.to_path_buf())),
-        Some(_) if !force => return Err(OutDirError::Exists(dir.to_path_buf())),
-        _ => {}
     }
-    let name = dir
-        .file_name()
-        .ok_or_else(|| OutDirError::BadTarget(dir.to_path_buf()))?
-        .to_string_lossy()
-        .into_owned();
-    let parent = match dir.parent() {
-        Some(p) if !p.as_os_str().is_empty() => p.to_path_buf(),
-        _ => PathBuf::from("."),
-    };
-    fs::create_dir_all(&parent).map_err(io(&parent))?;
-    let tmp = sibling(&parent, &name, "tmp");
-    fs::create_dir(&tmp).map_err(io(&tmp))?;
-    let result = fill(&tmp, files, &rel).and_then(|()| swap_in(&tmp, dir, &parent, &name));
-    if result.is_err() {
-        let _ = fs::remove_dir_all(&tmp);
+
+    /// The temporary folder, for files written piece by piece.
+    pub fn path(&self) -> &Path {
+        &self.tmp
     }
-    result
+
+    /// Writes and flushes `files` into the temporary folder (plain relative
+    /// paths, no two alike).
+    pub fn add(&self, files: &[OutFile]) -> Result<(), OutDirError> {
+        let mut seen = std::collections::BTreeSet::new();
+        let rel: Vec<PathBuf> = files
+            .iter()
+            .map(|f| {
+                if !seen.insert(f.path.as_str()) || self.tmp.join(&f.path).exists() {
+                    return Err(OutDirError::Duplicate(f.path.clone()));
+                }
+                relative(&f.path)
+            })
+            .collect::<Result<_, _>>()?;
+        fill(&self.tmp, files, &rel)
+    }
+
+    /// Renames the complete folder into place (replacing an existing one
+    /// only with `force`, checked again now).
+    pub fn commit(mut self) -> Result<(), OutDirError> {
+        if !self.force && fs::symlink_metadata(&self.dir).is_ok() {
+            return Err(OutDirError::Exists(self.dir.clone()));
+        }
+        sync_dir(&self.tmp);
+        swap_in(&self.tmp, &self.dir, &self.parent, &self.name)?;
+        self.done = true;
+        Ok(())
+    }
+}
+
+impl Drop for Staging {
+    fn drop(&mut self) {
+        if !self.done {
+            let _ = fs::remove_dir_all(&self.tmp);
+        }
+    }
 }
 
 /// Writes and flushes every file into `tmp`.

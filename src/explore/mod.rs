@@ -15,16 +15,21 @@
 
 mod metrics;
 mod pareto;
+mod refine;
 mod require;
+mod stream;
 mod vary;
 
 pub use metrics::metrics;
 pub use pareto::{PlotPoint, front, settle};
+pub use refine::{
+    EVALUATIONS as REFINE_EVALUATIONS, Minimum, Refinement, STARTS as REFINE_STARTS, nelder_mead,
+};
 pub use require::{Op, Requirement, check_metric};
+pub use stream::{CHUNK, PLOT_POINTS, Row, Shard, Summary, TOP, Tally, csv_header, csv_row};
 pub use vary::{Kind, Value, Vary, kind_of, numeric_keys, parse as parse_vary, resolve_key};
 
-use rayon::prelude::*;
-use serde::Serialize;
+use serde::{Deserialize, Serialize};
 use std::collections::BTreeMap;
 
 /// Bad sweep arguments.
@@ -104,6 +109,14 @@ pub enum SweepError {
         /// Nearest known metric.
         suggestion: Option<String>,
     },
+    /// A `--shard` that does not parse.
+    #[error("--shard {text}: {message}")]
+    BadShard {
+        /// As typed.
+        text: String,
+        /// What is wrong.
+        message: String,
+    },
     /// The base design file is not a TOML table.
     #[error("the base design is not valid TOML: {0}")]
     Base(String),
@@ -158,7 +171,7 @@ pub struct Sweep {
 }
 
 /// Why a candidate was set aside.
-#[derive(Debug, Clone, PartialEq, Serialize)]
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Status {
     /// Valid, passes the rule check and meets every requirement.
@@ -202,21 +215,6 @@ pub struct Candidate {
     /// have the smallest.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub shortfall: Option<f64>,
-}
-
-/// The result of a sweep.
-#[derive(Debug, Clone, Serialize)]
-pub struct Outcome {
-    /// The objective.
-    pub objective: Objective,
-    /// Requirements as typed.
-    pub requirements: Vec<String>,
-    /// The trade-off plot's x metric.
-    pub versus: String,
-    /// All candidates in generation order.
-    pub candidates: Vec<Candidate>,
-    /// Index of the best candidate.
-    pub best: Option<usize>,
 }
 
 impl Sweep {
@@ -328,138 +326,92 @@ impl Sweep {
             .collect()
     }
 
-    /// Evaluates every candidate (in parallel) with `eval`, which receives
-    /// the candidate's design-file text; `tick` is called once per candidate.
-    pub fn run(&self, eval: impl Fn(&str) -> Evaluation + Sync, tick: impl Fn() + Sync) -> Outcome {
-        let mut candidates: Vec<Candidate> = (0..self.len())
-            .into_par_iter()
-            .map(|i| {
-                let text = toml::to_string(&self.candidate_table(i)).unwrap_or_default();
-                let params = self.params(i);
-                let c = match eval(&text) {
-                    Evaluation::Invalid(reason) => Candidate {
-                        params,
-                        status: Status::Invalid,
-                        reason,
-                        metrics: BTreeMap::new(),
-                        rank: None,
-                        pareto: false,
-                        shortfall: None,
-                    },
-                    Evaluation::RuleViolation(metrics, reason) => Candidate {
-                        params,
-                        status: Status::RuleViolation,
-                        reason,
-                        metrics,
-                        rank: None,
-                        pareto: false,
-                        shortfall: None,
-                    },
-                    Evaluation::Metrics(metrics) => {
-                        let limit = temperature_limit(&metrics);
-                        let failed: Vec<String> = limit
+    /// Evaluates candidate `i` (`eval` takes the candidate's design file
+    /// text) and judges it against the requirements and the design's own
+    /// temperature limit.
+    pub fn candidate(&self, i: usize, eval: impl Fn(&str) -> Evaluation) -> Candidate {
+        self.judge(&self.candidate_table(i), self.params(i), eval)
+    }
+
+    /// Evaluates a design table (a candidate's, or one with refined values)
+    /// and judges it as [`Sweep::candidate`] does.
+    pub fn judge(
+        &self,
+        table: &toml::Table,
+        params: Vec<(String, String)>,
+        eval: impl Fn(&str) -> Evaluation,
+    ) -> Candidate {
+        let text = toml::to_string(table).unwrap_or_default();
+        match eval(&text) {
+            Evaluation::Invalid(reason) => Candidate {
+                params,
+                status: Status::Invalid,
+                reason,
+                metrics: BTreeMap::new(),
+                rank: None,
+                pareto: false,
+                shortfall: None,
+            },
+            Evaluation::RuleViolation(metrics, reason) => Candidate {
+                params,
+                status: Status::RuleViolation,
+                reason,
+                metrics,
+                rank: None,
+                pareto: false,
+                shortfall: None,
+            },
+            Evaluation::Metrics(metrics) => {
+                let limit = temperature_limit(&metrics);
+                let failed: Vec<String> = limit
+                    .iter()
+                    .map(|(text, _)| text.clone())
+                    .chain(
+                        self.require
                             .iter()
-                            .map(|(text, _)| text.clone())
-                            .chain(
-                                self.require
-                                    .iter()
-                                    .filter(|r| r.holds(&metrics) != Some(true))
-                                    .map(|r| {
-                                        let got = metrics
-                                            .get(&r.metric)
-                                            .map_or("missing".into(), |v| format!("{v:.4}"));
-                                        format!("{} (is {got})", r.text)
-                                    }),
-                            )
-                            .collect();
-                        let shortfall = self
-                            .require
-                            .iter()
-                            .filter_map(|r| r.shortfall(&metrics))
-                            .chain(limit.map(|(_, gap)| gap))
-                            .reduce(f64::max);
-                        Candidate {
-                            params,
-                            status: if failed.is_empty() {
-                                Status::Ok
-                            } else {
-                                Status::FailsRequirement
-                            },
-                            reason: failed.join("; "),
-                            metrics,
-                            rank: None,
-                            pareto: false,
-                            shortfall,
-                        }
-                    }
-                };
-                tick();
-                c
-            })
-            .collect();
-        // Rank the ok candidates.
-        let obj = &self.objective;
-        let value = |c: &Candidate| c.metrics.get(&obj.metric).copied().unwrap_or(f64::NAN);
-        let mut ok: Vec<usize> = (0..candidates.len())
-            .filter(|&i| candidates[i].status == Status::Ok && value(&candidates[i]).is_finite())
-            .collect();
-        ok.sort_by(|&a, &b| {
-            let (x, y) = (value(&candidates[a]), value(&candidates[b]));
-            let o = if obj.maximize {
-                y.total_cmp(&x)
-            } else {
-                x.total_cmp(&y)
-            };
-            o.then(a.cmp(&b))
-        });
-        for (r, &i) in ok.iter().enumerate() {
-            candidates[i].rank = Some(r + 1);
+                            .filter(|r| r.holds(&metrics) != Some(true))
+                            .map(|r| {
+                                let got = metrics
+                                    .get(&r.metric)
+                                    .map_or("missing".into(), |v| format!("{v:.4}"));
+                                format!("{} (is {got})", r.text)
+                            }),
+                    )
+                    .collect();
+                let shortfall = self
+                    .require
+                    .iter()
+                    .filter_map(|r| r.shortfall(&metrics))
+                    .chain(limit.map(|(_, gap)| gap))
+                    .reduce(f64::max);
+                Candidate {
+                    params,
+                    status: if failed.is_empty() {
+                        Status::Ok
+                    } else {
+                        Status::FailsRequirement
+                    },
+                    reason: failed.join("; "),
+                    metrics,
+                    rank: None,
+                    pareto: false,
+                    shortfall,
+                }
+            }
         }
-        let best = ok.first().copied();
-        // The default second metric (the outer size) says nothing when the
-        // sweep keeps it fixed: plot against the resistance instead. Judged
-        // on every plotted candidate (those that meet the requirements and
-        // those that miss one), so the plot never becomes one column.
-        let metric =
-            |name: &str, i: usize| candidates[i].metrics.get(name).copied().unwrap_or(f64::NAN);
-        let plotted: Vec<usize> = (0..candidates.len())
-            .filter(|&i| matches!(candidates[i].status, Status::Ok | Status::FailsRequirement))
-            .collect();
-        let varies = |name: &str| {
-            let x = |i: usize| pareto::settle(metric(name, i));
-            plotted.len() > 1 && plotted.iter().any(|&i| x(i) != x(plotted[0]))
-        };
-        let versus = if self.versus_default && plotted.len() > 1 && !varies(&self.versus.0) {
-            DEFAULT_VERSUS
-                .iter()
-                .find(|m| **m != obj.metric && varies(m))
-                .map(|m| (m.to_string(), false))
-                .unwrap_or_else(|| self.versus.clone())
-        } else {
-            self.versus.clone()
-        };
-        // Pareto front among ok candidates.
-        let pts: Vec<(f64, f64)> = ok
-            .iter()
-            .map(|&i| (metric(&versus.0, i), value(&candidates[i])))
-            .collect();
-        for k in front(&pts, versus.1, obj.maximize) {
-            candidates[ok[k]].pareto = true;
-        }
-        Outcome {
-            objective: obj.clone(),
-            requirements: self.require.iter().map(|r| r.text.clone()).collect(),
-            versus: versus.0,
-            candidates,
-            best,
-        }
+    }
+
+    /// Evaluates every candidate with `eval` (in parallel, in chunks) and
+    /// returns the tally's summary: [`Sweep::stream`] with a [`Tally`],
+    /// for callers that need no table of every candidate.
+    pub fn summarise(&self, eval: impl Fn(&str) -> Evaluation + Sync) -> Summary {
+        let mut tally = Tally::new(self);
+        let never = std::sync::atomic::AtomicBool::new(false);
+        self.stream(0..self.len(), eval, &never, |i, c| tally.add(i, &c));
+        tally.finish()
     }
 }
 
-/// The design's own temperature limit, a requirement of every sweep:
-/// `Some((reason, relative shortfall))` when the candidate's steady
-/// temperature is above its `max_temperature` (or it has none: no steady
-/// state below the copper's limit).
 fn temperature_limit(metrics: &BTreeMap<String, f64>) -> Option<(String, f64)> {
     let max = *metrics.get("max_temperature_c")?;
     match metrics.get("temperature_c") {
@@ -493,13 +445,23 @@ impl Sweep {
         i: usize,
         profile: Option<&str>,
     ) -> Result<String, SweepError> {
+        self.table_text(base_text, &self.candidate_table(i), profile)
+    }
+
+    /// [`Sweep::candidate_text`] of any design table made from the base
+    /// (such as a refined candidate's).
+    pub fn table_text(
+        &self,
+        base_text: &str,
+        wanted: &toml::Table,
+        profile: Option<&str>,
+    ) -> Result<String, SweepError> {
         let mut doc: toml_edit::DocumentMut = base_text
             .parse()
             .map_err(|e: toml_edit::TomlError| SweepError::Base(e.to_string()))?;
-        let wanted = self.candidate_table(i);
         for v in &self.vary {
             let (table, key) = v.key.split_once('.').unwrap_or(("", &v.key));
-            let Some(value) = lookup(&wanted, table, key) else {
+            let Some(value) = lookup(wanted, table, key) else {
                 continue;
             };
             crate::design::edit::set_value(&mut doc, table, key, edit_value(value));
@@ -507,7 +469,7 @@ impl Sweep {
         // Size keys the candidate dropped.
         if let Some(coil) = doc.get_mut("coil").and_then(|c| c.as_table_like_mut()) {
             for k in ["inner_diameter", "turns", "outer_diameter"] {
-                if coil.contains_key(k) && lookup(&wanted, "coil", k).is_none() {
+                if coil.contains_key(k) && lookup(wanted, "coil", k).is_none() {
                     coil.remove(k);
                 }
             }
@@ -544,7 +506,7 @@ fn edit_value(v: &toml::Value) -> toml_edit::Value {
 }
 
 /// Sets a dotted key in a TOML table, creating tables as needed.
-fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
+pub(crate) fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
     let mut parts: Vec<&str> = key.split('.').collect();
     let last = parts.pop().unwrap_or(key);
     let mut cur = t;
@@ -561,148 +523,6 @@ fn set(t: &mut toml::Table, key: &str, value: toml::Value) {
         };
     }
     cur.insert(last.to_string(), value);
-}
-
-impl Outcome {
-    /// Whether no candidate meets every requirement.
-    pub fn nothing_passes(&self) -> bool {
-        self.best.is_none()
-    }
-
-    /// Up to `n` candidates that miss a requirement, nearest first (smallest
-    /// relative shortfall; ties in generation order).
-    pub fn nearest_misses(&self, n: usize) -> Vec<&Candidate> {
-        let mut misses: Vec<&Candidate> = self
-            .candidates
-            .iter()
-            .filter(|c| c.status == Status::FailsRequirement)
-            .collect();
-        misses.sort_by(|a, b| {
-            a.shortfall
-                .unwrap_or(f64::INFINITY)
-                .total_cmp(&b.shortfall.unwrap_or(f64::INFINITY))
-        });
-        misses.truncate(n);
-        misses
-    }
-
-    /// All candidates as CSV: rank, status, reason, parameters, metrics.
-    pub fn csv(&self) -> String {
-        let params: Vec<String> = self
-            .candidates
-            .first()
-            .map(|c| c.params.iter().map(|(k, _)| k.clone()).collect())
-            .unwrap_or_default();
-        let mut metrics: Vec<String> = self
-            .candidates
-            .iter()
-            .flat_map(|c| c.metrics.keys().cloned())
-            .collect();
-        metrics.sort();
-        metrics.dedup();
-        let mut out = String::new();
-        let mut header = vec![
-            "index".to_string(),
-            "rank".into(),
-            "status".into(),
-            "pareto".into(),
-        ];
-        header.extend(params.iter().cloned());
-        header.extend(metrics.iter().cloned());
-        header.push("reason".into());
-        out.push_str(
-            &header
-                .iter()
-                .map(|h| csv_field(h))
-                .collect::<Vec<_>>()
-                .join(","),
-        );
-        out.push('\n');
-        for (i, c) in self.candidates.iter().enumerate() {
-            let mut row = vec![
-                i.to_string(),
-                c.rank.map(|r| r.to_string()).unwrap_or_default(),
-                serde_json::to_value(&c.status)
-                    .ok()
-                    .and_then(|v| v.as_str().map(String::from))
-                    .unwrap_or_default(),
-                c.pareto.to_string(),
-            ];
-            row.extend(c.params.iter().map(|(_, v)| v.clone()));
-            row.extend(
-                metrics
-                    .iter()
-                    .map(|m| c.metrics.get(m).map(|v| format!("{v}")).unwrap_or_default()),
-            );
-            row.push(c.reason.clone());
-            out.push_str(
-                &row.iter()
-                    .map(|h| csv_field(h))
-                    .collect::<Vec<_>>()
-                    .join(","),
-            );
-            out.push('\n');
-        }
-        out
-    }
-
-    /// The trade-off plot (SVG).
-    pub fn plot(&self) -> String {
-        let obj = &self.objective.metric;
-        let analysed: Vec<usize> = (0..self.candidates.len())
-            .filter(|&i| {
-                matches!(
-                    self.candidates[i].status,
-                    Status::Ok | Status::FailsRequirement
-                )
-            })
-            .collect();
-        let points: Vec<PlotPoint> = analysed
-            .iter()
-            .map(|&i| {
-                let c = &self.candidates[i];
-                PlotPoint {
-                    x: c.metrics.get(&self.versus).copied().unwrap_or(f64::NAN),
-                    y: c.metrics.get(obj).copied().unwrap_or(f64::NAN),
-                    feasible: c.status == Status::Ok,
-                }
-            })
-            .collect();
-        let mut front_idx: Vec<usize> = analysed
-            .iter()
-            .enumerate()
-            .filter(|(_, i)| self.candidates[**i].pareto)
-            .map(|(k, _)| k)
-            .collect();
-        front_idx.sort_by(|a, b| points[*a].x.total_cmp(&points[*b].x));
-        let best = self
-            .best
-            .and_then(|b| analysed.iter().position(|&i| i == b));
-        let title = format!(
-            "{} {} vs {} ({} of {} candidates meet the requirements)",
-            if self.objective.maximize {
-                "maximize"
-            } else {
-                "minimize"
-            },
-            obj,
-            self.versus,
-            self.candidates
-                .iter()
-                .filter(|c| c.status == Status::Ok)
-                .count(),
-            self.candidates.len()
-        );
-        crate::export::plot::tradeoff(&points, &front_idx, best, &self.versus, obj, &title)
-    }
-}
-
-fn csv_field(s: &str) -> String {
-    if s.contains([',', '"', '\n']) {
-        format!("\"{}\"", s.replace('"', "\"\""))
-    } else {
-        s.to_string()
-    }
 }
 
 #[cfg(test)]
@@ -773,24 +593,22 @@ layers = 2
         )
         .unwrap();
         assert_eq!(s.len(), 6);
-        let out = s.run(fake, || {});
+        let out = s.summarise(fake);
         // turns*layers <= 20: (2,4),(2,6),(2,8),(4,4) pass; best is 16 (2x8 or 4x4, first wins by order).
-        let ok = out
-            .candidates
-            .iter()
-            .filter(|c| c.status == Status::Ok)
-            .count();
-        assert_eq!(ok, 4);
-        let best = &out.candidates[out.best.unwrap()];
+        assert_eq!(out.ok, 4);
+        assert_eq!(out.fails_requirement, 2);
+        assert_eq!(out.best, Some(2));
+        let best = out.best_candidate().unwrap();
         assert_eq!(best.metrics["force_n"], 16.0);
+        assert_eq!(best.rank, Some(1));
+        let ranks: Vec<usize> = out.top.iter().map(|t| t.0).collect();
+        assert_eq!(ranks, vec![2, 3, 1, 0]);
         assert!(
-            out.candidates
+            out.misses
                 .iter()
-                .any(|c| c.status == Status::FailsRequirement
+                .all(|(_, c)| c.status == Status::FailsRequirement
                     && c.reason.contains("temperature_c <= 40"))
         );
-        let csv = out.csv();
-        assert_eq!(csv.lines().count(), 7);
         assert!(out.plot().starts_with("<svg"));
     }
 
@@ -811,7 +629,7 @@ layers = 2
                 &known(),
             )
             .unwrap()
-            .run(fake, || {})
+            .summarise(fake)
         };
         assert_eq!(run(None).versus, "resistance_ohm_20c");
         let chosen = run(Some(("outer_diameter_mm".into(), false)));

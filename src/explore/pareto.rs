@@ -44,6 +44,7 @@ pub fn front(points: &[(f64, f64)], x_max: bool, y_max: bool) -> Vec<usize> {
 }
 
 /// A plotted point.
+#[derive(Debug, Clone, Copy, PartialEq)]
 pub struct PlotPoint {
     /// x value.
     pub x: f64,

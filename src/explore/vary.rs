@@ -99,7 +99,7 @@ pub fn resolve_key(typed: &str) -> Result<(String, Kind), SweepError> {
 }
 
 /// A number with an optional unit suffix, e.g. "0.1mm" -> (0.1, "mm").
-fn split_unit(s: &str) -> Option<(f64, String)> {
+pub(crate) fn split_unit(s: &str) -> Option<(f64, String)> {
     let s = s.trim();
     let cut = s
         .char_indices()
@@ -122,7 +122,13 @@ fn tidy(x: f64) -> String {
     if s == "-0" { "0".into() } else { s.into() }
 }
 
-fn value(key: &str, kind: Kind, number: f64, unit: &str, arg: &str) -> Result<Value, SweepError> {
+pub(crate) fn value(
+    key: &str,
+    kind: Kind,
+    number: f64,
+    unit: &str,
+    arg: &str,
+) -> Result<Value, SweepError> {
     match kind {
         Kind::Integer => {
             if !unit.is_empty() || number.fract() != 0.0 {

@@ -20,6 +20,20 @@
 //! missed. The number of candidates per piece stays bounded, and the check
 //! costs `O(n log n)` in the number of pieces.
 //!
+//! # Distance from the axis: round or by the sides
+//! For a polygon or rectangle coil "distance from the axis" is measured
+//! with the layer's own gauge, `rho(p) = max_k (n_k . p - o_k)` over the
+//! outward normals `n_k` of its straight sides (offsets `o_k >= 0`, the
+//! smallest zero), found from the layer's copper (see [`Gauge`]). A side
+//! of every turn then has a nearly constant `rho`, so it stays one thin box
+//! instead of being cut into pieces that each span `4 h` of Euclidean
+//! radius: a side of the outer turns would need a number of pieces that
+//! grows with the turn count, and the check would grow with its cube. The
+//! gauge is 1-Lipschitz (unit normals) and never exceeds the Euclidean
+//! radius (`o_k >= 0`), so a query grown by the reach `d` in `rho` and by
+//! `asin(d / rho0)` in angle is still conservative. Any such gauge gives the
+//! same verdicts; a poor one only costs time.
+//!
 //! # Along the conductor
 //! Tracks of a winding (`Board::windings`) form one path from node to
 //! node; each piece knows its path and its position `s` (mm from the
@@ -33,7 +47,7 @@
 use super::Item;
 use super::profile::Profile;
 use crate::design::Design;
-use crate::geometry::{Board, Node, Point, Segment, angle_between};
+use crate::geometry::{Board, Node, Point, Segment, Vec2, angle_between};
 use std::f64::consts::{FRAC_PI_2, PI, TAU};
 
 /// How candidate pairs are found.
@@ -106,25 +120,31 @@ pub(crate) struct PolarBox {
 }
 
 impl PolarBox {
-    /// The polar box of a point.
-    pub fn point(p: Point) -> PolarBox {
+    /// The polar box of a point, its distance measured with `gauge`.
+    pub fn point(p: Point, gauge: &Gauge) -> PolarBox {
         let r = p.radius();
+        let g = gauge.at(p);
         PolarBox {
-            r0: r,
-            r1: r,
+            r0: g,
+            r1: g,
             t0: if r > 0.0 { p.angle() } else { 0.0 },
             t1: if r > 0.0 { p.angle() } else { 0.0 },
             full: r <= 0.0,
         }
     }
 
-    /// A conservative polar box of a segment's centre line.
-    pub fn of(seg: &Segment) -> PolarBox {
+    /// A conservative polar box of a segment's centre line, its distance
+    /// from the axis measured with `gauge`.
+    pub fn of(seg: &Segment, gauge: &Gauge) -> PolarBox {
         let r0 = seg.min_radius();
         let r1 = seg.max_radius();
+        let (g0, g1) = match gauge {
+            Gauge::Round => (r0, r1),
+            _ => gauge.range(seg),
+        };
         let full = PolarBox {
-            r0: r0 - 1e-9,
-            r1: r1 + 1e-9,
+            r0: g0 - 1e-9,
+            r1: g1 + 1e-9,
             t0: -PI,
             t1: 3.0 * PI,
             full: true,
@@ -177,11 +197,117 @@ impl PolarBox {
         };
         let k = ((a + PI) / TAU).floor();
         PolarBox {
-            r0: r0 - 1e-9,
-            r1: r1 + 1e-9,
+            r0: g0 - 1e-9,
+            r1: g1 + 1e-9,
             t0: a - k * TAU - 1e-9,
             t1: b - k * TAU + 1e-9,
             full: false,
+        }
+    }
+}
+
+/// How a layer measures distance from the axis for the index (module
+/// notes): Euclidean, or by the outward normals of its straight sides.
+#[derive(Debug, Clone, PartialEq)]
+pub(crate) enum Gauge {
+    /// Euclidean distance from the axis.
+    Round,
+    /// `max_k (n_k . p - o_k)`: unit normals positively spanning the plane
+    /// (no gap of half a turn or more between neighbouring normals), with
+    /// offsets `o_k >= 0`, the smallest zero.
+    Sides(Vec<(Vec2, f64)>),
+}
+
+impl Gauge {
+    /// The gauge of one layer's copper: the outward normals of the straight
+    /// tracks that run across the axis' view (more tangential than radial:
+    /// polygon and rectangle sides) and are longer than `min_len`, grouped
+    /// by direction (1e-6 rad), keeping directions shared by at least two
+    /// tracks; each offset is the innermost such track's `n . p` less the
+    /// smallest of those. `Round` when fewer than three directions remain,
+    /// more than 24, or they do not span the plane.
+    pub fn of_layer<'s>(segments: impl Iterator<Item = &'s Segment>, min_len: f64) -> Gauge {
+        // (angle of the normal, innermost n . p, count)
+        let mut dirs: Vec<(f64, f64, usize)> = Vec::new();
+        for seg in segments {
+            let Segment::Line(l) = seg else { continue };
+            let Some(u) = (l.end - l.start).normalized() else {
+                continue;
+            };
+            if seg.length() < min_len {
+                continue;
+            }
+            let mid = l.start.lerp(l.end, 0.5).to_vec2();
+            let mut n = u.perp();
+            if n.dot(mid) < 0.0 {
+                n = n * -1.0;
+            }
+            let off = n.dot(mid);
+            if off < 0.7 * mid.length() || off <= 0.0 {
+                continue;
+            }
+            let a = n.angle().rem_euclid(TAU);
+            match dirs.iter_mut().find(|d| {
+                let diff = (d.0 - a).abs();
+                diff.min(TAU - diff) < 1e-6
+            }) {
+                Some(d) => {
+                    d.1 = d.1.min(off);
+                    d.2 += 1;
+                }
+                None => dirs.push((a, off, 1)),
+            }
+            if dirs.len() > 64 {
+                return Gauge::Round;
+            }
+        }
+        dirs.retain(|d| d.2 >= 2);
+        if dirs.len() < 3 || dirs.len() > 24 {
+            return Gauge::Round;
+        }
+        dirs.sort_by(|a, b| a.0.total_cmp(&b.0));
+        let gap = dirs
+            .windows(2)
+            .map(|w| w[1].0 - w[0].0)
+            .chain(std::iter::once(dirs[0].0 + TAU - dirs[dirs.len() - 1].0))
+            .fold(0.0, f64::max);
+        if gap >= PI - 1e-6 {
+            return Gauge::Round;
+        }
+        let base = dirs.iter().map(|d| d.1).fold(f64::INFINITY, f64::min);
+        Gauge::Sides(
+            dirs.iter()
+                .map(|d| (Vec2::from_angle(d.0), d.1 - base))
+                .collect(),
+        )
+    }
+
+    /// The gauge of a point.
+    pub fn at(&self, p: Point) -> f64 {
+        match self {
+            Gauge::Round => p.radius(),
+            Gauge::Sides(ns) => ns
+                .iter()
+                .map(|&(n, o)| n.dot(p.to_vec2()) - o)
+                .fold(f64::NEG_INFINITY, f64::max),
+        }
+    }
+
+    /// A range `(lo, hi)` holding the gauge of every point of a segment's
+    /// centre line: exact for `Round`; for `Sides` `hi` is exact (the
+    /// largest support) and `lo` a lower bound (the largest of the
+    /// smallest supports, which is exact along a side).
+    pub fn range(&self, seg: &Segment) -> (f64, f64) {
+        match self {
+            Gauge::Round => (seg.min_radius(), seg.max_radius()),
+            Gauge::Sides(ns) => {
+                let (mut lo, mut hi) = (f64::NEG_INFINITY, f64::NEG_INFINITY);
+                for &(n, o) in ns {
+                    hi = hi.max(seg.support(n) - o);
+                    lo = lo.max(-seg.support(n * -1.0) - o);
+                }
+                (lo.min(hi), hi)
+            }
         }
     }
 }
@@ -276,6 +402,7 @@ pub(crate) struct Context<'a> {
     /// in the same direction (no corner between them).
     smooth_start: Vec<bool>,
     by_layer: Vec<Vec<usize>>,
+    gauges: Vec<Gauge>,
     index: Vec<LayerIndex>,
     broadphase: Broadphase,
 }
@@ -366,22 +493,45 @@ impl<'a> Context<'a> {
             }
         }
 
+        // Each layer's gauge (module notes), from its tracks longer than
+        // 4 h: shorter ones never need cutting.
+        let gauges: Vec<Gauge> = (1..=layers)
+            .map(|layer| {
+                let segs = layout
+                    .tracks
+                    .iter()
+                    .filter(|t| t.layer == layer)
+                    .map(|t| &t.segment);
+                Gauge::of_layer(segs, 4.0 * h)
+            })
+            .collect();
+        let round = Gauge::Round;
+        let gauge_of = |layer: u8| match layer {
+            0 => &round,
+            l => gauges.get(l as usize - 1).unwrap_or(&round),
+        };
+
         let mut pieces = Vec::new();
         for (i, t) in layout.tracks.iter().enumerate() {
             let (path, s_start) = track_path[i].unwrap_or((0, 0.0));
             let len = t.segment.length();
-            // Quarter turns at most; range of distance from the axis at most 4 h.
-            let n = match t.segment {
-                Segment::Line(l) => {
+            let gauge = gauge_of(t.layer);
+            // Quarter turns at most; range of distance from the axis (in
+            // the layer's gauge) at most 4 h.
+            let spread = || {
+                let (lo, hi) = gauge.range(&t.segment);
+                ((hi - lo) / (4.0 * h)).ceil() as usize
+            };
+            let n = match (t.segment, gauge) {
+                (Segment::Line(l), Gauge::Round) => {
                     let slope = |p: Point| match (l.end - l.start).normalized() {
                         Some(u) if p.radius() > 0.0 => u.dot(p.to_vec2()).abs() / p.radius(),
                         _ => 1.0,
                     };
                     (len * slope(l.start).max(slope(l.end)) / (4.0 * h)).ceil() as usize
                 }
-                Segment::Arc(a) => ((a.sweep.abs() / FRAC_PI_2).ceil() as usize).max(
-                    ((t.segment.max_radius() - t.segment.min_radius()) / (4.0 * h)).ceil() as usize,
-                ),
+                (Segment::Line(_), Gauge::Sides(_)) => spread(),
+                (Segment::Arc(a), _) => ((a.sweep.abs() / FRAC_PI_2).ceil() as usize).max(spread()),
             }
             .max(1);
             for k in 0..n {
@@ -399,7 +549,7 @@ impl<'a> Context<'a> {
                     path,
                     s0: s_start + len * t0,
                     s1: s_start + len * t1,
-                    polar: PolarBox::of(&seg),
+                    polar: PolarBox::of(&seg, gauge),
                 });
             }
         }
@@ -460,8 +610,20 @@ impl<'a> Context<'a> {
             max_hw,
             smooth_start,
             by_layer,
+            gauges,
             index,
             broadphase,
+        }
+    }
+
+    /// The polar box of a point on `layer` (distance in the layer's gauge).
+    pub fn point_box(&self, layer: u8, p: Point) -> PolarBox {
+        match layer
+            .checked_sub(1)
+            .and_then(|l| self.gauges.get(l as usize))
+        {
+            Some(g) => PolarBox::point(p, g),
+            None => PolarBox::point(p, &Gauge::Round),
         }
     }
 
@@ -568,9 +730,10 @@ mod tests {
     use crate::geometry::Arc;
     use proptest::prelude::*;
 
-    /// Whether a point lies in a polar box (angle modulo a full turn).
-    fn holds(b: &PolarBox, p: Point) -> bool {
-        let r = p.radius();
+    /// Whether a point lies in a polar box (angle modulo a full turn), its
+    /// distance measured with `gauge`.
+    fn holds(b: &PolarBox, p: Point, gauge: &Gauge) -> bool {
+        let r = gauge.at(p);
         if r < b.r0 - 1e-12 || r > b.r1 + 1e-12 {
             return false;
         }
@@ -584,14 +747,29 @@ mod tests {
         })
     }
 
+    /// A regular polygon's gauge (`sides` normals from angle `turn`), or a
+    /// rectangle's (offset `o` on the x normals) when `sides` is 4.
+    fn sides_gauge(sides: usize, turn: f64, o: f64) -> Gauge {
+        Gauge::Sides(
+            (0..sides)
+                .map(|k| {
+                    let n = Vec2::from_angle(turn + k as f64 * TAU / sides as f64);
+                    (n, if sides == 4 && k % 2 == 0 { o } else { 0.0 })
+                })
+                .collect(),
+        )
+    }
+
     proptest! {
         /// Every point of a line or arc lies in its polar box, wherever the
-        /// axis is (inside, outside or near the circle, behind a line).
+        /// axis is (inside, outside or near the circle, behind a line), with
+        /// the round gauge and with a polygon's or a rectangle's.
         #[test]
         fn polar_boxes_hold_their_segments(
             cx in -3.0..3.0f64, cy in -3.0..3.0f64, r in 0.01..4.0f64,
             a0 in -4.0..4.0f64, sweep in -6.2..6.2f64, arc in any::<bool>(),
             ex in -3.0..3.0f64, ey in -3.0..3.0f64,
+            sides in 3usize..9, turn in -1.0..1.0f64, o in 0.0..2.0f64,
         ) {
             let c = Point::new(cx, cy);
             let start = c + crate::geometry::Vec2::from_angle(a0) * r;
@@ -600,10 +778,37 @@ mod tests {
             } else {
                 Segment::line(start, Point::new(ex, ey))
             };
-            let b = PolarBox::of(&seg);
-            for i in 0..=400 {
-                let p = seg.point_at(i as f64 / 400.0);
-                prop_assert!(holds(&b, p), "{seg:?} {b:?} {p:?}");
+            for gauge in [Gauge::Round, sides_gauge(sides, turn, o)] {
+                let b = PolarBox::of(&seg, &gauge);
+                for i in 0..=400 {
+                    let p = seg.point_at(i as f64 / 400.0);
+                    prop_assert!(holds(&b, p, &gauge), "{seg:?} {b:?} {p:?} {gauge:?}");
+                    // The gauge never exceeds the distance from the axis and
+                    // changes no faster than the point moves.
+                    prop_assert!(gauge.at(p) <= p.radius() + 1e-12);
+                    let q = Point::new(ex, ey);
+                    prop_assert!((gauge.at(p) - gauge.at(q)).abs() <= p.distance(q) + 1e-12);
+                }
+            }
+        }
+
+        /// The gauge found from a polygon's sides is that polygon's: every
+        /// side has one gauge value along its length.
+        #[test]
+        fn a_polygons_sides_give_its_gauge(sides in 3usize..13, turn in -1.0..1.0f64) {
+            let corner = |k: usize, a: f64| {
+                let th = turn + (k as f64 + 0.5) * TAU / sides as f64;
+                Point::polar(a / (std::f64::consts::PI / sides as f64).cos(), th)
+            };
+            let segs: Vec<Segment> = [3.0, 3.2]
+                .iter()
+                .flat_map(|&a| (0..sides).map(move |k| Segment::line(corner(k, a), corner(k + 1, a))))
+                .collect();
+            let g = Gauge::of_layer(segs.iter(), 0.5);
+            prop_assert!(matches!(g, Gauge::Sides(ref n) if n.len() == sides), "{g:?}");
+            for s in &segs {
+                let (lo, hi) = g.range(s);
+                prop_assert!(hi - lo < 1e-9, "{s:?}: {lo}..{hi}");
             }
         }
     }

@@ -17,7 +17,7 @@
 //! `via-clearance error L3 at (-8.868100, -5.120000): 0.080000 < 0.100000
 //! mm [track 49, pad 1]`.
 
-use super::context::{Context, Hole, PolarBox};
+use super::context::{Context, Hole};
 use super::distance::{Closest, point_segment};
 use super::{Item, Rule, Severity, Violation, fails};
 use std::collections::BTreeMap;
@@ -59,7 +59,7 @@ pub(super) fn report(
     let r = h.diameter / 2.0;
     let reach = r + req + ctx.max_hw_on(layer) + 1e-9;
     let mut worst: BTreeMap<usize, Closest> = BTreeMap::new();
-    for j in ctx.near(layer, &PolarBox::point(h.at), reach) {
+    for j in ctx.near(layer, &ctx.point_box(layer, h.at), reach) {
         let p = &ctx.pieces[j];
         // The parts of the piece outside every excluded interval.
         let mut parts = vec![(p.s0, p.s1)];

@@ -157,6 +157,30 @@ proptest! {
 }
 
 proptest! {
+    #![proptest_config(ProptestConfig { cases: 8, ..ProptestConfig::default() })]
+
+    /// The same for polygons and rectangles with many turns, whose sides the
+    /// index measures with the layer's own gauge (`rules/context.rs`) and
+    /// keeps whole: still exactly what all pairs find.
+    #[test]
+    fn index_equals_brute_force_for_many_sided_turns(
+        k in knobs_of(3, 30.0, 1..3), kw in 0.9..1.2f64, ks in 0.9..1.6f64,
+    ) {
+        let d = design(&k);
+        let l = geometry::build(&d);
+        prop_assume!(l.is_ok());
+        let l = l.unwrap();
+        let mut p = own_profile(&d);
+        let (w, s) = (p.limit("min_trace_width").unwrap(), p.limit("min_clearance").unwrap());
+        p.set_limit("min_trace_width", w * kw).unwrap();
+        p.set_limit("min_clearance", s * ks).unwrap();
+        let fast = rules::check_with(&d, &l, &p, Broadphase::Index);
+        let slow = rules::check_with(&d, &l, &p, Broadphase::AllPairs);
+        prop_assert_eq!(&fast, &slow, "{:?}\n{}", k, show(&fast));
+    }
+}
+
+proptest! {
     #![proptest_config(ProptestConfig { cases: 64, ..ProptestConfig::default() })]
 
     /// Every valid circular design passes its own check.

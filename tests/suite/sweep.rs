@@ -311,3 +311,236 @@ fn many_flex_layers_in_the_best_candidate_are_noted() {
         "{o}"
     );
 }
+
+/// The README's sweep arguments (585 candidates) with `extra` and `-o out`.
+fn readme_sweep(out: &Path, extra: &[&str]) -> (i32, String, String) {
+    let ex = example();
+    let mut args = vec![
+        "sweep",
+        ex.as_str(),
+        "--vary",
+        "layers=2,4,6",
+        "--vary",
+        "turns=6..30:2",
+        "--vary",
+        "trace_width=0.1mm..0.2mm:0.05mm",
+        "--vary",
+        "outer_diameter=12mm..20mm:2mm",
+        "--require",
+        "temperature_c <= 80",
+        "--require",
+        "outer_diameter_mm <= 20",
+        "--maximize",
+        "force_per_sqrt_w_n",
+    ];
+    args.extend_from_slice(extra);
+    args.extend_from_slice(&["-o", out.to_str().unwrap()]);
+    coilwright(&args)
+}
+
+/// Every file of a sweep folder whose bytes must not depend on sharding.
+const SAME_FILES: &[&str] = &[
+    "candidates.csv",
+    "candidates.jsonl",
+    "ranking.csv",
+    "front.csv",
+    "tradeoff.svg",
+    "best.toml",
+];
+
+#[test]
+fn shards_merge_to_the_unsharded_result() {
+    let dir = tempfile::tempdir().unwrap();
+    let whole = dir.path().join("whole");
+    let (code, o, e) = readme_sweep(&whole, &[]);
+    assert_eq!(code, 0, "{o}{e}");
+    let record: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(whole.join("sweep.json")).unwrap()).unwrap();
+    assert_eq!(record["complete"], true);
+    assert_eq!(record["evaluated"], 585);
+    for n in [1usize, 3, 7] {
+        let mut shards = Vec::new();
+        for k in 1..=n {
+            let d = dir.path().join(format!("s{n}-{k}"));
+            let (code, o, e) = readme_sweep(&d, &["--shard", &format!("{k}/{n}")]);
+            assert!(code == 0 || code == 1, "{o}{e}");
+            shards.push(d.to_str().unwrap().to_string());
+        }
+        // In any order.
+        shards.reverse();
+        let merged = dir.path().join(format!("merged{n}"));
+        let mut args = vec!["sweep", "merge"];
+        args.extend(shards.iter().map(String::as_str));
+        args.extend(["-o", merged.to_str().unwrap()]);
+        let (code, o, e) = coilwright(&args);
+        assert_eq!(code, 0, "{o}{e}");
+        for f in SAME_FILES {
+            assert!(
+                std::fs::read(whole.join(f)).unwrap() == std::fs::read(merged.join(f)).unwrap(),
+                "{f} differs after merging {n} shards"
+            );
+        }
+        let m: serde_json::Value =
+            serde_json::from_str(&std::fs::read_to_string(merged.join("sweep.json")).unwrap())
+                .unwrap();
+        assert_eq!(m["results"], record["results"], "{n} shards");
+    }
+}
+
+#[test]
+fn merge_refuses_missing_duplicate_and_foreign_shards() {
+    let dir = tempfile::tempdir().unwrap();
+    let s = |name: &str, shard: &str| {
+        let d = dir.path().join(name);
+        let (code, o, e) = readme_sweep(&d, &["--shard", shard]);
+        assert!(code == 0 || code == 1, "{o}{e}");
+        d.to_str().unwrap().to_string()
+    };
+    let (a, b) = (s("a", "1/3"), s("b", "2/3"));
+    let out = dir.path().join("out");
+    let merge = |dirs: &[&str]| {
+        let mut args = vec!["sweep", "merge"];
+        args.extend_from_slice(dirs);
+        args.extend(["-o", out.to_str().unwrap()]);
+        coilwright(&args)
+    };
+    let (code, _, e) = merge(&[&a, &b]);
+    assert_eq!(code, 2, "{e}");
+    assert!(e.contains("missing: 3/3"), "{e}");
+    let (code, _, e) = merge(&[&a, &a, &b]);
+    assert_eq!(code, 2, "{e}");
+    // A shard of another sweep (one more requirement).
+    let other = dir.path().join("other");
+    let (code, o, e) = readme_sweep(&other, &["--shard", "3/3", "--require", "turns >= 8"]);
+    assert!(code == 0 || code == 1, "{o}{e}");
+    let (code, _, e) = merge(&[&a, &b, other.to_str().unwrap()]);
+    assert_eq!(code, 2, "{e}");
+    assert!(e.contains("different sweep"), "{e}");
+    let (code, _, e) = merge(&[dir.path().to_str().unwrap()]);
+    assert_eq!(code, 2, "{e}");
+    assert!(e.contains("not a sweep folder"), "{e}");
+    assert!(!out.exists(), "nothing may be written");
+}
+
+#[test]
+fn bad_shards_exit_2_and_write_nothing() {
+    let dir = tempfile::tempdir().unwrap();
+    for bad in ["0/3", "4/3", "2", "a/b"] {
+        let out = dir.path().join("out");
+        let (code, _, e) = readme_sweep(&out, &["--shard", bad]);
+        assert_eq!(code, 2, "{bad}: {e}");
+        assert!(e.contains("--shard"), "{bad}: {e}");
+        assert!(!out.exists());
+        assert_eq!(std::fs::read_dir(dir.path()).unwrap().count(), 0, "{bad}");
+    }
+}
+
+/// Ctrl-C (SIGINT, sent with the `kill` program) stops a sweep after the
+/// chunk being evaluated: exit 130, the folder holds what was evaluated,
+/// marked incomplete, and merge refuses it.
+#[test]
+fn ctrl_c_writes_what_was_evaluated_and_marks_it_incomplete() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("big");
+    let ex = example();
+    let child = std::process::Command::new(env!("CARGO_BIN_EXE_coilwright"))
+        .args([
+            "sweep",
+            ex.as_str(),
+            "--vary",
+            "layers=2,4,6,8",
+            "--vary",
+            "turns=6..40",
+            "--vary",
+            "trace_width=0.1mm..0.2mm:0.01mm",
+            "--vary",
+            "outer_diameter=12mm..20mm:0.5mm",
+            "--maximize",
+            "force_per_sqrt_w_n",
+            "-o",
+            out.to_str().unwrap(),
+        ])
+        .stdout(std::process::Stdio::piped())
+        .stderr(std::process::Stdio::piped())
+        .spawn()
+        .unwrap();
+    // Wait until the hidden folder has its first rows.
+    let started = std::time::Instant::now();
+    loop {
+        let rows = std::fs::read_dir(dir.path())
+            .unwrap()
+            .flatten()
+            .filter(|e| e.file_name().to_string_lossy().starts_with(".big.tmp"))
+            .filter_map(|e| std::fs::metadata(e.path().join("candidates.jsonl")).ok())
+            .any(|m| m.len() > 0);
+        if rows {
+            break;
+        }
+        assert!(started.elapsed().as_secs() < 120, "the sweep wrote no rows");
+        std::thread::sleep(std::time::Duration::from_millis(50));
+    }
+    let status = std::process::Command::new("kill")
+        .args(["-INT", &child.id().to_string()])
+        .status()
+        .unwrap();
+    assert!(status.success());
+    let output = child.wait_with_output().unwrap();
+    let stdout = String::from_utf8_lossy(&output.stdout);
+    assert_eq!(output.status.code(), Some(130), "{stdout}");
+    assert!(stdout.contains("interrupted"), "{stdout}");
+    let record: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(out.join("sweep.json")).unwrap()).unwrap();
+    assert_eq!(record["complete"], false);
+    let evaluated = record["evaluated"].as_u64().unwrap() as usize;
+    assert!(evaluated > 0 && evaluated < record["total"].as_u64().unwrap() as usize);
+    let csv = std::fs::read_to_string(out.join("candidates.csv")).unwrap();
+    assert_eq!(csv.lines().count(), evaluated + 1);
+    let (code, _, e) = coilwright(&[
+        "sweep",
+        "merge",
+        out.to_str().unwrap(),
+        "-o",
+        dir.path().join("m").to_str().unwrap(),
+    ]);
+    assert_eq!(code, 2);
+    assert!(e.contains("incomplete"), "{e}");
+}
+
+/// `--refine` on the README's sweep: the refined design is at least as good
+/// as the best grid point, stays within the swept ranges, keeps layers on
+/// the grid and passes `check`.
+#[test]
+fn refine_improves_on_the_grid_and_the_result_passes_check() {
+    let dir = tempfile::tempdir().unwrap();
+    let out = dir.path().join("refined");
+    let (code, o, e) = readme_sweep(&out, &["--refine"]);
+    assert_eq!(code, 0, "{o}{e}");
+    assert!(o.contains("refined (Nelder-Mead"), "{o}");
+    let record: serde_json::Value =
+        serde_json::from_str(&std::fs::read_to_string(out.join("sweep.json")).unwrap()).unwrap();
+    let r = &record["refine"];
+    let (grid, value) = (
+        r["grid_value"].as_f64().unwrap(),
+        r["value"].as_f64().unwrap(),
+    );
+    assert!(value >= grid, "{r}");
+    assert!(r["evaluations"].as_u64().unwrap() <= 500, "{r}");
+    let best = out.join("best.toml");
+    let (code, o, e) = coilwright(&["check", best.to_str().unwrap()]);
+    assert_eq!(code, 0, "{o}{e}");
+    let (code, json, e) = coilwright(&["report", best.to_str().unwrap(), "--json"]);
+    assert_eq!(code, 0, "{e}");
+    let report: serde_json::Value = serde_json::from_str(&json).unwrap();
+    let t = report["temperature_c"].as_f64().unwrap();
+    assert!(t <= 80.0, "refined design at {t} C breaks the requirement");
+    let text = std::fs::read_to_string(&best).unwrap();
+    let layers = text.lines().find(|l| l.starts_with("layers")).unwrap();
+    let layers = layers.split('#').next().unwrap().trim();
+    assert!(
+        ["layers = 2", "layers = 4", "layers = 6"].contains(&layers),
+        "{layers}"
+    );
+    // --refine needs the whole sweep.
+    let (code, _, e) = readme_sweep(&dir.path().join("x"), &["--refine", "--shard", "1/2"]);
+    assert_eq!(code, 2, "{e}");
+}

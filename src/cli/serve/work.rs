@@ -7,7 +7,7 @@ use super::super::diagnostics::render_spec_errors_plain;
 use super::super::pipeline::{self, Checked};
 use super::super::{Failure, sweep};
 use coilwright::design::edit;
-use coilwright::explore::{Evaluation, Outcome, Status};
+use coilwright::explore::{Evaluation, Summary, Tally};
 use coilwright::export::{report, svg};
 use coilwright::physics::Analysis;
 use serde_json::{Value, json};
@@ -405,49 +405,51 @@ pub fn run_sweep(
             sweep::evaluate(base, text)
         }
     };
-    let tick = || {
-        done.fetch_add(1, Ordering::Relaxed);
+    let mut tally = Tally::new(s);
+    let mut stream = || {
+        s.stream(0..s.len(), eval, cancel, |i, c| {
+            tally.add(i, &c);
+            done.fetch_add(1, Ordering::Relaxed);
+        })
     };
-    let outcome = match rayon::ThreadPoolBuilder::new().num_threads(threads).build() {
-        Ok(pool) => pool.install(|| s.run(eval, tick)),
-        Err(_) => s.run(eval, tick),
+    match rayon::ThreadPoolBuilder::new().num_threads(threads).build() {
+        Ok(pool) => pool.install(stream),
+        Err(_) => stream(),
     };
+    let summary = tally.finish();
     let seconds = started.elapsed().as_secs_f64();
     let flex = base.design.stackup.kind == coilwright::design::BoardKind::Flex;
-    sweep_view(base, s, &outcome, seconds, flex, stopped())
+    sweep_view(base, s, &summary, seconds, flex, stopped())
 }
 
 fn sweep_view(
     base: &pipeline::Loaded,
     s: &coilwright::explore::Sweep,
-    o: &Outcome,
+    o: &Summary,
     seconds: f64,
     flex: bool,
     cut_short: bool,
 ) -> Value {
-    let mut ranked: Vec<&coilwright::explore::Candidate> =
-        o.candidates.iter().filter(|c| c.rank.is_some()).collect();
-    ranked.sort_by_key(|c| c.rank);
-    let rows: Vec<Value> = ranked
+    let rows: Vec<Value> = o
+        .top
         .iter()
         .take(10)
-        .map(|c| {
+        .map(|(_, c)| {
             json!({"rank": c.rank, "params": c.params,
                    "objective": c.metrics.get(&o.objective.metric),
                    "versus": c.metrics.get(&o.versus)})
         })
         .collect();
-    let best = o.best.map(|b| {
-        json!({"params": o.candidates[b].params,
-               "text": s.candidate_text(&base.text, b, None).ok()})
+    let best = o.top.first().map(|(b, c)| {
+        json!({"params": c.params,
+               "text": s.candidate_text(&base.text, *b, None).ok()})
     });
-    let count = |st: Status| o.candidates.iter().filter(|c| c.status == st).count();
     json!({
-        "summary": sweep::summary(o, seconds, flex),
+        "summary": sweep::summary_text(o, seconds, flex),
         "objective": o.objective.metric,
         "versus": o.versus,
-        "counts": {"ok": count(Status::Ok), "fails_requirement": count(Status::FailsRequirement),
-                   "rule_violation": count(Status::RuleViolation), "invalid": count(Status::Invalid)},
+        "counts": {"ok": o.ok, "fails_requirement": o.fails_requirement,
+                   "rule_violation": o.rule_violation, "invalid": o.invalid},
         "rows": rows,
         "best": best,
         "plot": o.plot(),

@@ -1,0 +1,632 @@
+//! Sweeps of any size in bounded memory, and sweeps split into shards.
+//!
+//! [`Sweep::stream`] evaluates candidates in chunks of [`CHUNK`] (in
+//! parallel within a chunk) and hands them to the caller one by one in
+//! index order, so the command line writes each straight to
+//! `candidates.csv` and `candidates.jsonl`. Only a [`Tally`] is kept:
+//! counts, the [`TOP`] best candidates, the five nearest misses, the Pareto
+//! fronts and the trade-off plot's points, thinned to at most
+//! [`PLOT_POINTS`] (plus the front and the best): every candidate whose
+//! index is a multiple of the step, the step doubling (1, 2, 4, ...) each
+//! time more points than that would be kept. Memory is therefore
+//! independent of the candidate count: about `TOP + PLOT_POINTS` small
+//! records and one chunk of candidates.
+//!
+//! Everything the tally keeps depends only on the candidates in index
+//! order, so a sweep split into [`Shard`]s (contiguous slices of the index
+//! range) and merged by feeding the shards' rows back in order gives the
+//! same ranking, front, plot and best design as one run.
+
+use super::pareto::{PlotPoint, front, settle};
+use super::{Candidate, DEFAULT_VERSUS, Evaluation, Objective, Status, Sweep, SweepError};
+use rayon::prelude::*;
+use serde::{Deserialize, Serialize};
+use std::collections::BTreeMap;
+use std::ops::Range;
+use std::sync::atomic::{AtomicBool, Ordering};
+
+/// Candidates evaluated together (in parallel) before they are handed on.
+pub const CHUNK: usize = 256;
+
+/// Best candidates kept with their full record (ranking.csv).
+pub const TOP: usize = 100;
+
+/// Most thinned points of the trade-off plot (the front and the best are
+/// added to them).
+pub const PLOT_POINTS: usize = 20_000;
+
+/// Nearest misses kept.
+const MISSES: usize = 5;
+
+/// Shard `k` of `n` (1-based): the `k`-th of `n` contiguous, nearly equal
+/// slices of the candidate index range.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize, Deserialize)]
+pub struct Shard {
+    /// Which slice, 1..=n.
+    pub k: usize,
+    /// How many slices.
+    pub n: usize,
+}
+
+impl Shard {
+    /// The whole sweep.
+    pub const ALL: Shard = Shard { k: 1, n: 1 };
+
+    /// Parses `K/N` with `1 <= K <= N`.
+    pub fn parse(text: &str) -> Result<Shard, SweepError> {
+        let bad = |message: &str| SweepError::BadShard {
+            text: text.to_string(),
+            message: message.to_string(),
+        };
+        let (k, n) = text
+            .split_once('/')
+            .ok_or_else(|| bad("write K/N, e.g. 2/8"))?;
+        let parse = |s: &str| s.trim().parse::<usize>().ok();
+        match (parse(k), parse(n)) {
+            (Some(k), Some(n)) if n >= 1 && (1..=n).contains(&k) => Ok(Shard { k, n }),
+            (Some(_), Some(_)) => Err(bad("K must be between 1 and N")),
+            _ => Err(bad("K and N must be whole numbers, e.g. 2/8")),
+        }
+    }
+
+    /// The candidate indices of this shard out of `len`.
+    pub fn range(&self, len: usize) -> Range<usize> {
+        let at = |k: usize| ((len as u128 * k as u128) / self.n as u128) as usize;
+        at(self.k - 1)..at(self.k)
+    }
+}
+
+/// One candidate as a line of `candidates.jsonl` (metrics that are not
+/// finite are `null`).
+#[derive(Debug, Clone, PartialEq, Serialize, Deserialize)]
+pub struct Row {
+    /// Candidate index.
+    pub index: usize,
+    /// Key path and value text, in the order of the `--vary` arguments.
+    pub params: Vec<(String, String)>,
+    /// Outcome.
+    pub status: Status,
+    /// Why it is not ok.
+    pub reason: String,
+    /// Largest relative shortfall of a missed requirement.
+    #[serde(default, skip_serializing_if = "Option::is_none")]
+    pub shortfall: Option<f64>,
+    /// Report metrics.
+    pub metrics: BTreeMap<String, Option<f64>>,
+}
+
+impl Row {
+    /// The row of candidate `index`.
+    pub fn of(index: usize, c: &Candidate) -> Row {
+        Row {
+            index,
+            params: c.params.clone(),
+            status: c.status,
+            reason: c.reason.clone(),
+            shortfall: c.shortfall.filter(|v| v.is_finite()),
+            metrics: c
+                .metrics
+                .iter()
+                .map(|(k, &v)| (k.clone(), v.is_finite().then_some(v)))
+                .collect(),
+        }
+    }
+
+    /// The candidate again (a `null` metric becomes NaN; a missing
+    /// shortfall of a failing candidate, infinite).
+    pub fn candidate(&self) -> Candidate {
+        Candidate {
+            params: self.params.clone(),
+            status: self.status,
+            reason: self.reason.clone(),
+            metrics: self
+                .metrics
+                .iter()
+                .map(|(k, v)| (k.clone(), v.unwrap_or(f64::NAN)))
+                .collect(),
+            rank: None,
+            pareto: false,
+            shortfall: match self.status {
+                Status::FailsRequirement => Some(self.shortfall.unwrap_or(f64::INFINITY)),
+                _ => None,
+            },
+        }
+    }
+}
+
+/// The header of a candidate table: index, status, the varied keys, the
+/// metrics (in the order given) and the reason; with `ranked`, rank and
+/// pareto first.
+pub fn csv_header(params: &[String], metrics: &[String], ranked: bool) -> String {
+    let mut h: Vec<&str> = Vec::new();
+    if ranked {
+        h.extend(["rank", "pareto"]);
+    }
+    h.extend(["index", "status"]);
+    h.extend(params.iter().map(String::as_str));
+    h.extend(metrics.iter().map(String::as_str));
+    h.push("reason");
+    line(h.into_iter().map(String::from))
+}
+
+/// One row of a candidate table (see [`csv_header`]).
+pub fn csv_row(index: usize, c: &Candidate, metrics: &[String], ranked: bool) -> String {
+    let mut row: Vec<String> = Vec::new();
+    if ranked {
+        row.push(c.rank.map(|r| r.to_string()).unwrap_or_default());
+        row.push(c.pareto.to_string());
+    }
+    row.push(index.to_string());
+    row.push(status_word(c.status).to_string());
+    row.extend(c.params.iter().map(|(_, v)| v.clone()));
+    row.extend(
+        metrics
+            .iter()
+            .map(|m| c.metrics.get(m).map(|v| format!("{v}")).unwrap_or_default()),
+    );
+    row.push(c.reason.clone());
+    line(row.into_iter())
+}
+
+/// The status as the tables write it.
+pub fn status_word(s: Status) -> &'static str {
+    match s {
+        Status::Ok => "ok",
+        Status::FailsRequirement => "fails_requirement",
+        Status::RuleViolation => "rule_violation",
+        Status::Invalid => "invalid",
+    }
+}
+
+fn line(fields: impl Iterator<Item = String>) -> String {
+    let mut out = fields
+        .map(|f| {
+            if f.contains([',', '"', '\n']) {
+                format!("\"{}\"", f.replace('"', "\"\""))
+            } else {
+                f
+            }
+        })
+        .collect::<Vec<_>>()
+        .join(",");
+    out.push('\n');
+    out
+}
+
+impl Sweep {
+    /// Evaluates the candidates in `range` in chunks of [`CHUNK`] and calls
+    /// `visit` with each in index order. Checks `stop` between chunks and
+    /// returns early when it is set. Returns how many were evaluated.
+    pub fn stream(
+        &self,
+        range: Range<usize>,
+        eval: impl Fn(&str) -> Evaluation + Sync,
+        stop: &AtomicBool,
+        mut visit: impl FnMut(usize, Candidate),
+    ) -> usize {
+        let mut done = 0;
+        let mut at = range.start;
+        while at < range.end {
+            if stop.load(Ordering::Relaxed) {
+                break;
+            }
+            let end = (at + CHUNK).min(range.end);
+            let chunk: Vec<Candidate> = (at..end)
+                .into_par_iter()
+                .map(|i| self.candidate(i, &eval))
+                .collect();
+            for (i, c) in (at..end).zip(chunk) {
+                visit(i, c);
+            }
+            done += end - at;
+            at = end;
+        }
+        done
+    }
+}
+
+/// A Pareto front being built: the points seen so far that no earlier
+/// point matches or beats in both metrics (kept as (x, y, index), both
+/// turned into "smaller is better" and settled). [`front`] over them at the
+/// end gives exactly the front of every point seen.
+#[derive(Debug, Clone, Default)]
+struct Front {
+    points: Vec<(f64, f64, usize)>,
+}
+
+impl Front {
+    fn add(&mut self, x: f64, y: f64, index: usize) {
+        if !x.is_finite() || !y.is_finite() {
+            return;
+        }
+        if self.points.iter().any(|&(px, py, _)| px <= x && py <= y) {
+            return;
+        }
+        self.points
+            .retain(|&(px, py, _)| !(x <= px && y <= py && (x < px || y < py)));
+        self.points.push((x, y, index));
+    }
+}
+
+/// One candidate as the plot sees it: its index, whether it meets every
+/// requirement, the objective and every metric the x axis may show.
+#[derive(Debug, Clone)]
+struct Dot {
+    index: usize,
+    feasible: bool,
+    y: f64,
+    xs: Vec<f64>,
+}
+
+/// What a streamed sweep keeps (module notes).
+#[derive(Debug, Clone)]
+pub struct Tally {
+    objective: Objective,
+    requirements: Vec<String>,
+    /// Candidate x-axis metrics with their sense: the chosen `versus`
+    /// first, then (when it was a default) [`DEFAULT_VERSUS`].
+    axes: Vec<(String, bool)>,
+    versus_default: bool,
+    counts: [usize; 4],
+    evaluated: usize,
+    /// (objective settled and turned "smaller is better", index, candidate).
+    top: Vec<(f64, usize, Candidate)>,
+    misses: Vec<(f64, usize, Candidate)>,
+    /// Per axis: the front of the ok candidates.
+    fronts: Vec<Front>,
+    /// Per axis: the first settled value among analysed candidates, and
+    /// whether another differed.
+    varies: Vec<(Option<f64>, bool)>,
+    /// Front members' records (by index), for the front table and plot.
+    records: BTreeMap<usize, Dot>,
+    front_rows: BTreeMap<usize, Candidate>,
+    dots: Vec<Dot>,
+    step: usize,
+    analysed: usize,
+    firsts: Vec<(usize, Candidate)>,
+}
+
+/// The result of a streamed sweep (or of merged shards).
+#[derive(Debug, Clone, Serialize)]
+pub struct Summary {
+    /// The objective.
+    pub objective: Objective,
+    /// The requirements as typed.
+    pub requirements: Vec<String>,
+    /// The plot's x metric.
+    pub versus: String,
+    /// Candidates evaluated.
+    pub evaluated: usize,
+    /// Candidates meeting every requirement.
+    pub ok: usize,
+    /// Analysed but missing a requirement.
+    pub fails_requirement: usize,
+    /// Breaking a fab rule.
+    pub rule_violation: usize,
+    /// Not valid designs.
+    pub invalid: usize,
+    /// Index of the best candidate.
+    pub best: Option<usize>,
+    /// The best [`TOP`] candidates, best first (rank set), with their
+    /// indices.
+    #[serde(skip)]
+    pub top: Vec<(usize, Candidate)>,
+    /// The Pareto front of (versus, objective), by x (pareto set).
+    #[serde(skip)]
+    pub front: Vec<(usize, Candidate)>,
+    /// The nearest misses, smallest shortfall first.
+    #[serde(skip)]
+    pub misses: Vec<(usize, Candidate)>,
+    /// The first few candidates (for a summary when none could be
+    /// analysed).
+    #[serde(skip)]
+    pub firsts: Vec<(usize, Candidate)>,
+    /// Step of the plot's thinning (1: every analysed candidate plotted).
+    pub plot_step: usize,
+    #[serde(skip)]
+    plot_points: Vec<PlotPoint>,
+    #[serde(skip)]
+    plot_front: Vec<usize>,
+    #[serde(skip)]
+    plot_best: Option<usize>,
+}
+
+impl Tally {
+    /// An empty tally for a sweep.
+    pub fn new(sweep: &Sweep) -> Tally {
+        let mut axes = vec![sweep.versus.clone()];
+        if sweep.versus_default {
+            for m in DEFAULT_VERSUS {
+                if *m != sweep.objective.metric && !axes.iter().any(|a| a.0 == *m) {
+                    axes.push((m.to_string(), false));
+                }
+            }
+        }
+        Tally {
+            objective: sweep.objective.clone(),
+            requirements: sweep.require.iter().map(|r| r.text.clone()).collect(),
+            fronts: vec![Front::default(); axes.len()],
+            varies: vec![(None, false); axes.len()],
+            axes,
+            versus_default: sweep.versus_default,
+            counts: [0; 4],
+            evaluated: 0,
+            top: Vec::new(),
+            misses: Vec::new(),
+            records: BTreeMap::new(),
+            front_rows: BTreeMap::new(),
+            dots: Vec::new(),
+            step: 1,
+            analysed: 0,
+            firsts: Vec::new(),
+        }
+    }
+
+    /// The objective as "smaller is better", settled.
+    fn key(&self, c: &Candidate) -> f64 {
+        let v = settle(
+            c.metrics
+                .get(&self.objective.metric)
+                .copied()
+                .unwrap_or(f64::NAN),
+        );
+        if self.objective.maximize { -v } else { v }
+    }
+
+    /// Adds candidate `index`; indices must come in increasing order.
+    pub fn add(&mut self, index: usize, c: &Candidate) {
+        self.evaluated += 1;
+        self.counts[c.status as usize] += 1;
+        if self.firsts.len() < MISSES {
+            self.firsts.push((index, c.clone()));
+        }
+        let analysed = matches!(c.status, Status::Ok | Status::FailsRequirement);
+        if c.status == Status::FailsRequirement {
+            let s = c.shortfall.unwrap_or(f64::INFINITY);
+            let at = self.misses.partition_point(|m| m.0 <= s);
+            if at < MISSES {
+                self.misses.insert(at, (s, index, c.clone()));
+                self.misses.truncate(MISSES);
+            }
+        }
+        if !analysed {
+            return;
+        }
+        let y = self.key(c);
+        let xs: Vec<f64> = self
+            .axes
+            .iter()
+            .map(|(m, max)| {
+                let x = settle(c.metrics.get(m).copied().unwrap_or(f64::NAN));
+                if *max { -x } else { x }
+            })
+            .collect();
+        for (v, &x) in self.varies.iter_mut().zip(&xs) {
+            match v.0 {
+                None => v.0 = Some(x),
+                Some(first) if first != x && !(first.is_nan() && x.is_nan()) => v.1 = true,
+                _ => {}
+            }
+        }
+        let dot = Dot {
+            index,
+            feasible: c.status == Status::Ok,
+            y,
+            xs,
+        };
+        if c.status == Status::Ok && y.is_finite() {
+            let at = self.top.partition_point(|t| t.0 <= y);
+            if at < TOP {
+                self.top.insert(at, (y, index, c.clone()));
+                self.top.truncate(TOP);
+            }
+            let mut member = false;
+            for (f, &x) in self.fronts.iter_mut().zip(&dot.xs) {
+                f.add(x, y, index);
+                member |= f.points.iter().any(|p| p.2 == index);
+            }
+            if member {
+                self.records.insert(index, dot.clone());
+                self.front_rows.insert(index, c.clone());
+            }
+            // Forget records no front holds any more.
+            if self.records.len() > 4 * self.fronts.len() + 64 {
+                let held: std::collections::BTreeSet<usize> = self
+                    .fronts
+                    .iter()
+                    .flat_map(|f| f.points.iter().map(|p| p.2))
+                    .collect();
+                self.records.retain(|i, _| held.contains(i));
+                self.front_rows.retain(|i, _| held.contains(i));
+            }
+        }
+        self.analysed += 1;
+        if index.is_multiple_of(self.step) {
+            self.dots.push(dot);
+            while self.dots.len() > PLOT_POINTS {
+                self.step *= 2;
+                let step = self.step;
+                self.dots.retain(|d| d.index.is_multiple_of(step));
+            }
+        }
+    }
+
+    /// The summary: ranking, the front on the chosen axis, the plot.
+    pub fn finish(self) -> Summary {
+        // The default x axis gives way when it is the same for every
+        // analysed candidate: the first of DEFAULT_VERSUS that differs.
+        let axis = if self.versus_default && self.analysed > 1 && !self.varies[0].1 {
+            (1..self.axes.len())
+                .find(|&k| self.varies[k].1)
+                .unwrap_or(0)
+        } else {
+            0
+        };
+        let (versus, x_max) = self.axes[axis].clone();
+        let unturn = |v: f64, max: bool| if max { -v } else { v };
+        let y_max = self.objective.maximize;
+        // The exact front of the kept points on the chosen axis.
+        let pts: Vec<(f64, f64, usize)> = self.fronts[axis].points.clone();
+        let mut pts = pts;
+        pts.sort_by_key(|p| p.2);
+        let xy: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.1)).collect();
+        let on_front: Vec<usize> = front(&xy, false, false)
+            .into_iter()
+            .map(|k| pts[k].2)
+            .collect();
+        let front_rows: Vec<(usize, Candidate)> = on_front
+            .iter()
+            .filter_map(|i| {
+                let mut c = self.front_rows.get(i)?.clone();
+                c.pareto = true;
+                Some((*i, c))
+            })
+            .collect();
+        let top: Vec<(usize, Candidate)> = self
+            .top
+            .into_iter()
+            .enumerate()
+            .map(|(r, (_, i, mut c))| {
+                c.rank = Some(r + 1);
+                c.pareto = on_front.contains(&i);
+                (i, c)
+            })
+            .collect();
+        let best = top.first().map(|t| t.0);
+        // Plot: thinned dots, plus the front and the best, by index.
+        let mut dots: BTreeMap<usize, Dot> = self.dots.into_iter().map(|d| (d.index, d)).collect();
+        for i in on_front.iter().chain(best.iter()) {
+            if let Some(d) = self.records.get(i) {
+                dots.insert(*i, d.clone());
+            }
+        }
+        let order: Vec<usize> = dots.keys().copied().collect();
+        let plot_points: Vec<PlotPoint> = dots
+            .values()
+            .map(|d| PlotPoint {
+                x: unturn(d.xs[axis], x_max),
+                y: unturn(d.y, y_max),
+                feasible: d.feasible,
+            })
+            .collect();
+        let plot_front: Vec<usize> = on_front
+            .iter()
+            .filter_map(|i| order.iter().position(|o| o == i))
+            .collect();
+        let plot_best = best.and_then(|b| order.iter().position(|o| *o == b));
+        Summary {
+            objective: self.objective,
+            requirements: self.requirements,
+            versus,
+            evaluated: self.evaluated,
+            ok: self.counts[Status::Ok as usize],
+            fails_requirement: self.counts[Status::FailsRequirement as usize],
+            rule_violation: self.counts[Status::RuleViolation as usize],
+            invalid: self.counts[Status::Invalid as usize],
+            best,
+            top,
+            front: front_rows,
+            misses: self.misses.into_iter().map(|(_, i, c)| (i, c)).collect(),
+            firsts: self.firsts,
+            plot_step: self.step,
+            plot_points,
+            plot_front,
+            plot_best,
+        }
+    }
+}
+
+impl Summary {
+    /// Whether no candidate meets every requirement.
+    pub fn nothing_passes(&self) -> bool {
+        self.best.is_none()
+    }
+
+    /// The best candidate.
+    pub fn best_candidate(&self) -> Option<&Candidate> {
+        self.top.first().map(|t| &t.1)
+    }
+
+    /// The trade-off plot (SVG): the thinned candidates, the front and the
+    /// best.
+    pub fn plot(&self) -> String {
+        let obj = &self.objective.metric;
+        let thinned = if self.plot_step > 1 {
+            format!(", every {}th shown", self.plot_step)
+        } else {
+            String::new()
+        };
+        let title = format!(
+            "{} {} vs {} ({} of {} candidates meet the requirements{thinned})",
+            if self.objective.maximize {
+                "maximize"
+            } else {
+                "minimize"
+            },
+            obj,
+            self.versus,
+            self.ok,
+            self.evaluated
+        );
+        crate::export::plot::tradeoff(
+            &self.plot_points,
+            &self.plot_front,
+            self.plot_best,
+            &self.versus,
+            obj,
+            &title,
+        )
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn shards_cover_the_range_once() {
+        for len in [0, 1, 7, 100, 1001] {
+            for n in [1, 3, 7] {
+                let mut next = 0;
+                for k in 1..=n {
+                    let r = Shard { k, n }.range(len);
+                    assert_eq!(r.start, next);
+                    next = r.end;
+                }
+                assert_eq!(next, len);
+            }
+        }
+        assert_eq!(Shard::parse("2/8").unwrap(), Shard { k: 2, n: 8 });
+        for bad in ["0/3", "4/3", "x/3", "3", "1/0"] {
+            assert!(Shard::parse(bad).is_err(), "{bad}");
+        }
+    }
+
+    #[test]
+    fn the_streamed_front_is_the_front_of_all_points() {
+        // Pseudo-random points with many ties; the incremental front then
+        // `front` equals `front` over every point.
+        let mut seed = 12345u64;
+        let mut next = || {
+            seed = seed
+                .wrapping_mul(6364136223846793005)
+                .wrapping_add(1442695040888963407);
+            ((seed >> 33) % 20) as f64
+        };
+        for _ in 0..50 {
+            let pts: Vec<(f64, f64)> = (0..200).map(|_| (next(), next())).collect();
+            let mut f = Front::default();
+            for (i, p) in pts.iter().enumerate() {
+                f.add(p.0, p.1, i);
+            }
+            let mut kept = f.points.clone();
+            kept.sort_by_key(|p| p.2);
+            let xy: Vec<(f64, f64)> = kept.iter().map(|p| (p.0, p.1)).collect();
+            let streamed: Vec<usize> = front(&xy, false, false)
+                .iter()
+                .map(|&k| kept[k].2)
+                .collect();
+            assert_eq!(streamed, front(&pts, false, false));
+        }
+    }
+}
