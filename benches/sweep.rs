@@ -129,7 +129,7 @@ fn bench(c: &mut Criterion) {
                 shift.set(shift.get() + 1);
                 fin_batch(14.0 + f64::from(shift.get()) * 1e-4)
             },
-            |s| s.run(evaluate, || {}),
+            |s| s.summarise(evaluate),
             criterion::BatchSize::PerIteration,
         )
     });
