@@ -149,10 +149,11 @@ impl Staging {
         let rel: Vec<PathBuf> = files
             .iter()
             .map(|f| {
-                if !seen.insert(f.path.as_str()) || self.tmp.join(&f.path).exists() {
+                let rel = relative(&f.path)?;
+                if !seen.insert(f.path.as_str()) || self.tmp.join(&rel).exists() {
                     return Err(OutDirError::Duplicate(f.path.clone()));
                 }
-                relative(&f.path)
+                Ok(rel)
             })
             .collect::<Result<_, _>>()?;
         fill(&self.tmp, files, &rel)
