@@ -2,6 +2,7 @@
 //! names its key and line:column, writes nothing), overwrite protection,
 //! and the shape of the JSON outputs.
 
+use super::common::entries;
 use std::path::{Path, PathBuf};
 use std::process::{Command, Output};
 
@@ -47,15 +48,6 @@ fn stderr(o: &Output) -> String {
 
 fn stdout(o: &Output) -> String {
     String::from_utf8_lossy(&o.stdout).into_owned()
-}
-
-fn entries(dir: &Path) -> Vec<String> {
-    let mut v: Vec<String> = std::fs::read_dir(dir)
-        .unwrap()
-        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
-        .collect();
-    v.sort();
-    v
 }
 
 /// Replaces `from` (which must occur) by `to` in the base design.

@@ -4,6 +4,7 @@
 
 use coilwright::design::Design;
 use coilwright::rules::Profile;
+use std::path::Path;
 use std::process::Command;
 
 /// Runs the built binary: (exit code, stdout, stderr).
@@ -41,3 +42,32 @@ pub fn own_profile(d: &Design) -> Profile {
     )
     .expect("every limit set")
 }
+
+/// The names in a folder, sorted.
+pub fn entries(dir: &Path) -> Vec<String> {
+    let mut v: Vec<String> = std::fs::read_dir(dir)
+        .unwrap()
+        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
+        .collect();
+    v.sort();
+    v
+}
+
+/// The README's example sweep (585 candidates of the fin example), without
+/// the design file and `-o`.
+pub const README_SWEEP: &[&str] = &[
+    "--vary",
+    "layers=2,4,6",
+    "--vary",
+    "turns=6..30:2",
+    "--vary",
+    "trace_width=0.1mm..0.2mm:0.05mm",
+    "--vary",
+    "outer_diameter=12mm..20mm:2mm",
+    "--require",
+    "temperature_c <= 80",
+    "--require",
+    "outer_diameter_mm <= 20",
+    "--maximize",
+    "force_per_sqrt_w_n",
+];

@@ -91,26 +91,11 @@ fn current_digests() -> String {
         }
     }
     let sweep = tmp.path().join("sweep");
-    let (code, _, err) = coilwright(&[
-        "sweep",
-        root().join("examples/fin-actuator.toml").to_str().unwrap(),
-        "--vary",
-        "layers=2,4,6",
-        "--vary",
-        "turns=6..30:2",
-        "--vary",
-        "trace_width=0.1mm..0.2mm:0.05mm",
-        "--vary",
-        "outer_diameter=12mm..20mm:2mm",
-        "--require",
-        "temperature_c <= 80",
-        "--require",
-        "outer_diameter_mm <= 20",
-        "--maximize",
-        "force_per_sqrt_w_n",
-        "-o",
-        sweep.to_str().unwrap(),
-    ]);
+    let design = root().join("examples/fin-actuator.toml");
+    let mut args = vec!["sweep", design.to_str().unwrap()];
+    args.extend_from_slice(super::common::README_SWEEP);
+    args.extend(["-o", sweep.to_str().unwrap()]);
+    let (code, _, err) = coilwright(&args);
     assert_eq!(code, 0, "README sweep failed: {err}");
     let csv = std::fs::read(sweep.join("candidates.csv")).unwrap();
     lines.push(format!("readme-sweep candidates.csv {}", sha(&csv)));

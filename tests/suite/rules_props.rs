@@ -131,6 +131,26 @@ fn design(k: &Knobs) -> Design {
     d
 }
 
+/// The index and all pairs agree on a design, with its own profile's
+/// width and clearance scaled by `kw` and `ks` (so that some fail).
+fn index_equals_brute_force_for(k: &Knobs, kw: f64, ks: f64) -> Result<(), TestCaseError> {
+    let d = design(k);
+    let Ok(l) = geometry::build(&d) else {
+        return Err(TestCaseError::reject("no layout"));
+    };
+    let mut p = own_profile(&d);
+    let (w, s) = (
+        p.limit("min_trace_width").unwrap(),
+        p.limit("min_clearance").unwrap(),
+    );
+    p.set_limit("min_trace_width", w * kw).unwrap();
+    p.set_limit("min_clearance", s * ks).unwrap();
+    let fast = rules::check_with(&d, &l, &p, Broadphase::Index);
+    let slow = rules::check_with(&d, &l, &p, Broadphase::AllPairs);
+    prop_assert_eq!(&fast, &slow, "{:?}\n{}", k, show(&fast));
+    Ok(())
+}
+
 fn show(v: &[Violation]) -> String {
     v.iter().map(|x| format!("{x}\n")).collect()
 }
@@ -142,17 +162,7 @@ proptest! {
     /// around the design's own values so that some designs fail.
     #[test]
     fn index_equals_brute_force(k in knobs(4, 4.0), kw in 0.9..1.2f64, ks in 0.9..1.6f64) {
-        let d = design(&k);
-        let l = geometry::build(&d);
-        prop_assume!(l.is_ok());
-        let l = l.unwrap();
-        let mut p = own_profile(&d);
-        let (w, s) = (p.limit("min_trace_width").unwrap(), p.limit("min_clearance").unwrap());
-        p.set_limit("min_trace_width", w * kw).unwrap();
-        p.set_limit("min_clearance", s * ks).unwrap();
-        let fast = rules::check_with(&d, &l, &p, Broadphase::Index);
-        let slow = rules::check_with(&d, &l, &p, Broadphase::AllPairs);
-        prop_assert_eq!(&fast, &slow, "{:?}\n{}", k, show(&fast));
+        index_equals_brute_force_for(&k, kw, ks)?;
     }
 }
 
@@ -166,17 +176,7 @@ proptest! {
     fn index_equals_brute_force_for_many_sided_turns(
         k in knobs_of(3, 30.0, 1..3), kw in 0.9..1.2f64, ks in 0.9..1.6f64,
     ) {
-        let d = design(&k);
-        let l = geometry::build(&d);
-        prop_assume!(l.is_ok());
-        let l = l.unwrap();
-        let mut p = own_profile(&d);
-        let (w, s) = (p.limit("min_trace_width").unwrap(), p.limit("min_clearance").unwrap());
-        p.set_limit("min_trace_width", w * kw).unwrap();
-        p.set_limit("min_clearance", s * ks).unwrap();
-        let fast = rules::check_with(&d, &l, &p, Broadphase::Index);
-        let slow = rules::check_with(&d, &l, &p, Broadphase::AllPairs);
-        prop_assert_eq!(&fast, &slow, "{:?}\n{}", k, show(&fast));
+        index_equals_brute_force_for(&k, kw, ks)?;
     }
 }
 

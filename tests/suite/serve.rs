@@ -5,6 +5,7 @@
 //! are then compared with `coilwright build` and read by the interop
 //! checkers (gerbonara, pygerber, shapely, kiutils: tests/interop/checks.py).
 
+use super::common::entries;
 use std::io::{BufRead, BufReader, Read, Write};
 use std::net::TcpStream;
 use std::path::{Path, PathBuf};
@@ -74,15 +75,6 @@ fn fin_text() -> String {
 
 fn repo() -> PathBuf {
     PathBuf::from(env!("CARGO_MANIFEST_DIR"))
-}
-
-fn entries(dir: &Path) -> Vec<String> {
-    let mut v: Vec<String> = std::fs::read_dir(dir)
-        .unwrap()
-        .map(|e| e.unwrap().file_name().to_string_lossy().into_owned())
-        .collect();
-    v.sort();
-    v
 }
 
 #[test]

@@ -315,24 +315,8 @@ fn many_flex_layers_in_the_best_candidate_are_noted() {
 /// The README's sweep arguments (585 candidates) with `extra` and `-o out`.
 fn readme_sweep(out: &Path, extra: &[&str]) -> (i32, String, String) {
     let ex = example();
-    let mut args = vec![
-        "sweep",
-        ex.as_str(),
-        "--vary",
-        "layers=2,4,6",
-        "--vary",
-        "turns=6..30:2",
-        "--vary",
-        "trace_width=0.1mm..0.2mm:0.05mm",
-        "--vary",
-        "outer_diameter=12mm..20mm:2mm",
-        "--require",
-        "temperature_c <= 80",
-        "--require",
-        "outer_diameter_mm <= 20",
-        "--maximize",
-        "force_per_sqrt_w_n",
-    ];
+    let mut args = vec!["sweep", ex.as_str()];
+    args.extend_from_slice(super::common::README_SWEEP);
     args.extend_from_slice(extra);
     args.extend_from_slice(&["-o", out.to_str().unwrap()]);
     coilwright(&args)
