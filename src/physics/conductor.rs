@@ -44,8 +44,9 @@ pub struct Piece {
     pub width: f64,
     /// Copper thickness, m.
     pub thickness: f64,
-    /// Share of the terminal current flowing here (1 in series, 1/2 in a
-    /// parallel pair).
+    /// Share of the terminal current flowing here: 1 in series; in a
+    /// parallel pair the winding's DC conductance over the pair's (1/2 for
+    /// equal copper; 0.66 and 0.34 for 35 and 18 um), vias left out.
     pub weight: f64,
     /// Spiral or lead.
     pub role: TrackRole,
@@ -92,16 +93,34 @@ impl Conductor {
             layer_t.push(t);
             depth += t + m(design.stackup.dielectric.get(k).copied().unwrap_or(0.0));
         }
+        // Each winding's DC conductance (up to the common resistivity):
+        // windings in parallel share the current in proportion to it.
+        let conductance = |w: &crate::geometry::Winding| {
+            let li = (w.layer as usize).saturating_sub(1).min(n - 1);
+            let r: f64 = layout
+                .winding_tracks(w)
+                .iter()
+                .map(|t| m(t.segment.length()) / (m(t.width) * layer_t[li]))
+                .sum();
+            if r > 0.0 { 1.0 / r } else { 0.0 }
+        };
         let mut pieces = Vec::new();
         for w in &layout.windings {
             let share = match layout.wiring {
                 Wiring::Series => 1.0,
                 Wiring::ParallelPairs => {
-                    1.0 / layout
+                    let group: Vec<f64> = layout
                         .windings
                         .iter()
                         .filter(|o| o.group == w.group)
-                        .count() as f64
+                        .map(conductance)
+                        .collect();
+                    let sum: f64 = group.iter().sum();
+                    if sum > 0.0 {
+                        conductance(w) / sum
+                    } else {
+                        1.0 / group.len().max(1) as f64
+                    }
                 }
             };
             let li = (w.layer as usize).saturating_sub(1).min(n - 1);
@@ -359,4 +378,51 @@ pub struct Ring {
     pub weight: f64,
     /// Copper layer, 1 = top.
     pub layer: u8,
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    /// Layers in parallel share the current by their DC conductance: with
+    /// 35 and 18 um copper in a pair (the same tracks otherwise, mirrored)
+    /// the split is 35/53 = 0.660 and 18/53 = 0.340 (Ohm's law for
+    /// parallel conductors); the layers of each pair add up to the whole
+    /// current and equal copper gives one half each.
+    #[test]
+    fn parallel_layers_share_by_conductance() {
+        let text = |copper: &str| {
+            format!(
+                "name = \"t\"\n[coil]\nouter_diameter = \"16mm\"\ninner_diameter = \"6mm\"\n\
+                 trace_width = \"0.15mm\"\nclearance = \"0.15mm\"\nlayers = 4\n\
+                 wiring = \"parallel-pairs\"\n[stackup]\nkind = \"rigid\"\ncopper = {copper}\n\
+                 dielectric = \"0.2mm\"\n"
+            )
+        };
+        let share = |copper: &str| {
+            let (d, l) = crate::pipeline::parse_and_build(&text(copper)).expect("design");
+            let c = Conductor::new(&d, &l);
+            (1..=4u8)
+                .map(|layer| {
+                    let w: Vec<f64> = c
+                        .pieces
+                        .iter()
+                        .filter(|p| p.layer == layer && p.role == TrackRole::Winding)
+                        .map(|p| p.weight)
+                        .collect();
+                    assert!(w.windows(2).all(|x| x[0] == x[1]), "one share per layer");
+                    w[0]
+                })
+                .collect::<Vec<f64>>()
+        };
+        let mixed = share("[\"35um\", \"18um\", \"35um\", \"18um\"]");
+        assert!((mixed[0] - 35.0 / 53.0).abs() < 5e-3, "{mixed:?}");
+        assert!((mixed[1] - 18.0 / 53.0).abs() < 5e-3, "{mixed:?}");
+        assert!((mixed[0] + mixed[1] - 1.0).abs() < 1e-12);
+        assert!((mixed[2] + mixed[3] - 1.0).abs() < 1e-12);
+        let equal = share("\"1oz\"");
+        for s in equal {
+            assert!((s - 0.5).abs() < 5e-3, "{s}");
+        }
+    }
 }
