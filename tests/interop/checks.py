@@ -10,6 +10,11 @@ Run with the interop venv (.venv-interop/bin/python, see setup.sh):
                                project library tables: two pins named as the
                                footprint's pads, the Footprint property
                                names the footprint, the tables' paths exist
+    checks.py dxf DIR          ezdxf reads every DXF and audits it with no
+                               error; per copper layer the track centre-line
+                               length in the DXF equals gerbonara's reading
+                               of the Gerber within 0.1 %; the outline DXF's
+                               length equals the profile Gerber's
     checks.py raster DIR KDIR  gerbv renders our copper Gerbers and the ones
                                KiCad plotted from our board (in KDIR) in the
                                same frame; copper pixels must agree
@@ -371,5 +376,101 @@ def raster(d, kdir):
     print(f"raster: {layers} layers at {dpi} dpi, worst difference {worst*100:.3f} % of copper pixels")
 
 
+# ---------------------------------------------------------------- dxf
+
+DXF_LENGTH_TOL = 0.001  # relative, issue 16
+
+
+def dxf_entity_length(e):
+    """Centre-line length of one DXF entity as ezdxf reads it (its own
+    geometry, bulges turned into arcs by ezdxf.math)."""
+    from ezdxf.math import bulge_to_arc
+
+    kind = e.dxftype()
+    if kind == "LINE":
+        return e.dxf.start.distance(e.dxf.end)
+    if kind == "ARC":
+        sweep = (e.dxf.end_angle - e.dxf.start_angle) % 360.0
+        return math.radians(sweep) * e.dxf.radius
+    if kind == "LWPOLYLINE":
+        pts = list(e.get_points("xyb"))
+        if e.closed:
+            pts.append(pts[0])
+        total = 0.0
+        for (x1, y1, b), (x2, y2, _) in zip(pts, pts[1:]):
+            if abs(b) < 1e-15:
+                total += math.dist((x1, y1), (x2, y2))
+            else:
+                _c, a1, a2, r = bulge_to_arc((x1, y1), (x2, y2), b)
+                total += r * ((a2 - a1) % (2 * math.pi))
+        return total
+    return 0.0
+
+
+def gerber_length(path):
+    """Total drawn (D01) length of a Gerber as gerbonara reads it."""
+    from gerbonara import GerberFile
+    from gerbonara.graphic_objects import Arc, Line
+
+    total = 0.0
+    for o in GerberFile.open(path).objects:
+        if isinstance(o, Line):
+            total += math.dist((o.x1, o.y1), (o.x2, o.y2))
+        elif isinstance(o, Arc):
+            total += arc_points(o.x1, o.y1, o.x2, o.y2, o.x1 + o.cx, o.y1 + o.cy, o.clockwise)[1]
+    return total
+
+
+def dxf(d):
+    """Source: ezdxf (independent DXF reader with an auditor) and gerbonara
+    (the Gerber side of the comparison)."""
+    import ezdxf
+
+    exp = load_expect(d)
+    layers = exp["layout"]["layers"]
+    files = sorted(glob.glob(os.path.join(d, "dxf", "*.dxf")))
+    if len(files) != layers + 1:
+        fail("bundle", f"expected {layers + 1} DXF files, found {len(files)}")
+    for f in files:
+        doc = ezdxf.readfile(f)
+        auditor = doc.audit()
+        if auditor.has_errors:
+            fail("ezdxf", f"{os.path.basename(f)}: audit errors "
+                 f"{[str(e.message) for e in auditor.errors]}")
+        if doc.units != ezdxf.units.MM:
+            fail("ezdxf", f"{os.path.basename(f)}: drawing units {doc.units}, want mm")
+    worst = 0.0
+    for layer, gbr in copper_files(d, layers).items():
+        path = glob.glob(os.path.join(d, "dxf", f"*-L{layer}-copper.dxf"))
+        if len(path) != 1:
+            fail("bundle", f"no copper DXF for layer {layer}")
+            continue
+        msp = ezdxf.readfile(path[0]).modelspace()
+        got = sum(dxf_entity_length(e) for e in msp.query('LWPOLYLINE[layer=="TRACKS"]'))
+        want = gerber_length(gbr)
+        rel = abs(got - want) / max(want, 1e-9)
+        worst = max(worst, rel)
+        if rel > DXF_LENGTH_TOL:
+            fail("ezdxf", f"layer {layer}: DXF track length {got:.4f} mm, Gerber {want:.4f} mm")
+        widths = {round(e.dxf.const_width, 6) for e in msp.query("LWPOLYLINE[layer==\"TRACKS\"]")}
+        tracks = {round(t["width"], 6) for t in exp["layout"]["tracks"] if t["layer"] == layer}
+        if widths != tracks:
+            fail("ezdxf", f"layer {layer}: polyline widths {widths}, tracks {tracks}")
+    prof = glob.glob(os.path.join(d, "fab", "*-profile.gbr"))
+    outl = glob.glob(os.path.join(d, "dxf", "*-outline.dxf"))
+    if len(prof) == 1 and len(outl) == 1:
+        got = sum(dxf_entity_length(e) for e in ezdxf.readfile(outl[0]).modelspace())
+        want = gerber_length(prof[0])
+        rel = abs(got - want) / max(want, 1e-9)
+        worst = max(worst, rel)
+        if rel > DXF_LENGTH_TOL:
+            fail("ezdxf", f"outline length {got:.4f} mm, profile Gerber {want:.4f} mm")
+    else:
+        fail("bundle", "outline DXF or profile Gerber missing")
+    print(f"dxf: {len(files)} DXF files read and audited by ezdxf, worst length "
+          f"difference from the Gerbers {worst*100:.4f} %")
+
+
 if __name__ == "__main__":
-    run({"symbol": symbol, "readers": readers, "geometry": geometry, "raster": raster})
+    run({"symbol": symbol, "readers": readers, "geometry": geometry, "dxf": dxf,
+         "raster": raster})

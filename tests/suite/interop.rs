@@ -11,6 +11,9 @@
 //!   board loads with 0 violations;
 //! - gerbv: our copper Gerbers and KiCad's plot of our board differ in at
 //!   most 0.5 % of copper pixels per layer;
+//! - ezdxf: every DXF reads and audits with no error; its track
+//!   centre-line length per layer equals gerbonara's reading of the
+//!   copper Gerber within 0.1 %, the outline's the profile's;
 //! - shapely: turn-to-turn gap >= clearance - 1 um; every drill hit lands on
 //!   copper of exactly the layers it joins.
 //!
@@ -146,13 +149,16 @@ fn require_tools() -> PathBuf {
                 .venv-interop Python environment";
     assert!(py.exists(), "{} is missing: {hint}", py.display());
     let ok = Command::new(&py)
-        .args(["-c", "import gerbonara, pygerber, shapely, numpy, PIL"])
+        .args([
+            "-c",
+            "import gerbonara, pygerber, shapely, numpy, PIL, ezdxf",
+        ])
         .status()
         .map(|s| s.success())
         .unwrap_or(false);
     assert!(
         ok,
-        "the interop venv lacks gerbonara/pygerber/shapely: {hint}"
+        "the interop venv lacks gerbonara/pygerber/shapely/ezdxf: {hint}"
     );
     let ok = Command::new("/usr/bin/python3")
         .args(["-c", "import pcbnew"])
@@ -246,6 +252,7 @@ fn check_design(py: &Path, i: usize, root: &Path) -> Result<String, String> {
         (py, vec![c, "symbol", dir_s]),
         (py, vec![c, "readers", dir_s]),
         (py, vec![c, "geometry", dir_s]),
+        (py, vec![c, "dxf", dir_s]),
         (sys, vec![k, "footprint", dir_s]),
         (sys, vec![k, "board", dir_s]),
         (sys, vec![k, "plot", dir_s, plot_s]),
