@@ -235,6 +235,18 @@ pub const KEYS: &[Key] = &[
         Length,
         "terminal pad, larger than the drill",
     ),
+    key(
+        "terminal",
+        "angle",
+        Number,
+        "degrees from +x counter-clockwise where the terminals leave (90 = top)",
+    ),
+    key(
+        "terminal",
+        "lead_length",
+        Length,
+        "brings the outside terminals this far out from the coil",
+    ),
     key("board", "margin", Length, "copper to board edge"),
     // [rules]; the limits come from the rule registry.
     key(

@@ -23,6 +23,8 @@ pub struct Design {
     pub via: HoleSize,
     /// Terminal pads (plated through holes).
     pub terminal: HoleSize,
+    /// Where the terminals leave the coil.
+    pub terminal_place: TerminalPlace,
     /// Board outline.
     pub board: BoardSettings,
     /// Fab rules to check against.
@@ -241,6 +243,33 @@ pub struct HoleSize {
     pub diameter: f64,
 }
 
+/// Where the terminals leave the coil (`[terminal]` `angle`,
+/// `lead_length`).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct TerminalPlace {
+    /// Polar angle of terminal 1 about the coil axis, degrees from +x
+    /// counter-clockwise (0 to 360); terminal 2 sits next to it
+    /// counter-clockwise when it is outside. 90 (the top) by default.
+    pub angle_deg: f64,
+    /// How far both outside terminals are brought out beyond their slot
+    /// next to the winding, radially, on a lead of track width, mm (0: the
+    /// pads sit in their slots).
+    pub lead_length: f64,
+}
+
+impl TerminalPlace {
+    /// Terminal 1 at the top, no lead.
+    pub const DEFAULT: TerminalPlace = TerminalPlace {
+        angle_deg: 90.0,
+        lead_length: 0.0,
+    };
+
+    /// The angle in radians (90 degrees gives exactly pi / 2).
+    pub fn angle(&self) -> f64 {
+        self.angle_deg / 180.0 * std::f64::consts::PI
+    }
+}
+
 /// Board outline settings.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct BoardSettings {
@@ -335,6 +364,7 @@ impl Design {
                 drill: 0.4,
                 diameter: 0.8,
             },
+            terminal_place: TerminalPlace::DEFAULT,
             board: BoardSettings { margin: 0.5 },
             rules: RulesRequest {
                 profile: "standard".into(),
@@ -421,6 +451,8 @@ pub struct DesignRequest {
     pub via: HoleSize,
     /// Terminal pads.
     pub terminal: HoleSize,
+    /// Where the terminals leave the coil.
+    pub terminal_place: TerminalPlace,
     /// Board outline.
     pub board: BoardSettings,
     /// Fab rules to check against.
@@ -442,6 +474,7 @@ impl DesignRequest {
             stackup: self.stackup,
             via: self.via,
             terminal: self.terminal,
+            terminal_place: self.terminal_place,
             board: self.board,
             rules: self.rules,
             magnet: self.magnet,

@@ -25,6 +25,10 @@ fn geometry_error(e: GeometryError, spans: &KeySpans) -> DesignErrors {
             ),
         ),
         GeometryError::Spiral(_) => ("coil", None),
+        GeometryError::LeadTab => (
+            "terminal.lead_length",
+            Some("turn the terminals (terminal.angle) or make the coil larger".to_string()),
+        ),
         GeometryError::InnerTooSmall { .. } => (
             "coil.inner_diameter",
             Some("make the free centre larger, or use smaller vias or terminal pads".to_string()),

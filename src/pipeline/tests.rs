@@ -341,3 +341,19 @@ fn messages_never_repeat_their_key() {
     }
     assert!(seen > bad.len(), "{seen}");
 }
+
+#[test]
+fn terminal_angle_moves_both_outside_terminals() {
+    use std::f64::consts::PI;
+    let d = parse(BASE).unwrap();
+    assert_eq!(d.terminal_place, TerminalPlace::DEFAULT);
+    assert_eq!(d.terminal_place.angle(), PI / 2.0);
+    let d = parse(&format!("{BASE}[terminal]\nangle = 210\n")).unwrap();
+    assert_eq!(d.terminal_place.angle_deg, 210.0);
+    let b = geometry::build(&d).unwrap();
+    let a1 = b.pads[0].at.angle().rem_euclid(2.0 * PI);
+    assert!((a1 - 210f64.to_radians()).abs() < 1e-9, "{a1}");
+    // Four layers end outside: terminal 2 next to terminal 1, counter-clockwise.
+    let a2 = b.pads[1].at.angle().rem_euclid(2.0 * PI);
+    assert!(a2 > a1 && a2 - a1 < 0.6, "{a1} {a2}");
+}

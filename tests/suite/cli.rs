@@ -250,6 +250,13 @@ fn catalogue() -> Vec<Case> {
             "\"-300C\"",
             "absolute zero",
         ),
+        case(
+            "terminal angle outside 0-360",
+            mutate("[stackup]", "[terminal]\nangle = 400\n\n[stackup]"),
+            "terminal.angle",
+            "400",
+            "0 to 360",
+        ),
     ]
 }
 

@@ -126,6 +126,15 @@ pub fn random_design(i: usize) -> Design {
         d.stackup.cover = 0.02;
     }
     d.board.margin = r.len(0.3, 1.5);
+    // Every fourth design turns its terminals to another angle and brings
+    // them out on leads (a tab of the outline); drawn without the generator
+    // so that the other designs stay as they were.
+    if i % 4 == 1 {
+        d.terminal_place = coilwright::design::TerminalPlace {
+            angle_deg: ((i * 97) % 360) as f64,
+            lead_length: 0.5 + (i % 3) as f64,
+        };
+    }
     // A round corner must fit the innermost side: shrink it until it does.
     while let (Corner::Round { radius }, Err(_)) = (d.coil.corner, geometry::build(&d)) {
         d.coil.corner = if radius > 0.05 {

@@ -206,6 +206,30 @@ proptest! {
     }
 }
 
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 128, ..ProptestConfig::default() })]
+
+    /// Terminals turned to any angle and brought out on leads of any length
+    /// (the outline growing a tab around them): every valid design of every
+    /// shape still passes its own check.
+    #[test]
+    fn terminals_at_any_angle_pass_their_own_check(
+        k in knobs_of(6, 8.0, 0..3),
+        angle in 0.0..360.0f64,
+        lead in prop_oneof![Just(0.0), 0.0..4.0f64],
+    ) {
+        let mut d = design(&k);
+        d.terminal_place = coilwright::design::TerminalPlace {
+            angle_deg: angle,
+            lead_length: um(lead),
+        };
+        let l = geometry::build(&d);
+        prop_assume!(l.is_ok());
+        let v = rules::check(&d, &l.unwrap(), &own_profile(&d));
+        prop_assert!(rules::is_clean(&v), "{:?} angle {angle} lead {lead}\n{}", k, show(&v));
+    }
+}
+
 /// The one-layer sample turned into a sharp triangle, 0.075/0.075 mm.
 fn triangle() -> Design {
     let mut d = Design::sample();

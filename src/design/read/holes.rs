@@ -1,6 +1,6 @@
 //! `[via]` and `[terminal]`: plated holes, drill and pad.
 
-use super::super::model::HoleSize;
+use super::super::model::{HoleSize, TerminalPlace};
 use super::table::{Ctx, Sign, Table};
 
 /// Default via: 0.2 mm drill, 0.45 mm pad.
@@ -45,5 +45,25 @@ pub(super) fn read(cx: &mut Ctx, t: &Table, default: HoleSize) -> HoleSize {
     HoleSize {
         drill: d,
         diameter: p,
+    }
+}
+
+/// Reads where the terminals leave the coil from `[terminal]`; absent keys
+/// take [`TerminalPlace::DEFAULT`].
+pub(super) fn read_place(cx: &mut Ctx, t: &Table) -> TerminalPlace {
+    let d = TerminalPlace::DEFAULT;
+    TerminalPlace {
+        angle_deg: cx
+            .number(
+                t,
+                "angle",
+                0.0,
+                360.0,
+                "degrees from +x counter-clockwise, 0 to 360 (90 is the top)",
+            )
+            .unwrap_or(d.angle_deg),
+        lead_length: cx
+            .length(t, "lead_length", Sign::NonNegative)
+            .unwrap_or(d.lead_length),
     }
 }

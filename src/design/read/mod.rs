@@ -60,6 +60,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let stackup = stackup::read(&mut cx, &stackup_t, layers);
     let via = holes::read(&mut cx, &via_t, holes::VIA);
     let terminal = holes::read(&mut cx, &terminal_t, holes::TERMINAL);
+    let terminal_place = holes::read_place(&mut cx, &terminal_t);
     let board = board::read(&mut cx, &board_t);
     let rules = rules::read(&mut cx, &rules_t);
     let magnet = magnet::read(&mut cx, &magnet_t);
@@ -90,6 +91,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
         stackup,
         via,
         terminal,
+        terminal_place,
         board,
         rules,
         magnet,

@@ -70,6 +70,9 @@ pub enum GeometryError {
         /// Minimum, mm.
         min: f64,
     },
+    /// The board outline cannot grow a tab around the terminals' leads.
+    #[error("the terminals brought out by lead_length do not fit one tab of the board outline")]
+    LeadTab,
     /// The outer slots are too close for the vias and pads.
     #[error(
         "too many outside vias for the size: neighbouring slots are {gap:.3} mm apart, {need:.3} mm needed"
@@ -95,7 +98,7 @@ pub fn build(design: &Design) -> Result<Board, GeometryError> {
         &mut board, design, &plan, &canonical, &centre, &outer, &nodes,
     );
     (board.inner_radius, board.outer_radius) = canonical.copper_radii(design.coil.trace_width);
-    board.outline = outline::draw(&board, design, &outer);
+    board.outline = outline::draw(&board, design, &outer)?;
     board.coils.push(alone(&board));
     Ok(board)
 }

@@ -1,11 +1,14 @@
 //! Phase 5: the nodes of the conductor: terminal 1 in outer slot 0, then
 //! one node at the end of every group, alternately in the centre and
-//! outside: a via between two groups, terminal 2 after the last.
+//! outside: a via between two groups, terminal 2 after the last. A
+//! terminal outside the winding sits `lead_length` ([`TerminalPlace`]
+//! (crate::design::TerminalPlace)) further out than its slot, radially.
 
 use super::centre::CentreSlots;
 use super::outer::OuterSlots;
 use super::plan::Plan;
 use crate::design::Design;
+use crate::geometry::Vec2;
 use crate::geometry::board::{Board, Node, Pad, Place, Via};
 
 /// A node between two groups (or a terminal) and the polar angle of its
@@ -29,9 +32,11 @@ pub(super) fn place(
 ) -> Vec<Boundary> {
     let (via_d, term_d) = (design.via.diameter, design.terminal.diameter);
     let g = plan.groups.len();
+    let lead = design.terminal_place.lead_length;
+    let brought_out = |angle: f64| outer.via_at(angle) + Vec2::from_angle(angle) * lead;
     board.pads.push(Pad {
         name: "1".into(),
-        at: outer.via_at(outer.angle(0)),
+        at: brought_out(outer.angle(0)),
         drill: design.terminal.drill,
         diameter: term_d,
         joins: plan.groups[0].clone(),
@@ -70,7 +75,11 @@ pub(super) fn place(
         } else {
             board.pads.push(Pad {
                 name: "2".into(),
-                at,
+                at: if place == Place::Outside {
+                    brought_out(angle)
+                } else {
+                    at
+                },
                 drill: design.terminal.drill,
                 diameter: term_d,
                 joins: plan.groups[i].clone(),

@@ -125,8 +125,15 @@ fn group_chain(
     } else {
         vec![Segment::line(centre_at, inner_end)]
     };
-    // Outer lead: node -> lead ring -> along ring -> outer end.
-    let node_at = board.node_at(outer_side.node);
+    // Outer lead: node (-> its slot, for a terminal brought out) -> lead
+    // ring -> along ring -> outer end.
+    let pad_at = board.node_at(outer_side.node);
+    let node_at = outer.via_at(outer_side.angle);
+    let stub: Vec<Segment> = if pad_at.distance(node_at) > 1e-9 {
+        vec![Segment::line(pad_at, node_at)]
+    } else {
+        vec![]
+    };
     let outer_lead = if let Some(lead_loop) = &canonical.lead_loop {
         // Square onto this layer's own ring from the node, along the
         // ring, square onto the spiral's outer end.
@@ -147,6 +154,7 @@ fn group_chain(
         circle_lead(radius, node_at, outer_side.angle, end_angle, outer_end)
     };
 
+    let outer_lead: Vec<Segment> = stub.into_iter().chain(outer_lead).collect();
     let lead = |path: Vec<Segment>| path.into_iter().map(|x| (x, TrackRole::Lead));
     let winding = |path: Vec<Segment>| path.into_iter().map(|x| (x, TrackRole::Winding));
     if inward {
