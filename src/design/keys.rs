@@ -237,6 +237,30 @@ pub const KEYS: &[Key] = &[
     ),
     key(
         "terminal",
+        "kind",
+        Choice(&["hole", "smd"]),
+        "plated through holes, or surface pads on one face",
+    ),
+    key(
+        "terminal",
+        "side",
+        Choice(&["top", "bottom"]),
+        "smd only: the face of the surface pads",
+    ),
+    key(
+        "terminal",
+        "pad_width",
+        Length,
+        "smd only: surface pad size across the lead",
+    ),
+    key(
+        "terminal",
+        "pad_length",
+        Length,
+        "smd only: surface pad size along the lead",
+    ),
+    key(
+        "terminal",
         "angle",
         Number,
         "degrees from +x counter-clockwise where the terminals leave (90 = top)",

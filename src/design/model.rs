@@ -243,10 +243,38 @@ pub struct HoleSize {
     pub diameter: f64,
 }
 
-/// Where the terminals leave the coil (`[terminal]` `angle`,
-/// `lead_length`).
+/// What a terminal is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum TerminalKind {
+    /// A plated through hole with a round land on every layer.
+    Hole,
+    /// A rectangular surface pad on one face, no hole.
+    Smd,
+}
+
+/// A face of the board.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Face {
+    /// Layer 1.
+    Top,
+    /// The last layer.
+    Bottom,
+}
+
+/// Where the terminals leave the coil and what they are (`[terminal]`
+/// `kind`, `side`, `pad_width`, `pad_length`, `angle`, `lead_length`).
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct TerminalPlace {
+    /// Plated holes or surface pads.
+    pub kind: TerminalKind,
+    /// Face of surface pads (unused for holes).
+    pub side: Face,
+    /// Surface pad size across the lead, mm.
+    pub pad_width: f64,
+    /// Surface pad size along the lead, mm.
+    pub pad_length: f64,
     /// Polar angle of terminal 1 about the coil axis, degrees from +x
     /// counter-clockwise (0 to 360); terminal 2 sits next to it
     /// counter-clockwise when it is outside. 90 (the top) by default.
@@ -258,8 +286,13 @@ pub struct TerminalPlace {
 }
 
 impl TerminalPlace {
-    /// Terminal 1 at the top, no lead.
+    /// Plated holes at the top, no lead; surface pads (when chosen) 1 mm by
+    /// 1.5 mm on the top (invented defaults).
     pub const DEFAULT: TerminalPlace = TerminalPlace {
+        kind: TerminalKind::Hole,
+        side: Face::Top,
+        pad_width: 1.0,
+        pad_length: 1.5,
         angle_deg: 90.0,
         lead_length: 0.0,
     };
@@ -267,6 +300,34 @@ impl TerminalPlace {
     /// The angle in radians (90 degrees gives exactly pi / 2).
     pub fn angle(&self) -> f64 {
         self.angle_deg / 180.0 * std::f64::consts::PI
+    }
+
+    /// Surface pads?
+    pub fn is_smd(&self) -> bool {
+        self.kind == TerminalKind::Smd
+    }
+}
+
+impl Design {
+    /// Diameter of the circle a terminal's land fills (the land for holes,
+    /// the circle about a surface pad's corners), mm: what the slots next
+    /// to the winding and the free centre make room for.
+    pub fn terminal_land(&self) -> f64 {
+        let t = &self.terminal_place;
+        if t.is_smd() {
+            (t.pad_width * t.pad_width + t.pad_length * t.pad_length).sqrt()
+        } else {
+            self.terminal.diameter
+        }
+    }
+
+    /// Copper layer of surface pads (1 = top), `None` for holes.
+    pub fn smd_layer(&self) -> Option<u8> {
+        let t = &self.terminal_place;
+        t.is_smd().then_some(match t.side {
+            Face::Top => 1,
+            Face::Bottom => self.coil.layers,
+        })
     }
 }
 

@@ -313,7 +313,8 @@ mod tests {
         assert_eq!(kind("rules.min_edge_clearance"), Some(Kind::Quantity));
         assert_eq!(kind("coil.shape"), None);
         assert_eq!(kind("terminal.angle"), Some(Kind::Number));
-        assert_eq!(keys.len(), 40);
+        assert_eq!(kind("terminal.pad_width"), Some(Kind::Quantity));
+        assert_eq!(keys.len(), 42);
         assert_eq!(
             parse("min_drill=0.15mm,0.2mm").unwrap().key,
             "rules.min_drill"

@@ -220,12 +220,23 @@ pub fn copper(design: &Design, layout: &Board, layer: u8) -> Result<Vec<u8>, Exp
         circle(&mut d, PAD_LAYER, v.at, v.diameter);
     }
     for p in &layout.pads {
-        circle(&mut d, PAD_LAYER, p.at, p.diameter);
+        match &p.smd {
+            Some(s) if s.layer == layer => {
+                let mut poly = LwPolyline::default();
+                poly.set_is_closed(true);
+                for c in s.corners(p.at) {
+                    poly.vertices.push(vertex(c, 0.0));
+                }
+                add(&mut d, PAD_LAYER, EntityType::LwPolyline(poly));
+            }
+            Some(_) => {}
+            None => circle(&mut d, PAD_LAYER, p.at, p.diameter),
+        }
     }
     for v in &layout.vias {
         circle(&mut d, HOLE_LAYER, v.at, v.drill);
     }
-    for p in &layout.pads {
+    for p in layout.pads.iter().filter(|p| p.smd.is_none()) {
         circle(&mut d, HOLE_LAYER, p.at, p.drill);
     }
     save(&d)

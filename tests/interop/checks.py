@@ -192,11 +192,15 @@ def arc_points(x1, y1, x2, y2, cx, cy, clockwise):
 def parse_copper(path):
     """Pieces (centre lines with width) and flashes of one copper file."""
     from gerbonara import GerberFile
-    from gerbonara.graphic_objects import Arc, Flash, Line
+    from gerbonara.graphic_objects import Arc, Flash, Line, Region
 
     g = GerberFile.open(path)
-    pieces, flashes = [], []
+    pieces, flashes, regions = [], [], []
     for o in g.objects:
+        if isinstance(o, Region):
+            # Surface pads: straight-sided regions.
+            regions.append([(x, y) for x, y in o.outline])
+            continue
         if isinstance(o, Line):
             pts = [(o.x1, o.y1), (o.x2, o.y2)]
             pieces.append({"pts": pts, "len": math.dist(*pts), "w": o.aperture.diameter})
@@ -207,7 +211,7 @@ def parse_copper(path):
             flashes.append({"at": (o.x, o.y), "d": o.aperture.diameter})
         else:
             fail("gerbonara", f"{os.path.basename(path)}: unexpected object {type(o).__name__}")
-    return pieces, flashes
+    return pieces, flashes, regions
 
 
 def geometry(d):
@@ -225,7 +229,7 @@ def geometry(d):
     worst = math.inf
     copper = {}
     for layer, path in files.items():
-        pieces, flashes = parse_copper(path)
+        pieces, flashes, regions = parse_copper(path)
         # Position along the conductor: consecutive pieces that meet form a chain.
         chain, pos = [], []
         c, s = 0, 0.0
@@ -263,9 +267,22 @@ def geometry(d):
                     fail("shapely", f"layer {layer}: turn-to-turn gap {gap[k]*1000:.2f} um < "
                          f"clearance {clearance*1000:.1f} um between pieces {i_idx[k]} "
                          f"({a[0]}..{a[-1]}) and {j_idx[k]} ({b[0]}..{b[-1]})")
-    # Drill hits: copper of exactly the joined layers.
+        # Surface pads of this layer: one rectangle each, of the pad's size
+        # and centred on it (source: gerbonara's reading, shapely's area).
+        smd = [p for p in lay["pads"] if p.get("smd") and p["smd"]["layer"] == layer]
+        if len(regions) != len(smd):
+            fail("gerbonara", f"layer {layer}: {len(regions)} regions, {len(smd)} surface pads")
+        for p in smd:
+            want = p["smd"]["width"] * p["smd"]["length"]
+            found = [r for r in regions
+                     if math.dist(shapely.Polygon(r).centroid.coords[0], (p["at"]["x"], p["at"]["y"])) < tol]
+            if len(found) != 1 or abs(shapely.Polygon(found[0]).area - want) > 1e-6:
+                fail("shapely", f"layer {layer}: surface pad {p['name']} not one "
+                     f"{p['smd']['width']} x {p['smd']['length']} mm rectangle at its centre")
+    # Drill hits: copper of exactly the joined layers (surface pads have none).
     nodes = [("via", v["at"], v["joins"], v["drill"]) for v in lay["vias"]]
-    nodes += [("pad " + p["name"], p["at"], p["joins"], p["drill"]) for p in lay["pads"]]
+    nodes += [("pad " + p["name"], p["at"], p["joins"], p["drill"])
+              for p in lay["pads"] if not p.get("smd")]
     hits = []
     for path in glob.glob(os.path.join(d, "fab", "*.drl")):
         for o in ExcellonFile.open(path).drills():

@@ -251,6 +251,13 @@ fn catalogue() -> Vec<Case> {
             "absolute zero",
         ),
         case(
+            "surface pads on an odd layer count",
+            mutate("layers = 4", "layers = 3\n\n[terminal]\nkind = \"smd\""),
+            "terminal.kind",
+            "\"smd\"",
+            "bridge",
+        ),
+        case(
             "terminal angle outside 0-360",
             mutate("[stackup]", "[terminal]\nangle = 400\n\n[stackup]"),
             "terminal.angle",

@@ -36,6 +36,7 @@ fn designs() -> impl Strategy<Value = Design> {
                 d.terminal_place = coilwright::design::TerminalPlace {
                     angle_deg: angle,
                     lead_length: lead,
+                    ..coilwright::design::TerminalPlace::DEFAULT
                 };
                 d.coil.shape = shape;
                 d.coil.layers = layers;

@@ -129,10 +129,27 @@ pub fn random_design(i: usize) -> Design {
     // Every fourth design turns its terminals to another angle and brings
     // them out on leads (a tab of the outline); drawn without the generator
     // so that the other designs stay as they were.
+    // Every fourth design on an even layer count, from the fourth, has
+    // surface pads (on the bottom every other time), brought out.
+    if i % 4 == 3 && layers.is_multiple_of(2) {
+        d.terminal_place = coilwright::design::TerminalPlace {
+            kind: coilwright::design::TerminalKind::Smd,
+            side: if i % 8 == 3 {
+                coilwright::design::Face::Top
+            } else {
+                coilwright::design::Face::Bottom
+            },
+            pad_width: 0.8,
+            pad_length: 1.2,
+            angle_deg: ((i * 53) % 360) as f64,
+            lead_length: 0.5,
+        };
+    }
     if i % 4 == 1 {
         d.terminal_place = coilwright::design::TerminalPlace {
             angle_deg: ((i * 97) % 360) as f64,
             lead_length: 0.5 + (i % 3) as f64,
+            ..coilwright::design::TerminalPlace::DEFAULT
         };
     }
     // A round corner must fit the innermost side: shrink it until it does.

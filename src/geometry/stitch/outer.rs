@@ -39,7 +39,7 @@ impl OuterSlots {
     ) -> Result<OuterSlots, GeometryError> {
         let coil = &design.coil;
         let (w, s, p) = (coil.trace_width, coil.clearance, coil.pitch());
-        let (via_d, term_d) = (design.via.diameter, design.terminal.diameter);
+        let (via_d, term_d) = (design.via.diameter, design.terminal_land());
         let lead_ring = match (coil.shape.sides(), &canonical.lead_loop) {
             (Some(sides), Some(l)) => {
                 let mut segs = l.segs.clone();

@@ -54,7 +54,9 @@ pub(super) fn draw(
     if let [Segment::Arc(a), Segment::Arc(b)] = outline.segments.as_mut_slice() {
         a.end = b.start;
     }
-    if design.terminal_place.lead_length > 0.0 {
+    // Terminals brought out (by lead_length, or a surface pad beside its
+    // via) get a tab.
+    if design.terminal_place.lead_length > 0.0 || design.terminal_place.is_smd() {
         outline.segments = lead_tab(board, design, &outline).ok_or(GeometryError::LeadTab)?;
     }
     Ok(outline)

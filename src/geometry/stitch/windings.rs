@@ -10,7 +10,7 @@ use super::nodes::Boundary;
 use super::outer::OuterSlots;
 use super::plan::Plan;
 use crate::design::Design;
-use crate::geometry::board::{Board, Direction, Track, TrackRole, Winding};
+use crate::geometry::board::{Board, Direction, Node, Track, TrackRole, Winding};
 use crate::geometry::{Arc, Point, Segment};
 use std::f64::consts::{PI, TAU};
 
@@ -47,21 +47,54 @@ pub(super) fn lay(
         } else {
             (centre_side.node, outer_side.node)
         };
-        for &layer in group {
+        // A surface pad brought out from its slot: the lead from the slot
+        // to the pad is on the pad's layer alone (a via in the slot joins
+        // the group's layers to it), drawn once.
+        let stub = match outer_side.node {
+            Node::Pad(p) => board.pads[p]
+                .smd
+                .map(|s| s.layer)
+                .filter(|_| board.pads[p].at.distance(outer.via_at(outer_side.angle)) > 1e-9),
+            Node::Via(_) => None,
+        };
+        let stub_at = if inward {
+            0
+        } else {
+            chain.len().saturating_sub(1)
+        };
+        for (k, &layer) in group.iter().enumerate() {
             let start = board.tracks.len();
-            board
-                .tracks
-                .extend(
-                    chain
-                        .iter()
-                        .filter(|(x, _)| x.length() > 0.0)
-                        .map(|&(segment, role)| Track {
+            board.tracks.extend(
+                chain
+                    .iter()
+                    .enumerate()
+                    .filter(|(_, (x, _))| x.length() > 0.0)
+                    .filter_map(|(j, &(segment, role))| {
+                        let layer = match stub {
+                            Some(s) if j == stub_at => {
+                                // With the winding of the pad's layer when
+                                // the group has it (one path there), else
+                                // with the group's first.
+                                let own = if group.contains(&s) {
+                                    layer == s
+                                } else {
+                                    k == 0
+                                };
+                                if !own {
+                                    return None;
+                                }
+                                s
+                            }
+                            _ => layer,
+                        };
+                        Some(Track {
                             layer,
                             segment,
                             width: coil.trace_width,
                             role,
-                        }),
-                );
+                        })
+                    }),
+            );
             board.windings.push(Winding {
                 layer,
                 group: i,
