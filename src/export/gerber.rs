@@ -587,4 +587,29 @@ mod tests {
         assert!(text.contains("G03*\n"), "{text}");
         assert!(text.contains("I-1000001J0D01*"), "{text}");
     }
+
+    #[test]
+    fn surface_pads_are_regions_on_their_face_only() {
+        let mut d = Design::sample();
+        d.coil.layers = 2;
+        d.stackup.copper = vec![0.035; 2];
+        d.stackup.dielectric = vec![0.05];
+        d.terminal_place.kind = crate::design::TerminalKind::Smd;
+        let b = crate::geometry::build(&d).unwrap();
+        let text = |bytes: Vec<u8>| String::from_utf8(bytes).unwrap();
+        let top = text(copper(&d, &b, 1).unwrap());
+        let bottom = text(copper(&d, &b, 2).unwrap());
+        // Two pads on the top: two regions with the SMD pad function and
+        // the pin names; none on the bottom.
+        assert_eq!(top.matches("G36*").count(), 2, "{top}");
+        assert_eq!(top.matches("%TA.AperFunction,SMDPad,CuDef*%").count(), 2);
+        assert!(top.contains("%TO.P,L1,1*%") && top.contains("%TO.P,L1,2*%"));
+        assert_eq!(bottom.matches("G36*").count(), 0);
+        assert!(!bottom.contains("ComponentPad"));
+        let mask_top = text(mask(&d, &b, Side::Top).unwrap());
+        let mask_bottom = text(mask(&d, &b, Side::Bottom).unwrap());
+        assert_eq!(mask_top.matches("G36*").count(), 2);
+        assert_eq!(mask_bottom.matches("G36*").count(), 0);
+        assert!(!mask_bottom.contains("D03*"));
+    }
 }
