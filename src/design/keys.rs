@@ -237,6 +237,42 @@ pub const KEYS: &[Key] = &[
         Length,
         "terminal pad, larger than the drill",
     ),
+    key(
+        "terminal",
+        "kind",
+        Choice(&["hole", "smd"]),
+        "plated through holes, or surface pads on one face",
+    ),
+    key(
+        "terminal",
+        "side",
+        Choice(&["top", "bottom"]),
+        "smd only: the face of the surface pads",
+    ),
+    key(
+        "terminal",
+        "pad_width",
+        Length,
+        "smd only: surface pad size across the lead",
+    ),
+    key(
+        "terminal",
+        "pad_length",
+        Length,
+        "smd only: surface pad size along the lead",
+    ),
+    key(
+        "terminal",
+        "angle",
+        Number,
+        "degrees from +x counter-clockwise where the terminals leave (90 = top)",
+    ),
+    key(
+        "terminal",
+        "lead_length",
+        Length,
+        "brings the outside terminals this far out from the coil",
+    ),
     key("board", "margin", Length, "copper to board edge"),
     // [rules]; the limits come from the rule registry.
     key(

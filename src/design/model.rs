@@ -23,6 +23,8 @@ pub struct Design {
     pub via: HoleSize,
     /// Terminal pads (plated through holes).
     pub terminal: HoleSize,
+    /// Where the terminals leave the coil.
+    pub terminal_place: TerminalPlace,
     /// Board outline.
     pub board: BoardSettings,
     /// Fab rules to check against.
@@ -243,6 +245,94 @@ pub struct HoleSize {
     pub diameter: f64,
 }
 
+/// What a terminal is.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum TerminalKind {
+    /// A plated through hole with a round land on every layer.
+    Hole,
+    /// A rectangular surface pad on one face, no hole.
+    Smd,
+}
+
+/// A face of the board.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Face {
+    /// Layer 1.
+    Top,
+    /// The last layer.
+    Bottom,
+}
+
+/// Where the terminals leave the coil and what they are (`[terminal]`
+/// `kind`, `side`, `pad_width`, `pad_length`, `angle`, `lead_length`).
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct TerminalPlace {
+    /// Plated holes or surface pads.
+    pub kind: TerminalKind,
+    /// Face of surface pads (unused for holes).
+    pub side: Face,
+    /// Surface pad size across the lead, mm.
+    pub pad_width: f64,
+    /// Surface pad size along the lead, mm.
+    pub pad_length: f64,
+    /// Polar angle of terminal 1 about the coil axis, degrees from +x
+    /// counter-clockwise (0 to 360); terminal 2 sits next to it
+    /// counter-clockwise when it is outside. 90 (the top) by default.
+    pub angle_deg: f64,
+    /// How far both outside terminals are brought out beyond their slot
+    /// next to the winding, radially, on a lead of track width, mm (0: the
+    /// pads sit in their slots).
+    pub lead_length: f64,
+}
+
+impl TerminalPlace {
+    /// Plated holes at the top, no lead; surface pads (when chosen) 1 mm by
+    /// 1.5 mm on the top (invented defaults).
+    pub const DEFAULT: TerminalPlace = TerminalPlace {
+        kind: TerminalKind::Hole,
+        side: Face::Top,
+        pad_width: 1.0,
+        pad_length: 1.5,
+        angle_deg: 90.0,
+        lead_length: 0.0,
+    };
+
+    /// The angle in radians (90 degrees gives exactly pi / 2).
+    pub fn angle(&self) -> f64 {
+        self.angle_deg / 180.0 * std::f64::consts::PI
+    }
+
+    /// Surface pads?
+    pub fn is_smd(&self) -> bool {
+        self.kind == TerminalKind::Smd
+    }
+}
+
+impl Design {
+    /// Diameter of the circle a terminal's land fills (the land for holes,
+    /// the circle about a surface pad's corners), mm: what the slots next
+    /// to the winding and the free centre make room for.
+    pub fn terminal_land(&self) -> f64 {
+        let t = &self.terminal_place;
+        if t.is_smd() {
+            (t.pad_width * t.pad_width + t.pad_length * t.pad_length).sqrt()
+        } else {
+            self.terminal.diameter
+        }
+    }
+
+    /// Copper layer of surface pads (1 = top), `None` for holes.
+    pub fn smd_layer(&self) -> Option<u8> {
+        let t = &self.terminal_place;
+        t.is_smd().then_some(match t.side {
+            Face::Top => 1,
+            Face::Bottom => self.coil.layers,
+        })
+    }
+}
+
 /// Board outline settings.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct BoardSettings {
@@ -404,6 +494,7 @@ impl Design {
                 drill: 0.4,
                 diameter: 0.8,
             },
+            terminal_place: TerminalPlace::DEFAULT,
             board: BoardSettings { margin: 0.5 },
             rules: RulesRequest {
                 profile: "standard".into(),
@@ -495,6 +586,8 @@ pub struct DesignRequest {
     pub via: HoleSize,
     /// Terminal pads.
     pub terminal: HoleSize,
+    /// Where the terminals leave the coil.
+    pub terminal_place: TerminalPlace,
     /// Board outline.
     pub board: BoardSettings,
     /// Fab rules to check against.
@@ -518,6 +611,7 @@ impl DesignRequest {
             stackup: self.stackup,
             via: self.via,
             terminal: self.terminal,
+            terminal_place: self.terminal_place,
             board: self.board,
             rules: self.rules,
             magnet: self.magnet,

@@ -56,7 +56,7 @@ pub fn plated(layout: &Board) -> Vec<u8> {
             function: "ViaDrill",
         })
         .collect();
-    hits.extend(layout.pads.iter().map(|p| Hit {
+    hits.extend(layout.pads.iter().filter(|p| p.smd.is_none()).map(|p| Hit {
         at: p.at,
         drill_nm: to_nm(p.drill),
         function: "ComponentDrill",

@@ -24,7 +24,8 @@ use gerber_types::{
     CommentContent, CoordinateFormat, CoordinateMode, CoordinateNumber, CoordinateOffset,
     Coordinates, DCode, ExtendedCode, ExtendedPosition, FileAttribute, FileFunction, FilePolarity,
     FunctionCode, GCode, GenerationSoftware, GerberCode, InterpolationMode, MCode, Net,
-    ObjectAttribute, Operation, Part, Pin, Position, Profile, QuadrantMode, Unit, ZeroOmission,
+    ObjectAttribute, Operation, Part, Pin, Position, Profile, QuadrantMode, SmdPadType, Unit,
+    ZeroOmission,
 };
 
 /// Net name of terminal "1" (where the current enters) and of all coil
@@ -332,6 +333,41 @@ impl Writer {
         self.current_point = Some(point_nm(p));
     }
 
+    /// A filled region (G36/G37) with the corners `pts` (closed back to the
+    /// first), carrying the aperture function `function`: the attribute is
+    /// set for the region and removed after it.
+    fn region(&mut self, function: ApertureFunction, pts: &[Point]) {
+        let Some(&first) = pts.first() else { return };
+        self.cmds.push(
+            ExtendedCode::ApertureAttribute(ApertureAttribute::ApertureFunction(function)).into(),
+        );
+        self.cmds
+            .push(FunctionCode::GCode(GCode::RegionMode(true)).into());
+        self.current_point = None;
+        self.move_to(first);
+        self.set_mode(InterpolationMode::Linear);
+        for &p in pts[1..].iter().chain([first].iter()) {
+            self.cmds.push(
+                FunctionCode::DCode(DCode::Operation(Operation::Interpolate(
+                    Some(coords(p)),
+                    None,
+                )))
+                .into(),
+            );
+        }
+        self.current_point = Some(point_nm(first));
+        self.cmds
+            .push(FunctionCode::GCode(GCode::RegionMode(false)).into());
+        self.cmds.push(
+            ExtendedCode::DeleteAttribute(
+                gerber_types::AttributeDeletionCriterion::SingleApertureAttribute(
+                    ".AperFunction".into(),
+                ),
+            )
+            .into(),
+        );
+    }
+
     fn finish(mut self) -> Result<Vec<u8>, ExportError> {
         self.cmds.push(FunctionCode::MCode(MCode::EndOfFile).into());
         let mut out = Vec::new();
@@ -345,7 +381,8 @@ impl Writer {
 /// The copper Gerber of one layer (1 = top): every track of the layer drawn
 /// with a round `Conductor` aperture of its width, a `ViaPad` flash for each
 /// via that joins this layer and a `ComponentPad` flash for each terminal
-/// (terminals are plated through holes with a land on every layer). Coil
+/// (terminals are plated through holes with a land on every layer), or an
+/// `SMDPad` region on the one layer of a surface pad. Coil
 /// copper and terminal "1" carry net [`NET_1`], terminal "2" net [`NET_2`].
 pub fn copper(design: &Design, layout: &Board, layer: u8) -> Result<Vec<u8>, ExportError> {
     let pos = if layer == 1 {
@@ -376,12 +413,23 @@ pub fn copper(design: &Design, layout: &Board, layer: u8) -> Result<Vec<u8>, Exp
     // Pin attributes belong to component pads on the outer layers.
     let outer = layer == 1 || layer == layout.layers;
     for p in &layout.pads {
+        if p.smd.is_some_and(|s| s.layer != layer) {
+            continue;
+        }
         w.set_net(Some(if p.name == "2" { NET_2 } else { NET_1 }));
-        w.aperture(Some(ApertureFunction::ComponentPad), p.diameter);
+        if p.smd.is_none() {
+            w.aperture(Some(ApertureFunction::ComponentPad), p.diameter);
+        }
         if outer {
             w.pin(Some(&p.name));
         }
-        w.flash(p.at);
+        match &p.smd {
+            Some(s) => w.region(
+                ApertureFunction::SmdPad(SmdPadType::CopperDefined),
+                &s.corners(p.at),
+            ),
+            None => w.flash(p.at),
+        }
         if outer {
             w.pin(None);
         }
@@ -391,7 +439,8 @@ pub fn copper(design: &Design, layout: &Board, layer: u8) -> Result<Vec<u8>, Exp
 
 /// Solder mask (rigid) or coverlay (flex) openings of one face: a round
 /// opening the size of each terminal land (the fab applies its own mask
-/// expansion), nothing else, so the coil stays covered.
+/// expansion), nothing else, so the coil stays covered. A surface pad is
+/// opened on its own face only, as its rectangle.
 pub fn mask(design: &Design, layout: &Board, side: Side) -> Result<Vec<u8>, ExportError> {
     let pos = match side {
         Side::Top => Position::Top,
@@ -409,9 +458,22 @@ pub fn mask(design: &Design, layout: &Board, side: Side) -> Result<Vec<u8>, Expo
             design.name
         ),
     );
+    let face = match side {
+        Side::Top => 1,
+        Side::Bottom => layout.layers,
+    };
     for p in &layout.pads {
-        w.aperture(Some(ApertureFunction::ComponentPad), p.diameter);
-        w.flash(p.at);
+        match &p.smd {
+            Some(s) if s.layer == face => w.region(
+                ApertureFunction::SmdPad(SmdPadType::CopperDefined),
+                &s.corners(p.at),
+            ),
+            Some(_) => {}
+            None => {
+                w.aperture(Some(ApertureFunction::ComponentPad), p.diameter);
+                w.flash(p.at);
+            }
+        }
     }
     w.finish()
 }
@@ -524,5 +586,30 @@ mod tests {
         let text = String::from_utf8(w.finish().unwrap()).unwrap();
         assert!(text.contains("G03*\n"), "{text}");
         assert!(text.contains("I-1000001J0D01*"), "{text}");
+    }
+
+    #[test]
+    fn surface_pads_are_regions_on_their_face_only() {
+        let mut d = Design::sample();
+        d.coil.layers = 2;
+        d.stackup.copper = vec![0.035; 2];
+        d.stackup.dielectric = vec![0.05];
+        d.terminal_place.kind = crate::design::TerminalKind::Smd;
+        let b = crate::geometry::build(&d).unwrap();
+        let text = |bytes: Vec<u8>| String::from_utf8(bytes).unwrap();
+        let top = text(copper(&d, &b, 1).unwrap());
+        let bottom = text(copper(&d, &b, 2).unwrap());
+        // Two pads on the top: two regions with the SMD pad function and
+        // the pin names; none on the bottom.
+        assert_eq!(top.matches("G36*").count(), 2, "{top}");
+        assert_eq!(top.matches("%TA.AperFunction,SMDPad,CuDef*%").count(), 2);
+        assert!(top.contains("%TO.P,L1,1*%") && top.contains("%TO.P,L1,2*%"));
+        assert_eq!(bottom.matches("G36*").count(), 0);
+        assert!(!bottom.contains("ComponentPad"));
+        let mask_top = text(mask(&d, &b, Side::Top).unwrap());
+        let mask_bottom = text(mask(&d, &b, Side::Bottom).unwrap());
+        assert_eq!(mask_top.matches("G36*").count(), 2);
+        assert_eq!(mask_bottom.matches("G36*").count(), 0);
+        assert!(!mask_bottom.contains("D03*"));
     }
 }

@@ -74,6 +74,35 @@ pub fn copper_layer_name(layer: u8, layers: u8) -> String {
 }
 
 /// KiCad's internal number of a copper layer (F.Cu 0, In1.Cu 1, B.Cu 31).
+/// The KiCad pad text of terminal `p` in frame `f`: a through-hole circle,
+/// or a rotated surface rectangle on its face with the mask opened; `net`
+/// is appended inside the pad (board) or empty (footprint).
+fn terminal_pad(p: &crate::geometry::Pad, f: Frame, net: &str) -> String {
+    match &p.smd {
+        Some(s) => {
+            let face = if s.layer == 1 { "F" } else { "B" };
+            // KiCad turns pads counter-clockwise as seen, with y down: the
+            // same sense as ours with y up.
+            let deg = s.angle.to_degrees().rem_euclid(360.0);
+            let deg = crate::geometry::round::format_mm(crate::geometry::round::to_nm(deg));
+            format!(
+                "(pad {} smd rect (at {} {deg}) (size {} {}) (layers \"{face}.Cu\" \"{face}.Mask\"){net})",
+                quote(&p.name),
+                f.xy(p.at),
+                mm(s.length),
+                mm(s.width)
+            )
+        }
+        None => format!(
+            "(pad {} thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\" \"*.Mask\"){net})",
+            quote(&p.name),
+            f.xy(p.at),
+            mm(p.drill),
+            d = mm(p.diameter)
+        ),
+    }
+}
+
 fn copper_layer_id(layer: u8, layers: u8) -> u8 {
     if layer == layers && layer != 1 {
         31
@@ -261,14 +290,7 @@ pub fn footprint(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError
     }
     // Terminals.
     for p in &layout.pads {
-        let _ = writeln!(
-            o,
-            "  (pad {} thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\" \"*.Mask\"))",
-            quote(&p.name),
-            f.xy(p.at),
-            mm(p.drill),
-            d = mm(p.diameter)
-        );
+        let _ = writeln!(o, "  {}", terminal_pad(p, f, ""));
     }
     // Vias: through-hole pads of net 1 that keep their land only where a
     // layer's copper connects to them.
@@ -406,15 +428,8 @@ pub fn board(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
         } else {
             (1, NET_1)
         };
-        let _ = writeln!(
-            o,
-            "    (pad {} thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\" \"*.Mask\") (net {id} {}))",
-            quote(&p.name),
-            Frame::LOCAL.xy(p.at),
-            mm(p.drill),
-            quote(net),
-            d = mm(p.diameter)
-        );
+        let net = format!(" (net {id} {})", quote(net));
+        let _ = writeln!(o, "    {}", terminal_pad(p, Frame::LOCAL, &net));
     }
     let _ = writeln!(o, "  )");
 
@@ -462,7 +477,13 @@ pub fn project(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> 
         .vias
         .iter()
         .map(|v| v.drill)
-        .chain(layout.pads.iter().map(|p| p.drill))
+        .chain(
+            layout
+                .pads
+                .iter()
+                .filter(|p| p.smd.is_none())
+                .map(|p| p.drill),
+        )
         .fold(f64::INFINITY, f64::min);
     let min_via = layout
         .vias

@@ -2,6 +2,7 @@
 //! never compute geometry; coordinates go through
 //! [`crate::geometry::round`].
 
+pub mod dxf;
 pub mod excellon;
 pub mod font;
 pub mod gerber;
@@ -39,7 +40,7 @@ pub enum ExportError {
 /// Everything `build` writes, in a fixed order.
 ///
 /// Fab files go to `fab/` (Gerber `.gbr`, Excellon `.drl`, job `.gbrjob`),
-/// KiCad files to `kicad/`, and `manifest.json` (checksums of all the
+/// KiCad files to `kicad/`, DXF drawings to `dxf/`, and `manifest.json` (checksums of all the
 /// others) comes last. File names: see [`gerber`], [`excellon`], [`job`],
 /// [`kicad`].
 pub fn bundle(
@@ -50,6 +51,7 @@ pub fn bundle(
     let mut files = Vec::new();
     fab_files(design, layout, &mut files)?;
     kicad_files(design, layout, &mut files)?;
+    dxf_files(design, layout, &mut files)?;
     files.extend(previews(layout, &[]));
     files.extend(report::files(design, layout, analysis)?);
     let m = manifest::manifest(&design.name, &files)?;
@@ -179,6 +181,31 @@ pub fn kicad_files(
         role: "kicad project footprint library table (nickname coilwright)".into(),
         bytes: kicad_lib::footprint_table(design),
     });
+    Ok(())
+}
+
+/// Appends the DXF drawings: the outline and each copper layer.
+pub fn dxf_files(
+    design: &Design,
+    layout: &Board,
+    files: &mut Vec<OutFile>,
+) -> Result<(), ExportError> {
+    let stem = gerber::file_stem(&design.name);
+    files.push(OutFile {
+        path: dxf::outline_file_name(&stem),
+        role: "dxf: board outline (lines and true arcs, mm)".into(),
+        bytes: dxf::outline(design, layout)?,
+    });
+    for layer in 1..=layout.layers {
+        files.push(OutFile {
+            path: dxf::copper_file_name(&stem, layer),
+            role: format!(
+                "dxf: copper layer {layer} of {} (track centre lines with width, lands, holes)",
+                layout.layers
+            ),
+            bytes: dxf::copper(design, layout, layer)?,
+        });
+    }
     Ok(())
 }
 

@@ -157,8 +157,9 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
             s,
             r#"<g id="layer-{l}" stroke="{colour}" stroke-opacity="{opacity}" fill="none" stroke-linecap="round" stroke-linejoin="round">"#
         );
-        for w in layout.windings.iter().filter(|w| w.layer == l) {
-            let segs: Vec<Segment> = layout.winding_tracks(w).iter().map(|t| t.segment).collect();
+        // Each winding's tracks on this layer (a surface pad's lead from
+        // the via beside it lies on the pad's layer, whichever winding).
+        for segs in layer_runs(layout, l) {
             let _ = writeln!(
                 s,
                 r#"<path d="{}" stroke-width="{}"/>"#,
@@ -197,7 +198,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
             mm(v.drill / 2.0)
         );
     }
-    for p in &layout.pads {
+    for p in layout.pads.iter().filter(|p| p.smd.is_none()) {
         let _ = writeln!(
             s,
             r#"<circle cx="{}" cy="{}" r="{}" fill="{INK}"/><circle cx="{}" cy="{}" r="{}" fill="{PAPER}"/><text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="bold">{}</text>"#,
@@ -207,6 +208,30 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
             mm(p.at.x),
             mm(-p.at.y),
             mm(p.drill / 2.0),
+            mm(p.at.x + p.diameter * 0.6),
+            mm(-p.at.y - p.diameter * 0.6),
+            mm(font),
+            escape(&p.name)
+        );
+    }
+    // Surface pads: their rectangle, faint on views of other layers.
+    for p in &layout.pads {
+        let Some(land) = &p.smd else { continue };
+        let here = match view {
+            View::Layer(l) => l == land.layer,
+            View::Stack => true,
+        };
+        let pts: Vec<String> = land
+            .corners(p.at)
+            .iter()
+            .map(|c| format!("{},{}", mm(c.x), mm(-c.y)))
+            .collect();
+        let _ = writeln!(
+            s,
+            r#"<polygon points="{}" fill="{}" fill-opacity="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="bold">{}</text>"#,
+            pts.join(" "),
+            if here { INK } else { OUTLINE },
+            if here { "0.9" } else { "0.35" },
             mm(p.at.x + p.diameter * 0.6),
             mm(-p.at.y - p.diameter * 0.6),
             mm(font),
@@ -479,15 +504,15 @@ impl LayerStrip {
                 mm(centre.y)
             );
             let stroke = layout.trace_width.max(0.6 * font / k * 0.08);
-            for w in layout.windings.iter().filter(|w| w.layer == l) {
-                let segs: Vec<Segment> =
-                    layout.winding_tracks(w).iter().map(|t| t.segment).collect();
+            for segs in layer_runs(layout, l) {
                 let _ = writeln!(
                     s,
                     r#"<path d="{}" stroke-width="{}"/>"#,
                     path_data(&segs),
                     mm(stroke)
                 );
+            }
+            for w in layout.windings.iter().filter(|w| w.layer == l) {
                 for (p, dir) in arrow_points(layout, w, 3) {
                     arrow(s, p, dir, 0.9 * font / k, &colour, 0.05);
                 }
@@ -581,6 +606,24 @@ pub(crate) fn escape(s: &str) -> String {
     s.replace('&', "&amp;")
         .replace('<', "&lt;")
         .replace('>', "&gt;")
+}
+
+/// The centre lines on layer `l`, one run per winding that has tracks there
+/// (its own, or a surface pad's lead from the via beside the pad).
+fn layer_runs(layout: &Board, l: u8) -> Vec<Vec<Segment>> {
+    layout
+        .windings
+        .iter()
+        .map(|w| {
+            layout
+                .winding_tracks(w)
+                .iter()
+                .filter(|t| t.layer == l)
+                .map(|t| t.segment)
+                .collect::<Vec<_>>()
+        })
+        .filter(|segs| !segs.is_empty())
+        .collect()
 }
 
 #[cfg(test)]

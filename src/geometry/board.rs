@@ -63,7 +63,8 @@ pub enum Place {
     Outside,
 }
 
-/// A terminal of the coil: a plated through-hole pad named "1" or "2".
+/// A terminal of the coil named "1" or "2": a plated through-hole pad, or a
+/// surface pad (`smd`).
 #[derive(Debug, Clone, PartialEq, Serialize)]
 pub struct Pad {
     /// Pad name/number: "1" where the current enters, "2" where it leaves.
@@ -78,6 +79,39 @@ pub struct Pad {
     pub joins: Vec<u8>,
     /// In the centre (odd layer counts) or outside.
     pub place: Place,
+    /// For a surface pad: its rectangle and face (then `drill` is 0, `joins`
+    /// holds its one layer and `diameter` is the circle about its corners,
+    /// which the clearance rules keep clear, conservatively).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub smd: Option<SmdLand>,
+}
+
+/// A rectangular surface pad.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct SmdLand {
+    /// Copper layer, 1 = top.
+    pub layer: u8,
+    /// Size across the lead, mm.
+    pub width: f64,
+    /// Size along the lead, mm.
+    pub length: f64,
+    /// Direction of the length (the lead), radians from +x.
+    pub angle: f64,
+}
+
+impl SmdLand {
+    /// The four corners about `at`, counter-clockwise.
+    pub fn corners(&self, at: Point) -> [Point; 4] {
+        let u = super::Vec2::from_angle(self.angle);
+        let v = u.perp();
+        let (a, b) = (u * (self.length / 2.0), v * (self.width / 2.0));
+        [
+            at + a * -1.0 + b * -1.0,
+            at + a + b * -1.0,
+            at + a + b,
+            at + a * -1.0 + b,
+        ]
+    }
 }
 
 /// A node of the conductor: a terminal pad or a via (index into the layout).

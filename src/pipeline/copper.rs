@@ -25,6 +25,14 @@ fn geometry_error(e: GeometryError, spans: &KeySpans) -> DesignErrors {
             ),
         ),
         GeometryError::Spiral(_) => ("coil", None),
+        GeometryError::SmdInCentre => (
+            "terminal.kind",
+            Some("add a layer, or use kind = \"hole\"".to_string()),
+        ),
+        GeometryError::LeadTab => (
+            "terminal.lead_length",
+            Some("turn the terminals (terminal.angle) or make the coil larger".to_string()),
+        ),
         GeometryError::InnerTooSmall { .. } => (
             "coil.inner_diameter",
             Some("make the free centre larger, or use smaller vias or terminal pads".to_string()),

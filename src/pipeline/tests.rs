@@ -379,3 +379,49 @@ fn messages_never_repeat_their_key() {
     }
     assert!(seen > bad.len(), "{seen}");
 }
+
+#[test]
+fn terminal_angle_moves_both_outside_terminals() {
+    use std::f64::consts::PI;
+    let d = parse(BASE).unwrap();
+    assert_eq!(d.terminal_place, TerminalPlace::DEFAULT);
+    assert_eq!(d.terminal_place.angle(), PI / 2.0);
+    let d = parse(&format!("{BASE}[terminal]\nangle = 210\n")).unwrap();
+    assert_eq!(d.terminal_place.angle_deg, 210.0);
+    let b = geometry::build(&d).unwrap();
+    let a1 = b.pads[0].at.angle().rem_euclid(2.0 * PI);
+    assert!((a1 - 210f64.to_radians()).abs() < 1e-9, "{a1}");
+    // Four layers end outside: terminal 2 next to terminal 1, counter-clockwise.
+    let a2 = b.pads[1].at.angle().rem_euclid(2.0 * PI);
+    assert!(a2 > a1 && a2 - a1 < 0.6, "{a1} {a2}");
+}
+
+#[test]
+fn surface_pads_sit_on_their_face_with_a_via_where_the_winding_is_elsewhere() {
+    let text = format!("{BASE}[terminal]\nkind = \"smd\"\npad_width = 0.8\npad_length = 1.2\n");
+    let d = parse(&text).unwrap();
+    assert!(d.terminal_place.is_smd());
+    let b = geometry::build(&d).unwrap();
+    for p in &b.pads {
+        let s = p.smd.expect("surface pad");
+        assert_eq!((s.layer, p.drill, p.joins.clone()), (1, 0.0, vec![1]));
+        assert!((p.diameter - (0.8f64.hypot(1.2))).abs() < 1e-12);
+    }
+    // Terminal 2 ends the bottom layer's winding: a via beside the pad joins
+    // layer 4 to the top, where a lead of the pad's layer runs out to it.
+    let slot_via = b
+        .vias
+        .iter()
+        .find(|v| v.joins == vec![1, 4])
+        .expect("via beside pad 2");
+    let w = b.windings.last().unwrap();
+    let last = b.winding_tracks(w).last().unwrap();
+    assert_eq!(last.layer, 1);
+    assert!(last.segment.start().distance(slot_via.at) < 1e-9);
+    assert!(last.segment.end().distance(b.pads[1].at) < 1e-9);
+    // Bottom face: pads on layer 4, the via beside pad 1 this time.
+    let d = parse(&text.replace("kind = \"smd\"", "kind = \"smd\"\nside = \"bottom\"")).unwrap();
+    let b = geometry::build(&d).unwrap();
+    assert!(b.pads.iter().all(|p| p.smd.unwrap().layer == 4));
+    assert!(b.vias.iter().any(|v| v.joins == vec![1, 4]));
+}

@@ -34,7 +34,8 @@ pub(super) const RULE: Rule = Rule {
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
     let req = ctx.profile.min(&LIMIT);
-    for h in &ctx.holes {
+    // Surface pads have no hole.
+    for h in ctx.holes.iter().filter(|h| h.rect.is_none()) {
         let ring = (h.diameter - h.drill) / 2.0;
         if fails(ring, req) {
             out.push(Violation {

@@ -353,6 +353,30 @@ pub(crate) struct Hole {
     pub joins: Vec<u8>,
     /// (path, position) of every path end at this hole.
     pub ends: Vec<(usize, f64)>,
+    /// A surface pad's corners (then `drill` is 0 and `diameter` the circle
+    /// about the corners).
+    pub rect: Option<[Point; 4]>,
+}
+
+impl Hole {
+    /// Distance from this hole's copper (its rectangle, or its circle of
+    /// diameter `size`) to the point `p`, mm; negative inside a circle, 0
+    /// inside a rectangle.
+    fn copper_distance(&self, p: Point, size: f64) -> f64 {
+        match &self.rect {
+            Some(c) => {
+                let inside = (0..4).all(|i| (c[(i + 1) % 4] - c[i]).cross(p - c[i]) >= 0.0);
+                if inside {
+                    0.0
+                } else {
+                    (0..4)
+                        .map(|i| Segment::line(c[i], c[(i + 1) % 4]).distance(p))
+                        .fold(f64::INFINITY, f64::min)
+                }
+            }
+            None => self.at.distance(p) - size / 2.0,
+        }
+    }
 }
 
 /// The pieces of one layer sorted by the smallest distance of their polar
@@ -421,7 +445,16 @@ impl<'a> Context<'a> {
         for i in 0..hs.len() {
             for b in &hs[i + 1..] {
                 let a = &hs[i];
-                let gap = a.at.distance(b.at) - (size(a) + size(b)) / 2.0;
+                if size(a) <= 0.0 || size(b) <= 0.0 {
+                    continue; // a surface pad has no hole
+                }
+                // A surface pad against a round one: its rectangle; two
+                // surface pads: their circles (conservative).
+                let gap = match (a.rect.is_some(), b.rect.is_some()) {
+                    (true, false) => a.copper_distance(b.at, 0.0) - size(b) / 2.0,
+                    (false, true) => b.copper_distance(a.at, 0.0) - size(a) / 2.0,
+                    _ => a.at.distance(b.at) - (size(a) + size(b)) / 2.0,
+                };
                 if super::fails(gap, required) {
                     let at = match (b.at - a.at).normalized() {
                         Some(u) => a.at + u * (size(a) / 2.0 + gap / 2.0),
@@ -578,14 +611,30 @@ impl<'a> Context<'a> {
                 .map(|&(_, p, s)| (p, s))
                 .collect()
         };
+        // A via that is no node of the chain (the one beside a surface
+        // pad, where the pad's lead changes layer) is where its paths pass:
+        // every piece end on its centre.
+        let passing = |at: Point| -> Vec<(usize, f64)> {
+            pieces
+                .iter()
+                .flat_map(|p| [(p.seg.start(), p.s0, p.path), (p.seg.end(), p.s1, p.path)])
+                .filter(|(q, _, _)| q.distance(at) < 1e-6)
+                .map(|(_, s, path)| (path, s))
+                .collect()
+        };
         for (i, v) in layout.vias.iter().enumerate() {
+            let mut ends = node_ends(Node::Via(i));
+            if ends.is_empty() {
+                ends = passing(v.at);
+            }
             holes.push(Hole {
                 item: Item::Via(i),
                 at: v.at,
                 drill: v.drill,
                 diameter: v.diameter,
                 joins: v.joins.clone(),
-                ends: node_ends(Node::Via(i)),
+                ends,
+                rect: None,
             });
         }
         for (i, p) in layout.pads.iter().enumerate() {
@@ -596,6 +645,7 @@ impl<'a> Context<'a> {
                 diameter: p.diameter,
                 joins: p.joins.clone(),
                 ends: node_ends(Node::Pad(i)),
+                rect: p.smd.map(|s| s.corners(p.at)),
             });
         }
 

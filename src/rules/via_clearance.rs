@@ -5,7 +5,11 @@
 //! each layer a hole does not join, the gap from its pad edge to every
 //! track edge (`distance from the centre to the track centre line - D/2 -
 //! width/2`) is at least the profile's `min_clearance`. One violation per
-//! hole and track, at the closest point.
+//! hole and track, at the closest point. A surface pad (`[terminal]`
+//! `kind = "smd"`) has copper on its own layer only and is left out here;
+//! on its own layer `pad-lead-clearance` checks it (as the circle about its
+//! corners, conservatively) and `via-via-clearance` measures its rectangle
+//! against the via beside it.
 //!
 //! **Why it matters.** A track of another layer that touches the barrel or
 //! pad of a via is connected to it: in a coil that shorts a junction
@@ -34,7 +38,9 @@ pub(super) const RULE: Rule = Rule {
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
-    for h in &ctx.holes {
+    // A surface pad has copper on its own layer only: nothing to meet on
+    // the others.
+    for h in ctx.holes.iter().filter(|h| h.rect.is_none()) {
         for layer in 1..=ctx.layers {
             if !h.joins.contains(&layer) {
                 report(ctx, h, layer, &[], ID, RULE.severity, out);

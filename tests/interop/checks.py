@@ -10,6 +10,11 @@ Run with the interop venv (.venv-interop/bin/python, see setup.sh):
                                project library tables: two pins named as the
                                footprint's pads, the Footprint property
                                names the footprint, the tables' paths exist
+    checks.py dxf DIR          ezdxf reads every DXF and audits it with no
+                               error; per copper layer the track centre-line
+                               length in the DXF equals gerbonara's reading
+                               of the Gerber within 0.1 %; the outline DXF's
+                               length equals the profile Gerber's
     checks.py raster DIR KDIR  gerbv renders our copper Gerbers and the ones
                                KiCad plotted from our board (in KDIR) in the
                                same frame; copper pixels must agree
@@ -187,11 +192,15 @@ def arc_points(x1, y1, x2, y2, cx, cy, clockwise):
 def parse_copper(path):
     """Pieces (centre lines with width) and flashes of one copper file."""
     from gerbonara import GerberFile
-    from gerbonara.graphic_objects import Arc, Flash, Line
+    from gerbonara.graphic_objects import Arc, Flash, Line, Region
 
     g = GerberFile.open(path)
-    pieces, flashes = [], []
+    pieces, flashes, regions = [], [], []
     for o in g.objects:
+        if isinstance(o, Region):
+            # Surface pads: straight-sided regions.
+            regions.append([(x, y) for x, y in o.outline])
+            continue
         if isinstance(o, Line):
             pts = [(o.x1, o.y1), (o.x2, o.y2)]
             pieces.append({"pts": pts, "len": math.dist(*pts), "w": o.aperture.diameter})
@@ -202,7 +211,7 @@ def parse_copper(path):
             flashes.append({"at": (o.x, o.y), "d": o.aperture.diameter})
         else:
             fail("gerbonara", f"{os.path.basename(path)}: unexpected object {type(o).__name__}")
-    return pieces, flashes
+    return pieces, flashes, regions
 
 
 def geometry(d):
@@ -220,7 +229,7 @@ def geometry(d):
     worst = math.inf
     copper = {}
     for layer, path in files.items():
-        pieces, flashes = parse_copper(path)
+        pieces, flashes, regions = parse_copper(path)
         # Position along the conductor: consecutive pieces that meet form a chain.
         chain, pos = [], []
         c, s = 0, 0.0
@@ -258,9 +267,22 @@ def geometry(d):
                     fail("shapely", f"layer {layer}: turn-to-turn gap {gap[k]*1000:.2f} um < "
                          f"clearance {clearance*1000:.1f} um between pieces {i_idx[k]} "
                          f"({a[0]}..{a[-1]}) and {j_idx[k]} ({b[0]}..{b[-1]})")
-    # Drill hits: copper of exactly the joined layers.
+        # Surface pads of this layer: one rectangle each, of the pad's size
+        # and centred on it (source: gerbonara's reading, shapely's area).
+        smd = [p for p in lay["pads"] if p.get("smd") and p["smd"]["layer"] == layer]
+        if len(regions) != len(smd):
+            fail("gerbonara", f"layer {layer}: {len(regions)} regions, {len(smd)} surface pads")
+        for p in smd:
+            want = p["smd"]["width"] * p["smd"]["length"]
+            found = [r for r in regions
+                     if math.dist(shapely.Polygon(r).centroid.coords[0], (p["at"]["x"], p["at"]["y"])) < tol]
+            if len(found) != 1 or abs(shapely.Polygon(found[0]).area - want) > 1e-6:
+                fail("shapely", f"layer {layer}: surface pad {p['name']} not one "
+                     f"{p['smd']['width']} x {p['smd']['length']} mm rectangle at its centre")
+    # Drill hits: copper of exactly the joined layers (surface pads have none).
     nodes = [("via", v["at"], v["joins"], v["drill"]) for v in lay["vias"]]
-    nodes += [("pad " + p["name"], p["at"], p["joins"], p["drill"]) for p in lay["pads"]]
+    nodes += [("pad " + p["name"], p["at"], p["joins"], p["drill"])
+              for p in lay["pads"] if not p.get("smd")]
     hits = []
     for path in glob.glob(os.path.join(d, "fab", "*.drl")):
         for o in ExcellonFile.open(path).drills():
@@ -371,5 +393,101 @@ def raster(d, kdir):
     print(f"raster: {layers} layers at {dpi} dpi, worst difference {worst*100:.3f} % of copper pixels")
 
 
+# ---------------------------------------------------------------- dxf
+
+DXF_LENGTH_TOL = 0.001  # relative, issue 16
+
+
+def dxf_entity_length(e):
+    """Centre-line length of one DXF entity as ezdxf reads it (its own
+    geometry, bulges turned into arcs by ezdxf.math)."""
+    from ezdxf.math import bulge_to_arc
+
+    kind = e.dxftype()
+    if kind == "LINE":
+        return e.dxf.start.distance(e.dxf.end)
+    if kind == "ARC":
+        sweep = (e.dxf.end_angle - e.dxf.start_angle) % 360.0
+        return math.radians(sweep) * e.dxf.radius
+    if kind == "LWPOLYLINE":
+        pts = list(e.get_points("xyb"))
+        if e.closed:
+            pts.append(pts[0])
+        total = 0.0
+        for (x1, y1, b), (x2, y2, _) in zip(pts, pts[1:]):
+            if abs(b) < 1e-15:
+                total += math.dist((x1, y1), (x2, y2))
+            else:
+                _c, a1, a2, r = bulge_to_arc((x1, y1), (x2, y2), b)
+                total += r * ((a2 - a1) % (2 * math.pi))
+        return total
+    return 0.0
+
+
+def gerber_length(path):
+    """Total drawn (D01) length of a Gerber as gerbonara reads it."""
+    from gerbonara import GerberFile
+    from gerbonara.graphic_objects import Arc, Line
+
+    total = 0.0
+    for o in GerberFile.open(path).objects:
+        if isinstance(o, Line):
+            total += math.dist((o.x1, o.y1), (o.x2, o.y2))
+        elif isinstance(o, Arc):
+            total += arc_points(o.x1, o.y1, o.x2, o.y2, o.x1 + o.cx, o.y1 + o.cy, o.clockwise)[1]
+    return total
+
+
+def dxf(d):
+    """Source: ezdxf (independent DXF reader with an auditor) and gerbonara
+    (the Gerber side of the comparison)."""
+    import ezdxf
+
+    exp = load_expect(d)
+    layers = exp["layout"]["layers"]
+    files = sorted(glob.glob(os.path.join(d, "dxf", "*.dxf")))
+    if len(files) != layers + 1:
+        fail("bundle", f"expected {layers + 1} DXF files, found {len(files)}")
+    for f in files:
+        doc = ezdxf.readfile(f)
+        auditor = doc.audit()
+        if auditor.has_errors:
+            fail("ezdxf", f"{os.path.basename(f)}: audit errors "
+                 f"{[str(e.message) for e in auditor.errors]}")
+        if doc.units != ezdxf.units.MM:
+            fail("ezdxf", f"{os.path.basename(f)}: drawing units {doc.units}, want mm")
+    worst = 0.0
+    for layer, gbr in copper_files(d, layers).items():
+        path = glob.glob(os.path.join(d, "dxf", f"*-L{layer}-copper.dxf"))
+        if len(path) != 1:
+            fail("bundle", f"no copper DXF for layer {layer}")
+            continue
+        msp = ezdxf.readfile(path[0]).modelspace()
+        got = sum(dxf_entity_length(e) for e in msp.query('LWPOLYLINE[layer=="TRACKS"]'))
+        want = gerber_length(gbr)
+        rel = abs(got - want) / max(want, 1e-9)
+        worst = max(worst, rel)
+        if rel > DXF_LENGTH_TOL:
+            fail("ezdxf", f"layer {layer}: DXF track length {got:.4f} mm, Gerber {want:.4f} mm")
+        widths = {round(e.dxf.const_width, 6) for e in msp.query("LWPOLYLINE[layer==\"TRACKS\"]")}
+        tracks = {round(t["width"], 6) for t in exp["layout"]["tracks"] if t["layer"] == layer}
+        if widths != tracks:
+            fail("ezdxf", f"layer {layer}: polyline widths {widths}, tracks {tracks}")
+    prof = glob.glob(os.path.join(d, "fab", "*-profile.gbr"))
+    outl = glob.glob(os.path.join(d, "dxf", "*-outline.dxf"))
+    if len(prof) == 1 and len(outl) == 1:
+        got = sum(dxf_entity_length(e) for e in ezdxf.readfile(outl[0]).modelspace())
+        want = gerber_length(prof[0])
+        rel = abs(got - want) / max(want, 1e-9)
+        worst = max(worst, rel)
+        if rel > DXF_LENGTH_TOL:
+            fail("ezdxf", f"outline length {got:.4f} mm, profile Gerber {want:.4f} mm")
+    else:
+        fail("bundle", "outline DXF or profile Gerber missing")
+    print(f"dxf: {len(files)} DXF files read and audited by ezdxf, worst length "
+          f"difference from the Gerbers {worst*100:.4f} %")
+
+
 if __name__ == "__main__":
-    run({"symbol": symbol, "readers": readers, "geometry": geometry, "raster": raster})
+    run({"symbol": symbol, "readers": readers, "geometry": geometry, "dxf": dxf,
+         "raster": raster})

@@ -150,7 +150,8 @@ def footprint(d):
     ds = b.GetDesignSettings()
     ds.m_TrackMinWidth = pcbnew.FromMM(lay["trace_width"])
     ds.m_MinClearance = pcbnew.FromMM(lay["clearance"])
-    drills = [v["drill"] for v in lay["vias"]] + [p["drill"] for p in lay["pads"]]
+    # Surface pads have no hole.
+    drills = [v["drill"] for v in lay["vias"]] + [p["drill"] for p in lay["pads"] if not p.get("smd")]
     ds.m_MinThroughDrill = pcbnew.FromMM(min(drills))
     ds.m_HoleToHoleMin = pcbnew.FromMM(lay["clearance"])
     ds.m_HoleClearance = pcbnew.FromMM(lay["clearance"])

@@ -29,11 +29,11 @@ venv="$root/.venv-interop"
 if [ ! -x "$venv/bin/python" ]; then
     /usr/bin/python3 -m venv "$venv"
 fi
-pins=(gerbonara==1.5.0 pygerber==2.4.3 shapely==2.2.0 numpy==2.4.6 magpylib==6.3.0 scipy==1.17.1 pillow==13.0.0 kiutils==1.4.8 selenium==4.50.0)
-if ! "$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, PIL, kiutils, selenium' >/dev/null 2>&1; then
+pins=(gerbonara==1.5.0 pygerber==2.4.3 shapely==2.2.0 numpy==2.4.6 magpylib==6.3.0 scipy==1.17.1 pillow==13.0.0 kiutils==1.4.8 selenium==4.50.0 ezdxf==1.4.4)
+if ! "$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, PIL, kiutils, selenium, ezdxf' >/dev/null 2>&1; then
     "$venv/bin/pip" install --disable-pip-version-check -q "${pins[@]}"
 fi
-"$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, kiutils; print("interop venv ready")'
+"$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, kiutils, ezdxf; print("interop venv ready")'
 /usr/bin/python3 -c 'import pcbnew; print("KiCad pcbnew", pcbnew.Version())'
 dpkg-query -W -f="gerbv \${Version}\n" gerbv
 dpkg-query -W -f="\${Package} \${Version}\n" chromium chromium-driver

@@ -320,6 +320,20 @@ fn catalogue() -> Vec<Case> {
             "[|fin]",
             "needs a [magnet]",
         ),
+        case(
+            "surface pads on an odd layer count",
+            mutate("layers = 4", "layers = 3\n\n[terminal]\nkind = \"smd\""),
+            "terminal.kind",
+            "\"smd\"",
+            "bridge",
+        ),
+        case(
+            "terminal angle outside 0-360",
+            mutate("[stackup]", "[terminal]\nangle = 400\n\n[stackup]"),
+            "terminal.angle",
+            "400",
+            "0 to 360",
+        ),
     ]
 }
 

@@ -9,7 +9,8 @@ use proptest::prelude::*;
 use std::f64::consts::{PI, TAU};
 
 /// A random valid design: every shape, 1..=8 layers (sometimes up to 32),
-/// both wirings, both corner styles, sizes in a sane range.
+/// both wirings, both corner styles, sizes in a sane range, terminals at
+/// the top or at any angle, on leads or not.
 fn designs() -> impl Strategy<Value = Design> {
     (
         prop_oneof![
@@ -24,10 +25,19 @@ fn designs() -> impl Strategy<Value = Design> {
         (0.075f64..0.3, 0.075f64..0.3),
         (1.0f64..12.0),
         (0.0f64..3.0),
+        prop_oneof![
+            Just((90.0, 0.0)),
+            (0.0f64..360.0, prop_oneof![Just(0.0), 0.0f64..3.0])
+        ],
     )
         .prop_map(
-            |(shape, layers, parallel, round, (w, s), turns, extra_id)| {
+            |(shape, layers, parallel, round, (w, s), turns, extra_id, (angle, lead))| {
                 let mut d = Design::sample();
+                d.terminal_place = coilwright::design::TerminalPlace {
+                    angle_deg: angle,
+                    lead_length: lead,
+                    ..coilwright::design::TerminalPlace::DEFAULT
+                };
                 d.coil.shape = shape;
                 d.coil.layers = layers;
                 d.coil.wiring = if parallel && layers % 2 == 0 {

@@ -11,6 +11,9 @@
 //!   board loads with 0 violations;
 //! - gerbv: our copper Gerbers and KiCad's plot of our board differ in at
 //!   most 0.5 % of copper pixels per layer;
+//! - ezdxf: every DXF reads and audits with no error; its track
+//!   centre-line length per layer equals gerbonara's reading of the
+//!   copper Gerber within 0.1 %, the outline's the profile's;
 //! - shapely: turn-to-turn gap >= clearance - 1 um; every drill hit lands on
 //!   copper of exactly the layers it joins.
 //!
@@ -123,6 +126,32 @@ pub fn random_design(i: usize) -> Design {
         d.stackup.cover = 0.02;
     }
     d.board.margin = r.len(0.3, 1.5);
+    // Every fourth design turns its terminals to another angle and brings
+    // them out on leads (a tab of the outline); drawn without the generator
+    // so that the other designs stay as they were.
+    // Every fourth design on an even layer count, from the fourth, has
+    // surface pads (on the bottom every other time), brought out.
+    if i % 4 == 3 && layers.is_multiple_of(2) {
+        d.terminal_place = coilwright::design::TerminalPlace {
+            kind: coilwright::design::TerminalKind::Smd,
+            side: if i % 8 == 3 {
+                coilwright::design::Face::Top
+            } else {
+                coilwright::design::Face::Bottom
+            },
+            pad_width: 0.8,
+            pad_length: 1.2,
+            angle_deg: ((i * 53) % 360) as f64,
+            lead_length: 0.5,
+        };
+    }
+    if i % 4 == 1 {
+        d.terminal_place = coilwright::design::TerminalPlace {
+            angle_deg: ((i * 97) % 360) as f64,
+            lead_length: 0.5 + (i % 3) as f64,
+            ..coilwright::design::TerminalPlace::DEFAULT
+        };
+    }
     // A round corner must fit the innermost side: shrink it until it does.
     while let (Corner::Round { radius }, Err(_)) = (d.coil.corner, geometry::build(&d)) {
         d.coil.corner = if radius > 0.05 {
@@ -146,13 +175,16 @@ fn require_tools() -> PathBuf {
                 .venv-interop Python environment";
     assert!(py.exists(), "{} is missing: {hint}", py.display());
     let ok = Command::new(&py)
-        .args(["-c", "import gerbonara, pygerber, shapely, numpy, PIL"])
+        .args([
+            "-c",
+            "import gerbonara, pygerber, shapely, numpy, PIL, ezdxf",
+        ])
         .status()
         .map(|s| s.success())
         .unwrap_or(false);
     assert!(
         ok,
-        "the interop venv lacks gerbonara/pygerber/shapely: {hint}"
+        "the interop venv lacks gerbonara/pygerber/shapely/ezdxf: {hint}"
     );
     let ok = Command::new("/usr/bin/python3")
         .args(["-c", "import pcbnew"])
@@ -246,6 +278,7 @@ fn check_design(py: &Path, i: usize, root: &Path) -> Result<String, String> {
         (py, vec![c, "symbol", dir_s]),
         (py, vec![c, "readers", dir_s]),
         (py, vec![c, "geometry", dir_s]),
+        (py, vec![c, "dxf", dir_s]),
         (sys, vec![k, "footprint", dir_s]),
         (sys, vec![k, "board", dir_s]),
         (sys, vec![k, "plot", dir_s, plot_s]),

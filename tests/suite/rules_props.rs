@@ -230,6 +230,41 @@ proptest! {
     }
 }
 
+proptest! {
+    #![proptest_config(ProptestConfig { cases: 128, ..ProptestConfig::default() })]
+
+    /// Terminals turned to any angle and brought out on leads of any length
+    /// (the outline growing a tab around them), plated holes or surface pads
+    /// on either face (even layer counts): every valid design of every shape
+    /// still passes its own check.
+    #[test]
+    fn terminals_at_any_angle_pass_their_own_check(
+        k in knobs_of(6, 8.0, 0..3),
+        angle in 0.0..360.0f64,
+        lead in prop_oneof![Just(0.0), 0.0..4.0f64],
+        smd in prop_oneof![Just(None), (any::<bool>(), 0.3..1.5f64, 0.3..2.0f64).prop_map(Some)],
+    ) {
+        use coilwright::design::{Face, TerminalKind, TerminalPlace};
+        let mut d = design(&k);
+        d.terminal_place = TerminalPlace {
+            angle_deg: angle,
+            lead_length: um(lead),
+            ..TerminalPlace::DEFAULT
+        };
+        let groups = if d.coil.wiring == Wiring::ParallelPairs { k.layers / 2 } else { k.layers };
+        if let (Some((bottom, w, len)), true) = (smd, groups % 2 == 0) {
+            d.terminal_place.kind = TerminalKind::Smd;
+            d.terminal_place.side = if bottom { Face::Bottom } else { Face::Top };
+            d.terminal_place.pad_width = um(w);
+            d.terminal_place.pad_length = um(len);
+        }
+        let l = geometry::build(&d);
+        prop_assume!(l.is_ok());
+        let v = rules::check(&d, &l.unwrap(), &own_profile(&d));
+        prop_assert!(rules::is_clean(&v), "{:?} {:?}\n{}", k, d.terminal_place, show(&v));
+    }
+}
+
 /// The one-layer sample turned into a sharp triangle, 0.075/0.075 mm.
 fn triangle() -> Design {
     let mut d = Design::sample();

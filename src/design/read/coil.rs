@@ -23,7 +23,7 @@ pub(super) struct CoilInput {
     trace_width: f64,
     clearance: f64,
     pub layers: Option<u8>,
-    wiring: Wiring,
+    pub wiring: Wiring,
     corner: Corner,
 }
 

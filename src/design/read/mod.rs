@@ -60,9 +60,18 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
 
     let coil = coil::read(&mut cx, &coil_t);
     let layers = coil.as_ref().and_then(|c| c.layers);
+    // Layers in series, or pairs in parallel: the windings the current
+    // passes one after another.
+    let groups = coil.as_ref().and_then(|c| {
+        c.layers.map(|n| match c.wiring {
+            crate::design::Wiring::ParallelPairs => n / 2,
+            crate::design::Wiring::Series => n,
+        })
+    });
     let stackup = stackup::read(&mut cx, &stackup_t, layers);
     let via = holes::read(&mut cx, &via_t, holes::VIA);
     let terminal = holes::read(&mut cx, &terminal_t, holes::TERMINAL);
+    let terminal_place = holes::read_place(&mut cx, &terminal_t, groups);
     let board = board::read(&mut cx, &board_t);
     let rules = rules::read(&mut cx, &rules_t);
     let magnet = magnet::read(&mut cx, &magnet_t);
@@ -94,6 +103,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
         stackup,
         via,
         terminal,
+        terminal_place,
         board,
         rules,
         magnet,

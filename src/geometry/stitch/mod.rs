@@ -70,6 +70,14 @@ pub enum GeometryError {
         /// Minimum, mm.
         min: f64,
     },
+    /// Surface pads on a coil that ends in its centre.
+    #[error(
+        "surface pads need the coil to end outside the winding: an even number of layers in series (of pairs in parallel)"
+    )]
+    SmdInCentre,
+    /// The board outline cannot grow a tab around the terminals' leads.
+    #[error("the terminals brought out by lead_length do not fit one tab of the board outline")]
+    LeadTab,
     /// The outer slots are too close for the vias and pads.
     #[error(
         "too many outside vias for the size: neighbouring slots are {gap:.3} mm apart, {need:.3} mm needed"
@@ -85,6 +93,9 @@ pub enum GeometryError {
 /// Builds the copper of every layer from a validated design.
 pub fn build(design: &Design) -> Result<Board, GeometryError> {
     let plan = Plan::new(design.coil.layers, design.coil.wiring)?;
+    if design.terminal_place.is_smd() && plan.ends_in_centre() {
+        return Err(GeometryError::SmdInCentre);
+    }
     centre::check_room(design)?;
     let canonical = Canonical::new(&design.coil)?;
     let centre = CentreSlots::place(design, &plan);
@@ -95,7 +106,7 @@ pub fn build(design: &Design) -> Result<Board, GeometryError> {
         &mut board, design, &plan, &canonical, &centre, &outer, &nodes,
     );
     (board.inner_radius, board.outer_radius) = canonical.copper_radii(design.coil.trace_width);
-    board.outline = outline::draw(&board, design, &outer);
+    board.outline = outline::draw(&board, design, &outer)?;
     board.coils.push(alone(&board));
     Ok(board)
 }

@@ -39,7 +39,7 @@ impl OuterSlots {
     ) -> Result<OuterSlots, GeometryError> {
         let coil = &design.coil;
         let (w, s, p) = (coil.trace_width, coil.clearance, coil.pitch());
-        let (via_d, term_d) = (design.via.diameter, design.terminal.diameter);
+        let (via_d, term_d) = (design.via.diameter, design.terminal_land());
         let lead_ring = match (coil.shape.sides(), &canonical.lead_loop) {
             (Some(sides), Some(l)) => {
                 let mut segs = l.segs.clone();
@@ -63,12 +63,14 @@ impl OuterSlots {
         let via_at = |angle: f64| slots.via_at(angle);
 
         let no = plan.outer_slots();
-        // Terminal 1 at the top; terminal 2 (when outside) next to it, about a
+        // Terminal 1 at the terminal angle (the top by default); terminal 2
+        // (when outside) next to it counter-clockwise, about a
         // 2.54 mm header pitch away (common practice, no source); junction vias
         // spread evenly over the rest of the ring, clockwise from terminal 1.
+        let a0 = design.terminal_place.angle();
         let ends_outside = !plan.ends_in_centre();
         let terminal_step = if ends_outside && no > 1 {
-            let r = via_at(PI / 2.0).radius();
+            let r = via_at(a0).radius();
             let chord = 2.54f64.max(term_d + s + w);
             (2.0 * (chord / (2.0 * r)).min(1.0).asin()).min(TAU / no as f64)
         } else {
@@ -77,9 +79,9 @@ impl OuterSlots {
         let even_angles: Vec<f64> = (0..no)
             .map(|j| {
                 if ends_outside && no > 1 {
-                    PI / 2.0 - (TAU - terminal_step) * j as f64 / (no - 1) as f64
+                    a0 - (TAU - terminal_step) * j as f64 / (no - 1) as f64
                 } else {
-                    PI / 2.0 - TAU * j as f64 / no as f64
+                    a0 - TAU * j as f64 / no as f64
                 }
             })
             .collect();
@@ -96,10 +98,10 @@ impl OuterSlots {
                     PI
                 };
                 let spread = cluster_on(&via_at, junctions, side, 1.02 * need);
-                let mut a = vec![PI / 2.0];
+                let mut a = vec![a0];
                 a.extend(spread);
                 if ends_outside {
-                    a.push(PI / 2.0 + terminal_step);
+                    a.push(a0 + terminal_step);
                 }
                 // Keep the cluster only where every slot has room.
                 if slots.room(design, &a) >= 0.0 {

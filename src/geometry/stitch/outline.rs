@@ -2,15 +2,20 @@
 //! radius and the margin; for shapes with sides, a polygon whose corners are
 //! cut by the circle that keeps the margin to the farthest copper.
 
+use super::GeometryError;
 use super::outer::OuterSlots;
 use super::ring::Ring;
 use crate::design::Design;
 use crate::geometry::board::{Board, Outline};
-use crate::geometry::{Arc, Point, Segment};
+use crate::geometry::{Arc, Point, Segment, Vec2};
 use std::f64::consts::{PI, TAU};
 
 /// The outline of a board whose copper is placed.
-pub(super) fn draw(board: &Board, design: &Design, outer: &OuterSlots) -> Outline {
+pub(super) fn draw(
+    board: &Board,
+    design: &Design,
+    outer: &OuterSlots,
+) -> Result<Outline, GeometryError> {
     let edge = outer.via_ring.grown(outer.dmax / 2.0 + design.board.margin);
     let mut outline = Outline {
         segments: match &edge {
@@ -49,7 +54,136 @@ pub(super) fn draw(board: &Board, design: &Design, outer: &OuterSlots) -> Outlin
     if let [Segment::Arc(a), Segment::Arc(b)] = outline.segments.as_mut_slice() {
         a.end = b.start;
     }
-    outline
+    // Terminals brought out (by lead_length, or a surface pad beside its
+    // via) get a tab.
+    if design.terminal_place.lead_length > 0.0 || design.terminal_place.is_smd() {
+        outline.segments = lead_tab(board, design, &outline).ok_or(GeometryError::LeadTab)?;
+    }
+    Ok(outline)
+}
+
+/// Grows a tab on `outline` around the terminals brought out by
+/// `lead_length`: one strip about the bisector of the outside terminals'
+/// directions, the board margin beyond their pads on three sides; when
+/// that strip is wider than the board there, one strip per terminal.
+/// `None` when neither fits the outline.
+fn lead_tab(board: &Board, design: &Design, outline: &Outline) -> Option<Vec<Segment>> {
+    let outside: Vec<_> = board
+        .pads
+        .iter()
+        .filter(|p| p.place == crate::geometry::board::Place::Outside)
+        .collect();
+    let m = design.board.margin;
+    // The strip along `u` holding `pads` with the margin.
+    let strip = |segs: &[Segment], u: Vec2, pads: &[&crate::geometry::board::Pad]| {
+        let v = u.perp();
+        let half = pads
+            .iter()
+            .map(|p| p.at.to_vec2().dot(v).abs() + p.diameter / 2.0 + m)
+            .fold(0.0, f64::max);
+        let reach = pads
+            .iter()
+            .map(|p| p.at.to_vec2().dot(u) + p.diameter / 2.0 + m)
+            .fold(0.0, f64::max);
+        with_tab(segs, u, half, reach)
+    };
+    let sum = outside
+        .iter()
+        .filter_map(|p| p.at.to_vec2().normalized())
+        .fold(Vec2::new(0.0, 0.0), |acc, u| acc + u);
+    if let Some(segs) = sum
+        .normalized()
+        .and_then(|u| strip(&outline.segments, u, &outside))
+    {
+        return Some(segs);
+    }
+    let mut segs = outline.segments.clone();
+    for p in &outside {
+        segs = strip(&segs, p.at.to_vec2().normalized()?, &[*p])?;
+    }
+    Some(segs)
+}
+
+/// A closed counter-clockwise outline about the origin joined with the
+/// strip `|x . v| <= half`, `0 <= x . u <= reach` (`v` = `u` turned a
+/// quarter counter-clockwise): the outline from where it leaves the strip
+/// round to where it enters it, then out along the strip's side, across
+/// its end and back; the end moves further out where the outline between
+/// the sides reaches beyond `reach`. `None` when the outline does not
+/// cross the strip's sides ahead of the origin.
+pub(super) fn with_tab(segs: &[Segment], u: Vec2, half: f64, reach: f64) -> Option<Vec<Segment>> {
+    let v = u.perp();
+    // Where the outline crosses the line x.v = c ahead of the axis (x.u > 0):
+    // segment index and fraction, by sampling and bisection.
+    let cross = |c: f64| -> Option<(usize, f64)> {
+        const N: usize = 512;
+        for (i, s) in segs.iter().enumerate() {
+            let g = |t: f64| s.point_at(t).to_vec2().dot(v) - c;
+            for k in 0..N {
+                let (t0, t1) = (k as f64 / N as f64, (k + 1) as f64 / N as f64);
+                if g(t0) < 0.0 && g(t1) >= 0.0 && s.point_at(t1).to_vec2().dot(u) > 0.0 {
+                    let (mut lo, mut hi) = (t0, t1);
+                    for _ in 0..60 {
+                        let mid = 0.5 * (lo + hi);
+                        if g(mid) < 0.0 { lo = mid } else { hi = mid }
+                    }
+                    return Some((i, hi));
+                }
+            }
+        }
+        None
+    };
+    let (i1, t1) = cross(-half)?;
+    let (i2, t2) = cross(half)?;
+    let (p1, p2) = (segs[i1].point_at(t1), segs[i2].point_at(t2));
+    let n = segs.len();
+    // The part replaced (from p1 to p2) must not reach beyond the strip's
+    // end: the end moves out to the farthest point of it, so the tab only
+    // ever adds board.
+    let mut replaced = vec![segs[i1].subsegment(t1..1.0)];
+    if i1 == i2 && t1 <= t2 {
+        replaced = vec![segs[i1].subsegment(t1..t2)];
+    } else {
+        let mut i = (i1 + 1) % n;
+        while i != i2 {
+            replaced.push(segs[i]);
+            i = (i + 1) % n;
+        }
+        replaced.push(segs[i2].subsegment(0.0..t2));
+    }
+    let reach = replaced
+        .iter()
+        .flat_map(|s| s.flatten(1e-4))
+        .map(|p| p.to_vec2().dot(u))
+        .fold(reach, f64::max);
+    let mut out = Vec::new();
+    let mut push = |s: Segment| {
+        if s.length() > 1e-9 {
+            out.push(s);
+        }
+    };
+    // Kept part: from p2 counter-clockwise round to p1.
+    if i1 == i2 && t1 > t2 {
+        return None; // the strip's sides cross in the wrong order
+    }
+    push(segs[i2].subsegment(t2..1.0));
+    let mut i = (i2 + 1) % n;
+    while i != i1 {
+        push(segs[i]);
+        i = (i + 1) % n;
+    }
+    push(segs[i1].subsegment(0.0..t1));
+    let c1 = p1 + u * (reach - p1.to_vec2().dot(u));
+    let c2 = p2 + u * (reach - p2.to_vec2().dot(u));
+    push(Segment::line(p1, c1));
+    push(Segment::line(c1, c2));
+    push(Segment::line(c2, p2));
+    // Exact closure: each piece starts where the previous ends.
+    for k in 1..out.len() {
+        let prev = out[k - 1].end();
+        out[k] = out[k].with_start(prev);
+    }
+    Some(out)
 }
 
 /// The boundary of a convex polygon (vertices counter-clockwise about the

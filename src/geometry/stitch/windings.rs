@@ -10,7 +10,7 @@ use super::nodes::Boundary;
 use super::outer::OuterSlots;
 use super::plan::Plan;
 use crate::design::Design;
-use crate::geometry::board::{Board, Direction, Track, TrackRole, Winding};
+use crate::geometry::board::{Board, Direction, Node, Track, TrackRole, Winding};
 use crate::geometry::{Arc, Point, Segment};
 use std::f64::consts::{PI, TAU};
 
@@ -47,21 +47,54 @@ pub(super) fn lay(
         } else {
             (centre_side.node, outer_side.node)
         };
-        for &layer in group {
+        // A surface pad brought out from its slot: the lead from the slot
+        // to the pad is on the pad's layer alone (a via in the slot joins
+        // the group's layers to it), drawn once.
+        let stub = match outer_side.node {
+            Node::Pad(p) => board.pads[p]
+                .smd
+                .map(|s| s.layer)
+                .filter(|_| board.pads[p].at.distance(outer.via_at(outer_side.angle)) > 1e-9),
+            Node::Via(_) => None,
+        };
+        let stub_at = if inward {
+            0
+        } else {
+            chain.len().saturating_sub(1)
+        };
+        for (k, &layer) in group.iter().enumerate() {
             let start = board.tracks.len();
-            board
-                .tracks
-                .extend(
-                    chain
-                        .iter()
-                        .filter(|(x, _)| x.length() > 0.0)
-                        .map(|&(segment, role)| Track {
+            board.tracks.extend(
+                chain
+                    .iter()
+                    .enumerate()
+                    .filter(|(_, (x, _))| x.length() > 0.0)
+                    .filter_map(|(j, &(segment, role))| {
+                        let layer = match stub {
+                            Some(s) if j == stub_at => {
+                                // With the winding of the pad's layer when
+                                // the group has it (one path there), else
+                                // with the group's first.
+                                let own = if group.contains(&s) {
+                                    layer == s
+                                } else {
+                                    k == 0
+                                };
+                                if !own {
+                                    return None;
+                                }
+                                s
+                            }
+                            _ => layer,
+                        };
+                        Some(Track {
                             layer,
                             segment,
                             width: coil.trace_width,
                             role,
-                        }),
-                );
+                        })
+                    }),
+            );
             board.windings.push(Winding {
                 layer,
                 group: i,
@@ -125,8 +158,15 @@ fn group_chain(
     } else {
         vec![Segment::line(centre_at, inner_end)]
     };
-    // Outer lead: node -> lead ring -> along ring -> outer end.
-    let node_at = board.node_at(outer_side.node);
+    // Outer lead: node (-> its slot, for a terminal brought out) -> lead
+    // ring -> along ring -> outer end.
+    let pad_at = board.node_at(outer_side.node);
+    let node_at = outer.via_at(outer_side.angle);
+    let stub: Vec<Segment> = if pad_at.distance(node_at) > 1e-9 {
+        vec![Segment::line(pad_at, node_at)]
+    } else {
+        vec![]
+    };
     let outer_lead = if let Some(lead_loop) = &canonical.lead_loop {
         // Square onto this layer's own ring from the node, along the
         // ring, square onto the spiral's outer end.
@@ -147,6 +187,7 @@ fn group_chain(
         circle_lead(radius, node_at, outer_side.angle, end_angle, outer_end)
     };
 
+    let outer_lead: Vec<Segment> = stub.into_iter().chain(outer_lead).collect();
     let lead = |path: Vec<Segment>| path.into_iter().map(|x| (x, TrackRole::Lead));
     let winding = |path: Vec<Segment>| path.into_iter().map(|x| (x, TrackRole::Winding));
     if inward {
