@@ -67,6 +67,8 @@ pub struct Filament {
     pub width: f64,
     /// Copper thickness, m.
     pub thickness: f64,
+    /// Part of a lead (not of the spiral turns).
+    pub lead: bool,
 }
 
 /// The conductor of a coil.
@@ -178,6 +180,7 @@ impl Conductor {
                 layer: p.layer,
                 width: p.width,
                 thickness: p.thickness,
+                lead: p.role != TrackRole::Winding,
             })
         });
         out

@@ -478,6 +478,7 @@ mod tests {
                     layer: 1,
                     width: 1e-4,
                     thickness: 35e-6,
+                    lead: false,
                 }
             })
             .collect();

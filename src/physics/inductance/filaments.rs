@@ -202,18 +202,65 @@ fn straight_pair(p: &Filament, q: &Filament) -> f64 {
 
 /// Inductance of straight filaments by Neumann's formula, henry.
 pub fn filaments_inductance(f: &[Filament]) -> f64 {
-    let s: f64 = crate::physics::map_indices(f.len(), |i| {
+    filaments_inductances(f, false).whole
+}
+
+/// The inductances the report gives of one set of filaments, henry, from
+/// one pass over the pairs (each pair's Neumann integral is computed once
+/// and added to every sum it belongs to).
+#[derive(Debug, Clone, Copy, PartialEq)]
+pub struct FilamentInductances {
+    /// Every filament, with its share of the current.
+    pub whole: f64,
+    /// The filaments of layer 1 alone, carrying the whole current.
+    pub top: f64,
+    /// The filaments of the turns (no leads), with their shares.
+    pub bare: f64,
+    /// The turns of layer 1 alone, carrying the whole current.
+    pub bare_top: f64,
+}
+
+/// [`FilamentInductances`] of `f`; with `leads_apart` false the two sums
+/// without leads are left at zero (and cost nothing).
+pub fn filaments_inductances(f: &[Filament], leads_apart: bool) -> FilamentInductances {
+    let rows = crate::physics::map_indices(f.len(), |i| {
         let p = &f[i];
-        let mut s = p.weight * p.weight * straight_pair(p, p);
+        let mut s = [0.0f64; 4];
+        let mut add = |q: &Filament, k: f64| {
+            let v = k * straight_pair(p, q);
+            let top = p.layer == 1 && q.layer == 1;
+            let bare = leads_apart && !p.lead && !q.lead;
+            s[0] += p.weight * q.weight * v;
+            if top {
+                s[1] += v;
+            }
+            if bare {
+                s[2] += p.weight * q.weight * v;
+                if top {
+                    s[3] += v;
+                }
+            }
+        };
+        add(p, 1.0);
         for q in &f[i + 1..] {
-            s += 2.0 * p.weight * q.weight * straight_pair(p, q);
+            add(q, 2.0);
         }
         s
-    })
+    });
     // Summed in a fixed order: the same inputs give the same bits.
-    .iter()
-    .sum();
-    MU0 / (4.0 * PI) * s
+    let mut t = [0.0f64; 4];
+    for r in &rows {
+        for (a, b) in t.iter_mut().zip(r) {
+            *a += b;
+        }
+    }
+    let k = MU0 / (4.0 * PI);
+    FilamentInductances {
+        whole: k * t[0],
+        top: k * t[1],
+        bare: k * t[2],
+        bare_top: k * t[3],
+    }
 }
 
 #[cfg(test)]
@@ -257,6 +304,7 @@ mod tests {
                 layer: 1,
                 width: a,
                 thickness: a,
+                lead: false,
             })
             .collect();
         let l = filaments_inductance(&f);

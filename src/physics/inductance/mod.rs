@@ -24,7 +24,7 @@
 pub mod filaments;
 pub mod rings;
 
-pub use filaments::filaments_inductance;
+pub use filaments::{FilamentInductances, filaments_inductance, filaments_inductances};
 pub(super) use rings::maxwell_8;
 pub use rings::{maxwell_mutual, maxwell_mutual_8, rings_inductance, rings_mutual};
 
@@ -168,24 +168,36 @@ pub fn analyse(
     detail: Detail,
 ) -> InductanceReport {
     let circular = matches!(design.coil.shape, Shape::Circle);
-    let (l, method) = inductance(cond, circular);
-    // A one-layer coil is its own top layer: no second sum.
-    let one_layer = cond.pieces.iter().all(|p| p.layer == 1 && p.weight == 1.0);
-    let top = |c: &Conductor, whole: f64| {
-        if one_layer {
-            whole
-        } else {
-            inductance(&c.only_layer(1), circular).0
-        }
-    };
-    let l1 = top(cond, l);
-    let (lw, lw1) = match detail {
-        Detail::Metrics => (None, None),
-        Detail::Full => {
+    let full = detail == Detail::Full;
+    let (l, method, l1, lw, lw1) = if circular {
+        let (l, method) = inductance(cond, circular);
+        // A one-layer coil is its own top layer: no second sum.
+        let one_layer = cond.pieces.iter().all(|p| p.layer == 1 && p.weight == 1.0);
+        let top = |c: &Conductor, whole: f64| {
+            if one_layer {
+                whole
+            } else {
+                inductance(&c.only_layer(1), circular).0
+            }
+        };
+        let l1 = top(cond, l);
+        let (lw, lw1) = if full {
             let bare = cond.without_leads();
             let lw = inductance(&bare, circular).0;
             (Some(lw), Some(top(&bare, lw)))
-        }
+        } else {
+            (None, None)
+        };
+        (l, method, l1, lw, lw1)
+    } else {
+        // One pass over the filament pairs gives all four sums.
+        let s = filaments_inductances(&cond.filaments(NEUMANN_SAGITTA), full);
+        let (lw, lw1) = if full {
+            (Some(s.bare), Some(s.bare_top))
+        } else {
+            (None, None)
+        };
+        (s.whole, InductanceMethod::NeumannFilaments, s.top, lw, lw1)
     };
     let (d_out, d_in) = estimate_sizes(design, layout, cond);
     let n = layout.turns;
@@ -341,6 +353,7 @@ mod tests {
                     layer: 1,
                     width: w,
                     thickness: t,
+                    lead: false,
                 });
             }
         }
