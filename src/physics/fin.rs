@@ -24,7 +24,7 @@
 //! * The swing at the drive frequency and its harmonics: one mode,
 //!   `X = (F / k) / sqrt((1 - r^2)^2 + (2 zeta r)^2)`, `r = f / f1`.
 //!
-//! Moduli and densities recalled from memory [M]: copper 117 GPa, 8960
+//! Moduli and densities recalled from memory \[M\]: copper 117 GPa, 8960
 //! kg/m^3; polyimide 2.5 GPa, 1420; coverlay with its adhesive 2.0 GPa,
 //! 1400; flex adhesive 1.5 GPa, 1200; FR-4 22 GPa, 1850; solder mask
 //! 3 GPa, 1400; resin 3.5 GPa, 1200; sintered NdFeB 7500 kg/m^3.
@@ -39,10 +39,10 @@ use crate::design::{BoardKind, Design, Fin, Magnet, Moving};
 use crate::geometry::Board as Layout;
 use serde::Serialize;
 
-/// (Young's modulus Pa, density kg/m^3) of a material [M].
+/// (Young's modulus Pa, density kg/m^3) of a material \[M\].
 type Material = (f64, f64);
 const COPPER: Material = (117e9, 8960.0);
-/// Density of sintered NdFeB, kg/m^3 [M].
+/// Density of sintered NdFeB, kg/m^3 \[M\].
 pub const NDFEB_DENSITY: f64 = 7500.0;
 
 /// Dielectric, cover and the filler between copper tracks of a board kind.

@@ -8,7 +8,7 @@
 //!   ratios where the closed form's signed sum loses its digits.
 //! * [`GmdSeries`]: the moment (multipole) expansion for sections apart,
 //!   about thirty times cheaper than the closed form there.
-//! * [`cached_gmd`]: the closed form with a per-thread cache.
+//! * `cached_gmd`: the closed form with a per-thread cache.
 
 use super::closed_forms::gmd_rect_self;
 use crate::numeric::quadrature::rule;

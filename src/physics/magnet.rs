@@ -340,7 +340,7 @@ fn travel(s: &Segment) -> f64 {
 
 /// Method A on the exact pieces (true arcs, no flattening), newton: the
 /// same integration with the points and tangents of the arcs themselves.
-/// Each piece is cut into parts that travel (see [`travel`]) no more than
+/// Each piece is cut into parts that travel (see `travel`) no more than
 /// a quarter of their distance from the magnet's lower edge (and at least
 /// an eighth of the magnet radius) and sweep at most pi/4 about the axis,
 /// with 2-point Gauss-Legendre per part.

@@ -17,7 +17,7 @@
 //! the winding's mean over the board's average rise ([`Spread`]) do not
 //! depend on it.
 //!
-//! Conductivities recalled from memory [M]: copper 401 W/(m K) (Incropera
+//! Conductivities recalled from memory \[M\]: copper 401 W/(m K) (Incropera
 //! Table A.1, pure copper at 300 K), polyimide 0.12, FR-4 in the plane
 //! 0.8 W/(m K).
 
@@ -25,10 +25,10 @@ use crate::design::{BoardKind, Design};
 use crate::geometry::Board as Layout;
 use serde::Serialize;
 
-/// Conductivity of copper, W/(m K) (Incropera Table A.1, recalled [M]).
+/// Conductivity of copper, W/(m K) (Incropera Table A.1, recalled \[M\]).
 pub const K_COPPER: f64 = 401.0;
 
-/// In-plane conductivity of the dielectric, W/(m K) (recalled [M]):
+/// In-plane conductivity of the dielectric, W/(m K) (recalled \[M\]):
 /// polyimide 0.12, FR-4 0.8.
 pub fn k_dielectric(kind: BoardKind) -> f64 {
     match kind {

@@ -30,7 +30,7 @@
 //! Copper resistance rises by 0.00393 /K (IACS), so the power depends on
 //! the temperature; the balance is solved by bisection. The board average
 //! follows from the balance; the winding's hottest copper from a radial
-//! conduction model of the board (see [`spread`]).
+//! conduction model of the board (see [`super::spread`]).
 //!
 //! [`analyse`] is the analysis phase: the operating point at the drive,
 //! the drive limits and the pulse length ([`ThermalReport`]).
@@ -54,7 +54,7 @@ const G: f64 = 9.80665;
 const T_CAP: f64 = 1000.0;
 
 /// Air at 1 atm: (T K, kinematic viscosity m^2/s, conductivity W/(m K),
-/// diffusivity m^2/s). Incropera Table A.4, recalled from memory [M].
+/// diffusivity m^2/s). Incropera Table A.4, recalled from memory \[M\].
 const AIR: [(f64, f64, f64, f64); 6] = [
     (250.0, 11.44e-6, 22.3e-3, 15.9e-6),
     (300.0, 15.89e-6, 26.3e-3, 22.5e-6),
@@ -66,7 +66,7 @@ const AIR: [(f64, f64, f64, f64); 6] = [
 
 /// Saturated liquid water: (T K, kinematic viscosity m^2/s, conductivity
 /// W/(m K), Prandtl number, expansion coefficient 1/K). Incropera Table
-/// A.6, recalled from memory [M].
+/// A.6, recalled from memory \[M\].
 const WATER: [(f64, f64, f64, f64, f64); 5] = [
     (280.0, 1.422e-6, 0.582, 10.26, 46.0e-6),
     (300.0, 0.858e-6, 0.613, 5.83, 276.1e-6),
