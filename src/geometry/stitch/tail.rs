@@ -3,8 +3,8 @@
 //! its first two fingers), used by `nodes.rs` (finger pads), `windings.rs`
 //! (the leads from the slots to the fingers) and `outline.rs` (the strip).
 //!
-//! Frame: `u` along the tail from the axis outward (the bisector of the two
-//! terminal slots' directions, next to the terminal angle), `v` across it
+//! Frame: `u` along the tail from the axis outward (at the terminal angle,
+//! where terminal 1's slot is; terminal 2's is next to it), `v` across it
 //! (`u` turned a quarter counter-clockwise). Fingers sit at `v` offsets
 //! `(k - (n - 1) / 2) pitch`, their centres the board margin plus half a
 //! finger short of the tail's end. The terminal whose slot lies at the
@@ -59,12 +59,7 @@ pub(super) fn plan(
         outer.via_at(outer.angle(0)),
         outer.via_at(outer.angle(g / 2)),
     ];
-    let u = slots
-        .iter()
-        .filter_map(|s| s.to_vec2().normalized())
-        .fold(Vec2::new(0.0, 0.0), |a, b| a + b)
-        .normalized()
-        .unwrap_or(Vec2::from_angle(design.terminal_place.angle()));
+    let u = Vec2::from_angle(design.terminal_place.angle());
     let v = u.perp();
     let angle = u.angle();
     let edge = outer.via_ring.grown(outer.dmax / 2.0 + design.board.margin);
