@@ -60,8 +60,17 @@ pub(super) fn draw(
     // or a surface pad beside its via) get a tab.
     if let Some(tp) = tail {
         let t = &tp.layout;
-        outline.segments = with_tab(&outline.segments, tp.u, t.width / 2.0, t.end)
-            .ok_or(GeometryError::LeadTab)?;
+        let mut segs = outline.segments.clone();
+        // Leads wider apart at the root than the strip: a wider neck
+        // holds them (with the margin) up to where they run along the
+        // tail, so no lead cuts the corner where the strip meets the
+        // coil's board.
+        if tp.neck_half > t.width / 2.0 {
+            segs =
+                with_tab(&segs, tp.u, tp.neck_half, tp.neck_reach).ok_or(GeometryError::LeadTab)?;
+        }
+        outline.segments =
+            with_tab(&segs, tp.u, t.width / 2.0, t.end).ok_or(GeometryError::LeadTab)?;
     } else if design.terminal_place.lead_length > 0.0 || design.terminal_place.is_smd() {
         outline.segments = lead_tab(board, design, &outline).ok_or(GeometryError::LeadTab)?;
     }

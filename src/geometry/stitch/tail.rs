@@ -11,7 +11,9 @@
 //! smaller `v` takes finger 0, the other finger 1, so the two leads never
 //! cross: each runs straight from its slot to its lane point (at least
 //! twice as far along `u` as across, so at most 26.6 degrees off the
-//! axis), then straight along its finger's line.
+//! axis), then straight along its finger's line. Where the slots lie wider
+//! apart than the strip, a wider neck (the leads' span plus the margin,
+//! out to the lane points) joins the strip to the coil's board.
 
 use super::GeometryError;
 use super::outer::OuterSlots;
@@ -39,6 +41,12 @@ pub(super) struct TailPlan {
     pub finger_of: [usize; 2],
     /// Lane point of terminal 1 and terminal 2.
     pub lane_of: [Point; 2],
+    /// Half width of the neck that holds the leads from their slots to
+    /// their lanes, with the margin, mm (no neck when at most half the
+    /// tail's width).
+    pub neck_half: f64,
+    /// How far along the tail the neck reaches, mm.
+    pub neck_reach: f64,
 }
 
 /// Plans the tail of `design` (`None` without one): `outer` gives the two
@@ -91,6 +99,18 @@ pub(super) fn plan(
         });
     }
     let lane_of = finger_of.map(|k| Point::ORIGIN + u * lane + v * offset(k));
+    let reach_v = |p: Point| p.to_vec2().dot(v).abs();
+    let neck_half = slots
+        .iter()
+        .map(|&s| reach_v(s) + design.via.diameter.max(design.coil.trace_width) / 2.0)
+        .chain(
+            lane_of
+                .iter()
+                .map(|&l| reach_v(l) + design.coil.trace_width / 2.0),
+        )
+        .fold(0.0, f64::max)
+        + margin;
+    let neck_reach = lane + design.coil.trace_width / 2.0 + margin;
     let stiff_from = (finger_start - STIFFENER_OVERLAP).max(root);
     let half = t.width / 2.0;
     let stiffener = (t.stiffener > 0.0).then(|| {
@@ -113,5 +133,7 @@ pub(super) fn plan(
         centres,
         finger_of,
         lane_of,
+        neck_half,
+        neck_reach,
     }))
 }
