@@ -553,7 +553,7 @@ pub fn markdown(design: &Design, board: &Board, a: &Analysis) -> String {
         heating_over_time(a),
         fin(a),
         bending(&a.mechanics),
-        tail(design),
+        tail(design, board),
         notes(&a.notes),
         general_cautions(),
     ]
@@ -918,8 +918,10 @@ fn bending(m: &Mechanics) -> String {
 
 /// The flex tail: its fingers and the finished thickness the connector
 /// specifies; empty without a tail.
-fn tail(design: &Design) -> String {
-    let (Some(t), Some(thick)) = (design.tail, design.finger_thickness()) else {
+fn tail(design: &Design, board: &Board) -> String {
+    let (Some(t), Some(thick), Some(laid)) =
+        (design.tail, design.finger_thickness(), board.tail.as_ref())
+    else {
         return String::new();
     };
     let mut s = String::new();
@@ -937,8 +939,10 @@ fn tail(design: &Design) -> String {
     );
     let _ = writeln!(
         s,
-        "Finished thickness at the fingers {thick:.3} mm (board without the coverlay on the fingers' face, plus the stiffener): the connector's mating thickness must match it. Stiffener {} mm behind the fingers (fab/*-stiffener.gbr); the stiffened part must not bend: bend the tail only between the coil and the stiffener.\n",
-        t.stiffener
+        "Finished thickness at the fingers {thick:.3} mm (board without the coverlay on the fingers' face, plus the stiffener): the connector's mating thickness must match it. Stiffener {} mm behind the fingers ({}); the stiffened part must not bend: bend the tail only between the coil and the stiffener (the first {:.2} mm from the coil's board edge), no tighter than the minimum bend radius under Bending.\n",
+        t.stiffener,
+        super::gerber::stiffener_file_name(&super::gerber::file_stem(&design.name)),
+        laid.stiff_from - laid.root
     );
     s
 }
