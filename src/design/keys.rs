@@ -396,6 +396,39 @@ pub const KEYS: &[Key] = &[
         Number,
         "damping of the first mode (default 0.03)",
     ),
+    // [tail]
+    key(
+        "tail",
+        "length",
+        Length,
+        "flex only: board edge to the tail's end, along the terminal angle",
+    ),
+    key("tail", "width", Length, "width of the tail strip"),
+    key(
+        "tail",
+        "fingers",
+        Integer,
+        "contact fingers at the end, 2 to 64 (the first two carry the coil)",
+    ),
+    key("tail", "pitch", Length, "finger centre to centre"),
+    key(
+        "tail",
+        "finger_width",
+        Length,
+        "finger size across the tail",
+    ),
+    key(
+        "tail",
+        "finger_length",
+        Length,
+        "finger size along the tail",
+    ),
+    key(
+        "tail",
+        "stiffener",
+        Length,
+        "thickness of the stiffener behind the fingers (0: none)",
+    ),
 ];
 
 /// Every design-file key: [`KEYS`] with `limits` as `[rules]` keys after
@@ -444,7 +477,8 @@ mod tests {
         assert_eq!(
             t,
             [
-                "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive", "fin"
+                "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive", "fin",
+                "tail"
             ]
         );
     }

@@ -35,6 +35,29 @@ pub struct Design {
     pub drive: Drive,
     /// Optional flexible fin carrying the coil or the magnet.
     pub fin: Option<Fin>,
+    /// Optional flex tail with connector fingers.
+    pub tail: Option<Tail>,
+}
+
+/// A strip of the flex board leaving the coil at the terminal angle, with
+/// contact fingers at its end for a board-to-flex connector (`[tail]`).
+/// Lengths in mm.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Tail {
+    /// From the coil board's edge to the tail's end, along its axis, mm.
+    pub length: f64,
+    /// Width of the strip, mm.
+    pub width: f64,
+    /// Number of contact fingers (the first two carry the coil).
+    pub fingers: u32,
+    /// Centre-to-centre spacing of the fingers, mm.
+    pub pitch: f64,
+    /// Finger size across the tail, mm.
+    pub finger_width: f64,
+    /// Finger size along the tail, mm.
+    pub finger_length: f64,
+    /// Thickness of the stiffener behind the fingers, mm (0: none).
+    pub stiffener: f64,
 }
 
 /// Outline of the spiral.
@@ -323,13 +346,24 @@ impl Design {
         }
     }
 
-    /// Copper layer of surface pads (1 = top), `None` for holes.
+    /// Copper layer of surface pads (1 = top), `None` for holes. A tail's
+    /// fingers are the terminals' surface pads: on the terminal `side`.
     pub fn smd_layer(&self) -> Option<u8> {
         let t = &self.terminal_place;
-        t.is_smd().then_some(match t.side {
+        (t.is_smd() || self.tail.is_some()).then_some(match t.side {
             Face::Top => 1,
             Face::Bottom => self.coil.layers,
         })
+    }
+
+    /// Finished thickness at a tail's fingers, mm, what the connector
+    /// specifies: the board with its cover opened on the fingers' face
+    /// (copper, dielectric, one cover) plus the stiffener on the other
+    /// face (its adhesive counted in the stiffener's thickness); `None`
+    /// without a tail.
+    pub fn finger_thickness(&self) -> Option<f64> {
+        self.tail
+            .map(|t| self.stackup.finished_thickness() - self.stackup.cover + t.stiffener)
     }
 }
 
@@ -519,6 +553,7 @@ impl Design {
                 surroundings: Surroundings::StillAir,
             },
             fin: None,
+            tail: None,
         }
     }
 }
@@ -598,6 +633,8 @@ pub struct DesignRequest {
     pub drive: Drive,
     /// Optional flexible fin.
     pub fin: Option<Fin>,
+    /// Optional flex tail with connector fingers.
+    pub tail: Option<Tail>,
     /// Where each key is in the text.
     pub spans: KeySpans,
 }
@@ -617,6 +654,7 @@ impl DesignRequest {
             magnet: self.magnet,
             drive: self.drive,
             fin: self.fin,
+            tail: self.tail,
         }
     }
 }

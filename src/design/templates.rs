@@ -21,6 +21,11 @@ const TEMPLATES: &[Template] = &[
         text: include_str!("../../examples/fin-actuator.toml"),
     },
     Template {
+        name: "fin-tail",
+        description: "the fin actuator with a flex tail of four 1 mm-pitch connector fingers and a stiffener",
+        text: include_str!("../../examples/fin-tail.toml"),
+    },
+    Template {
         name: "motor-stator",
         description: "rigid 4-layer hexagonal coil, one stator winding of a small flat motor",
         text: include_str!("../../examples/motor-stator.toml"),

@@ -325,7 +325,9 @@ mod tests {
         assert_eq!(kind("drive.bipolar"), None);
         assert_eq!(kind("terminal.angle"), Some(Kind::Number));
         assert_eq!(kind("terminal.pad_width"), Some(Kind::Quantity));
-        assert_eq!(keys.len(), 49);
+        assert_eq!(kind("tail.fingers"), Some(Kind::Integer));
+        assert_eq!(kind("tail.pitch"), Some(Kind::Quantity));
+        assert_eq!(keys.len(), 56);
         assert_eq!(
             parse("min_drill=0.15mm,0.2mm").unwrap().key,
             "rules.min_drill"

@@ -478,6 +478,34 @@ pub fn mask(design: &Design, layout: &Board, side: Side) -> Result<Vec<u8>, Expo
     w.finish()
 }
 
+/// Path of the stiffener drawing.
+pub fn stiffener_file_name(stem: &str) -> String {
+    format!("fab/{stem}-stiffener.gbr")
+}
+
+/// `.FileFunction` value of the stiffener drawing: Gerber X2 has no
+/// stiffener file function that we know of, so the spec's escape,
+/// `Other,Stiffener`.
+pub const STIFFENER_FUNCTION: &str = "Other,Stiffener";
+
+/// The stiffener behind a tail's fingers: one dark region (its outline
+/// as seen from the top; it sits on the face opposite the fingers), its
+/// thickness in the file's comment. `None` without a stiffener.
+pub fn stiffener(design: &Design, layout: &Board) -> Option<Result<Vec<u8>, ExportError>> {
+    let tail = layout.tail.as_ref()?;
+    let corners = tail.stiffener?;
+    let mut w = Writer::new(
+        FileFunction::Other("Stiffener".into()),
+        &file_stem(&design.name),
+        &format!(
+            "{} stiffener behind the tail's fingers, {:.3} mm thick, on the face opposite the fingers (drawing: Gerber X2 has no stiffener file function)",
+            design.name, tail.stiffener_thickness
+        ),
+    );
+    w.region(ApertureFunction::Other("Stiffener".into()), &corners);
+    Some(w.finish())
+}
+
 /// The board profile: the closed outline drawn with a thin `Profile` line.
 pub fn profile(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let mut w = Writer::new(

@@ -423,12 +423,12 @@ pub fn board(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
         quote(&stem)
     );
     for p in &layout.pads {
-        let (id, net) = if p.name == "2" {
-            (2, NET_2)
-        } else {
-            (1, NET_1)
+        // Spare tail fingers ("3" on) are on no net.
+        let net = match p.name.as_str() {
+            "1" => format!(" (net 1 {})", quote(NET_1)),
+            "2" => format!(" (net 2 {})", quote(NET_2)),
+            _ => String::new(),
         };
-        let net = format!(" (net {id} {})", quote(net));
         let _ = writeln!(o, "    {}", terminal_pad(p, Frame::LOCAL, &net));
     }
     let _ = writeln!(o, "  )");

@@ -119,6 +119,15 @@ pub fn fab_files(
         "Profile,NP".into(),
         gerber::profile(design, layout)?,
     );
+    if let Some(b) = gerber::stiffener(design, layout) {
+        add(
+            files,
+            gerber::stiffener_file_name(&stem),
+            "gerber: stiffener drawing behind the tail's fingers (Other,Stiffener: X2 has no stiffener function)".into(),
+            gerber::STIFFENER_FUNCTION.into(),
+            b?,
+        );
+    }
     add(
         files,
         excellon::plated_file_name(&stem),

@@ -553,6 +553,7 @@ pub fn markdown(design: &Design, board: &Board, a: &Analysis) -> String {
         heating_over_time(a),
         fin(a),
         bending(&a.mechanics),
+        tail(design, board),
         notes(&a.notes),
         general_cautions(),
     ]
@@ -911,6 +912,37 @@ fn bending(m: &Mechanics) -> String {
         m.bend_radius_dynamic_mm,
         m.dynamic_ratio,
         m.source
+    );
+    s
+}
+
+/// The flex tail: its fingers and the finished thickness the connector
+/// specifies; empty without a tail.
+fn tail(design: &Design, board: &Board) -> String {
+    let (Some(t), Some(thick), Some(laid)) =
+        (design.tail, design.finger_thickness(), board.tail.as_ref())
+    else {
+        return String::new();
+    };
+    let mut s = String::new();
+    let _ = writeln!(s, "\n## Tail\n");
+    let _ = writeln!(
+        s,
+        "{} mm long, {} mm wide; {} fingers {} x {} mm at {} mm pitch (gap {:.3} mm), the first two carrying the coil, the coverlay opened over them.\n",
+        t.length,
+        t.width,
+        t.fingers,
+        t.finger_width,
+        t.finger_length,
+        t.pitch,
+        t.pitch - t.finger_width
+    );
+    let _ = writeln!(
+        s,
+        "Finished thickness at the fingers {thick:.3} mm (board without the coverlay on the fingers' face, plus the stiffener): the connector's mating thickness must match it. Stiffener {} mm behind the fingers ({}); the stiffened part must not bend: bend the tail only between the coil and the stiffener (the first {:.2} mm from the coil's board edge), no tighter than the minimum bend radius under Bending.\n",
+        t.stiffener,
+        super::gerber::stiffener_file_name(&super::gerber::file_stem(&design.name)),
+        laid.stiff_from - laid.root
     );
     s
 }

@@ -257,6 +257,38 @@ pub struct Board {
     pub outer_radius: f64,
     /// Turns per layer of the spiral part.
     pub turns: f64,
+    /// The flex tail with its fingers, if the design has one.
+    pub tail: Option<TailLayout>,
+}
+
+/// A flex tail as built: the strip, its contact fingers (surface pads in
+/// [`Board::pads`]: the terminals "1" and "2", then the spare fingers
+/// "3" on) and the stiffener behind them.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct TailLayout {
+    /// Direction of the tail from the axis outward, radians from +x.
+    pub angle: f64,
+    /// Where the strip leaves the coil's board, along the axis from the
+    /// origin, mm.
+    pub root: f64,
+    /// Where the strip ends, along the axis from the origin, mm.
+    pub end: f64,
+    /// Width of the strip, mm.
+    pub width: f64,
+    /// Indices into [`Board::pads`] of the fingers, across the tail in
+    /// order.
+    pub fingers: Vec<usize>,
+    /// For each terminal pad brought to a finger: its index and the point
+    /// where its lead turns onto the finger's line along the tail.
+    pub lanes: Vec<(usize, Point)>,
+    /// The stiffener's corners (counter-clockwise) behind the fingers on
+    /// the other face, `None` when its thickness is 0.
+    pub stiffener: Option<[Point; 4]>,
+    /// Stiffener thickness, mm.
+    pub stiffener_thickness: f64,
+    /// Along-axis distance from the origin where the stiffened part
+    /// starts (no bending beyond it), mm.
+    pub stiff_from: f64,
 }
 
 impl Board {

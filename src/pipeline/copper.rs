@@ -29,6 +29,11 @@ fn geometry_error(e: GeometryError, spans: &KeySpans) -> DesignErrors {
             "terminal.kind",
             Some("add a layer, or use kind = \"hole\"".to_string()),
         ),
+        GeometryError::TailInCentre => (
+            "tail",
+            Some("use an even number of layers in series (of pairs in parallel)".to_string()),
+        ),
+        GeometryError::TailShort { .. } => ("tail.length", None),
         GeometryError::LeadTab => (
             "terminal.lead_length",
             Some("turn the terminals (terminal.angle) or make the coil larger".to_string()),
@@ -42,6 +47,8 @@ fn geometry_error(e: GeometryError, spans: &KeySpans) -> DesignErrors {
         "coil.layers" => spans.key_or_table("coil", "layers"),
         "coil.wiring" => spans.key_or_table("coil", "wiring"),
         "coil.inner_diameter" => spans.key_or_table("coil", "inner_diameter"),
+        "tail" => spans.get("tail"),
+        "tail.length" => spans.key_or_table("tail", "length"),
         _ => spans.get("coil"),
     };
     DesignError {

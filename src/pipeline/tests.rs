@@ -425,3 +425,93 @@ fn surface_pads_sit_on_their_face_with_a_via_where_the_winding_is_elsewhere() {
     assert!(b.pads.iter().all(|p| p.smd.unwrap().layer == 4));
     assert!(b.vias.iter().any(|v| v.joins == vec![1, 4]));
 }
+
+/// A four-finger tail at 1 mm pitch on the four-layer base.
+fn tail_text(pitch: &str, finger_width: &str) -> String {
+    format!(
+        "{BASE}[tail]\nlength = \"12mm\"\nwidth = \"5mm\"\nfingers = 4\npitch = \"{pitch}\"\nfinger_width = \"{finger_width}\"\nfinger_length = \"3mm\"\nstiffener = \"0.2mm\"\n"
+    )
+}
+
+#[test]
+fn a_tail_brings_the_terminals_to_its_first_two_fingers() {
+    let d = parse(&tail_text("1mm", "0.6mm")).unwrap();
+    let b = geometry::build(&d).unwrap();
+    let t = b.tail.as_ref().expect("tail");
+    assert_eq!(t.fingers.len(), 4);
+    let names: Vec<&str> = t.fingers.iter().map(|&i| b.pads[i].name.as_str()).collect();
+    assert_eq!(names, ["1", "2", "3", "4"]);
+    // Fingers across the tail at the pitch, all on the top, size as asked.
+    let u = crate::geometry::Vec2::from_angle(t.angle);
+    let v = u.perp();
+    for w in t.fingers.windows(2) {
+        let (a, c) = (b.pads[w[0]].at, b.pads[w[1]].at);
+        assert!(((c - a).dot(v) - 1.0).abs() < 1e-9);
+        assert!((c - a).dot(u).abs() < 1e-9);
+    }
+    for &i in &t.fingers {
+        let s = b.pads[i].smd.unwrap();
+        assert_eq!((s.layer, s.width, s.length), (1, 0.6, 3.0));
+        // The finger ends the margin short of the tail's end.
+        let far = b.pads[i].at.to_vec2().dot(u) + 1.5;
+        assert!((t.end - far - d.board.margin).abs() < 1e-9);
+    }
+    // Terminal 2 ends the bottom layer: its lead reaches its finger on the
+    // top from the via in its slot.
+    let last = b.winding_tracks(b.windings.last().unwrap()).last().unwrap();
+    assert_eq!(last.layer, 1);
+    assert!(last.segment.end().distance(b.pads[1].at) < 1e-9);
+    // The outline reaches the tail's end; the stiffener covers the fingers.
+    let reach = b
+        .outline
+        .segments
+        .iter()
+        .flat_map(|s| s.flatten(1e-4))
+        .map(|p| p.to_vec2().dot(u))
+        .fold(f64::MIN, f64::max);
+    assert!((reach - t.end).abs() < 1e-9, "{reach} {}", t.end);
+    assert!(t.stiffener.is_some() && t.stiff_from < t.end - 3.0 - d.board.margin);
+    // Board 4 x 35 um copper + 3 x 50 um polyimide + one 37.5 um cover,
+    // plus 0.2 mm stiffener.
+    let want = 4.0 * 0.035 + 3.0 * 0.05 + 0.0375 + 0.2;
+    let got = d.finger_thickness().unwrap();
+    assert!((got - want).abs() < 1e-9, "{got}");
+    let profile = crate::rules::Profile::builtin("standard").unwrap();
+    let v = crate::rules::check(&d, &b, &profile);
+    assert!(crate::rules::is_clean(&v), "{v:?}");
+}
+
+#[test]
+fn fingers_closer_than_the_clearance_break_the_pad_spacing_rule() {
+    // 1 mm pitch, 0.95 mm fingers: 0.05 mm gaps, below the standard
+    // profile's clearance; the rule measures the rectangles (three gaps).
+    let d = parse(&tail_text("1mm", "0.95mm")).unwrap();
+    let b = geometry::build(&d).unwrap();
+    let profile = crate::rules::Profile::builtin("standard").unwrap();
+    let v = crate::rules::check(&d, &b, &profile);
+    let gaps: Vec<_> = v.iter().filter(|x| x.rule == "via-via-clearance").collect();
+    assert_eq!(gaps.len(), 3, "{v:?}");
+    assert!(
+        gaps.iter().all(|x| (x.measured - 0.05).abs() < 1e-6),
+        "{gaps:?}"
+    );
+}
+
+#[test]
+fn a_tail_is_refused_on_rigid_boards_and_where_the_fingers_do_not_fit() {
+    let rigid = tail_text("1mm", "0.6mm").replace("[tail]", "[stackup]\nkind = \"rigid\"\n[tail]");
+    assert!(err(&rigid).errors.iter().any(|e| e.key == "tail"));
+    let narrow = tail_text("1mm", "0.6mm").replace("width = \"5mm\"", "width = \"3.5mm\"");
+    let e = err(&narrow);
+    let f = e.errors.iter().find(|e| e.key == "tail.fingers").unwrap();
+    assert!(
+        f.help.as_deref().unwrap().contains("at most 3 fingers"),
+        "{f:?}"
+    );
+    assert!(
+        err(&tail_text("1mm", "1mm"))
+            .errors
+            .iter()
+            .any(|e| e.key == "tail.finger_width")
+    );
+}

@@ -6,7 +6,8 @@
 //! and two copper layers, 20 x for more layers, 100 x for dynamic (repeated)
 //! bending. These are the ratios commonly quoted from IPC-2223 (common
 //! practice, no single source). A warning: the maker and the application
-//! decide.
+//! decide. A `[tail]` bends with the same stack-up, so this covers it; its
+//! stiffened end must not bend at all (the report says where it starts).
 //!
 //! **Why it matters.** Copper on the outside of a tight bend is stretched
 //! beyond its fatigue limit: it cracks at once or after some cycles, and a

@@ -449,10 +449,16 @@ impl<'a> Context<'a> {
                     continue; // a surface pad has no hole
                 }
                 // A surface pad against a round one: its rectangle; two
-                // surface pads: their circles (conservative).
-                let gap = match (a.rect.is_some(), b.rect.is_some()) {
-                    (true, false) => a.copper_distance(b.at, 0.0) - size(b) / 2.0,
-                    (false, true) => b.copper_distance(a.at, 0.0) - size(a) / 2.0,
+                // surface pads: their rectangles (the nearest corner of
+                // either to the other; 0 where they overlap).
+                let gap = match (&a.rect, &b.rect) {
+                    (Some(_), None) => a.copper_distance(b.at, 0.0) - size(b) / 2.0,
+                    (None, Some(_)) => b.copper_distance(a.at, 0.0) - size(a) / 2.0,
+                    (Some(ra), Some(rb)) => ra
+                        .iter()
+                        .map(|&c| b.copper_distance(c, 0.0))
+                        .chain(rb.iter().map(|&c| a.copper_distance(c, 0.0)))
+                        .fold(f64::INFINITY, f64::min),
                     _ => a.at.distance(b.at) - (size(a) + size(b)) / 2.0,
                 };
                 if super::fails(gap, required) {

@@ -18,6 +18,10 @@ Run with the interop venv (.venv-interop/bin/python, see setup.sh):
     checks.py raster DIR KDIR  gerbv renders our copper Gerbers and the ones
                                KiCad plotted from our board (in KDIR) in the
                                same frame; copper pixels must agree
+    checks.py tail DIR         a flex tail's fingers (gerbonara, shapely):
+                               gaps = pitch - finger_width within 1 um,
+                               coverlay opened over each finger, the
+                               stiffener drawing covering them
 
 DIR holds the bundle plus `expect.json` ({"design": ..., "layout": ...},
 written by tests/suite/interop.rs). Each failure is printed as
@@ -90,9 +94,11 @@ def symbol(d):
     fp_name = os.path.basename(mods[0])[: -len(".kicad_mod")]
     if props.get("Footprint") != f"coilwright:{fp_name}":
         fail("kiutils", f"Footprint property {props.get('Footprint')!r}, expected 'coilwright:{fp_name}'")
+    # A tail's spare fingers ("3" on) are pads on no net, with no pin.
+    spare = sorted(p["name"] for p in load_expect(d)["layout"]["pads"] if p["name"] not in ("1", "2"))
     pads = sorted({p.number for p in fp.pads})
-    if pads != pins:
-        fail("kiutils", f"footprint pads {pads} differ from symbol pins {pins}")
+    if pads != sorted(pins + spare):
+        fail("kiutils", f"footprint pads {pads} differ from symbol pins {pins} plus spare fingers {spare}")
     if not props.get("Reference"):
         fail("kiutils", "symbol has no Reference")
     for name, want in (("sym-lib-table", syms[0]), ("fp-lib-table", os.path.dirname(mods[0]))):
@@ -276,7 +282,10 @@ def geometry(d):
             want = p["smd"]["width"] * p["smd"]["length"]
             found = [r for r in regions
                      if math.dist(shapely.Polygon(r).centroid.coords[0], (p["at"]["x"], p["at"]["y"])) < tol]
-            if len(found) != 1 or abs(shapely.Polygon(found[0]).area - want) > 1e-6:
+            # Corners sit on the 1 nm grid: a turned rectangle's area
+            # differs by up to about 1 nm x its perimeter.
+            perimeter = 2 * (p["smd"]["width"] + p["smd"]["length"])
+            if len(found) != 1 or abs(shapely.Polygon(found[0]).area - want) > 2e-6 * perimeter:
                 fail("shapely", f"layer {layer}: surface pad {p['name']} not one "
                      f"{p['smd']['width']} x {p['smd']['length']} mm rectangle at its centre")
     # Drill hits: copper of exactly the joined layers (surface pads have none).
@@ -488,6 +497,76 @@ def dxf(d):
           f"difference from the Gerbers {worst*100:.4f} %")
 
 
+# ---------------------------------------------------------------- tail
+
+
+def tail(d):
+    """A flex tail's fingers, coverlay openings and stiffener as read by
+    gerbonara (PyPI), measured with shapely (PyPI). Nothing to do (and
+    says so) for a design without a tail."""
+    import shapely
+    from gerbonara import GerberFile
+    from gerbonara.graphic_objects import Region
+
+    exp = load_expect(d)
+    t, lay = exp["design"].get("tail"), exp["layout"]
+    if not t:
+        print("tail: none")
+        return
+    tol = 0.001  # 1 um, by the issue
+    fingers = [lay["pads"][i] for i in lay["tail"]["fingers"]]
+    layer = fingers[0]["smd"]["layer"]
+    side = "top" if layer == 1 else "bottom"
+
+    def regions(path):
+        g = GerberFile.open(path)
+        return [shapely.Polygon([(x, y) for x, y in o.outline])
+                for o in g.objects if isinstance(o, Region)]
+
+    def matching(polys, p):
+        at = (p["at"]["x"], p["at"]["y"])
+        return [q for q in polys if math.dist(q.centroid.coords[0], at) < tol]
+
+    copper = regions(copper_files(d, lay["layers"])[layer])
+    found = []
+    for p in fingers:
+        m = matching(copper, p)
+        if len(m) != 1:
+            fail("gerbonara", f"finger {p['name']}: {len(m)} copper regions at its centre")
+            return
+        found.append(m[0])
+    want = t["pitch"] - t["finger_width"]
+    worst = 0.0
+    for a, b in zip(found, found[1:]):
+        gap = a.distance(b)
+        worst = max(worst, abs(gap - want))
+        if abs(gap - want) > tol:
+            fail("shapely", f"finger gap {gap:.6f} mm, pitch - finger_width = {want:.6f} mm")
+    # The coverlay of the fingers' face is opened exactly over each finger.
+    cover = glob.glob(os.path.join(d, "fab", f"*-coverlay-{side}.gbr"))
+    if len(cover) != 1:
+        fail("bundle", f"expected one coverlay file on the {side}, found {cover}")
+        return
+    openings = regions(cover[0])
+    for p, f in zip(fingers, found):
+        m = matching(openings, p)
+        if len(m) != 1 or m[0].symmetric_difference(f).area > 1e-6:
+            fail("shapely", f"finger {p['name']}: coverlay opening is not the finger")
+    stiff = glob.glob(os.path.join(d, "fab", "*-stiffener.gbr"))
+    if t["stiffener"] > 0:
+        if len(stiff) != 1:
+            fail("bundle", f"expected one stiffener drawing, found {stiff}")
+            return
+        sr = regions(stiff[0])
+        if len(sr) != 1 or not all(sr[0].buffer(tol).contains(f) for f in found):
+            fail("shapely", "the stiffener is not one region covering every finger")
+    elif stiff:
+        fail("bundle", f"stiffener drawing {stiff} without a stiffener")
+    print(f"tail: {len(found)} fingers read by gerbonara, gaps = pitch - finger_width "
+          f"within {worst*1000:.4f} um, coverlay opened over each, stiffener "
+          f"{'covers them' if t['stiffener'] > 0 else 'none'}")
+
+
 if __name__ == "__main__":
     run({"symbol": symbol, "readers": readers, "geometry": geometry, "dxf": dxf,
-         "raster": raster})
+         "raster": raster, "tail": tail})

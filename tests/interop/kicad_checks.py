@@ -178,8 +178,11 @@ def footprint(d):
     nb = pcbnew.NETINFO_ITEM(b, "COIL_2")
     b.Add(na)
     b.Add(nb)
+    # Pads "1" (terminal 1 and the vias) and "2"; a tail's spare fingers
+    # ("3" on) stay on no net.
     for p in fp.Pads():
-        p.SetNet(nb if p.GetName() == "2" else na)
+        if p.GetName() in ("1", "2"):
+            p.SetNet(nb if p.GetName() == "2" else na)
     with tempfile.TemporaryDirectory() as t:
         path = os.path.join(t, "placed.kicad_pcb")
         pcbnew.SaveBoard(path, b)

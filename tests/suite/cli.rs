@@ -328,6 +328,43 @@ fn catalogue() -> Vec<Case> {
             "bridge",
         ),
         case(
+            "tail on a rigid stack-up",
+            format!(
+                "{}\n[tail]\nlength = \"10mm\"\nwidth = \"5mm\"\nfingers = 4\npitch = \"1mm\"\nfinger_width = \"0.6mm\"\nfinger_length = \"3mm\"\n",
+                BASE.replace("kind = \"flex\"", "kind = \"rigid\"")
+            ),
+            "tail",
+            "[|tail]",
+            "rigid",
+        ),
+        case(
+            "tail fingers wider than the tail at the pitch",
+            format!(
+                "{BASE}\n[tail]\nlength = \"10mm\"\nwidth = \"3mm\"\nfingers = 4\npitch = \"1mm\"\nfinger_width = \"0.6mm\"\nfinger_length = \"3mm\"\n"
+            ),
+            "tail.fingers",
+            "fingers = |4",
+            "at most 3 fingers fit",
+        ),
+        case(
+            "tail finger as wide as the pitch",
+            format!(
+                "{BASE}\n[tail]\nlength = \"10mm\"\nwidth = \"5mm\"\nfingers = 4\npitch = \"1mm\"\nfinger_width = \"1mm\"\nfinger_length = \"3mm\"\n"
+            ),
+            "tail.finger_width",
+            "finger_width = |\"1mm\"",
+            "no gap",
+        ),
+        case(
+            "tail too short for its leads",
+            format!(
+                "{BASE}\n[tail]\nlength = \"3.5mm\"\nwidth = \"5mm\"\nfingers = 4\npitch = \"1mm\"\nfinger_width = \"0.6mm\"\nfinger_length = \"3mm\"\n"
+            ),
+            "tail.length",
+            "length = |\"3.5mm\"",
+            "too short",
+        ),
+        case(
             "terminal angle outside 0-360",
             mutate("[stackup]", "[terminal]\nangle = 400\n\n[stackup]"),
             "terminal.angle",

@@ -15,7 +15,12 @@
 //!   centre-line length per layer equals gerbonara's reading of the
 //!   copper Gerber within 0.1 %, the outline's the profile's;
 //! - shapely: turn-to-turn gap >= clearance - 1 um; every drill hit lands on
-//!   copper of exactly the layers it joins.
+//!   copper of exactly the layers it joins;
+//! - tails (every fourth design whose coil ends outside): gerbonara reads
+//!   the fingers' copper, coverlay and stiffener; shapely finds the gap
+//!   between neighbouring fingers equal to pitch - finger_width within
+//!   1 um, each finger's coverlay opening equal to the finger, and the
+//!   stiffener covering every finger; KiCad's DRC runs on these boards too.
 //!
 //! Needs `tests/interop/setup.sh` to have run (Debian packages kicad, gerbv
 //! and the venv .venv-interop); without them this test fails and says so.
@@ -152,6 +157,30 @@ pub fn random_design(i: usize) -> Design {
             ..coilwright::design::TerminalPlace::DEFAULT
         };
     }
+    // Every fourth design from the second whose coil ends outside the
+    // winding gets a flex tail with 2 to 5 fingers at 0.5 or 1 mm pitch
+    // (stiffened every other time): its terminals become fingers.
+    let groups = match d.coil.wiring {
+        Wiring::ParallelPairs => layers / 2,
+        Wiring::Series => layers,
+    };
+    if i % 4 == 1 && groups.is_multiple_of(2) {
+        d.stackup.kind = BoardKind::Flex;
+        d.stackup.dielectric_material = "Polyimide".into();
+        d.stackup.dielectric_constant = 3.4;
+        d.stackup.cover = 0.0375;
+        let fingers = 2 + ((i / 4) % 4) as u32;
+        let pitch = [0.5, 1.0][(i / 4) % 2];
+        d.tail = Some(coilwright::design::Tail {
+            length: 15.0,
+            width: fingers as f64 * pitch + 2.0 * d.board.margin,
+            fingers,
+            pitch,
+            finger_width: 0.6 * pitch,
+            finger_length: 2.0,
+            stiffener: [0.2, 0.0][(i / 8) % 2],
+        });
+    }
     // A round corner must fit the innermost side: shrink it until it does.
     while let (Corner::Round { radius }, Err(_)) = (d.coil.corner, geometry::build(&d)) {
         d.coil.corner = if radius > 0.05 {
@@ -279,6 +308,7 @@ fn check_design(py: &Path, i: usize, root: &Path) -> Result<String, String> {
         (py, vec![c, "readers", dir_s]),
         (py, vec![c, "geometry", dir_s]),
         (py, vec![c, "dxf", dir_s]),
+        (py, vec![c, "tail", dir_s]),
         (sys, vec![k, "footprint", dir_s]),
         (sys, vec![k, "board", dir_s]),
         (sys, vec![k, "plot", dir_s, plot_s]),

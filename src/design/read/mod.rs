@@ -17,6 +17,7 @@ mod name;
 mod rules;
 mod stackup;
 mod table;
+mod tail;
 
 pub use coil::{MAX_SIZE_MM, MAX_TURNS};
 pub use drive::DEFAULT_CURRENT_A;
@@ -57,6 +58,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let magnet_t = cx.table(&root, "magnet");
     let drive_t = cx.table(&root, "drive");
     let fin_t = cx.table(&root, "fin");
+    let tail_t = cx.table(&root, "tail");
 
     let coil = coil::read(&mut cx, &coil_t);
     let layers = coil.as_ref().and_then(|c| c.layers);
@@ -77,6 +79,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let magnet = magnet::read(&mut cx, &magnet_t);
     let drive = drive::read(&mut cx, &drive_t);
     let fin = fin::read(&mut cx, &fin_t, magnet.as_ref());
+    let tail = tail::read(&mut cx, &tail_t, stackup.kind);
 
     let Ctx {
         mut errors,
@@ -109,6 +112,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
         magnet,
         drive,
         fin,
+        tail,
         spans: KeySpans::of(doc.get_ref()),
     })
 }

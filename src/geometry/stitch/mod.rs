@@ -35,6 +35,7 @@ mod outer;
 mod outline;
 mod plan;
 mod ring;
+mod tail;
 mod windings;
 
 use super::Point;
@@ -75,6 +76,19 @@ pub enum GeometryError {
         "surface pads need the coil to end outside the winding: an even number of layers in series (of pairs in parallel)"
     )]
     SmdInCentre,
+    /// A tail on a coil that ends in its centre.
+    #[error(
+        "a tail needs both coil ends outside the winding: an even number of layers in series (of pairs in parallel)"
+    )]
+    TailInCentre,
+    /// The tail is too short for the leads to reach its fingers.
+    #[error(
+        "the tail is too short for the leads to turn onto their fingers: at least {need:.3} mm is needed"
+    )]
+    TailShort {
+        /// Shortest length that works, mm.
+        need: f64,
+    },
     /// The board outline cannot grow a tab around the terminals' leads.
     #[error("the terminals brought out by lead_length do not fit one tab of the board outline")]
     LeadTab,
@@ -100,13 +114,14 @@ pub fn build(design: &Design) -> Result<Board, GeometryError> {
     let canonical = Canonical::new(&design.coil)?;
     let centre = CentreSlots::place(design, &plan);
     let outer = OuterSlots::place(design, &plan, &canonical)?;
+    let tail = tail::plan(design, &plan, &outer)?;
     let mut board = empty_board(design);
-    let nodes = nodes::place(&mut board, design, &plan, &centre, &outer);
+    let nodes = nodes::place(&mut board, design, &plan, &centre, &outer, tail.as_ref());
     windings::lay(
         &mut board, design, &plan, &canonical, &centre, &outer, &nodes,
     );
     (board.inner_radius, board.outer_radius) = canonical.copper_radii(design.coil.trace_width);
-    board.outline = outline::draw(&board, design, &outer)?;
+    board.outline = outline::draw(&board, design, &outer, tail.as_ref())?;
     board.coils.push(alone(&board));
     Ok(board)
 }
@@ -146,6 +161,7 @@ fn empty_board(design: &Design) -> Board {
         inner_radius: 0.0,
         outer_radius: 0.0,
         turns: coil.turns,
+        tail: None,
     }
 }
 

@@ -7,6 +7,7 @@
 use super::centre::CentreSlots;
 use super::outer::OuterSlots;
 use super::plan::Plan;
+use super::tail::TailPlan;
 use crate::design::Design;
 use crate::geometry::Vec2;
 use crate::geometry::board::{Board, Node, Pad, Place, SmdLand, Via};
@@ -29,6 +30,7 @@ pub(super) fn place(
     plan: &Plan,
     centre: &CentreSlots,
     outer: &OuterSlots,
+    tail: Option<&TailPlan>,
 ) -> Vec<Boundary> {
     let (via_d, term_d) = (design.via.diameter, design.terminal.diameter);
     let g = plan.groups.len();
@@ -53,6 +55,18 @@ pub(super) fn place(
         };
         let t = &design.terminal_place;
         let mut reach = lead;
+        // On a tail the terminal is its finger, reached by a lead along
+        // the tail's lane.
+        let finger = tail.map(|tp| {
+            let i = usize::from(name == "2");
+            let land = SmdLand {
+                layer,
+                width: design.tail.map_or(0.0, |x| x.finger_width),
+                length: design.tail.map_or(0.0, |x| x.finger_length),
+                angle: tp.layout.angle,
+            };
+            (tp.centres[tp.finger_of[i]], land)
+        });
         if group != [layer] {
             let mut joins: Vec<u8> = group.to_vec();
             joins.push(layer);
@@ -66,6 +80,17 @@ pub(super) fn place(
                 place: Place::Outside,
             });
             reach = reach.max(via_d / 2.0 + design.coil.clearance + t.pad_length / 2.0);
+        }
+        if let Some((at, land)) = finger {
+            return Pad {
+                name: name.into(),
+                at,
+                drill: 0.0,
+                diameter: land.width,
+                joins: vec![layer],
+                place: Place::Outside,
+                smd: Some(land),
+            };
         }
         Pad {
             name: name.into(),
@@ -133,5 +158,41 @@ pub(super) fn place(
         };
         boundary.push(Boundary { node, angle });
     }
+    if let Some(tp) = tail {
+        spare_fingers(board, tp);
+    }
     boundary
+}
+
+/// Records the tail on `board`: the terminals' lanes and fingers, and the
+/// spare fingers ("3" on, across the tail in order) as unconnected
+/// surface pads like the terminal fingers.
+fn spare_fingers(board: &mut Board, tp: &TailPlan) {
+    let mut layout = tp.layout.clone();
+    layout.lanes = vec![(0, tp.lane_of[0]), (1, tp.lane_of[1])];
+    let land = board.pads[0]
+        .smd
+        .expect("a tail's terminals are surface pads");
+    let mut next = 3;
+    for (k, &at) in tp.centres.iter().enumerate() {
+        if let Some(i) = tp.finger_of.iter().position(|&f| f == k) {
+            layout.fingers.push(i);
+            continue;
+        }
+        // `diameter`: the circle across the finger (the rules' round
+        // gauge: exact across the tail, where the neighbours and the
+        // strip's sides are; the end keeps the margin by construction).
+        board.pads.push(Pad {
+            name: next.to_string(),
+            at,
+            drill: 0.0,
+            diameter: land.width,
+            joins: vec![land.layer],
+            place: Place::Outside,
+            smd: Some(land),
+        });
+        next += 1;
+        layout.fingers.push(board.pads.len() - 1);
+    }
+    board.tail = Some(layout);
 }

@@ -15,6 +15,7 @@ pub(super) fn draw(
     board: &Board,
     design: &Design,
     outer: &OuterSlots,
+    tail: Option<&super::tail::TailPlan>,
 ) -> Result<Outline, GeometryError> {
     let edge = outer.via_ring.grown(outer.dmax / 2.0 + design.board.margin);
     let mut outline = Outline {
@@ -54,9 +55,23 @@ pub(super) fn draw(
     if let [Segment::Arc(a), Segment::Arc(b)] = outline.segments.as_mut_slice() {
         a.end = b.start;
     }
-    // Terminals brought out (by lead_length, or a surface pad beside its
-    // via) get a tab.
-    if design.terminal_place.lead_length > 0.0 || design.terminal_place.is_smd() {
+    // A tail is a tab of its own width and length (it holds the
+    // terminals' leads); otherwise terminals brought out (by lead_length,
+    // or a surface pad beside its via) get a tab.
+    if let Some(tp) = tail {
+        let t = &tp.layout;
+        let mut segs = outline.segments.clone();
+        // Leads wider apart at the root than the strip: a wider neck
+        // holds them (with the margin) up to where they run along the
+        // tail, so no lead cuts the corner where the strip meets the
+        // coil's board.
+        if tp.neck_half > t.width / 2.0 {
+            segs =
+                with_tab(&segs, tp.u, tp.neck_half, tp.neck_reach).ok_or(GeometryError::LeadTab)?;
+        }
+        outline.segments =
+            with_tab(&segs, tp.u, t.width / 2.0, t.end).ok_or(GeometryError::LeadTab)?;
+    } else if design.terminal_place.lead_length > 0.0 || design.terminal_place.is_smd() {
         outline.segments = lead_tab(board, design, &outline).ok_or(GeometryError::LeadTab)?;
     }
     Ok(outline)

@@ -57,10 +57,13 @@ pub(super) fn lay(
                 .filter(|_| board.pads[p].at.distance(outer.via_at(outer_side.angle)) > 1e-9),
             Node::Via(_) => None,
         };
-        let stub_at = if inward {
-            0
-        } else {
-            chain.len().saturating_sub(1)
+        let stub_len = stub_path(board, outer, outer_side).len();
+        let in_stub = |j: usize| {
+            if inward {
+                j < stub_len
+            } else {
+                j + stub_len >= chain.len()
+            }
         };
         for (k, &layer) in group.iter().enumerate() {
             let start = board.tracks.len();
@@ -71,7 +74,7 @@ pub(super) fn lay(
                     .filter(|(_, (x, _))| x.length() > 0.0)
                     .filter_map(|(j, &(segment, role))| {
                         let layer = match stub {
-                            Some(s) if j == stub_at => {
+                            Some(s) if in_stub(j) => {
                                 // With the winding of the pad's layer when
                                 // the group has it (one path there), else
                                 // with the group's first.
@@ -160,13 +163,8 @@ fn group_chain(
     };
     // Outer lead: node (-> its slot, for a terminal brought out) -> lead
     // ring -> along ring -> outer end.
-    let pad_at = board.node_at(outer_side.node);
     let node_at = outer.via_at(outer_side.angle);
-    let stub: Vec<Segment> = if pad_at.distance(node_at) > 1e-9 {
-        vec![Segment::line(pad_at, node_at)]
-    } else {
-        vec![]
-    };
+    let stub = stub_path(board, outer, outer_side);
     let outer_lead = if let Some(lead_loop) = &canonical.lead_loop {
         // Square onto this layer's own ring from the node, along the
         // ring, square onto the spiral's outer end.
@@ -200,6 +198,25 @@ fn group_chain(
             .chain(winding(oriented))
             .chain(lead(reversed(&outer_lead)))
             .collect()
+    }
+}
+
+/// The lead from a terminal brought out to its slot, from the pad: one
+/// line, or on a tail two (along the finger's lane, then to the slot);
+/// empty when the terminal sits in its slot.
+fn stub_path(board: &Board, outer: &OuterSlots, outer_side: Boundary) -> Vec<Segment> {
+    let pad_at = board.node_at(outer_side.node);
+    let node_at = outer.via_at(outer_side.angle);
+    if pad_at.distance(node_at) <= 1e-9 {
+        return vec![];
+    }
+    let lane = match (outer_side.node, &board.tail) {
+        (Node::Pad(p), Some(t)) => t.lanes.iter().find(|(i, _)| *i == p).map(|l| l.1),
+        _ => None,
+    };
+    match lane {
+        Some(l) => vec![Segment::line(pad_at, l), Segment::line(l, node_at)],
+        None => vec![Segment::line(pad_at, node_at)],
     }
 }
 
