@@ -221,20 +221,25 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
             View::Layer(l) => l == land.layer,
             View::Stack => true,
         };
-        let pts: Vec<String> = land
-            .corners(p.at)
+        let corners = land.corners(p.at);
+        let pts: Vec<String> = corners
             .iter()
             .map(|c| format!("{},{}", mm(c.x), mm(-c.y)))
             .collect();
+        // The name inside the pad, light on the dark copper, small enough
+        // for a narrow finger.
+        let narrow = corners[0]
+            .distance(corners[1])
+            .min(corners[1].distance(corners[2]));
         let _ = writeln!(
             s,
-            r#"<polygon points="{}" fill="{}" fill-opacity="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="bold">{}</text>"#,
+            r#"<polygon points="{}" fill="{}" fill-opacity="{}"/><text x="{}" y="{}" font-size="{}" fill="{PAPER}" font-weight="bold" text-anchor="middle" dominant-baseline="central">{}</text>"#,
             pts.join(" "),
             if here { INK } else { OUTLINE },
             if here { "0.9" } else { "0.35" },
-            mm(p.at.x + p.diameter * 0.6),
-            mm(-p.at.y - p.diameter * 0.6),
-            mm(font),
+            mm(p.at.x),
+            mm(-p.at.y),
+            mm(font.min(0.8 * narrow)),
             escape(&p.name)
         );
     }
