@@ -52,6 +52,63 @@ pub fn footprint_file_name(stem: &str) -> String {
     format!("kicad/{stem}.pretty/{stem}.kicad_mod")
 }
 
+/// Name of the board's terminals footprint (in the same library).
+pub fn terminals_name(stem: &str) -> String {
+    format!("{stem}_terminals")
+}
+
+/// Path of the terminals footprint in the library.
+pub fn terminals_file_name(stem: &str) -> String {
+    format!("kicad/{stem}.pretty/{}.kicad_mod", terminals_name(stem))
+}
+
+/// The terminals footprint's contents (descr to pads), indented for the
+/// board (`nets`: pads on the coil's nets) or for the library file.
+fn terminals_body(o: &mut String, stem: &str, layout: &Board, nets: bool) {
+    let _ = writeln!(
+        o,
+        "    (descr \"Terminals of the printed coil; the coil tracks tie the two nets\")"
+    );
+    let _ = writeln!(o, "    (tags \"net tie coil terminals\")");
+    let _ = writeln!(o, "    (attr through_hole)");
+    let _ = writeln!(
+        o,
+        "    (fp_text reference \"{REFDES}\" (at 0 0) (layer \"F.Fab\")\n      (effects (font (size 1 1) (thickness 0.15)))\n    )"
+    );
+    let _ = writeln!(
+        o,
+        "    (fp_text value {} (at 0 2) (layer \"F.Fab\")\n      (effects (font (size 1 1) (thickness 0.15)))\n    )",
+        quote(stem)
+    );
+    for p in &layout.pads {
+        // Spare tail fingers ("3" on) are on no net.
+        let net = match (nets, p.name.as_str()) {
+            (true, "1") => format!(" (net 1 {})", quote(NET_1)),
+            (true, "2") => format!(" (net 2 {})", quote(NET_2)),
+            _ => String::new(),
+        };
+        let _ = writeln!(o, "    {}", terminal_pad(p, Frame::LOCAL, &net));
+    }
+}
+
+/// The board's terminals footprint as a library file
+/// (`<name>_terminals.kicad_mod`), so that the board's footprint link
+/// resolves in the generated library: the terminal pads alone, the coil
+/// itself being tracks on the board.
+pub fn terminals_footprint(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
+    let stem = super::gerber::file_stem(&design.name);
+    let mut o = String::new();
+    let _ = writeln!(
+        o,
+        "(footprint {} (version 20211014) (generator coilwright)",
+        quote(&terminals_name(&stem))
+    );
+    let _ = writeln!(o, "  (layer \"F.Cu\")");
+    terminals_body(&mut o, &stem, layout, false);
+    let _ = writeln!(o, ")");
+    Ok(o.into_bytes())
+}
+
 /// Path of the board file.
 pub fn board_file_name(stem: &str) -> String {
     format!("kicad/{stem}.kicad_pcb")
@@ -401,36 +458,14 @@ pub fn board(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let _ = writeln!(o, "  (net 1 {})", quote(NET_1));
     let _ = writeln!(o, "  (net 2 {})", quote(NET_2));
 
-    // Terminals: a net-tie footprint at the coil centre.
+    // Terminals: a net-tie footprint at the coil centre, the one in the
+    // footprint library (`terminals_footprint`) with the coil's nets.
     let _ = writeln!(
         o,
         "  (footprint {} (layer \"F.Cu\") (at {origin})",
-        quote(&format!("coilwright:{stem}_terminals"))
+        quote(&format!("coilwright:{}", terminals_name(&stem)))
     );
-    let _ = writeln!(
-        o,
-        "    (descr \"Terminals of the printed coil; the coil tracks tie the two nets\")"
-    );
-    let _ = writeln!(o, "    (tags \"net tie coil terminals\")");
-    let _ = writeln!(o, "    (attr through_hole)");
-    let _ = writeln!(
-        o,
-        "    (fp_text reference \"{REFDES}\" (at 0 0) (layer \"F.Fab\")\n      (effects (font (size 1 1) (thickness 0.15)))\n    )"
-    );
-    let _ = writeln!(
-        o,
-        "    (fp_text value {} (at 0 2) (layer \"F.Fab\")\n      (effects (font (size 1 1) (thickness 0.15)))\n    )",
-        quote(&stem)
-    );
-    for p in &layout.pads {
-        // Spare tail fingers ("3" on) are on no net.
-        let net = match p.name.as_str() {
-            "1" => format!(" (net 1 {})", quote(NET_1)),
-            "2" => format!(" (net 2 {})", quote(NET_2)),
-            _ => String::new(),
-        };
-        let _ = writeln!(o, "    {}", terminal_pad(p, Frame::LOCAL, &net));
-    }
+    terminals_body(&mut o, &stem, layout, true);
     let _ = writeln!(o, "  )");
 
     for s in &layout.outline.segments {

@@ -166,6 +166,12 @@ pub fn kicad_files(
         bytes: kicad::footprint(design, layout)?,
     });
     files.push(OutFile {
+        path: kicad::terminals_file_name(&stem),
+        role: "kicad 6 footprint: the board's terminal pads alone (the board's coil is tracks)"
+            .into(),
+        bytes: kicad::terminals_footprint(design, layout)?,
+    });
+    files.push(OutFile {
         path: kicad::board_file_name(&stem),
         role: "kicad 6 board: coil as tracks and vias".into(),
         bytes: kicad::board(design, layout)?,

@@ -89,7 +89,9 @@ def symbol(d):
     if pins != ["1", "2"]:
         fail("kiutils", f"symbol pins {pins}, expected ['1', '2']")
     props = {p.key: p.value for p in sym.properties}
-    mods = glob.glob(os.path.join(kdir, "*.pretty", "*.kicad_mod"))
+    # The coil's footprint; `<name>_terminals` holds the board's pads.
+    mods = [m for m in glob.glob(os.path.join(kdir, "*.pretty", "*.kicad_mod"))
+            if not m.endswith("_terminals.kicad_mod")]
     fp = Footprint().from_file(mods[0])
     fp_name = os.path.basename(mods[0])[: -len(".kicad_mod")]
     if props.get("Footprint") != f"coilwright:{fp_name}":

@@ -104,7 +104,10 @@ def footprint(d):
         fail(f"expected one .pretty library, found {libs}")
         return
     lib = os.path.abspath(libs[0])
-    mods = glob.glob(os.path.join(lib, "*.kicad_mod"))
+    # The coil's footprint; `<name>_terminals` holds the board's pads
+    # (checked against the board's copy in `board`).
+    mods = [m for m in glob.glob(os.path.join(lib, "*.kicad_mod"))
+            if not m.endswith("_terminals.kicad_mod")]
     name = os.path.basename(mods[0])[: -len(".kicad_mod")]
     fp = pcbnew.FootprintLoad(lib, name)
     if fp is None:
@@ -243,6 +246,26 @@ def board(d):
             mid = (pcbnew.ToMM(m.x), pcbnew.ToMM(m.y))
             if not any(math.dist(mid, x) < 0.002 for x in mids):
                 fail(f"track arc mid {mid} is not on the layout's arc")
+    # The board's terminals footprint resolves in the generated library
+    # (nickname "coilwright" in fp-lib-table): KiCad loads it from there
+    # with the same pads at the same places as the board's copy.
+    fps = list(b.GetFootprints())
+    if len(fps) != 1:
+        fail(f"board has {len(fps)} footprints, expected the terminals")
+        return
+    fpid = fps[0].GetFPID()
+    nick, item = str(fpid.GetLibNickname()), str(fpid.GetLibItemName())
+    libs = glob.glob(os.path.join(d, "kicad", "*.pretty"))
+    lib_fp = pcbnew.FootprintLoad(os.path.abspath(libs[0]), item) if libs else None
+    if nick != "coilwright" or lib_fp is None:
+        fail(f"board footprint {nick}:{item} is not in the generated library")
+        return
+    at = fps[0].GetPosition()
+    def pads(fp, origin):
+        return sorted((p.GetNumber(), round(pcbnew.ToMM(p.GetPosition().x - origin.x), 4),
+                       round(pcbnew.ToMM(p.GetPosition().y - origin.y), 4)) for p in fp.Pads())
+    if pads(fps[0], at) != pads(lib_fp, lib_fp.GetPosition()):
+        fail(f"board terminals {pads(fps[0], at)} differ from the library's {pads(lib_fp, lib_fp.GetPosition())}")
     boards = glob.glob(os.path.join(d, "kicad", "*.kicad_pcb"))
     with open(boards[0]) as f:
         btext = f.read()
