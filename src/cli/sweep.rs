@@ -350,13 +350,8 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
         );
     }
     let refined = if a.refine && complete && summary.best.is_some() {
-        let starts: Vec<usize> = summary
-            .top
-            .iter()
-            .take(explore::REFINE_STARTS)
-            .map(|t| t.0)
-            .collect();
-        let r = sweep.refine(&starts, |t| evaluate(&base, t), explore::REFINE_EVALUATIONS);
+        let starts = &summary.top[..explore::REFINE_STARTS.min(summary.top.len())];
+        let r = sweep.refine(starts, |t| evaluate(&base, t), explore::REFINE_EVALUATIONS);
         text.push_str(&refine_text(r.as_ref(), &summary.objective));
         r
     } else {

@@ -251,15 +251,15 @@ impl Sweep {
             .collect()
     }
 
-    /// Refines the grid candidates `starts` (best first; each must meet
-    /// every requirement) over the continuous keys with [`nelder_mead`],
+    /// Refines the grid candidates `starts` (index and candidate as the
+    /// sweep judged it, best first; each must meet every requirement) over the continuous keys with [`nelder_mead`],
     /// at most `evaluations` evaluations each, in parallel. `None` when
     /// there is no continuous key or no start. The result is the best
     /// design found, which is the best start itself when no search improved
     /// on it.
     pub fn refine(
         &self,
-        starts: &[usize],
+        starts: &[(usize, Candidate)],
         eval: impl Fn(&str) -> Evaluation + Sync,
         evaluations: usize,
     ) -> Option<Refinement> {
@@ -293,11 +293,10 @@ impl Sweep {
             }
             Some((table, params))
         };
-        let grid = self.candidate(starts[0], &eval);
-        let grid_value = score(&grid);
+        let grid_value = score(&starts[0].1);
         let runs: Vec<(f64, usize, toml::Table, Candidate, usize)> = starts
             .par_iter()
-            .filter_map(|&i| {
+            .filter_map(|&(i, _)| {
                 let choice = self.choice(i);
                 let x0: Vec<f64> = axes
                     .iter()
@@ -436,8 +435,8 @@ mod tests {
         )
         .unwrap();
         let summary = s.summarise(fake);
-        let starts: Vec<usize> = summary.top.iter().take(STARTS).map(|t| t.0).collect();
-        let r = s.refine(&starts, fake, EVALUATIONS).unwrap();
+        let starts = &summary.top[..STARTS.min(summary.top.len())];
+        let r = s.refine(starts, fake, EVALUATIONS).unwrap();
         assert_eq!(r.keys, ["coil.trace_width", "coil.turns"]);
         let (w, n) = (number(&r.table, "trace_width"), number(&r.table, "turns"));
         assert!((w - 0.137).abs() < 1e-3, "width {w}");

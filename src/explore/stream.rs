@@ -277,9 +277,9 @@ pub struct Tally {
     /// Per axis: the first settled value among analysed candidates, and
     /// whether another differed.
     varies: Vec<(Option<f64>, bool)>,
-    /// Front members' records (by index), for the front table and plot.
-    records: BTreeMap<usize, Dot>,
-    front_rows: BTreeMap<usize, Candidate>,
+    /// Front members (by index): their plot dot and row, for the front
+    /// table and the plot.
+    members: BTreeMap<usize, (Dot, Candidate)>,
     dots: Vec<Dot>,
     step: usize,
     analysed: usize,
@@ -353,8 +353,7 @@ impl Tally {
             evaluated: 0,
             top: Vec::new(),
             misses: Vec::new(),
-            records: BTreeMap::new(),
-            front_rows: BTreeMap::new(),
+            members: BTreeMap::new(),
             dots: Vec::new(),
             step: 1,
             analysed: 0,
@@ -426,18 +425,16 @@ impl Tally {
                 member |= f.points.iter().any(|p| p.2 == index);
             }
             if member {
-                self.records.insert(index, dot.clone());
-                self.front_rows.insert(index, c.clone());
+                self.members.insert(index, (dot.clone(), c.clone()));
             }
-            // Forget records no front holds any more.
-            if self.records.len() > 4 * self.fronts.len() + 64 {
+            // Forget members no front holds any more.
+            if self.members.len() > 4 * self.fronts.len() + 64 {
                 let held: std::collections::BTreeSet<usize> = self
                     .fronts
                     .iter()
                     .flat_map(|f| f.points.iter().map(|p| p.2))
                     .collect();
-                self.records.retain(|i, _| held.contains(i));
-                self.front_rows.retain(|i, _| held.contains(i));
+                self.members.retain(|i, _| held.contains(i));
             }
         }
         self.analysed += 1;
@@ -466,8 +463,7 @@ impl Tally {
         let unturn = |v: f64, max: bool| if max { -v } else { v };
         let y_max = self.objective.maximize;
         // The exact front of the kept points on the chosen axis.
-        let pts: Vec<(f64, f64, usize)> = self.fronts[axis].points.clone();
-        let mut pts = pts;
+        let mut pts = self.fronts[axis].points.clone();
         pts.sort_by_key(|p| p.2);
         let xy: Vec<(f64, f64)> = pts.iter().map(|p| (p.0, p.1)).collect();
         let on_front: Vec<usize> = front(&xy, false, false)
@@ -477,7 +473,7 @@ impl Tally {
         let front_rows: Vec<(usize, Candidate)> = on_front
             .iter()
             .filter_map(|i| {
-                let mut c = self.front_rows.get(i)?.clone();
+                let mut c = self.members.get(i)?.1.clone();
                 c.pareto = true;
                 Some((*i, c))
             })
@@ -496,7 +492,7 @@ impl Tally {
         // Plot: thinned dots, plus the front and the best, by index.
         let mut dots: BTreeMap<usize, Dot> = self.dots.into_iter().map(|d| (d.index, d)).collect();
         for i in on_front.iter().chain(best.iter()) {
-            if let Some(d) = self.records.get(i) {
+            if let Some((d, _)) = self.members.get(i) {
                 dots.insert(*i, d.clone());
             }
         }
@@ -606,13 +602,8 @@ mod tests {
     fn the_streamed_front_is_the_front_of_all_points() {
         // Pseudo-random points with many ties; the incremental front then
         // `front` equals `front` over every point.
-        let mut seed = 12345u64;
-        let mut next = || {
-            seed = seed
-                .wrapping_mul(6364136223846793005)
-                .wrapping_add(1442695040888963407);
-            ((seed >> 33) % 20) as f64
-        };
+        let mut rnd = crate::numeric::test_uniform(12345);
+        let mut next = || (rnd() * 20.0).floor();
         for _ in 0..50 {
             let pts: Vec<(f64, f64)> = (0..200).map(|_| (next(), next())).collect();
             let mut f = Front::default();

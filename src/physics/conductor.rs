@@ -106,20 +106,22 @@ impl Conductor {
                 .sum();
             if r > 0.0 { 1.0 / r } else { 0.0 }
         };
+        let g: Vec<f64> = layout.windings.iter().map(conductance).collect();
         let mut pieces = Vec::new();
-        for w in &layout.windings {
+        for (i, w) in layout.windings.iter().enumerate() {
             let share = match layout.wiring {
                 Wiring::Series => 1.0,
                 Wiring::ParallelPairs => {
                     let group: Vec<f64> = layout
                         .windings
                         .iter()
-                        .filter(|o| o.group == w.group)
-                        .map(conductance)
+                        .zip(&g)
+                        .filter(|(o, _)| o.group == w.group)
+                        .map(|(_, &x)| x)
                         .collect();
                     let sum: f64 = group.iter().sum();
                     if sum > 0.0 {
-                        conductance(w) / sum
+                        g[i] / sum
                     } else {
                         1.0 / group.len().max(1) as f64
                     }

@@ -107,13 +107,7 @@ mod tests {
     fn swept_angle_closed_form_matches_stepping() {
         // Arcs with the axis inside, outside and near the circle, against
         // the sum of the angles of 20,000 small steps along the arc.
-        let mut seed = 7u64;
-        let mut rnd = || {
-            seed = seed
-                .wrapping_mul(6364136223846793005)
-                .wrapping_add(1442695040888963407);
-            (seed >> 11) as f64 / (1u64 << 53) as f64
-        };
+        let mut rnd = crate::numeric::test_uniform(7);
         for _ in 0..300 {
             let c = Point::new(4.0 * rnd() - 2.0, 4.0 * rnd() - 2.0);
             let r = 0.05 + 3.0 * rnd();

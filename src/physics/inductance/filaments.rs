@@ -90,7 +90,7 @@ fn straight_pair(p: &Filament, q: &Filament) -> f64 {
     // half lengths): two-point Gauss-Legendre along both, no logarithms.
     // The rule's error for int dl / r along a piece of length L at
     // distance d is about (L/d)^4 / 180 of the integral (the remainder
-    // L^5 f/4320 with f ~ 24/d^5; Abramowitz & Stegun 25.4.30), so
+    // L^5 f''''/4320 with f'''' ~ 24/d^5; Abramowitz & Stegun 25.4.30), so
     // at most 3e-5 per dimension at 4 L, and the far pairs' share of the
     // sum is small: the examples' inductances moved by at most 3.2e-7
     // against the exact line integral along one piece.
@@ -99,23 +99,19 @@ fn straight_pair(p: &Filament, q: &Filament) -> f64 {
         (p.a[1] + p.b[1]) / 2.0,
         (p.a[2] + p.b[2]) / 2.0,
     ];
-    let qm0 = [
+    let qm = [
         (q.a[0] + q.b[0]) / 2.0,
         (q.a[1] + q.b[1]) / 2.0,
         (q.a[2] + q.b[2]) / 2.0,
     ];
     let lmax = lp.max(lq);
-    if norm(sub(qm0, pm)) - (lp + lq) / 2.0 > FAR_RATIO * lmax {
+    if norm(sub(qm, pm)) - (lp + lq) / 2.0 > FAR_RATIO * lmax {
         let h = 0.5 / 3f64.sqrt();
         let mut sum = 0.0;
         for sp in [-h, h] {
             let a = [pm[0] + dp[0] * sp, pm[1] + dp[1] * sp, pm[2] + dp[2] * sp];
             for sq in [-h, h] {
-                let b = [
-                    qm0[0] + dq[0] * sq,
-                    qm0[1] + dq[1] * sq,
-                    qm0[2] + dq[2] * sq,
-                ];
+                let b = [qm[0] + dq[0] * sq, qm[1] + dq[1] * sq, qm[2] + dq[2] * sq];
                 sum += 1.0 / norm(sub(a, b));
             }
         }
@@ -124,11 +120,6 @@ fn straight_pair(p: &Filament, q: &Filament) -> f64 {
     let cross = up[0] * uq[1] - up[1] * uq[0];
     // In-plane normal of p, lateral and vertical offset of q's middle.
     let n = [-up[1], up[0], 0.0];
-    let qm = [
-        (q.a[0] + q.b[0]) / 2.0,
-        (q.a[1] + q.b[1]) / 2.0,
-        (q.a[2] + q.b[2]) / 2.0,
-    ];
     let rel = sub(qm, p.a);
     let lat = dot(rel, n);
     let dz = q.a[2] - p.a[2];
@@ -312,13 +303,7 @@ mod tests {
     /// beyond FAR_RATIO lengths, any orientation.
     #[test]
     fn far_pairs_keep_their_accuracy() {
-        let mut seed = 7u64;
-        let mut rnd = || {
-            seed = seed
-                .wrapping_mul(6364136223846793005)
-                .wrapping_add(1442695040888963407);
-            (seed >> 11) as f64 / (1u64 << 53) as f64
-        };
+        let mut rnd = crate::numeric::test_uniform(7);
         let fil = |a: [f64; 3], b: [f64; 3]| Filament {
             a,
             b,
