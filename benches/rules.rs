@@ -4,10 +4,12 @@
 //! segments and the turns; about a hundred times the copper length); and
 //! the growth with the turn count of an 8-layer hexagon with sharp corners
 //! (100, 200, 400 and 1000 turns) and of a long rectangle, whose straight
-//! sides the index measures with the layer's own gauge.
+//! sides the index measures with the layer's own gauge; and what the
+//! `check` command does for the 1000-turn hexagon (rules and limits).
 
 use coilwright::design::Design;
 use coilwright::geometry::{self, Arc, Board, Segment};
+use coilwright::physics;
 use coilwright::rules::{self, Profile};
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
@@ -89,6 +91,18 @@ fn bench(c: &mut Criterion) {
         g.bench_function(format!("check 8 layers x {turns} turns hexagon"), |b| {
             b.iter(|| rules::check(black_box(&d), black_box(&l), &profile))
         });
+        if turns == 1000 {
+            // What `coilwright check` does after the build: the rules and
+            // the design's limits (Detail::Limits: no inductance for a
+            // steady drive).
+            g.bench_function("check command 8 layers x 1000 turns hexagon", |b| {
+                b.iter(|| {
+                    let v = rules::check(black_box(&d), black_box(&l), &profile);
+                    let a = physics::analyse_with(&d, &l, physics::Detail::Limits);
+                    (v, a.expect("analysis").thermal.temperature_c)
+                })
+            });
+        }
     }
     let (d, l) = polygon_coil(
         "shape = \"rectangle\"\nwidth = \"200mm\"\nheight = \"130mm\"",

@@ -39,7 +39,7 @@ pub fn run(spec: &Path, json: bool, svg: Option<&Path>, force: bool) -> Result<E
     };
     // The design's own limits (max_temperature at the drive) are checked
     // with the rules: exceeding them is a problem of the design.
-    let analysis = pipeline::analysis(&checked)?;
+    let analysis = pipeline::limits(&checked)?;
     let cautions = &analysis.cautions;
     let over_limits = cautions.iter().any(Caution::is_limit);
     if json {

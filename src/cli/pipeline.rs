@@ -199,6 +199,18 @@ fn checked(loaded: Loaded, layout: Board) -> Result<Checked, Failure> {
     })
 }
 
+/// What `check` needs of the analysis: the design's limits and every
+/// caution ([`physics::Detail::Limits`]).
+pub fn limits(checked: &Checked) -> Result<Analysis, Failure> {
+    physics::analyse_with(
+        &checked.loaded.design,
+        &checked.layout,
+        physics::Detail::Limits,
+    )
+    .with_context(|| format!("cannot analyse {}", checked.loaded.path.display()))
+    .map_err(Failure::from)
+}
+
 /// The engineering analysis of a checked design.
 pub fn analysis(checked: &Checked) -> Result<Analysis, Failure> {
     physics::analyse(&checked.loaded.design, &checked.layout)

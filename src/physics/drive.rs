@@ -164,21 +164,43 @@ impl Wave {
     /// Average power in a coil of resistance `r` (ohm) and inductance `l`
     /// (H), W: `r` times the square of the RMS current.
     pub fn power(&self, r: f64, l: f64) -> f64 {
+        match self.power_without_inductance(r) {
+            Some(p) => p,
+            None => {
+                let p = self.solve(r, l);
+                r * p.rms() * p.rms()
+            }
+        }
+    }
+
+    /// Whether the average power, the heating or the drive's limits
+    /// depend on the coil's inductance: only a steady drive's do not (a
+    /// current source imposes its waveform, but the limits also ask for
+    /// the largest voltage, which an inductance smooths).
+    pub fn power_needs_inductance(&self) -> bool {
+        [Source::Voltage(1.0), Source::Current(1.0)]
+            .into_iter()
+            .any(|source| {
+                Wave { source, ..*self }
+                    .power_without_inductance(1.0)
+                    .is_none()
+            })
+    }
+
+    /// The closed forms of [`Wave::power`] that need no inductance.
+    fn power_without_inductance(&self, r: f64) -> Option<f64> {
         let on = match self.source {
             Source::Voltage(v) => v * v / r,
             Source::Current(i) => i * i * r,
         };
         let d = self.duty.clamp(0.0, 1.0);
-        // Without inductance (or a current source) the closed forms.
         match (self.waveform, self.source) {
-            (Waveform::Dc, _) => return on,
-            (Waveform::Sine, Source::Current(_)) => return on / 2.0,
-            (Waveform::Square, Source::Current(_)) if self.bipolar => return on,
-            (Waveform::Square | Waveform::Pulse, Source::Current(_)) => return on * d,
-            _ => {}
+            (Waveform::Dc, _) => Some(on),
+            (Waveform::Sine, Source::Current(_)) => Some(on / 2.0),
+            (Waveform::Square, Source::Current(_)) if self.bipolar => Some(on),
+            (Waveform::Square | Waveform::Pulse, Source::Current(_)) => Some(on * d),
+            _ => None,
         }
-        let p = self.solve(r, l);
-        r * p.rms() * p.rms()
     }
 
     /// The current's Fourier components `n = 1, 2, ...` up to `n_max` as

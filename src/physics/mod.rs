@@ -116,6 +116,13 @@ pub enum Detail {
     /// none) and the field on coarser balanced filaments
     /// ([`FIELD_SAGITTA_METRICS`]). For sweeps.
     Metrics,
+    /// What `check` needs: every caution and limit, computed as for
+    /// [`Detail::Metrics`], but the inductance only when the drive's
+    /// power depends on it ([`drive::Wave::power_needs_inductance`]; a
+    /// steady drive's heating does not), and no impedance. The inductance
+    /// is the slowest sum of a large polygon coil (Neumann's formula over
+    /// all filament pairs), and the rule check is fast at any size.
+    Limits,
 }
 
 /// Analyses a layout of a design.
@@ -140,7 +147,12 @@ pub fn analyse_with(
     let cond = Conductor::new(design, layout);
     let mut found = Findings::default();
     let resistance = resistance::resistance(design, layout, &cond);
-    let inductance = inductance::analyse(design, layout, &cond, detail);
+    let inductance =
+        if detail == Detail::Limits && !drive::Wave::of(&design.drive).power_needs_inductance() {
+            InductanceReport::not_computed()
+        } else {
+            inductance::analyse(design, layout, &cond, detail)
+        };
     let circuit = (resistance.total_ohm_20c, inductance.inductance_h);
     let thermal = thermal::analyse(design, layout, &cond, circuit, &mut found);
     let field = field::analyse(design, layout, &cond, detail, thermal.current_a);
@@ -148,8 +160,11 @@ pub fn analyse_with(
         let drive = (thermal.current_a, thermal.power_w);
         magnet::analyse(design, &mg, &cond, detail, drive, &mut found)
     });
-    let impedance =
-        impedance::analyse(design, &cond, inductance.inductance_h, &thermal, &mut found);
+    let impedance = if detail == Detail::Limits {
+        None
+    } else {
+        impedance::analyse(design, &cond, inductance.inductance_h, &thermal, &mut found)
+    };
     let mechanics = mechanics::analyse(design, &mut found);
     let full = detail == Detail::Full;
     let drive = drive::analyse(
@@ -163,7 +178,9 @@ pub fn analyse_with(
     let fin = magnet
         .as_ref()
         .and_then(|mr| fin::analyse(design, layout, &cond, mr, &drive, full, &mut found));
-    found.note(inductance.method_note());
+    if inductance.method != inductance::InductanceMethod::NotComputed {
+        found.note(inductance.method_note());
+    }
     found.note(resistance::VIAS_NOTE);
     found.note(thermal::LUMPED_NOTE);
     Ok(Analysis {

@@ -82,3 +82,35 @@ fn every_starter_is_an_example_and_is_sound() {
         );
     }
 }
+
+/// `check` computes the design's limits with `Detail::Limits` (no
+/// inductance for a steady drive): its cautions, limits and operating
+/// point are those of the full analysis for every example, also with a
+/// square-wave voltage drive, where the heating depends on the inductance.
+#[test]
+fn check_limits_equal_the_full_analysis() {
+    use coilwright::design::Waveform;
+    use coilwright::physics::{Detail, analyse_with};
+    for name in crate::common::entries(std::path::Path::new("examples")) {
+        if !name.ends_with(".toml") {
+            continue;
+        }
+        let text = std::fs::read_to_string(format!("examples/{name}")).unwrap();
+        let (d, l) = coilwright::pipeline::parse_and_build(&text).unwrap();
+        let mut square = d.clone();
+        square.drive.waveform = Waveform::Square;
+        square.drive.frequency = Some(50.0);
+        for (what, d) in [("as given", &d), ("square", &square)] {
+            let full = analyse_with(d, &l, Detail::Full).unwrap();
+            let limits = analyse_with(d, &l, Detail::Limits).unwrap();
+            let texts = |a: &coilwright::physics::Analysis| -> Vec<String> {
+                a.cautions.iter().map(|c| c.to_string()).collect()
+            };
+            assert_eq!(texts(&full), texts(&limits), "{name} {what}");
+            let (t, u) = (&full.thermal, &limits.thermal);
+            assert_eq!(t.temperature_c, u.temperature_c, "{name} {what}");
+            assert_eq!(t.max_current_a, u.max_current_a, "{name} {what}");
+            assert_eq!(t.max_voltage_v, u.max_voltage_v, "{name} {what}");
+        }
+    }
+}

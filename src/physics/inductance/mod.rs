@@ -48,6 +48,9 @@ pub enum InductanceMethod {
     MaxwellRings,
     /// Straight filaments with Neumann's formula.
     NeumannFilaments,
+    /// Not computed: [`Detail::Limits`] for a drive whose heating does not
+    /// depend on the inductance.
+    NotComputed,
 }
 
 /// Relative chord sagitta for flattening arcs in the Neumann method.
@@ -143,6 +146,24 @@ pub const ESTIMATE_INCLUDES: &str =
     "one layer's winding only (n concentric turns, no leads, no vias)";
 
 impl InductanceReport {
+    /// The report of an inductance left out ([`Detail::Limits`]): every
+    /// value zero, no estimates.
+    pub fn not_computed() -> InductanceReport {
+        InductanceReport {
+            inductance_h: 0.0,
+            method: InductanceMethod::NotComputed,
+            single_layer_h: 0.0,
+            winding_h: None,
+            single_layer_winding_h: None,
+            mohan_modified_wheeler_h: None,
+            mohan_current_sheet_h: None,
+            wheeler_1928_h: None,
+            d_out_mm: 0.0,
+            d_in_mm: 0.0,
+            estimates: vec![],
+        }
+    }
+
     /// The analysis note that says how the inductance was computed.
     pub fn method_note(&self) -> String {
         format!(
@@ -152,6 +173,7 @@ impl InductanceReport {
                     "coaxial rings with Maxwell's formula (each turn as one loop at its mean radius, partial turns as fractions)",
                 InductanceMethod::NeumannFilaments =>
                     "Neumann's formula on straight filaments along the conductor",
+                InductanceMethod::NotComputed => "nothing (not needed for this drive's limits)",
             }
         )
     }
