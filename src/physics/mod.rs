@@ -38,6 +38,7 @@ mod analysis;
 pub mod caution;
 pub mod closed_forms;
 pub mod conductor;
+pub mod coupling;
 pub mod drive;
 pub mod field;
 pub mod fin;

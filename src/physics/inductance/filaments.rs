@@ -293,6 +293,23 @@ pub fn filaments_inductances(f: &[Filament], leads_apart: bool) -> FilamentInduc
     }
 }
 
+/// Mutual inductance of two sets of straight filaments by Neumann's
+/// formula, henry: every pair of one filament of `a` and one of `b`,
+/// weighted by both shares of the current, with the same pair integral
+/// (and so the same GMD correction for close, nearly parallel pieces and
+/// the same far-pair rule) as [`filaments_inductance`]. The sign follows
+/// the filaments' directions (current entering each set's first filament).
+pub fn filaments_mutual(a: &[Filament], b: &[Filament]) -> f64 {
+    let rows = crate::physics::map_indices(a.len(), |i| {
+        let p = &a[i];
+        b.iter()
+            .map(|q| p.weight * q.weight * straight_pair(p, q))
+            .sum::<f64>()
+    });
+    // Summed in a fixed order: the same inputs give the same bits.
+    MU0 / (4.0 * PI) * rows.iter().sum::<f64>()
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;

@@ -24,7 +24,9 @@
 pub mod filaments;
 pub mod rings;
 
-pub use filaments::{FilamentInductances, filaments_inductance, filaments_inductances};
+pub use filaments::{
+    FilamentInductances, filaments_inductance, filaments_inductances, filaments_mutual,
+};
 pub(super) use rings::maxwell_8;
 pub use rings::{maxwell_mutual, maxwell_mutual_8, rings_inductance, rings_mutual};
 
