@@ -63,7 +63,13 @@ fn frequency(text: &str) -> Result<f64, Failure> {
         Ok(v) => Frequency::from_number(v),
         Err(_) => Frequency::from_text(t),
     }
-    .map_err(|e| bad("--frequency", text, format!("{}; give {}", e.message, e.allowed)))?
+    .map_err(|e| {
+        bad(
+            "--frequency",
+            text,
+            format!("{}; give {}", e.message, e.allowed),
+        )
+    })?
     .hertz();
     if f <= 0.0 {
         return Err(bad(

@@ -217,7 +217,12 @@ pub enum Command {
         #[arg(long, value_name = "LENGTH", allow_hyphen_values = true)]
         gap: String,
         /// Lateral offset of B's centre from A's, e.g. 1mm.
-        #[arg(long, value_name = "LENGTH", default_value = "0", allow_hyphen_values = true)]
+        #[arg(
+            long,
+            value_name = "LENGTH",
+            default_value = "0",
+            allow_hyphen_values = true
+        )]
         offset: String,
         /// Frequency of the link, e.g. 6.78MHz: gives each coil's Q, the
         /// best link efficiency and its load.

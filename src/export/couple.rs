@@ -105,12 +105,21 @@ fn series(points: &[CurvePoint]) -> Vec<(f64, f64)> {
 /// The coupling against gap (at the offset), SVG.
 pub fn gap_plot(r: &CouplingReport) -> String {
     line_plot(
-        &format!("Coupling of {} and {} against gap", r.coil_a.name, r.coil_b.name),
-        &format!("gap between the facing copper, mm (offset {})", format_mm(r.offset_mm)),
+        &format!(
+            "Coupling of {} and {} against gap",
+            r.coil_a.name, r.coil_b.name
+        ),
+        &format!(
+            "gap between the facing copper, mm (offset {})",
+            format_mm(r.offset_mm)
+        ),
         "coupling k",
         &[("k", series(&r.against_gap))],
-        &[Marker::new(r.gap_mm, format!("gap {}\nk = {:.3}", format_mm(r.gap_mm), r.coupling))
-            .with_point(r.coupling)],
+        &[Marker::new(
+            r.gap_mm,
+            format!("gap {}\nk = {:.3}", format_mm(r.gap_mm), r.coupling),
+        )
+        .with_point(r.coupling)],
     )
 }
 

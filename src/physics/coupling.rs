@@ -457,7 +457,11 @@ mod tests {
     fn coaxial_loops_match_maxwell() {
         let n = 2000;
         let grow = (2.0 * PI / n as f64 / (2.0 * PI / n as f64).sin()).sqrt();
-        for (a, b, d) in [(0.01, 0.01, 0.001), (0.01, 0.005, 0.002), (0.02, 0.015, 0.01)] {
+        for (a, b, d) in [
+            (0.01, 0.01, 0.001),
+            (0.01, 0.005, 0.002),
+            (0.02, 0.015, 0.01),
+        ] {
             let pa = polygon_loop(a * grow, 0.0, n, 0.0);
             let pb = polygon_loop(b * grow, d, n, 0.0);
             let ours = filaments_mutual(&pa, &pb);
