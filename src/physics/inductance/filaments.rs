@@ -57,13 +57,21 @@ fn line_potential(p: [f64; 3], qa: [f64; 3], u: [f64; 3], len: f64) -> f64 {
     }
 }
 
+/// A straight piece: start, unit direction, length (m).
+#[derive(Debug, Clone, Copy)]
+struct Line {
+    a: [f64; 3],
+    u: [f64; 3],
+    len: f64,
+}
+
 /// Smallest `|sin|` of the angle between two pieces for which
 /// [`skew_integral`] replaces quadrature (below it the feet of the common
 /// perpendicular run far beyond the pieces and its four terms cancel).
 const SKEW: f64 = 0.2;
 
 /// `int int ds dt / r` of two straight horizontal filaments that are not
-/// parallel (`cross = up x uq`, `c = up . uq`), in closed form: with `s`, `t`
+/// parallel, in closed form: with `s`, `t`
 /// measured along each line from the feet of their common perpendicular
 /// (of length `d`, vertical here) and `r^2 = s^2 + t^2 - 2 s t c + d^2`,
 /// `F(s, t) = s ln(t - s c + r) + t ln(s - t c + r)
@@ -74,16 +82,11 @@ const SKEW: f64 = 0.2;
 /// corners of the parameter rectangle. Each logarithm's argument is taken
 /// in the form free of cancellation (`a + r = (r^2 - a^2) / (r - a)` for
 /// `a < 0`), and `x ln x -> 0` where pieces share an end.
-fn skew_integral(
-    pa: [f64; 3],
-    up: [f64; 3],
-    lp: f64,
-    qa: [f64; 3],
-    uq: [f64; 3],
-    lq: f64,
-    cross: f64,
-    c: f64,
-) -> f64 {
+fn skew_integral(p: Line, q: Line) -> f64 {
+    let (pa, up, lp) = (p.a, p.u, p.len);
+    let (qa, uq, lq) = (q.a, q.u, q.len);
+    let cross = up[0] * uq[1] - up[1] * uq[0];
+    let c = dot(up, uq);
     let w = [qa[0] - pa[0], qa[1] - pa[1]];
     // Feet of the common perpendicular along each line (the projected
     // lines' crossing): s up - t uq = w.
@@ -232,7 +235,18 @@ fn straight_pair(p: &Filament, q: &Filament) -> f64 {
         .min(point_seg(qa3, p.a, p.b))
         .min(point_seg(qb3, p.a, p.b));
     if cross.abs() >= SKEW && dmin <= lmax && shift == 0.0 {
-        return c * skew_integral(p.a, up, lp, qa, uq, lq, cross, c);
+        return c * skew_integral(
+            Line {
+                a: p.a,
+                u: up,
+                len: lp,
+            },
+            Line {
+                a: qa,
+                u: uq,
+                len: lq,
+            },
+        );
     }
     let order = if dmin > 4.0 * lmax {
         2
@@ -632,16 +646,21 @@ mod tests {
         // p runs over s = -1..2 and q over t = 0.5..3 from the feet at the
         // origin (q passes over it half a unit before its start).
         let shifted = skew_integral(
-            [-1.0, 0.0, 0.0],
-            [1.0, 0.0, 0.0],
-            3.0,
-            [0.25, 3f64.sqrt() / 4.0, 0.3],
-            [0.5, 3f64.sqrt() / 2.0, 0.0],
-            2.5,
-            3f64.sqrt() / 2.0,
-            0.5,
+            Line {
+                a: [-1.0, 0.0, 0.0],
+                u: [1.0, 0.0, 0.0],
+                len: 3.0,
+            },
+            Line {
+                a: [0.25, 3f64.sqrt() / 4.0, 0.3],
+                u: [0.5, 3f64.sqrt() / 2.0, 0.0],
+                len: 2.5,
+            },
         );
-        assert!((shifted / 4.702251337418946 - 1.0).abs() < 1e-13, "{shifted}");
+        assert!(
+            (shifted / 4.702251337418946 - 1.0).abs() < 1e-13,
+            "{shifted}"
+        );
         let mut rnd = crate::numeric::test_uniform(11);
         for _ in 0..300 {
             let ang = |r: f64| r * std::f64::consts::TAU;
@@ -655,12 +674,26 @@ mod tests {
             let lp = 0.2 + rnd();
             let lq = 0.2 + rnd();
             let qa = [2.0 * rnd() - 1.0, 2.0 * rnd() - 1.0, 0.2 * rnd()];
-            let v = skew_integral([0.0; 3], up, lp, qa, uq, lq, cross, dot(up, uq));
+            let v = skew_integral(
+                Line {
+                    a: [0.0; 3],
+                    u: up,
+                    len: lp,
+                },
+                Line {
+                    a: qa,
+                    u: uq,
+                    len: lq,
+                },
+            );
             let (x, w) = rule(48);
             let panels = 16;
             let mut exact = 0.0;
             for k in 0..panels {
-                let (a, b) = (lp * k as f64 / panels as f64, lp * (k + 1) as f64 / panels as f64);
+                let (a, b) = (
+                    lp * k as f64 / panels as f64,
+                    lp * (k + 1) as f64 / panels as f64,
+                );
                 let (h, m) = ((b - a) / 2.0, (a + b) / 2.0);
                 for (x, w) in x.iter().zip(w) {
                     let t = m + h * x;
