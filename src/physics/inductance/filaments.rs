@@ -1,8 +1,11 @@
 //! Straight filaments (polygon and rectangle coils): Neumann's double line
-//! integral, in closed form for parallel pieces and with the inner
-//! integral in closed form and the outer one by Gauss-Legendre quadrature
-//! otherwise, with the geometric mean distance of the sections for close
-//! pieces.
+//! integral, in closed form for parallel pieces and for pieces at an angle
+//! of more than about 11.5 degrees that are close, with the inner integral
+//! in closed form and the outer one by Gauss-Legendre quadrature otherwise
+//! (a two-point rule along both for far pairs), with the geometric mean
+//! distance of the sections for close, nearly parallel pieces. The coil's
+//! sums go by blocks of filaments so that the repeated layers of a coil are
+//! summed once ([`filaments_inductances`]).
 
 use super::NEAR;
 use crate::numeric::quadrature::rule;
