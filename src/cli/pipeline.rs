@@ -47,7 +47,7 @@ pub fn load(path: &Path) -> Result<Loaded, Failure> {
 
 /// Reads and validates a design file, keeping the copper that validation
 /// built.
-fn load_and_build(path: &Path) -> Result<(Loaded, Board), Failure> {
+pub(crate) fn load_and_build(path: &Path) -> Result<(Loaded, Board), Failure> {
     let text = std::fs::read_to_string(path)
         .with_context(|| format!("cannot read design file {}", path.display()))?;
     build_text(path, text)

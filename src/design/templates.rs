@@ -60,6 +60,16 @@ const TEMPLATES: &[Template] = &[
         description: "rigid 2-layer circular coil in water that kicks a bath-toy paddle with 0.4 s pulses of 1.2 A",
         text: include_str!("../../examples/bath-paddle.toml"),
     },
+    Template {
+        name: "puck-transmit",
+        description: "rigid 2-layer circular transmit coil of a 6.78 MHz charging puck for a garden sensor (pairs with puck-receive)",
+        text: include_str!("../../examples/puck-transmit.toml"),
+    },
+    Template {
+        name: "puck-receive",
+        description: "rigid 2-layer circular receive coil in the garden sensor's stake, charged by puck-transmit",
+        text: include_str!("../../examples/puck-receive.toml"),
+    },
 ];
 
 /// The starter designs, in `--list` order.

@@ -2,6 +2,7 @@
 //! never compute geometry; coordinates go through
 //! [`crate::geometry::round`].
 
+pub mod couple;
 pub mod dxf;
 pub mod excellon;
 pub mod font;

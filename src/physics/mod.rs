@@ -15,7 +15,8 @@
 //! [`Analysis`] is made of their reports; the phases add [`Caution`]s and
 //! notes to one [`Findings`]. Beside them: [`conductor`] (the layout as
 //! current paths in SI units), [`gmd`] (geometric mean distances),
-//! [`closed_forms`] (published formulas used as cross-checks) and the one
+//! [`closed_forms`] (published formulas used as cross-checks), [`coupling`]
+//! (two coils across a gap, for `coilwright couple`) and the one
 //! SIMD module (vector paths, CPU detection once). Root finding,
 //! quadrature and elliptic integrals are in [`crate::numeric`].
 //!
@@ -30,6 +31,10 @@
 //!   concentric rings, 1.1 % of Mohan's current sheet, 2.2 % of Wheeler 1928;
 //!   square coil within 0.6 % / 1.7 % of Mohan's current sheet / modified
 //!   Wheeler; Neumann filaments and Maxwell rings agree within 0.5 %.
+//! * Two coils: Neumann on loops within 1e-6 of Maxwell's formula, on
+//!   straight filaments of Grover's closed forms; spirals on real copper
+//!   within 0.3 % of a Maxwell sum over turns, and 0.2 % of magpylib's
+//!   flux (tests/suite/coupling.rs).
 //! * Force on a magnet: real conductor within 0.1 % of magpylib's cylinder
 //!   field; the coaxial-ring cross-check within 0.1 % for circles and 2 %
 //!   for hexagons (rectangles are far from circles: tens of percent).
@@ -38,6 +43,7 @@ mod analysis;
 pub mod caution;
 pub mod closed_forms;
 pub mod conductor;
+pub mod coupling;
 pub mod drive;
 pub mod field;
 pub mod fin;

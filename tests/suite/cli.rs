@@ -665,3 +665,167 @@ fn limits_are_enforced_by_check_and_build() {
     let o = run(dir.path(), &["check", "ok.toml"]);
     assert_eq!(o.status.code(), Some(0), "{}", stdout(&o));
 }
+
+/// `couple`'s bad arguments: each exits 2, names the argument, says what
+/// is wrong and writes nothing (no output folder).
+#[test]
+fn couple_bad_arguments_exit_2_name_the_argument_and_write_nothing() {
+    let dir = tempfile::tempdir().unwrap();
+    write_base(dir.path());
+    // A different design under the same name: both copies would be
+    // catalogue.toml in the output folder.
+    std::fs::write(
+        dir.path().join("other.toml"),
+        mutate("trace_width = \"0.1mm\"", "trace_width = \"0.12mm\""),
+    )
+    .unwrap();
+    let cases: &[(&str, &[&str], &str, &str)] = &[
+        ("gap zero", &["--gap", "0"], "--gap", "in contact"),
+        (
+            "gap negative",
+            &["--gap=-0.5mm"],
+            "--gap",
+            "overlap by 0.5 mm",
+        ),
+        (
+            "gap inside the covers",
+            &["--gap", "10um"],
+            "--gap",
+            "cover",
+        ),
+        (
+            "gap without a known unit",
+            &["--gap", "3furlong"],
+            "--gap",
+            "unknown length unit",
+        ),
+        (
+            "offset not a number",
+            &["--gap", "3mm", "--offset", "left"],
+            "--offset",
+            "number",
+        ),
+        (
+            "frequency zero",
+            &["--gap", "3mm", "--frequency", "0"],
+            "--frequency",
+            "above zero",
+        ),
+        (
+            "frequency negative",
+            &["--gap", "3mm", "--frequency=-1MHz"],
+            "--frequency",
+            "negative",
+        ),
+        (
+            "frequency millihertz",
+            &["--gap", "3mm", "--frequency", "6mHz"],
+            "--frequency",
+            "MHz",
+        ),
+        (
+            "unknown flag",
+            &["--gap", "3mm", "--gapp", "2mm"],
+            "--gapp",
+            "unexpected argument",
+        ),
+        ("gap missing", &[], "--gap", "required"),
+    ];
+    for (what, extra, arg, says) in cases {
+        let mut args = vec!["couple", "d.toml", "d.toml", "-o", "link"];
+        args.extend_from_slice(extra);
+        let o = run(dir.path(), &args);
+        let err = stderr(&o);
+        assert_eq!(o.status.code(), Some(2), "{what}: {err}");
+        assert!(err.contains(arg), "{what}: {arg} not named\n{err}");
+        assert!(err.contains(says), "{what}: `{says}` missing\n{err}");
+        assert_eq!(entries(dir.path()), vec!["d.toml", "other.toml"], "{what}");
+    }
+    let o = run(
+        dir.path(),
+        &[
+            "couple",
+            "d.toml",
+            "other.toml",
+            "--gap",
+            "3mm",
+            "-o",
+            "link",
+        ],
+    );
+    let err = stderr(&o);
+    assert_eq!(o.status.code(), Some(2), "{err}");
+    assert!(
+        err.contains("d.toml") && err.contains("other.toml"),
+        "{err}"
+    );
+    assert!(err.contains("same name `catalogue`"), "{err}");
+    assert_eq!(entries(dir.path()), vec!["d.toml", "other.toml"]);
+}
+
+/// `couple --json`: the keys, null efficiency without a
+/// frequency, the same file twice, the output folder and its overwrite
+/// protection.
+#[test]
+fn couple_prints_json_and_writes_its_folder() {
+    let dir = tempfile::tempdir().unwrap();
+    write_base(dir.path());
+    let o = run(
+        dir.path(),
+        &["couple", "d.toml", "d.toml", "--gap", "2mm", "--json"],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    for key in ["mutual_inductance_h", "coupling", "gap_mm", "offset_mm"] {
+        assert!(v[key].is_number(), "{key}: {v}");
+    }
+    assert!(v["link_efficiency_max"].is_null());
+    assert_eq!(v["gap_mm"], 2.0);
+    let k = v["coupling"].as_f64().unwrap();
+    assert!(k > 0.0 && k < 1.0, "{k}");
+    let o = run(
+        dir.path(),
+        &[
+            "couple",
+            "d.toml",
+            "d.toml",
+            "--gap",
+            "2mm",
+            "--offset",
+            "1mm",
+            "--frequency",
+            "1MHz",
+            "--json",
+            "-o",
+            "link",
+        ],
+    );
+    assert_eq!(o.status.code(), Some(0), "{}", stderr(&o));
+    let v: serde_json::Value = serde_json::from_str(&stdout(&o)).unwrap();
+    let eta = v["link_efficiency_max"].as_f64().unwrap();
+    assert!(eta > 0.0 && eta < 1.0, "{eta}");
+    assert!(v["optimal_load_ohm"].as_f64().unwrap() > 0.0);
+    assert_eq!(
+        entries(&dir.path().join("link")),
+        vec![
+            "catalogue.toml",
+            "couple.json",
+            "couple.md",
+            "coupling_gap.svg",
+            "coupling_offset.svg"
+        ]
+    );
+    let again = run(
+        dir.path(),
+        &["couple", "d.toml", "d.toml", "--gap", "2mm", "-o", "link"],
+    );
+    assert_eq!(again.status.code(), Some(2));
+    assert!(stderr(&again).contains("--force"), "{}", stderr(&again));
+    let forced = run(
+        dir.path(),
+        &[
+            "couple", "d.toml", "d.toml", "--gap", "2mm", "-o", "link", "--force",
+        ],
+    );
+    assert_eq!(forced.status.code(), Some(0), "{}", stderr(&forced));
+}

@@ -11,7 +11,8 @@
 //!   `snapshots/`) and parsed-back exporter output;
 //! - `geometry_props`, `geometry_sanity`, `rules_props`, `rules`: property
 //!   tests and rule fixtures;
-//! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`, `motion`:
+//! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`, `motion`,
+//!   `coupling` (two coils, `couple`):
 //!   checks against outside truth, the source named beside each value
 //!   (`motion`: waveforms, heating over time, the fin);
 //! - `interop`: our files read by KiCad, gerbv, gerbonara, pygerber and
@@ -27,6 +28,7 @@ mod reference_designs;
 
 mod cli;
 mod cli_rules;
+mod coupling;
 mod designs;
 mod export_gerber;
 mod geometry_props;

@@ -7,8 +7,10 @@
 //!   for the mutual terms, exact for coaxial circular filaments.
 //! * Straight pieces (polygon and rectangle coils): Neumann's double line
 //!   integral, in closed form for parallel pieces (Grover's formula for
-//!   parallel filaments) and with the inner integral in closed form and the
-//!   outer one by adaptive Gauss-Legendre quadrature otherwise.
+//!   parallel filaments) and for close pieces at an angle (Grover's
+//!   filaments inclined in parallel planes), and with the inner integral in
+//!   closed form and the outer one by Gauss-Legendre quadrature otherwise;
+//!   each distinct pair of layer copies is summed once.
 //! * Self terms and pieces close to each other (neighbouring turns, layers
 //!   closer than the trace width, consecutive pieces of one track): the
 //!   filament distance is replaced by the geometric mean distance (GMD)
@@ -24,7 +26,9 @@
 pub mod filaments;
 pub mod rings;
 
-pub use filaments::{FilamentInductances, filaments_inductance, filaments_inductances};
+pub use filaments::{
+    FilamentInductances, filaments_inductance, filaments_inductances, filaments_mutual,
+};
 pub(super) use rings::maxwell_8;
 pub use rings::{maxwell_mutual, maxwell_mutual_8, rings_inductance, rings_mutual};
 
