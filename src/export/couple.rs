@@ -89,6 +89,8 @@ pub fn markdown(r: &CouplingReport) -> String {
             InductanceMethod::MaxwellRings =>
                 "Maxwell's formula for coaxial rings (one ring per turn)",
             InductanceMethod::NeumannFilaments => "Neumann's formula on straight filaments",
+            // The mutual inductance is always computed.
+            InductanceMethod::NotComputed => "no method",
         }
     ));
     s
