@@ -60,6 +60,11 @@ const TEMPLATES: &[Template] = &[
         description: "rigid 2-layer circular coil in water that kicks a bath-toy paddle with 0.4 s pulses of 1.2 A",
         text: include_str!("../../examples/bath-paddle.toml"),
     },
+    Template {
+        name: "toy-tag-reader",
+        description: "rigid 2-layer circular receive coil of a toy's tag reader at 6.78 MHz: Q, self-resonance and |Z| at its frequency",
+        text: include_str!("../../examples/toy-tag-reader.toml"),
+    },
 ];
 
 /// The starter designs, in `--list` order.

@@ -7,7 +7,10 @@
 //! the module of its quantity, which owns the code and the report struct:
 //! [`resistance`], [`inductance`] (with the published estimates),
 //! [`thermal`] (operating point under the drive's average power, hottest
-//! copper by the lateral [`spread`], drive limits, pulse), [`impedance`],
+//! copper by the lateral [`spread`], drive limits, pulse), [`capacitance`]
+//! (self-capacitance and self-resonance), [`impedance`] (AC resistance by
+//! [`section`] responses on the [`chords`], current sharing, impedance
+//! against frequency),
 //! [`field`] (Biot-Savart), [`magnet`] (force), [`mechanics`] (thickness,
 //! bending), [`drive`] (the waveform's current over a period, harmonics),
 //! [`heating`] (temperature from switch-on, ripple) and [`fin`] (the
@@ -35,7 +38,9 @@
 //!   for hexagons (rectangles are far from circles: tens of percent).
 
 mod analysis;
+pub mod capacitance;
 pub mod caution;
+pub mod chords;
 pub mod closed_forms;
 pub mod conductor;
 pub mod drive;
@@ -48,18 +53,20 @@ pub mod inductance;
 pub mod magnet;
 pub mod mechanics;
 pub mod resistance;
+pub mod section;
 #[allow(unsafe_code)]
 mod simd;
 pub mod spread;
 pub mod thermal;
 
 pub use analysis::{Analysis, Inputs};
+pub use capacitance::CapacitanceReport;
 pub use caution::{Caution, CautionKind, Findings};
 pub use drive::DriveReport;
 pub use field::{FIELD_SAGITTA, FIELD_SAGITTA_METRICS, FieldReport, ProfilePoint};
 pub use fin::FinReport;
 pub use heating::HeatingReport;
-pub use impedance::Impedance;
+pub use impedance::{AcModel, Impedance, ResponsePoint};
 pub use inductance::{InductanceReport, PublishedEstimate};
 pub use magnet::{GapPoint, MagnetReport};
 pub use mechanics::Mechanics;
@@ -103,6 +110,9 @@ pub(crate) fn map_indices<R: Send>(n: usize, f: impl Fn(usize) -> R + Sync + Sen
         (0..n).into_par_iter().map(f).collect()
     }
 }
+
+/// Frequencies on the report's impedance curve.
+pub const CURVE_POINTS: usize = 200;
 
 /// How much of the analysis to compute.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
@@ -148,8 +158,32 @@ pub fn analyse_with(
         let drive = (thermal.current_a, thermal.power_w);
         magnet::analyse(design, &mg, &cond, detail, drive, &mut found)
     });
-    let impedance =
-        impedance::analyse(design, &cond, inductance.inductance_h, &thermal, &mut found);
+    let chords = chords::chords(design, layout, &cond);
+    let capacitance = capacitance::analyse(
+        design,
+        &chords,
+        layout.layers as usize,
+        inductance.inductance_h,
+    );
+    let ac = impedance::AcModel::new(
+        design,
+        layout,
+        &cond,
+        &chords,
+        &resistance,
+        inductance.inductance_h,
+        capacitance.capacitance_f,
+        thermal.resistance_ohm_hot / resistance.total_ohm_20c,
+    );
+    let t_max = cond.layer_t.iter().cloned().fold(0.0, f64::max);
+    let r_hot = thermal.resistance_ohm_hot;
+    let impedance = impedance::analyse(design, &ac, r_hot, t_max, &mut found);
+    let response = if detail == Detail::Full {
+        let (lo, hi) = ac.span(t_max, design.drive.frequency.filter(|f| *f > 0.0));
+        ac.curve(lo, hi, CURVE_POINTS)
+    } else {
+        Vec::new()
+    };
     let mechanics = mechanics::analyse(design, &mut found);
     let full = detail == Detail::Full;
     let drive = drive::analyse(
@@ -171,6 +205,9 @@ pub fn analyse_with(
         thermal,
         inductance,
         impedance,
+        capacitance,
+        response,
+        ac,
         field,
         magnet,
         mechanics,
