@@ -5,7 +5,8 @@
 //!
 //! Chord length and the sagitta of arcs start at two pitches and 1/20 of
 //! a pitch; on a large coil both grow (length with the ratio, sagitta
-//! with its square) until there are at most [`MAX_CHORDS`]: a 20-turn
+//! with its square) until there are at most [`MAX_CHORDS`] ([`MAX_CHORDS_METRICS`]
+//! in a sweep): a 20-turn
 //! coil keeps the fine chords, an 8-layer 100-turn coil gets chords of a
 //! few millimetres (one per side of a polygon turn).
 
@@ -13,9 +14,12 @@ use super::conductor::{Conductor, m};
 use crate::design::Design;
 use crate::geometry::{Board, Point, Segment, TrackRole, Vec2};
 
-/// Most chords the frequency phases sample (the proximity field costs
-/// three sources per chord at every chord).
+/// Most chords the frequency phases sample in a full report (the
+/// proximity field costs four sources per chord at every chord).
 pub const MAX_CHORDS: usize = 2500;
+
+/// Most chords in a sweep's analysis ([`super::Detail::Metrics`]).
+pub const MAX_CHORDS_METRICS: usize = 600;
 
 /// One chord of the conductor.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -61,16 +65,16 @@ impl Chord {
     }
 }
 
-/// Chords of every winding, in current order.
-pub fn chords(design: &Design, layout: &Board, cond: &Conductor) -> Vec<Chord> {
+/// Chords of every winding, in current order, at most about `max`.
+pub fn chords(design: &Design, layout: &Board, cond: &Conductor, max: usize) -> Vec<Chord> {
     let pitch = design.coil.trace_width + design.coil.clearance;
     let (mut step, mut sag) = (2.0 * pitch, pitch / 20.0);
     let mut n = count(layout, step, sag);
     for _ in 0..4 {
-        if n <= MAX_CHORDS {
+        if n <= max {
             break;
         }
-        let k = n as f64 / MAX_CHORDS as f64 * 1.05;
+        let k = n as f64 / max as f64 * 1.05;
         step *= k;
         sag *= k * k;
         n = count(layout, step, sag);

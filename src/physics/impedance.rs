@@ -50,7 +50,9 @@
 //! self-resonance.
 //!
 //! [`AcModel::new`] does the frequency-independent work once; its methods
-//! answer at any frequency in microseconds. [`analyse`] is the analysis
+//! answer at any frequency in microseconds (each section shape's table is
+//! computed the first time it is asked for, about 30 ms, and kept for the
+//! process). [`analyse`] is the analysis
 //! phase ([`Impedance`] at the drive frequency, the curve).
 
 use super::MU0;
@@ -64,7 +66,6 @@ use crate::design::{Design, Wiring};
 use crate::geometry::Board;
 use serde::Serialize;
 use std::f64::consts::PI;
-use std::sync::Arc;
 
 /// Impedance at the drive frequency (serialised as report.json's
 /// `impedance` object).
@@ -142,8 +143,8 @@ struct Branch {
     layer: u8,
     group: usize,
     share_dc: f64,
-    /// (section table, thickness m, DC resistance at 20 C of its tracks).
-    terms: Vec<(Arc<SectionTable>, f64, f64)>,
+    /// (section aspect, thickness m, DC resistance at 20 C of its tracks).
+    terms: Vec<(f64, f64, f64)>,
     /// Self minus mutual with the other winding of its group, H.
     leakage_h: f64,
 }
@@ -154,9 +155,9 @@ pub struct AcModel {
     /// Resistivity at the operating temperature over the one at 20 C.
     heat: f64,
     branches: Vec<Branch>,
-    /// (table, thickness m, sum l H_across^2, sum l H_along^2) per
-    /// section, 1/m per A^2 at the terminals.
-    proximity: Vec<(Arc<SectionTable>, f64, f64, f64)>,
+    /// (section aspect, thickness m, sum l H_across^2, sum l H_along^2)
+    /// per section, 1/m per A^2 at the terminals.
+    proximity: Vec<(f64, f64, f64, f64)>,
     /// Via barrels at 20 C, ohm, and the plating, m.
     vias: (f64, f64),
     /// Inductance, H.
@@ -177,6 +178,9 @@ impl AcModel {
     /// inductance `l` (H), self-capacitance `c` (F) and `heat`, the
     /// winding's resistance at its operating temperature over the one at
     /// 20 C (so that `R_ac` tends to the report's hot resistance at DC).
+    /// Without `proximity` the field is not computed and the model counts
+    /// the skin effect only (a sweep's analysis of a design without a
+    /// frequency, which reports no AC value).
     #[allow(clippy::too_many_arguments)]
     pub fn new(
         design: &Design,
@@ -187,12 +191,13 @@ impl AcModel {
         l: f64,
         c: f64,
         heat: f64,
+        proximity: bool,
     ) -> AcModel {
         // Skin terms per winding, by section.
         let mut branches = Vec::new();
         let mut piece = 0;
         for w in &layout.windings {
-            let mut terms: Vec<(Arc<SectionTable>, f64, f64)> = Vec::new();
+            let mut terms: Vec<(f64, f64, f64)> = Vec::new();
             let mut share = 1.0;
             for tr in layout.winding_tracks(w) {
                 let p = &cond.pieces[piece.min(cond.pieces.len() - 1)];
@@ -201,9 +206,9 @@ impl AcModel {
                 let (wd, t) = (m(tr.width), p.thickness);
                 let r = RHO_20 * m(tr.segment.length()) / (wd * t);
                 let aspect = wd / t;
-                match terms.iter_mut().find(|x| x.0.aspect == aspect && x.1 == t) {
+                match terms.iter_mut().find(|x| x.0 == aspect && x.1 == t) {
                     Some(x) => x.2 += r,
-                    None => terms.push((SectionTable::cached(aspect), t, r)),
+                    None => terms.push((aspect, t, r)),
                 }
             }
             branches.push(Branch {
@@ -218,6 +223,7 @@ impl AcModel {
             leakages(design, cond, &mut branches);
         }
         // The proximity field, per ampere at the terminals.
+        let chords = if proximity { chords } else { &[] };
         let mut src = Segments::with_capacity(FILAMENTS.len() * chords.len());
         for ch in chords {
             let v = ch.dir().perp();
@@ -239,7 +245,7 @@ impl AcModel {
             })
             .collect();
         let fields = src.field(&points);
-        let mut proximity: Vec<(Arc<SectionTable>, f64, f64, f64)> = Vec::new();
+        let mut proximity: Vec<(f64, f64, f64, f64)> = Vec::new();
         for (ch, b) in chords.iter().zip(&fields) {
             let v = ch.dir().perp();
             let h_along = (b[0] * v.x + b[1] * v.y) / MU0;
@@ -249,13 +255,13 @@ impl AcModel {
             let (ac, al) = (len * h_across * h_across, len * h_along * h_along);
             match proximity
                 .iter_mut()
-                .find(|x| x.0.aspect == aspect && x.1 == ch.thickness)
+                .find(|x| x.0 == aspect && x.1 == ch.thickness)
             {
                 Some(x) => {
                     x.2 += ac;
                     x.3 += al;
                 }
-                None => proximity.push((SectionTable::cached(aspect), ch.thickness, ac, al)),
+                None => proximity.push((aspect, ch.thickness, ac, al)),
             }
         }
         AcModel {
@@ -280,7 +286,7 @@ impl AcModel {
         let branch_r = |b: &Branch| -> f64 {
             b.terms
                 .iter()
-                .map(|(tab, t, r)| r * self.heat * tab.skin(t / delta))
+                .map(|(a, t, r)| r * self.heat * SectionTable::cached(*a).skin(t / delta))
                 .sum()
         };
         let groups = self.branches.iter().map(|b| b.group + 1).max().unwrap_or(0);
@@ -320,7 +326,10 @@ impl AcModel {
         let prox: f64 = self
             .proximity
             .iter()
-            .map(|(tab, t, ac, al)| rho * (tab.across(t / delta) * ac + tab.along(t / delta) * al))
+            .map(|(a, t, ac, al)| {
+                let tab = SectionTable::cached(*a);
+                rho * (tab.across(t / delta) * ac + tab.along(t / delta) * al)
+            })
             .sum();
         let vias = self.vias.0 * self.heat * tube_skin(self.vias.1 / delta);
         AcAt {

@@ -158,7 +158,14 @@ pub fn analyse_with(
         let drive = (thermal.current_a, thermal.power_w);
         magnet::analyse(design, &mg, &cond, detail, drive, &mut found)
     });
-    let chords = chords::chords(design, layout, &cond);
+    let full = detail == Detail::Full;
+    let frequency = design.drive.frequency.filter(|f| *f > 0.0);
+    let most = if full {
+        chords::MAX_CHORDS
+    } else {
+        chords::MAX_CHORDS_METRICS
+    };
+    let chords = chords::chords(design, layout, &cond, most);
     let capacitance = capacitance::analyse(
         design,
         &chords,
@@ -174,18 +181,18 @@ pub fn analyse_with(
         inductance.inductance_h,
         capacitance.capacitance_f,
         thermal.resistance_ohm_hot / resistance.total_ohm_20c,
+        full || frequency.is_some(),
     );
     let t_max = cond.layer_t.iter().cloned().fold(0.0, f64::max);
     let r_hot = thermal.resistance_ohm_hot;
     let impedance = impedance::analyse(design, &ac, r_hot, t_max, &mut found);
-    let response = if detail == Detail::Full {
-        let (lo, hi) = ac.span(t_max, design.drive.frequency.filter(|f| *f > 0.0));
+    let response = if full {
+        let (lo, hi) = ac.span(t_max, frequency);
         ac.curve(lo, hi, CURVE_POINTS)
     } else {
         Vec::new()
     };
     let mechanics = mechanics::analyse(design, &mut found);
-    let full = detail == Detail::Full;
     let drive = drive::analyse(
         &design.drive,
         thermal.resistance_ohm_hot,
