@@ -115,22 +115,38 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
     let er = design.stackup.dielectric_constant;
     let pitch = design.coil.trace_width + design.coil.clearance;
     let gap = super::conductor::m(design.coil.clearance);
-    let longest = chords
-        .iter()
-        .map(|c| (c.b - c.a).length())
-        .fold(0.0, f64::max);
-    let cell = 1.5 * pitch + longest;
+    // Each chord in every grid cell along it; cells of
+    // two pitches (at least the dielectric's reach), so the 3 x 3 cells
+    // around a chord's middle hold every neighbour it can see.
+    let cell = (2.0 * pitch).max(
+        4.0 * design
+            .stackup
+            .dielectric
+            .iter()
+            .cloned()
+            .fold(0.0, f64::max),
+    );
+    let at = |x: f64| (x / cell).floor() as i64;
     let key = |c: &Chord| {
         let p = c.mid();
-        (
-            c.layer,
-            (p.x / cell).floor() as i64,
-            (p.y / cell).floor() as i64,
-        )
+        (c.layer, at(p.x), at(p.y))
     };
     let mut grid: HashMap<(u8, i64, i64), Vec<usize>> = HashMap::new();
     for (i, c) in chords.iter().enumerate() {
-        grid.entry(key(c)).or_default().push(i);
+        // The cells along the chord, at steps of half a cell.
+        let steps = ((c.b - c.a).length() / (cell / 2.0)).ceil().max(1.0) as usize;
+        let mut last = None;
+        for k in 0..=steps {
+            let p = c.a.lerp(c.b, k as f64 / steps as f64);
+            let here = (c.layer, at(p.x), at(p.y));
+            if last != Some(here) {
+                let list = grid.entry(here).or_default();
+                if list.last() != Some(&i) {
+                    list.push(i);
+                }
+                last = Some(here);
+            }
+        }
     }
     // Voltage of chord j at the foot of point p on it.
     let volt_at = |c: &Chord, p: crate::geometry::Point| {
@@ -148,17 +164,24 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
         let li = (layer as usize).saturating_sub(1);
         // Best neighbour on each side (smallest offset along).
         let mut side: [Option<(f64, f64)>; 2] = [None, None];
-        for dx in -1..=1 {
-            for dy in -1..=1 {
-                for same in [true, false] {
-                    let lk = if same { layer } else { layer + 1 };
-                    if !same && (lk as usize) > layers {
-                        continue;
+        for same in [true, false] {
+            let lk = if same { layer } else { layer + 1 };
+            if !same && (lk as usize) > layers {
+                continue;
+            }
+            let mut near: Vec<usize> = Vec::new();
+            for dx in -1..=1 {
+                for dy in -1..=1 {
+                    if let Some(list) = grid.get(&(lk, ix + dx, iy + dy)) {
+                        near.extend_from_slice(list);
                     }
-                    let Some(list) = grid.get(&(lk, ix + dx, iy + dy)) else {
-                        continue;
-                    };
-                    for &j in list {
+                }
+            }
+            near.sort_unstable();
+            near.dedup();
+            {
+                {
+                    for &j in &near {
                         let o = &chords[j];
                         if std::ptr::eq(o, c) || o.dir().dot(u).abs() < 0.8 {
                             continue;

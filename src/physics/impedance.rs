@@ -137,6 +137,11 @@ pub struct ResponsePoint {
 /// `(I / (pi w)) atan(w / 2h)`.
 const FILAMENTS: [f64; 4] = [-0.375, -0.125, 0.125, 0.375];
 
+/// Most points where the proximity field is taken: beyond it every k-th
+/// chord's middle stands for the k chords from it (on a polygon coil, one
+/// side for the next few; part of the 20 % tolerance of large coils).
+const MAX_FIELD_POINTS: usize = 800;
+
 /// One winding's skin terms.
 #[derive(Debug, Clone, PartialEq)]
 struct Branch {
@@ -237,20 +242,33 @@ impl AcModel {
                 );
             }
         }
-        let points: Vec<[f64; 3]> = chords
+        // Field points: every chord's middle, or on a large coil every
+        // k-th chord's, standing for the length of the k chords from it.
+        let k = chords.len().div_ceil(MAX_FIELD_POINTS).max(1);
+        let picked: Vec<(usize, f64)> = (0..chords.len())
+            .step_by(k)
+            .map(|i| {
+                let len: f64 = chords[i..(i + k).min(chords.len())]
+                    .iter()
+                    .map(Chord::length)
+                    .sum();
+                (i, len)
+            })
+            .collect();
+        let points: Vec<[f64; 3]> = picked
             .iter()
-            .map(|ch| {
-                let p = ch.mid();
-                [m(p.x), m(p.y), ch.z]
+            .map(|&(i, _)| {
+                let p = chords[i].mid();
+                [m(p.x), m(p.y), chords[i].z]
             })
             .collect();
         let fields = src.field(&points);
         let mut proximity: Vec<(f64, f64, f64, f64)> = Vec::new();
-        for (ch, b) in chords.iter().zip(&fields) {
+        for (&(i, len), b) in picked.iter().zip(&fields) {
+            let ch = &chords[i];
             let v = ch.dir().perp();
             let h_along = (b[0] * v.x + b[1] * v.y) / MU0;
             let h_across = b[2] / MU0;
-            let len = ch.length();
             let aspect = ch.width / ch.thickness;
             let (ac, al) = (len * h_across * h_across, len * h_along * h_along);
             match proximity
