@@ -76,10 +76,34 @@ fn report_fin_starter(c: &mut Criterion) {
     g.finish();
 }
 
+/// The impedance curve of the README's fin example at 200 frequencies
+/// from its analysis (issue 15 asks under 100 ms); the analysis itself
+/// (chords, proximity field, capacitance) is the fin report above.
+fn impedance_sweep_fin(c: &mut Criterion) {
+    let text = include_str!("../examples/fin-actuator.toml");
+    let d = coilwright::pipeline::parse(text).expect("design");
+    let layout = coilwright::geometry::build(&d).expect("layout");
+    let a = coilwright::physics::analyse(&d, &layout).expect("analysis");
+    let srf = a.self_resonance_hz();
+    let mut g = c.benchmark_group("impedance");
+    g.bench_function("fin_200_frequencies", |b| {
+        b.iter(|| black_box(a.ac.curve(black_box(1.0), black_box(3.0 * srf), 200)))
+    });
+    g.bench_function("fin_analysis_and_200_frequencies", |b| {
+        b.iter(|| {
+            let a =
+                coilwright::physics::analyse(black_box(&d), black_box(&layout)).expect("analysis");
+            black_box(a.ac.curve(1.0, 3.0 * srf, 200))
+        })
+    });
+    g.finish();
+}
+
 criterion_group!(
     benches,
     biot_savart,
     report_8_layer_100_turns,
-    report_fin_starter
+    report_fin_starter,
+    impedance_sweep_fin
 );
 criterion_main!(benches);

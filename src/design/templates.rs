@@ -70,6 +70,11 @@ const TEMPLATES: &[Template] = &[
         description: "rigid 2-layer circular receive coil in the garden sensor's stake, charged by puck-transmit",
         text: include_str!("../../examples/puck-receive.toml"),
     },
+    Template {
+        name: "toy-tag-reader",
+        description: "rigid 2-layer circular receive coil of a toy's tag reader at 6.78 MHz: Q, self-resonance and |Z| at its frequency",
+        text: include_str!("../../examples/toy-tag-reader.toml"),
+    },
 ];
 
 /// The starter designs, in `--list` order.

@@ -178,6 +178,51 @@ fn place_label(
         })
 }
 
+/// How an axis maps values to positions.
+#[derive(Debug, Clone, Copy, PartialEq, Eq)]
+pub enum Scale {
+    /// Equal steps for equal differences; the y-axis includes zero.
+    Linear,
+    /// Equal steps for equal ratios: ticks at whole decades (every second
+    /// or more when there are many), labelled 1, 10, 100, 1k, ...;
+    /// values at or below zero are left out.
+    Log,
+}
+
+impl Scale {
+    fn map(self, v: f64) -> f64 {
+        match self {
+            Scale::Linear => v,
+            Scale::Log if v > 0.0 => v.log10(),
+            Scale::Log => f64::NAN,
+        }
+    }
+}
+
+/// The label of the decade `10^e`: 1, 10, 100, then with SI prefixes
+/// (1k, 10k, ..., 1G; 100m, 10m, 1m, 100u, ...).
+fn decade_label(e: f64) -> String {
+    let e = e.round() as i32;
+    let prefixes = [
+        (-12, "p"),
+        (-9, "n"),
+        (-6, "u"),
+        (-3, "m"),
+        (0, ""),
+        (3, "k"),
+        (6, "M"),
+        (9, "G"),
+        (12, "T"),
+    ];
+    let (base, p) = prefixes
+        .iter()
+        .rev()
+        .find(|(b, _)| e >= *b)
+        .copied()
+        .unwrap_or((-12, "p"));
+    format!("{}{p}", 10i64.pow((e - base).clamp(0, 2) as u32))
+}
+
 /// A line plot with axes, ticks, grid, labels, a legend and marker lines,
 /// as SVG text. The x range is widened to show every marker.
 pub fn line_plot(
@@ -187,6 +232,48 @@ pub fn line_plot(
     series: &[(&str, Vec<(f64, f64)>)],
     markers: &[Marker],
 ) -> String {
+    line_plot_scaled(
+        title,
+        xlabel,
+        ylabel,
+        series,
+        markers,
+        Scale::Linear,
+        Scale::Linear,
+    )
+}
+
+/// [`line_plot`] with a [`Scale`] for each axis (markers and points are
+/// given in data units and mapped like the data).
+pub fn line_plot_scaled(
+    title: &str,
+    xlabel: &str,
+    ylabel: &str,
+    series: &[(&str, Vec<(f64, f64)>)],
+    markers: &[Marker],
+    xscale: Scale,
+    yscale: Scale,
+) -> String {
+    let mapped: Vec<(&str, Vec<(f64, f64)>)> = series
+        .iter()
+        .map(|(n, pts)| {
+            (
+                *n,
+                pts.iter()
+                    .map(|&(x, y)| (xscale.map(x), yscale.map(y)))
+                    .collect(),
+            )
+        })
+        .collect();
+    let marks: Vec<Marker> = markers
+        .iter()
+        .map(|m| Marker {
+            at: xscale.map(m.at),
+            label: m.label.clone(),
+            point: m.point.map(|y| yscale.map(y)),
+        })
+        .collect();
+    let (series, markers) = (&mapped[..], &marks[..]);
     let (w, h) = (640.0, 400.0);
     let (l, r, t, b) = (78.0, 20.0, 40.0, 56.0);
     let all = series.iter().flat_map(|s| s.1.iter());
@@ -211,15 +298,39 @@ pub fn line_plot(
         x0 = x0.min(m.at);
         x1 = x1.max(m.at);
     }
-    y0 = y0.min(0.0);
+    if yscale == Scale::Linear {
+        y0 = y0.min(0.0);
+    }
     if y1 <= y0 {
         y1 = y0 + 1.0;
     }
     if x1 <= x0 {
         x1 = x0 + 1.0;
     }
-    let xaxis = Axis::nice(x0, x1, 8);
-    let yaxis = Axis::nice(y0, y1, 6);
+    let decades = |lo: f64, hi: f64, n: f64| {
+        let (lo, hi) = (lo.floor(), hi.ceil().max(lo.floor() + 1.0));
+        Axis {
+            lo,
+            hi,
+            step: ((hi - lo) / n).ceil().max(1.0),
+        }
+    };
+    let xaxis = match xscale {
+        Scale::Linear => Axis::nice(x0, x1, 8),
+        Scale::Log => decades(x0, x1, 10.0),
+    };
+    let yaxis = match yscale {
+        Scale::Linear => Axis::nice(y0, y1, 6),
+        Scale::Log => decades(y0, y1, 7.0),
+    };
+    let xtick = |v: f64| match xscale {
+        Scale::Linear => xaxis.label(v),
+        Scale::Log => decade_label(v),
+    };
+    let ytick = |v: f64| match yscale {
+        Scale::Linear => yaxis.label(v),
+        Scale::Log => decade_label(v),
+    };
     let (xa, xb, xs) = (xaxis.lo, xaxis.hi, xaxis.step);
     let (ya, yb, ys) = (yaxis.lo, yaxis.hi, yaxis.step);
     let px = |x: f64| l + (x - xa) / (xb - xa) * (w - l - r);
@@ -259,7 +370,7 @@ pub fn line_plot(
             s,
             r##"<text x="{gx:.2}" y="{:.2}" text-anchor="middle" fill="#333333">{}</text>"##,
             py(ya) + 18.0,
-            xaxis.label(x)
+            xtick(x)
         );
         x += xs;
     }
@@ -283,11 +394,11 @@ pub fn line_plot(
             r##"<text x="{:.2}" y="{:.2}" text-anchor="end" fill="#333333">{}</text>"##,
             px(xa) - 8.0,
             gy + 4.0,
-            yaxis.label(y)
+            ytick(y)
         );
         y += ys;
     }
-    if ya < 0.0 && yb > 0.0 {
+    if yscale == Scale::Linear && ya < 0.0 && yb > 0.0 {
         let _ = writeln!(
             s,
             r##"<line x1="{:.2}" y1="{:.2}" x2="{:.2}" y2="{:.2}" stroke="#999999" stroke-dasharray="4 3"/>"##,

@@ -2,7 +2,7 @@
 //! [`Analysis`] as JSON) and SVG plots (field on the axis, field across the
 //! coil, force against gap). Translates the analysis; computes nothing new.
 
-use super::plot::{Marker, line_plot};
+use super::plot::{Marker, Scale, line_plot, line_plot_scaled};
 use super::{ExportError, OutFile};
 use crate::design::{Design, Magnet, Shape, Source};
 use crate::geometry::Board;
@@ -105,6 +105,13 @@ pub fn plots(design: &Design, board: &Board, a: &Analysis) -> Vec<(String, &'sta
             ),
         ),
     ];
+    if !a.response.is_empty() {
+        v.push((
+            "impedance.svg".to_string(),
+            "plot: impedance against frequency",
+            impedance_plot(a),
+        ));
+    }
     motion_plots(design, a, &mut v);
     if let (Some(m), Some(mg)) = (&a.magnet, &design.magnet) {
         let pts: Vec<(f64, f64)> = m
@@ -135,6 +142,57 @@ pub fn plots(design: &Design, board: &Board, a: &Analysis) -> Vec<(String, &'sta
         ));
     }
     v
+}
+
+/// |Z|, R_ac and omega L against frequency on log axes, self-resonance
+/// and the drive frequency marked.
+fn impedance_plot(a: &Analysis) -> String {
+    let r = &a.response;
+    let l = a.inductance.inductance_h;
+    let z: Vec<(f64, f64)> = r
+        .iter()
+        .map(|p| (p.frequency_hz, p.impedance_ohm))
+        .collect();
+    let rac: Vec<(f64, f64)> = r
+        .iter()
+        .map(|p| (p.frequency_hz, p.resistance_ohm))
+        .collect();
+    let xl: Vec<(f64, f64)> = r
+        .iter()
+        .map(|p| (p.frequency_hz, std::f64::consts::TAU * p.frequency_hz * l))
+        .collect();
+    let mut marks = Vec::new();
+    let srf = a.capacitance.self_resonance_hz;
+    if srf.is_finite() {
+        marks.push(Marker::new(
+            srf,
+            format!("self-resonance\n{}", si(srf, "Hz")),
+        ));
+    }
+    if let Some(zd) = &a.impedance {
+        marks.push(
+            Marker::new(
+                zd.frequency_hz,
+                format!(
+                    "drive {}: |Z| {} ohm,\nQ {}, phase {:.1} deg",
+                    si_given(zd.frequency_hz, "Hz"),
+                    sig(zd.impedance_ohm, 3),
+                    sig(zd.q, 3),
+                    zd.phase_deg
+                ),
+            )
+            .with_point(zd.impedance_ohm),
+        );
+    }
+    line_plot_scaled(
+        "Impedance against frequency (lumped model)",
+        "frequency (Hz)",
+        "ohm",
+        &[("|Z|", z), ("R_ac", rac), ("omega L", xl)],
+        &marks,
+        Scale::Log,
+        Scale::Log,
+    )
 }
 
 /// The plots of the drive over time, the heating from switch-on and the
@@ -543,6 +601,7 @@ pub fn markdown(design: &Design, board: &Board, a: &Analysis) -> String {
         at_the_drive(a),
         layers(&a.resistance),
         inductance(&a.inductance, a.impedance.as_ref()),
+        at_frequency(a),
         field(&a.field),
         match (&a.magnet, &design.magnet) {
             (Some(m), Some(mg)) => force(m, mg),
@@ -790,6 +849,61 @@ fn inductance(i: &InductanceReport, impedance: Option<&Impedance>) -> String {
         );
     }
     let _ = writeln!(s);
+    s
+}
+
+/// The coil at frequency: AC resistance, self-capacitance and resonance,
+/// the values at the drive frequency.
+fn at_frequency(a: &Analysis) -> String {
+    let c = &a.capacitance;
+    let mut s = String::from(
+        "## At frequency
+
+",
+    );
+    let _ = writeln!(
+        s,
+        "- self-capacitance {} (turn to turn {}, layer to layer {}; energy method, voltage linear along the winding)",
+        si(c.capacitance_f, "F"),
+        si(c.turn_to_turn_f, "F"),
+        si(c.layer_to_layer_f, "F")
+    );
+    if c.self_resonance_hz.is_finite() {
+        let _ = writeln!(
+            s,
+            "- self-resonance {} (1 / (2 pi sqrt(L C)))",
+            si(c.self_resonance_hz, "Hz")
+        );
+    }
+    if let Some(z) = &a.impedance {
+        let _ = writeln!(
+            s,
+            "- at {}: AC resistance {} ohm ({} ohm of it from the proximity effect; DC {} ohm), Q {} (omega L / R_ac), |Z| {} ohm at {:.1} deg (with the self-capacitance), {:.3} of the self-resonance",
+            si_given(z.frequency_hz, "Hz"),
+            sig(z.resistance_ac_ohm, 4),
+            sig(z.proximity_ohm, 3),
+            sig(a.thermal.resistance_ohm_hot, 4),
+            sig(z.q, 3),
+            sig(z.impedance_ohm, 4),
+            z.phase_deg,
+            z.resonance_fraction
+        );
+        if let Some(d) = z.dowell_ohm {
+            let _ = writeln!(
+                s,
+                "  - Dowell 1966 (layers of foil, a cross-check only): {} ohm",
+                sig(d, 4)
+            );
+        }
+        for sh in &z.shares {
+            let _ = writeln!(
+                s,
+                "  - layer {} carries {:.3} of the current at {:.1} deg (at DC {:.3})",
+                sh.layer, sh.share, sh.phase_deg, sh.share_dc
+            );
+        }
+    }
+    s.push_str("- lumped model: (R_ac + j omega L) in parallel with the self-capacitance, L constant; plot: plots/impedance.svg\n\n");
     s
 }
 

@@ -2,12 +2,13 @@
 //! notes, and the inputs used; and its JSON form (`report.json`,
 //! `report --json`), whose keys are a fixed contract.
 
+use super::capacitance::CapacitanceReport;
 use super::caution::Caution;
 use super::drive::DriveReport;
 use super::field::FieldReport;
 use super::fin::FinReport;
 use super::heating::HeatingReport;
-use super::impedance::Impedance;
+use super::impedance::{AcModel, Impedance, ResponsePoint};
 use super::inductance::InductanceReport;
 use super::magnet::MagnetReport;
 use super::mechanics::Mechanics;
@@ -29,6 +30,14 @@ pub struct Analysis {
     pub inductance: InductanceReport,
     /// Impedance at the drive frequency, if one is given.
     pub impedance: Option<Impedance>,
+    /// Self-capacitance and self-resonance.
+    pub capacitance: CapacitanceReport,
+    /// Impedance against frequency (log-spaced, DC-like to three times
+    /// the self-resonance; empty in a sweep's analysis).
+    pub response: Vec<ResponsePoint>,
+    /// The AC model: answers at any frequency ([`Analysis::q_at`],
+    /// [`Analysis::impedance_at`]).
+    pub ac: AcModel,
     /// Field profiles.
     pub field: FieldReport,
     /// Force on the magnet, if there is one.
@@ -48,6 +57,31 @@ pub struct Analysis {
     pub notes: Vec<String>,
     /// The inputs used.
     pub inputs: Inputs,
+}
+
+impl Analysis {
+    /// Q of the coil at `f` (Hz): `omega L / R_ac(f)` with the AC
+    /// resistance (skin and proximity effect) at the operating temperature.
+    pub fn q_at(&self, f: f64) -> f64 {
+        self.ac.q(f)
+    }
+
+    /// AC resistance at `f` (Hz), ohm.
+    pub fn resistance_ac_at(&self, f: f64) -> f64 {
+        self.ac.resistance(f)
+    }
+
+    /// The lumped model (`R_ac + j omega L` in parallel with the
+    /// self-capacitance) at `f` (Hz).
+    pub fn impedance_at(&self, f: f64) -> ResponsePoint {
+        self.ac.point(f)
+    }
+
+    /// Self-resonant frequency, Hz (infinite when there is no
+    /// capacitance).
+    pub fn self_resonance_hz(&self) -> f64 {
+        self.capacitance.self_resonance_hz
+    }
 }
 
 /// The inputs the analysis used.
@@ -129,7 +163,7 @@ impl Serialize for Analysis {
         let magnet = self.magnet.as_ref();
         let fin = self.fin.as_ref();
         let (d, h) = (&self.drive, &self.heating);
-        let mut s = serializer.serialize_struct("Analysis", 45)?;
+        let mut s = serializer.serialize_struct("Analysis", 51)?;
         s.serialize_field("trace_length_mm", &r.trace_length_mm)?;
         s.serialize_field("resistance_ohm_20c", &r.total_ohm_20c)?;
         s.serialize_field("resistance_ohm_hot", &t.resistance_ohm_hot)?;
@@ -177,8 +211,23 @@ impl Serialize for Analysis {
         s.serialize_field("warnings", &Texts(&self.cautions))?;
         s.serialize_field("notes", &self.notes)?;
         s.serialize_field("inputs", &self.inputs)?;
+        let z = self.impedance.as_ref();
+        s.serialize_field("resistance_ohm_ac", &z.map(|z| z.resistance_ac_ohm))?;
+        s.serialize_field("capacitance_f", &self.capacitance.capacitance_f)?;
+        s.serialize_field(
+            "self_resonance_hz",
+            &finite(self.capacitance.self_resonance_hz),
+        )?;
+        s.serialize_field("q_factor", &z.map(|z| z.q))?;
+        s.serialize_field("capacitance", &self.capacitance)?;
+        s.serialize_field("impedance_curve", &self.response)?;
         s.end()
     }
+}
+
+/// A number, or null where it is infinite.
+fn finite(x: f64) -> Option<f64> {
+    x.is_finite().then_some(x)
 }
 
 /// Cautions serialised as their text.

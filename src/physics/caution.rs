@@ -88,7 +88,21 @@ pub enum Caution {
         /// Gap at rest, mm.
         gap_mm: f64,
     },
+    /// The drive frequency is above the coil's self-resonance, or within
+    /// a third of it (the fraction is common practice, no source): the
+    /// coil no longer behaves as an inductor (the self-capacitance carries
+    /// current, Q and the reactance fall).
+    NearSelfResonance {
+        /// Drive frequency, Hz.
+        frequency_hz: f64,
+        /// Self-resonant frequency, Hz.
+        self_resonance_hz: f64,
+    },
 }
+
+/// The fraction of the self-resonance above which a working frequency
+/// draws [`Caution::NearSelfResonance`] (common practice, no source).
+pub const RESONANCE_MARGIN: f64 = 1.0 / 3.0;
 
 impl Caution {
     /// Whether this caution is a limit of the design exceeded.
@@ -107,6 +121,7 @@ impl Caution {
             Caution::DynamicBendManyLayers { .. } => "dynamic-bend-layers",
             Caution::FinPulledIn { .. } => "fin-pulled-in",
             Caution::SwingReachesGap { .. } => "swing-reaches-gap",
+            Caution::NearSelfResonance { .. } => "near-self-resonance",
         }
     }
 
@@ -121,7 +136,8 @@ impl Caution {
             | Caution::BendTooTight { .. }
             | Caution::DynamicBendManyLayers { .. }
             | Caution::FinPulledIn { .. }
-            | Caution::SwingReachesGap { .. } => CautionKind::Advice,
+            | Caution::SwingReachesGap { .. }
+            | Caution::NearSelfResonance { .. } => CautionKind::Advice,
         }
     }
 }
@@ -184,6 +200,23 @@ impl fmt::Display for Caution {
                 f,
                 "the fin swings up to {swing_mm:.2} mm, as much as the {gap_mm} mm gap: the coil would strike the magnet, and the linear swing estimate no longer holds"
             ),
+            Caution::NearSelfResonance {
+                frequency_hz,
+                self_resonance_hz,
+            } => {
+                let (ff, fs) = (frequency_hz / 1e6, self_resonance_hz / 1e6);
+                if frequency_hz >= self_resonance_hz {
+                    write!(
+                        f,
+                        "the drive frequency {ff:.4} MHz is above the self-resonance {fs:.4} MHz: the coil acts as a capacitor there"
+                    )
+                } else {
+                    write!(
+                        f,
+                        "the drive frequency {ff:.4} MHz is within a third of the self-resonance {fs:.4} MHz (common practice, no source, keeps below a third): the self-capacitance lowers Q and shifts the reactance"
+                    )
+                }
+            }
         }
     }
 }

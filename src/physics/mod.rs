@@ -7,7 +7,10 @@
 //! the module of its quantity, which owns the code and the report struct:
 //! [`resistance`], [`inductance`] (with the published estimates),
 //! [`thermal`] (operating point under the drive's average power, hottest
-//! copper by the lateral [`spread`], drive limits, pulse), [`impedance`],
+//! copper by the lateral [`spread`], drive limits, pulse), [`capacitance`]
+//! (self-capacitance and self-resonance), [`impedance`] (AC resistance by
+//! [`section`] responses on the [`chords`], current sharing, impedance
+//! against frequency),
 //! [`field`] (Biot-Savart), [`magnet`] (force), [`mechanics`] (thickness,
 //! bending), [`drive`] (the waveform's current over a period, harmonics),
 //! [`heating`] (temperature from switch-on, ripple) and [`fin`] (the
@@ -40,7 +43,9 @@
 //!   for hexagons (rectangles are far from circles: tens of percent).
 
 mod analysis;
+pub mod capacitance;
 pub mod caution;
+pub mod chords;
 pub mod closed_forms;
 pub mod conductor;
 pub mod coupling;
@@ -54,18 +59,20 @@ pub mod inductance;
 pub mod magnet;
 pub mod mechanics;
 pub mod resistance;
+pub mod section;
 #[allow(unsafe_code)]
 mod simd;
 pub mod spread;
 pub mod thermal;
 
 pub use analysis::{Analysis, Inputs};
+pub use capacitance::CapacitanceReport;
 pub use caution::{Caution, CautionKind, Findings};
 pub use drive::DriveReport;
 pub use field::{FIELD_SAGITTA, FIELD_SAGITTA_METRICS, FieldReport, ProfilePoint};
 pub use fin::FinReport;
 pub use heating::HeatingReport;
-pub use impedance::Impedance;
+pub use impedance::{AcModel, Impedance, ResponsePoint};
 pub use inductance::{InductanceReport, PublishedEstimate};
 pub use magnet::{GapPoint, MagnetReport};
 pub use mechanics::Mechanics;
@@ -110,6 +117,9 @@ pub(crate) fn map_indices<R: Send>(n: usize, f: impl Fn(usize) -> R + Sync + Sen
     }
 }
 
+/// Frequencies on the report's impedance curve.
+pub const CURVE_POINTS: usize = 200;
+
 /// How much of the analysis to compute.
 #[derive(Debug, Clone, Copy, PartialEq, Eq, Default)]
 pub enum Detail {
@@ -125,7 +135,8 @@ pub enum Detail {
     /// What `check` needs: every caution and limit, computed as for
     /// [`Detail::Metrics`], but the inductance only when the drive's
     /// power depends on it ([`drive::Wave::power_needs_inductance`]; a
-    /// steady drive's heating does not), and no impedance. The inductance
+    /// steady drive's heating does not, nor, without a frequency, its
+    /// impedance), and no impedance curve. The inductance
     /// is the slowest sum of a large polygon coil (Neumann's formula over
     /// all filament pairs), and the rule check is fast at any size.
     Limits,
@@ -153,12 +164,15 @@ pub fn analyse_with(
     let cond = Conductor::new(design, layout);
     let mut found = Findings::default();
     let resistance = resistance::resistance(design, layout, &cond);
-    let inductance =
-        if detail == Detail::Limits && !drive::Wave::of(&design.drive).power_needs_inductance() {
-            InductanceReport::not_computed()
-        } else {
-            inductance::analyse(design, layout, &cond, detail)
-        };
+    // With a frequency the limits include how near self-resonance it is.
+    let inductance = if detail == Detail::Limits
+        && !drive::Wave::of(&design.drive).power_needs_inductance()
+        && design.drive.frequency.is_none()
+    {
+        InductanceReport::not_computed()
+    } else {
+        inductance::analyse(design, layout, &cond, detail)
+    };
     let circuit = (resistance.total_ohm_20c, inductance.inductance_h);
     let thermal = thermal::analyse(design, layout, &cond, circuit, &mut found);
     let field = field::analyse(design, layout, &cond, detail, thermal.current_a);
@@ -166,13 +180,41 @@ pub fn analyse_with(
         let drive = (thermal.current_a, thermal.power_w);
         magnet::analyse(design, &mg, &cond, detail, drive, &mut found)
     });
-    let impedance = if detail == Detail::Limits {
-        None
+    let full = detail == Detail::Full;
+    let frequency = design.drive.frequency.filter(|f| *f > 0.0);
+    let most = if full {
+        chords::MAX_CHORDS
     } else {
-        impedance::analyse(design, &cond, inductance.inductance_h, &thermal, &mut found)
+        chords::MAX_CHORDS_METRICS
+    };
+    let chords = chords::chords(design, layout, &cond, most);
+    let capacitance = capacitance::analyse(
+        design,
+        &chords,
+        layout.layers as usize,
+        inductance.inductance_h,
+    );
+    let ac = impedance::AcModel::new(
+        design,
+        layout,
+        &cond,
+        &chords,
+        &resistance,
+        inductance.inductance_h,
+        capacitance.capacitance_f,
+        thermal.resistance_ohm_hot / resistance.total_ohm_20c,
+        full || frequency.is_some(),
+    );
+    let t_max = cond.layer_t.iter().cloned().fold(0.0, f64::max);
+    let r_hot = thermal.resistance_ohm_hot;
+    let impedance = impedance::analyse(design, &ac, r_hot, t_max, &mut found);
+    let response = if full {
+        let (lo, hi) = ac.span(t_max, frequency);
+        ac.curve(lo, hi, CURVE_POINTS)
+    } else {
+        Vec::new()
     };
     let mechanics = mechanics::analyse(design, &mut found);
-    let full = detail == Detail::Full;
     let drive = drive::analyse(
         &design.drive,
         thermal.resistance_ohm_hot,
@@ -194,6 +236,9 @@ pub fn analyse_with(
         thermal,
         inductance,
         impedance,
+        capacitance,
+        response,
+        ac,
         field,
         magnet,
         mechanics,

@@ -4,7 +4,8 @@
 #     /usr/bin/python3), gerbv, python3-venv, chromium and chromium-driver
 #     (the workbench's browser test, tests/interop/serve_browser.py);
 #   - a virtual environment .venv-interop at the repository root with the
-#     Gerber/Excellon readers and geometry/physics reference libraries.
+#     Gerber/Excellon readers and geometry/physics reference libraries
+#     (scikit-fem: the 2-D finite-element checks of tests/interop/section_fem.py).
 # Idempotent: a second run changes nothing and finishes quickly.
 # Run as root on Debian 12 (bookworm).
 set -euo pipefail
@@ -29,11 +30,11 @@ venv="$root/.venv-interop"
 if [ ! -x "$venv/bin/python" ]; then
     /usr/bin/python3 -m venv "$venv"
 fi
-pins=(gerbonara==1.5.0 pygerber==2.4.3 shapely==2.2.0 numpy==2.4.6 magpylib==6.3.0 scipy==1.17.1 pillow==13.0.0 kiutils==1.4.8 selenium==4.50.0 ezdxf==1.4.4)
-if ! "$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, PIL, kiutils, selenium, ezdxf' >/dev/null 2>&1; then
+pins=(gerbonara==1.5.0 pygerber==2.4.3 shapely==2.2.0 numpy==2.4.6 magpylib==6.3.0 scipy==1.17.1 pillow==13.0.0 kiutils==1.4.8 selenium==4.50.0 ezdxf==1.4.4 scikit-fem==12.0.2)
+if ! "$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, PIL, kiutils, selenium, ezdxf, skfem' >/dev/null 2>&1; then
     "$venv/bin/pip" install --disable-pip-version-check -q "${pins[@]}"
 fi
-"$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, kiutils, ezdxf; print("interop venv ready")'
+"$venv/bin/python" -c 'import gerbonara, pygerber, shapely, magpylib, scipy, kiutils, ezdxf, skfem; print("interop venv ready")'
 /usr/bin/python3 -c 'import pcbnew; print("KiCad pcbnew", pcbnew.Version())'
 dpkg-query -W -f="gerbv \${Version}\n" gerbv
 dpkg-query -W -f="\${Package} \${Version}\n" chromium chromium-driver

@@ -11,6 +11,8 @@
 //!   `snapshots/`) and parsed-back exporter output;
 //! - `geometry_props`, `geometry_sanity`, `rules_props`, `rules`: property
 //!   tests and rule fixtures;
+//! - `ac`: the coil at frequency (section response and capacitance against
+//!   scikit-fem, the report's frequency keys);
 //! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`, `motion`,
 //!   `coupling` (two coils, `couple`):
 //!   checks against outside truth, the source named beside each value
@@ -26,6 +28,7 @@
 mod common;
 mod reference_designs;
 
+mod ac;
 mod cli;
 mod cli_rules;
 mod coupling;

@@ -1,0 +1,165 @@
+//! The coil at frequency (issue 15) against outside truth: the section's
+//! skin and eddy response and the capacitance formulas against 2-D
+//! finite-element solutions (scikit-fem, `tests/interop/section_fem.py`),
+//! the self-resonance identity, the AC resistance's limits on a real
+//! coil, and the report's new keys.
+
+use coilwright::physics::capacitance::{coplanar_strips, facing_strips};
+use coilwright::physics::section::SectionTable;
+use std::io::Write;
+use std::path::Path;
+use std::process::{Command, Stdio};
+
+fn root() -> &'static Path {
+    Path::new(env!("CARGO_MANIFEST_DIR"))
+}
+
+/// Runs the finite-element checker on `cases` (JSON); it exits 1 when a
+/// value is outside its tolerance.
+fn fem(cases: &serde_json::Value) -> serde_json::Value {
+    let python = root().join(".venv-interop/bin/python");
+    assert!(
+        python.exists(),
+        "{} is missing: run tests/interop/setup.sh (scikit-fem, scipy)",
+        python.display()
+    );
+    let mut child = Command::new(&python)
+        .arg(root().join("tests/interop/section_fem.py"))
+        .stdin(Stdio::piped())
+        .stdout(Stdio::piped())
+        .stderr(Stdio::piped())
+        .spawn()
+        .unwrap();
+    child
+        .stdin
+        .take()
+        .unwrap()
+        .write_all(cases.to_string().as_bytes())
+        .unwrap();
+    let o = child.wait_with_output().unwrap();
+    assert!(
+        o.status.success(),
+        "{}\n{}",
+        String::from_utf8_lossy(&o.stdout),
+        String::from_utf8_lossy(&o.stderr)
+    );
+    serde_json::from_slice(&o.stdout).unwrap()
+}
+
+#[test]
+fn section_response_matches_finite_elements() {
+    // Rectangular traces of aspect 3 (0.1 mm x 35 um) and 17 (0.6 mm x
+    // 35 um) at 1 to 10 skin depths across the thickness: R_ac / R_dc and
+    // the eddy loss in a field across and along the section within 5 % of
+    // scikit-fem's solution of the current-diffusion equation.
+    let mut skin = Vec::new();
+    for aspect in [3.0, 17.0] {
+        let t = SectionTable::new(aspect);
+        for x in [1.0, 2.0, 5.0, 10.0] {
+            skin.push(serde_json::json!({
+                "aspect": aspect, "x": x,
+                "ours": [t.skin(x), t.across(x), t.along(x)],
+            }));
+        }
+    }
+    let out = fem(&serde_json::json!({ "skin": skin }));
+    assert_eq!(out["skin"].as_array().unwrap().len(), 8);
+}
+
+#[test]
+fn capacitance_formulas_match_finite_elements() {
+    // Coplanar traces on FR4-like dielectric (er 4.5) with air above: the
+    // conformal-mapping pair capacitance with eps_eff = (er + 1) / 2 and
+    // the side-wall term; traces facing through the dielectric: parallel
+    // plate with Palmer's fringe: each within 10 % of scikit-fem's
+    // electrostatic solution. Four traces at a winding's linear voltage:
+    // the sum of the neighbour pairs' energies (the model's in-layer part)
+    // leaves out the coupling past the next trace, which the solution
+    // shows is as large again: ours is 40 to 50 % low there (a known
+    // underestimate, stated in physics::capacitance).
+    let er = 4.5;
+    let eps = (er + 1.0) / 2.0;
+    let t = 35e-6;
+    let mut pairs = Vec::new();
+    for (w, s) in [(0.15e-3, 0.15e-3), (0.6e-3, 0.4e-3), (0.1e-3, 0.3e-3)] {
+        pairs.push(serde_json::json!({
+            "w": w, "s": s, "t": t, "er": er, "ours": coplanar_strips(w, s, t, eps),
+        }));
+    }
+    let mut facing = Vec::new();
+    for (w, h) in [(0.3e-3, 0.1e-3), (0.6e-3, 0.2e-3)] {
+        facing.push(serde_json::json!({
+            "w": w, "h": h, "t": t, "er": er, "ours": facing_strips(w, h, er),
+        }));
+    }
+    let (w, s, n) = (0.15e-3, 0.15e-3, 4usize);
+    let dv = 1.0 / (n - 1) as f64;
+    let e = (n - 1) as f64 * 0.5 * coplanar_strips(w, s, t, eps) * dv * dv;
+    let array = vec![serde_json::json!({
+        "w": w, "s": s, "t": t, "er": er, "n": n, "ours": e,
+    })];
+    let out = fem(&serde_json::json!({ "pairs": pairs, "facing": facing, "array": array }));
+    let rel = out["array"][0]["relative"].as_f64().unwrap();
+    assert!((-0.5..=-0.4).contains(&rel), "{rel}");
+}
+
+fn tag_reader(frequency: Option<&str>) -> (coilwright::physics::Analysis, serde_json::Value) {
+    let text = std::fs::read_to_string(root().join("examples/toy-tag-reader.toml")).unwrap();
+    let text = match frequency {
+        Some(f) => text.replace("frequency = \"6.78MHz\"", &format!("frequency = \"{f}\"")),
+        None => text
+            .replace("waveform = \"sine\"\n", "")
+            .replace("frequency = \"6.78MHz\"\n", ""),
+    };
+    let (d, l) = coilwright::pipeline::parse_and_build(&text).expect("design");
+    let a = coilwright::physics::analyse(&d, &l).expect("analysis");
+    let j = serde_json::to_value(&a).unwrap();
+    (a, j)
+}
+
+#[test]
+fn report_gives_the_values_at_the_drive_frequency() {
+    let (a, j) = tag_reader(None);
+    assert!(j["resistance_ohm_ac"].is_null() && j["q_factor"].is_null());
+    let (l, c) = (
+        j["inductance_h"].as_f64().unwrap(),
+        j["capacitance_f"].as_f64().unwrap(),
+    );
+    let srf = j["self_resonance_hz"].as_f64().unwrap();
+    // The resonance identity 2 pi f sqrt(L C) = 1.
+    assert!((std::f64::consts::TAU * srf * (l * c).sqrt() - 1.0).abs() < 1e-12);
+    // DC limit: the AC resistance tends to the hot DC resistance.
+    let r_hot = j["resistance_ohm_hot"].as_f64().unwrap();
+    assert!((a.resistance_ac_at(1.0) / r_hot - 1.0).abs() < 1e-6);
+    // High-frequency limit: R_ac grows as sqrt(f) once the copper is many
+    // skin depths thick (a factor 10 in f gives sqrt(10) within 10 %).
+    let (r1, r2) = (a.resistance_ac_at(1e9), a.resistance_ac_at(1e10));
+    assert!((r2 / r1 / 10f64.sqrt() - 1.0).abs() < 0.1, "{r1} {r2}");
+
+    let (a, j) = tag_reader(Some("6.78MHz"));
+    let f = 6.78e6;
+    let rac = j["resistance_ohm_ac"].as_f64().unwrap();
+    let q = j["q_factor"].as_f64().unwrap();
+    assert!(
+        rac > r_hot * 1.2,
+        "skin and proximity raise R: {rac} {r_hot}"
+    );
+    assert!((q - std::f64::consts::TAU * f * l / rac).abs() < 1e-9 * q);
+    assert_eq!(q, a.q_at(f));
+    assert_eq!(j["impedance"]["q"].as_f64().unwrap(), q);
+    assert!(
+        j["warnings"].as_array().unwrap().is_empty(),
+        "{}",
+        j["warnings"]
+    );
+    // Within a third of the self-resonance: the caution.
+    let (_, j) = tag_reader(Some("20MHz"));
+    let w = j["warnings"].to_string();
+    assert!(w.contains("within a third of the self-resonance"), "{w}");
+    let (_, j) = tag_reader(Some("60MHz"));
+    assert!(
+        j["warnings"]
+            .to_string()
+            .contains("above the self-resonance")
+    );
+}
