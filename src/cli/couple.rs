@@ -194,6 +194,9 @@ pub fn run(args: Args) -> Result<Exit, Failure> {
         f,
         min_gap,
     );
+    for w in &report.warnings {
+        eprintln!("warning: {w}");
+    }
     if let (Some(out), Some(copies)) = (args.out, copies) {
         let mut all = files::files(&report)?;
         all.extend(copies);

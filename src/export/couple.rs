@@ -48,6 +48,9 @@ pub fn markdown(r: &CouplingReport) -> String {
             Facing::SameWay => "both coils the right way up (the upper coil's bottom layer facing)",
         }
     ));
+    for w in &r.warnings {
+        s.push_str(&format!("**Warning:** {w}\n\n"));
+    }
     s.push_str("| quantity | value |\n|---|---|\n");
     s.push_str(&format!(
         "| mutual inductance | {} ({}) |\n",

@@ -213,7 +213,7 @@ impl fmt::Display for Caution {
                 } else {
                     write!(
                         f,
-                        "the drive frequency {ff:.4} MHz is within a third of the self-resonance {fs:.4} MHz (common practice, no source, keeps below a third): the self-capacitance lowers Q and shifts the reactance"
+                        "the drive frequency {ff:.4} MHz is above a third of the self-resonance {fs:.4} MHz (staying below a third is common practice, no source): the self-capacitance lowers Q and shifts the reactance"
                     )
                 }
             }

@@ -19,6 +19,7 @@
 //! * Link efficiency: [`link_efficiency_max`] and [`optimal_load`].
 
 use super::Analysis;
+use super::caution::{Caution, RESONANCE_MARGIN};
 use super::conductor::{Conductor, Filament, Ring, to_mm};
 use super::inductance::{InductanceMethod, filaments_mutual, rings_mutual};
 use crate::design::{Design, Shape};
@@ -243,10 +244,9 @@ pub fn optimal_load(r2: f64, k: f64, q1: f64, q2: f64) -> f64 {
 }
 
 /// A coil's quality factor at the frequency its analysis was made for:
-/// the one place the coupling reads Q (`None` without a frequency). Today
-/// `X / R` with the DC resistance at the operating temperature
-/// (`physics::impedance`); where the analysis gives an AC resistance this
-/// function is where Q is taken from instead.
+/// the one place the coupling reads Q (`None` without a frequency):
+/// `omega L / R_ac` with the AC resistance (skin and proximity effect) at
+/// the operating temperature (`physics::impedance`).
 pub fn coil_q(analysis: &Analysis) -> Option<f64> {
     analysis.impedance.as_ref().map(|z| z.q)
 }
@@ -265,6 +265,8 @@ pub struct CoilSide {
     pub resistance_ohm: Option<f64>,
     /// Farthest copper from the coil's axis, mm.
     pub reach_mm: f64,
+    /// The coil's self-resonant frequency from its analysis, Hz.
+    pub self_resonance_hz: f64,
 }
 
 /// One point of a coupling curve.
@@ -315,6 +317,9 @@ pub struct CouplingReport {
     pub against_gap: Vec<CurvePoint>,
     /// Coupling against offset at the gap.
     pub against_offset: Vec<CurvePoint>,
+    /// A link frequency at or above [`RESONANCE_MARGIN`] of either coil's
+    /// self-resonance, as text naming the coil.
+    pub warnings: Vec<String>,
 }
 
 /// Where [`link_efficiency_max`] is published.
@@ -390,6 +395,7 @@ pub fn couple(
                 .zip(q)
                 .map(|(f, q)| 2.0 * std::f64::consts::PI * f * l / q),
             reach_mm: to_mm(c.copper.reach_m),
+            self_resonance_hz: c.analysis.self_resonance_hz(),
         }
     };
     let (sa, sb) = (side(a, la), side(b, lb));
@@ -400,6 +406,19 @@ pub fn couple(
         ),
         _ => (None, None),
     };
+    let warnings = [("A", &sa), ("B", &sb)]
+        .iter()
+        .filter_map(|(which, c)| {
+            let (f, srf) = (frequency_hz?, c.self_resonance_hz);
+            (f >= RESONANCE_MARGIN * srf).then(|| {
+                let caution = Caution::NearSelfResonance {
+                    frequency_hz: f,
+                    self_resonance_hz: srf,
+                };
+                format!("coil {which} ({}): {caution}", c.name)
+            })
+        })
+        .collect();
     CouplingReport {
         mutual_inductance_h: m_at.abs(),
         coupling: k,
@@ -416,6 +435,7 @@ pub fn couple(
         coil_b: sb,
         against_gap: curve(&gaps, &ms[..=n]),
         against_offset: curve(&offsets, &ms[n + 1..]),
+        warnings,
     }
 }
 

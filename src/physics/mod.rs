@@ -182,10 +182,12 @@ pub fn analyse_with(
     });
     let full = detail == Detail::Full;
     let frequency = design.drive.frequency.filter(|f| *f > 0.0);
-    let most = if full {
-        chords::MAX_CHORDS
-    } else {
+    // A sweep's coarser chords; `check` (Limits) takes the report's, so
+    // that its cautions are the report's.
+    let most = if detail == Detail::Metrics {
         chords::MAX_CHORDS_METRICS
+    } else {
+        chords::MAX_CHORDS
     };
     let chords = chords::chords(design, layout, &cond, most);
     let capacitance = capacitance::analyse(

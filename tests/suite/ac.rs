@@ -155,7 +155,7 @@ fn report_gives_the_values_at_the_drive_frequency() {
     // Within a third of the self-resonance: the caution.
     let (_, j) = tag_reader(Some("20MHz"));
     let w = j["warnings"].to_string();
-    assert!(w.contains("within a third of the self-resonance"), "{w}");
+    assert!(w.contains("above a third of the self-resonance"), "{w}");
     let (_, j) = tag_reader(Some("60MHz"));
     assert!(
         j["warnings"]

@@ -805,6 +805,32 @@ fn couple_prints_json_and_writes_its_folder() {
     let eta = v["link_efficiency_max"].as_f64().unwrap();
     assert!(eta > 0.0 && eta < 1.0, "{eta}");
     assert!(v["optimal_load_ohm"].as_f64().unwrap() > 0.0);
+    assert!(v["warnings"].as_array().unwrap().is_empty());
+    // Near a coil's self-resonance the link warns, naming the coil.
+    let srf = v["coil_a"]["self_resonance_hz"].as_f64().unwrap();
+    let near = format!("{}Hz", srf / 2.0);
+    let o2 = run(
+        dir.path(),
+        &[
+            "couple",
+            "d.toml",
+            "d.toml",
+            "--gap",
+            "2mm",
+            "--frequency",
+            &near,
+            "--json",
+        ],
+    );
+    assert_eq!(o2.status.code(), Some(0), "{}", stderr(&o2));
+    let v2: serde_json::Value = serde_json::from_str(&stdout(&o2)).unwrap();
+    assert_eq!(v2["warnings"].as_array().unwrap().len(), 2);
+    assert!(
+        stderr(&o2).contains("warning: coil A (catalogue): the drive frequency"),
+        "{}",
+        stderr(&o2)
+    );
+    assert!(stderr(&o2).contains("above a third of the self-resonance"));
     assert_eq!(
         entries(&dir.path().join("link")),
         vec![
