@@ -429,6 +429,80 @@ pub const KEYS: &[Key] = &[
         Length,
         "thickness of the stiffener behind the fingers (0: none)",
     ),
+    // [rotor]
+    key(
+        "rotor",
+        "poles",
+        Integer,
+        "magnets on the rotor, alternating north and south (even)",
+    ),
+    key(
+        "rotor",
+        "magnet",
+        Choice(&["cylinder", "block", "arc"]),
+        "shape of the rotor's magnets (default cylinder)",
+    ),
+    key("rotor", "diameter", Length, "cylinder magnets: diameter"),
+    key(
+        "rotor",
+        "width",
+        Length,
+        "block magnets: size across the radius",
+    ),
+    key(
+        "rotor",
+        "length",
+        Length,
+        "block magnets: size along the radius",
+    ),
+    key(
+        "rotor",
+        "inner_diameter",
+        Length,
+        "arc magnets: inner diameter of the segments",
+    ),
+    key(
+        "rotor",
+        "outer_diameter",
+        Length,
+        "arc magnets: outer diameter of the segments",
+    ),
+    key(
+        "rotor",
+        "angle",
+        Number,
+        "arc magnets: degrees each segment spans",
+    ),
+    key(
+        "rotor",
+        "thickness",
+        Length,
+        "magnet thickness along the axis",
+    ),
+    key(
+        "rotor",
+        "remanence",
+        Kind::Quantity { unit: "T" },
+        "remanence of the magnet material",
+    ),
+    key(
+        "rotor",
+        "gap",
+        Length,
+        "top copper surface to the magnets' faces",
+    ),
+    key(
+        "rotor",
+        "pitch_diameter",
+        Length,
+        "circle through the magnets' centres (arc magnets: their mean diameter)",
+    ),
+    key(
+        "rotor",
+        "discs",
+        Integer,
+        "1, or 2 with a second disc below the board (doubles and evens the axial field)",
+    ),
 ];
 
 /// Every design-file key: [`KEYS`] with `limits` as `[rules]` keys after
@@ -478,7 +552,7 @@ mod tests {
             t,
             [
                 "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive", "fin",
-                "tail"
+                "tail", "rotor"
             ]
         );
     }

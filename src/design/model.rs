@@ -37,6 +37,8 @@ pub struct Design {
     pub fin: Option<Fin>,
     /// Optional flex tail with connector fingers.
     pub tail: Option<Tail>,
+    /// Optional rotor of magnets over a ring of coils.
+    pub rotor: Option<Rotor>,
 }
 
 /// A strip of the flex board leaving the coil at the terminal angle, with
@@ -385,6 +387,55 @@ pub struct RulesRequest {
     pub overrides: BTreeMap<String, f64>,
 }
 
+/// The rotor of an axial-flux machine turning over a ring of coils
+/// (`[rotor]`): `poles` axially magnetised magnets of alternating polarity,
+/// equally spaced on a circle about the board's origin. Lengths in mm.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Rotor {
+    /// Number of magnets (poles), even.
+    pub poles: u32,
+    /// The magnets' shape and size.
+    pub magnet: RotorMagnet,
+    /// Magnet thickness along the axis, mm.
+    pub thickness: f64,
+    /// Remanence of the magnet material, tesla.
+    pub remanence: f64,
+    /// Gap from the top copper surface to the magnets' faces, mm (and from
+    /// the bottom copper surface to the second disc's, with two discs).
+    pub gap: f64,
+    /// Diameter of the circle through the magnets' centres, mm.
+    pub pitch_diameter: f64,
+    /// Rotor discs: 1 above the board, or 2 (a second one below it).
+    pub discs: u8,
+}
+
+/// The shape of a rotor's magnets, each centred on the pitch circle.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "magnet", rename_all = "snake_case")]
+pub enum RotorMagnet {
+    /// A round disc magnet.
+    Cylinder {
+        /// Diameter, mm.
+        diameter: f64,
+    },
+    /// A rectangular block, `length` along the radius and `width` across it.
+    Block {
+        /// Size across the radius (tangential), mm.
+        width: f64,
+        /// Size along the radius, mm.
+        length: f64,
+    },
+    /// A segment of a ring: between two radii and over an angle.
+    Arc {
+        /// Inner diameter of the segment, mm.
+        inner_diameter: f64,
+        /// Outer diameter of the segment, mm.
+        outer_diameter: f64,
+        /// Angle the segment spans, degrees.
+        angle: f64,
+    },
+}
+
 /// An axially magnetised cylindrical permanent magnet on the coil axis.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Magnet {
@@ -554,6 +605,7 @@ impl Design {
             },
             fin: None,
             tail: None,
+            rotor: None,
         }
     }
 }
@@ -635,6 +687,8 @@ pub struct DesignRequest {
     pub fin: Option<Fin>,
     /// Optional flex tail with connector fingers.
     pub tail: Option<Tail>,
+    /// Optional rotor.
+    pub rotor: Option<Rotor>,
     /// Where each key is in the text.
     pub spans: KeySpans,
 }
@@ -655,6 +709,7 @@ impl DesignRequest {
             drive: self.drive,
             fin: self.fin,
             tail: self.tail,
+            rotor: self.rotor,
         }
     }
 }

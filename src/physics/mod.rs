@@ -48,6 +48,7 @@ pub mod inductance;
 pub mod magnet;
 pub mod mechanics;
 pub mod resistance;
+pub mod rotor;
 #[allow(unsafe_code)]
 mod simd;
 pub mod spread;

@@ -13,7 +13,8 @@
 //!   tests and rule fixtures;
 //! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`, `motion`:
 //!   checks against outside truth, the source named beside each value
-//!   (`motion`: waveforms, heating over time, the fin);
+//!   (`motion`: waveforms, heating over time, the fin; `rotor`: a rotor's
+//!   field and flux linkage against magpylib);
 //! - `interop`: our files read by KiCad, gerbv, gerbonara, pygerber and
 //!   shapely (needs `tests/interop/setup.sh`);
 //! - `serve`: the workbench's request guard over plain HTTP, and the
@@ -38,6 +39,7 @@ mod motion;
 mod outputs;
 mod physics_magpylib;
 mod physics_reference;
+mod rotor;
 mod rules;
 mod rules_props;
 mod serve;

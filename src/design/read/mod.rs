@@ -14,6 +14,7 @@ mod holes;
 mod known_keys;
 mod magnet;
 mod name;
+mod rotor;
 mod rules;
 mod stackup;
 mod table;
@@ -59,6 +60,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let drive_t = cx.table(&root, "drive");
     let fin_t = cx.table(&root, "fin");
     let tail_t = cx.table(&root, "tail");
+    let rotor_t = cx.table(&root, "rotor");
 
     let coil = coil::read(&mut cx, &coil_t);
     let layers = coil.as_ref().and_then(|c| c.layers);
@@ -80,6 +82,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let drive = drive::read(&mut cx, &drive_t);
     let fin = fin::read(&mut cx, &fin_t, magnet.as_ref());
     let tail = tail::read(&mut cx, &tail_t, stackup.kind);
+    let rotor = rotor::read(&mut cx, &rotor_t);
 
     let Ctx {
         mut errors,
@@ -113,6 +116,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
         drive,
         fin,
         tail,
+        rotor,
         spans: KeySpans::of(doc.get_ref()),
     })
 }
