@@ -327,7 +327,9 @@ mod tests {
         assert_eq!(kind("terminal.pad_width"), Some(Kind::Quantity));
         assert_eq!(kind("tail.fingers"), Some(Kind::Integer));
         assert_eq!(kind("tail.pitch"), Some(Kind::Quantity));
-        assert_eq!(keys.len(), 56);
+        assert_eq!(kind("rotor.poles"), Some(Kind::Integer));
+        assert_eq!(kind("rotor.gap"), Some(Kind::Quantity));
+        assert_eq!(keys.len(), 68);
         assert_eq!(
             parse("min_drill=0.15mm,0.2mm").unwrap().key,
             "rules.min_drill"
