@@ -38,6 +38,7 @@ mod model;
 mod read;
 mod spans;
 mod templates;
+pub mod winding;
 pub mod units;
 
 pub use error::{DesignError, DesignErrors, line_col};
