@@ -429,12 +429,60 @@ pub const KEYS: &[Key] = &[
         Length,
         "thickness of the stiffener behind the fingers (0: none)",
     ),
+    // [array]
+    key(
+        "array",
+        "arrangement",
+        Choice(&["ring", "grid"]),
+        "copies of the coil on a ring about the origin, or on a grid",
+    ),
+    key("array", "count", Integer, "ring: number of coils, 2 to 96"),
+    key(
+        "array",
+        "inner_diameter",
+        Length,
+        "ring: inner diameter of the annulus the coils fill",
+    ),
+    key(
+        "array",
+        "outer_diameter",
+        Length,
+        "ring: outer diameter of the annulus the coils fill",
+    ),
+    key(
+        "array",
+        "spacing",
+        Length,
+        "ring: smallest copper gap between neighbouring coils (default: the clearance)",
+    ),
+    key("array", "rows", Integer, "grid: rows, 1 to 32"),
+    key("array", "columns", Integer, "grid: columns, 1 to 32"),
+    key("array", "pitch_x", Length, "grid: centre to centre along x"),
+    key("array", "pitch_y", Length, "grid: centre to centre along y"),
+    key(
+        "array",
+        "phases",
+        Integer,
+        "1 (every coil in series), 2 or 3; more than 1 needs [rotor] poles",
+    ),
+    key(
+        "array",
+        "connection",
+        Choice(&["star", "delta", "separate"]),
+        "how the phases meet their pads (separate: two pads per phase)",
+    ),
+    key(
+        "array",
+        "neutral",
+        Switch,
+        "star: bring the star point out to its own pad N",
+    ),
     // [rotor]
     key(
         "rotor",
         "poles",
         Integer,
-        "magnets on the rotor, alternating north and south (even)",
+        "magnet poles facing the coils, alternating north and south (even, 2 to 96)",
     ),
     key(
         "rotor",
@@ -552,7 +600,7 @@ mod tests {
             t,
             [
                 "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive", "fin",
-                "tail", "rotor"
+                "tail", "array", "rotor"
             ]
         );
     }

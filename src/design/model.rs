@@ -37,8 +37,81 @@ pub struct Design {
     pub fin: Option<Fin>,
     /// Optional flex tail with connector fingers.
     pub tail: Option<Tail>,
-    /// Optional rotor of magnets over a ring of coils.
+    /// Optional array of copies of the coil on one board (`[array]`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub array: Option<Array>,
+    /// Optional rotor the coils face (`[rotor]`).
+    #[serde(skip_serializing_if = "Option::is_none")]
     pub rotor: Option<Rotor>,
+}
+
+/// Copies of the coil placed on one board and wired into phases
+/// (`[array]`). Lengths in mm.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Array {
+    /// Where the copies sit.
+    pub arrangement: Arrangement,
+    /// Number of phases: 1 (every coil in series), 2 or 3.
+    pub phases: u32,
+    /// How the phases meet the terminals.
+    pub connection: Connection,
+    /// Star connection: bring the star point out to its own pad "N".
+    pub neutral: bool,
+}
+
+/// Where the copies of an array sit.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum Arrangement {
+    /// `count` coils evenly spaced on a ring about the board's origin,
+    /// filling the annulus between `inner_diameter` and `outer_diameter`,
+    /// each turned to face outward (coil 0 on +x).
+    Ring {
+        /// Number of coils.
+        count: u32,
+        /// Inner diameter of the annulus the coils fill, mm.
+        inner_diameter: f64,
+        /// Outer diameter of the annulus, mm.
+        outer_diameter: f64,
+        /// Smallest copper gap between neighbouring coils, mm (`None`: the
+        /// coil's clearance).
+        spacing: Option<f64>,
+    },
+    /// `rows` x `columns` coils on a rectangular grid centred on the origin,
+    /// row 0 at the bottom, column 0 at the left.
+    Grid {
+        /// Rows (along y).
+        rows: u32,
+        /// Columns (along x).
+        columns: u32,
+        /// Centre-to-centre distance along x, mm.
+        pitch_x: f64,
+        /// Centre-to-centre distance along y, mm.
+        pitch_y: f64,
+    },
+}
+
+impl Arrangement {
+    /// Number of coils.
+    pub fn count(&self) -> u32 {
+        match *self {
+            Arrangement::Ring { count, .. } => count,
+            Arrangement::Grid { rows, columns, .. } => rows * columns,
+        }
+    }
+}
+
+/// How the phases of an array meet their terminals.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Connection {
+    /// The phase ends meet at a star point; one pad per phase (and "N"
+    /// when `neutral`).
+    Star,
+    /// Each phase's end joins the next phase's start; one pad per corner.
+    Delta,
+    /// Two pads per phase.
+    Separate,
 }
 
 /// A strip of the flex board leaving the coil at the terminal angle, with
@@ -388,12 +461,22 @@ pub struct RulesRequest {
 }
 
 /// The rotor of an axial-flux machine turning over a ring of coils
-/// (`[rotor]`): `poles` axially magnetised magnets of alternating polarity,
-/// equally spaced on a circle about the board's origin. Lengths in mm.
+/// (`[rotor]`): `poles` magnets of alternating polarity, equally spaced on
+/// a circle about the board's origin. The pole count alone sets an
+/// array's winding pattern; with the magnets' sizes the analysis gives the
+/// flux linkage, back-EMF and torque.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Rotor {
     /// Number of magnets (poles), even.
     pub poles: u32,
+    /// The magnets, when the design sizes them.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub magnets: Option<RotorMagnets>,
+}
+
+/// The magnets of a [`Rotor`], axially magnetised. Lengths in mm.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct RotorMagnets {
     /// The magnets' shape and size.
     pub magnet: RotorMagnet,
     /// Magnet thickness along the axis, mm.
@@ -605,6 +688,7 @@ impl Design {
             },
             fin: None,
             tail: None,
+            array: None,
             rotor: None,
         }
     }
@@ -687,6 +771,8 @@ pub struct DesignRequest {
     pub fin: Option<Fin>,
     /// Optional flex tail with connector fingers.
     pub tail: Option<Tail>,
+    /// Optional array of copies of the coil.
+    pub array: Option<Array>,
     /// Optional rotor.
     pub rotor: Option<Rotor>,
     /// Where each key is in the text.
@@ -709,6 +795,7 @@ impl DesignRequest {
             drive: self.drive,
             fin: self.fin,
             tail: self.tail,
+            array: self.array,
             rotor: self.rotor,
         }
     }

@@ -144,6 +144,15 @@ pub fn analyse_with(
     layout: &Board,
     detail: Detail,
 ) -> Result<Analysis, AnalysisError> {
+    // An array is analysed as its first phase alone (its coils and own
+    // buses, in current order): the phase resistance and inductance.
+    let view;
+    let layout = if layout.phases.is_empty() {
+        layout
+    } else {
+        view = layout.phase_view(0);
+        &view
+    };
     check_inputs(design, layout)?;
     let cond = Conductor::new(design, layout);
     let mut found = Findings::default();

@@ -39,7 +39,7 @@
 use super::conductor::Filament;
 use super::field::Segments;
 use super::{MU0, map_indices};
-use crate::design::{Rotor, RotorMagnet};
+use crate::design::{Rotor, RotorMagnet, RotorMagnets};
 use crate::numeric::quadrature::rule;
 use std::f64::consts::PI;
 
@@ -65,10 +65,10 @@ pub struct RotorSource {
 }
 
 impl RotorSource {
-    /// The rotor over copper whose top surface is at `z = 0` and whose
-    /// bottom copper surface is at `z = bottom` (m, negative; the second
-    /// disc's magnets face it from `gap` below).
-    pub fn new(rotor: &Rotor, bottom: f64) -> RotorSource {
+    /// The rotor of `poles` magnets `rotor` over copper whose top surface
+    /// is at `z = 0` and whose bottom copper surface is at `z = bottom` (m,
+    /// negative; the second disc's magnets face it from `gap` below).
+    pub fn new(poles: u32, rotor: &RotorMagnets, bottom: f64) -> RotorSource {
         let outline = outline(rotor);
         let t = rotor.thickness * 1e-3;
         let k = rotor.remanence / MU0;
@@ -85,10 +85,10 @@ impl RotorSource {
             })
             .collect();
         let mut segs = Segments::with_capacity(
-            rotor.poles as usize * outline.len() * heights.len() * rotor.discs as usize,
+            poles as usize * outline.len() * heights.len() * rotor.discs as usize,
         );
-        for pole in 0..rotor.poles {
-            let angle = 2.0 * PI * pole as f64 / rotor.poles as f64;
+        for pole in 0..poles {
+            let angle = 2.0 * PI * pole as f64 / poles as f64;
             let sign = if pole % 2 == 0 { 1.0 } else { -1.0 };
             let (c, s) = (angle.cos(), angle.sin());
             let turned: Vec<[f64; 2]> = outline
@@ -112,11 +112,7 @@ impl RotorSource {
                 }
             }
         }
-        RotorSource {
-            segs,
-            poles: rotor.poles,
-            gap,
-        }
+        RotorSource { segs, poles, gap }
     }
 
     /// Flux density of the rotor at angle 0 at `p` (m), tesla.
@@ -127,7 +123,7 @@ impl RotorSource {
 
 /// A magnet's outline about its own centre placed at angle 0 (on +x),
 /// counter-clockwise, metres.
-fn outline(rotor: &Rotor) -> Vec<[f64; 2]> {
+fn outline(rotor: &RotorMagnets) -> Vec<[f64; 2]> {
     let rp = rotor.pitch_diameter * 0.5e-3;
     let round = |cx: f64, r: f64| -> Vec<[f64; 2]> {
         let n = WALL_SIDES as f64;
@@ -535,16 +531,22 @@ mod tests {
     use crate::physics::closed_forms::magnet_on_axis;
     use crate::physics::inductance::maxwell_mutual;
 
-    fn rotor(poles: u32, magnet: RotorMagnet, pitch_diameter: f64, discs: u8) -> Rotor {
-        Rotor {
-            poles,
+    fn source(
+        poles: u32,
+        magnet: RotorMagnet,
+        pitch_diameter: f64,
+        discs: u8,
+        bottom: f64,
+    ) -> RotorSource {
+        let m = RotorMagnets {
             magnet,
             thickness: 3.0,
             remanence: 1.2,
             gap: 1.0,
             pitch_diameter,
             discs,
-        }
+        };
+        RotorSource::new(poles, &m, bottom)
     }
 
     /// A closed circular loop of radius `a` (m) about (`cx`, 0) at height
@@ -572,8 +574,13 @@ mod tests {
     /// other magnet is 2 m away.
     #[test]
     fn cylinder_on_axis_matches_closed_form() {
-        let r = rotor(2, RotorMagnet::Cylinder { diameter: 10.0 }, 2000.0, 1);
-        let src = RotorSource::new(&r, -1e-3);
+        let src = source(
+            2,
+            RotorMagnet::Cylinder { diameter: 10.0 },
+            2000.0,
+            1,
+            -1e-3,
+        );
         for depth in [0.0, 0.5e-3, 2e-3, 5e-3] {
             let b = src.field_at([1.0, 0.0, -depth])[2];
             let want = magnet_on_axis(1.2, 5e-3, 3e-3, 1e-3 + depth);
@@ -588,8 +595,13 @@ mod tests {
     /// the axis is zero.
     #[test]
     fn coaxial_loop_flux_matches_maxwell() {
-        let r = rotor(2, RotorMagnet::Cylinder { diameter: 10.0 }, 2000.0, 1);
-        let src = RotorSource::new(&r, -1e-3);
+        let src = source(
+            2,
+            RotorMagnet::Cylinder { diameter: 10.0 },
+            2000.0,
+            1,
+            -1e-3,
+        );
         for (a, z) in [(3e-3, -2e-5), (6e-3, -2e-5), (4e-3, -3e-4)] {
             let c = Coupling::new(&src, &ring(1.0, a, z, 720));
             let (flux, _) = c.at(0.0);
@@ -633,8 +645,7 @@ mod tests {
                 1,
             ),
         ] {
-            let r = rotor(8, magnet, 30.0, discs);
-            let src = RotorSource::new(&r, -1.6e-3);
+            let src = source(8, magnet, 30.0, discs, -1.6e-3);
             let c = Coupling::new(&src, &ring(15e-3, 4e-3, -2e-5, 360));
             let l = c.over_period(90);
             assert!(
@@ -733,12 +744,17 @@ pub struct RotorReport {
 /// SI, weighted by their share of the phase current) against the
 /// design's rotor, over one electrical period ([`STEPS_FULL`] steps, or
 /// [`STEPS_METRICS`] when `full` is false).
-pub fn analyse(rotor: &Rotor, phases: &[(String, Vec<Filament>)], full: bool) -> RotorReport {
+pub fn analyse(
+    rotor: &Rotor,
+    magnets: &RotorMagnets,
+    phases: &[(String, Vec<Filament>)],
+    full: bool,
+) -> RotorReport {
     let bottom = phases
         .iter()
         .flat_map(|(_, f)| f.iter().map(|x| x.a[2] - x.thickness / 2.0))
         .fold(0.0_f64, f64::min);
-    let src = RotorSource::new(rotor, bottom);
+    let src = RotorSource::new(rotor.poles, magnets, bottom);
     let steps = if full { STEPS_FULL } else { STEPS_METRICS };
     let links: Vec<Linkage> = phases
         .iter()
@@ -748,7 +764,7 @@ pub fn analyse(rotor: &Rotor, phases: &[(String, Vec<Filament>)], full: bool) ->
     let half = rotor.poles as f64 / 2.0;
     RotorReport {
         poles: rotor.poles,
-        discs: rotor.discs,
+        discs: magnets.discs,
         constants,
         electrical_degrees: links[0]
             .angles

@@ -19,8 +19,8 @@ import magpylib as magpy
 import numpy as np
 
 
-def magnets(rotor, bottom):
-    poles, t = rotor["poles"], rotor["thickness"] * 1e-3
+def magnets(poles, rotor, bottom):
+    t = rotor["thickness"] * 1e-3
     br, gap = rotor["remanence"], rotor["gap"] * 1e-3
     rp = rotor["pitch_diameter"] * 0.5e-3
     shape = rotor["magnet"]
@@ -85,7 +85,7 @@ def main():
     cases = json.load(open(sys.argv[1]))
     worst_b, worst_f = 0.0, 0.0
     for case in cases:
-        col = magnets(case["rotor"], case["bottom"])
+        col = magnets(case["poles"], case["rotor"], case["bottom"])
         pts = np.array([p["at"] for p in case["points"]])
         ours = np.array([p["b"] for p in case["points"]])
         ref = col.getB(pts)

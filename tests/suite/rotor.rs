@@ -7,7 +7,7 @@
 //! along the loop (`physics::rotor`). Needs the venv from
 //! tests/interop/setup.sh; fails, never skips, without it.
 
-use coilwright::design::{Rotor, RotorMagnet};
+use coilwright::design::{RotorMagnet, RotorMagnets};
 use coilwright::physics::conductor::Filament;
 use coilwright::physics::rotor::{Coupling, RotorSource};
 use serde_json::json;
@@ -72,8 +72,7 @@ fn rotor_field_and_flux_match_magpylib() {
     let bottom = -1.6e-3;
     let mut cases = Vec::new();
     for (magnet, poles, discs) in rotors {
-        let rotor = Rotor {
-            poles,
+        let rotor = RotorMagnets {
             magnet,
             thickness: 3.0,
             remanence: 1.25,
@@ -81,7 +80,7 @@ fn rotor_field_and_flux_match_magpylib() {
             pitch_diameter: 30.0,
             discs,
         };
-        let src = RotorSource::new(&rotor, bottom);
+        let src = RotorSource::new(poles, &rotor, bottom);
         let mut points = Vec::new();
         for (i, z) in [-2e-5, -8e-4, -1.58e-3].iter().enumerate() {
             for k in 0..24 {
@@ -104,7 +103,7 @@ fn rotor_field_and_flux_match_magpylib() {
                 }));
             }
         }
-        cases.push(json!({"rotor": rotor, "bottom": bottom, "points": points, "loops": loops}));
+        cases.push(json!({"poles": poles, "rotor": rotor, "bottom": bottom, "points": points, "loops": loops}));
     }
     let dir = tempfile::tempdir().unwrap();
     let file = std::env::var("ROTOR_JSON").map_or(dir.path().join("rotor.json"), Into::into);

@@ -6,6 +6,7 @@
 //! values. One reader per table, each in its own file; `table.rs` holds
 //! the helpers they share, `known_keys.rs` the unknown-key check.
 
+mod array;
 mod board;
 mod coil;
 mod drive;
@@ -60,6 +61,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let drive_t = cx.table(&root, "drive");
     let fin_t = cx.table(&root, "fin");
     let tail_t = cx.table(&root, "tail");
+    let array_t = cx.table(&root, "array");
     let rotor_t = cx.table(&root, "rotor");
 
     let coil = coil::read(&mut cx, &coil_t);
@@ -83,6 +85,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let fin = fin::read(&mut cx, &fin_t, magnet.as_ref());
     let tail = tail::read(&mut cx, &tail_t, stackup.kind);
     let rotor = rotor::read(&mut cx, &rotor_t);
+    let array = array::read(&mut cx, &array_t, rotor.as_ref());
 
     let Ctx {
         mut errors,
@@ -116,6 +119,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
         drive,
         fin,
         tail,
+        array,
         rotor,
         spans: KeySpans::of(doc.get_ref()),
     })

@@ -1,24 +1,28 @@
 //! `[rotor]`: the optional rotor of magnets turning over a ring of coils.
 
-use super::super::model::{Rotor, RotorMagnet};
+use super::super::model::{Rotor, RotorMagnet, RotorMagnets};
 use super::super::units::Remanence;
 use super::table::{Ctx, Sign, Table};
 
-/// Reads `[rotor]`; absent table, no rotor. `poles`, `thickness`,
-/// `remanence`, `gap` and the sizes of the chosen magnet shape are
-/// required; `pitch_diameter` too except for arc magnets (their mean
-/// diameter). Neighbouring magnets must not overlap.
+/// Most magnet poles on a rotor.
+pub(super) const MAX_POLES: i64 = 96;
+
+/// Reads `[rotor]`; absent table, no rotor. `poles` is required. The
+/// magnets are optional, but any of their keys asks for `thickness`,
+/// `remanence`, `gap`, the sizes of the chosen magnet shape and
+/// `pitch_diameter` (not for arc magnets: their mean diameter).
+/// Neighbouring magnets must not overlap.
 pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<Rotor> {
     if !t.present() {
         return None;
     }
-    let poles = match cx.integer(t, "poles", 2, 400) {
+    let poles = match cx.integer(t, "poles", 2, MAX_POLES) {
         Some(p) if p % 2 == 1 => {
             cx.err(
                 t.key("poles"),
                 t.span_of("poles"),
-                format!("{p} poles cannot alternate north and south"),
-                Some("an even number from 2 to 400".into()),
+                format!("{p} poles: magnets alternate north and south, so the count is even"),
+                Some(format!("use {} or {}", p - 1, p + 1)),
             );
             None
         }
@@ -30,6 +34,34 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<Rotor> {
             None
         }
     };
+    let sized = MAGNET_KEYS.iter().any(|k| t.has(k));
+    let magnets = if sized { magnets(cx, t, poles) } else { None };
+    let rotor = Rotor {
+        poles: poles?,
+        magnets,
+    };
+    Some(rotor)
+}
+
+/// The keys that size the magnets: any of them asks for all that the
+/// shape needs.
+const MAGNET_KEYS: [&str; 12] = [
+    "magnet",
+    "diameter",
+    "width",
+    "length",
+    "inner_diameter",
+    "outer_diameter",
+    "angle",
+    "thickness",
+    "remanence",
+    "gap",
+    "pitch_diameter",
+    "discs",
+];
+
+/// Reads the magnets' keys of `[rotor]`.
+fn magnets(cx: &mut Ctx, t: &Table, poles: Option<u32>) -> Option<RotorMagnets> {
     let thickness = cx.req_length(t, "thickness", Sign::Positive);
     let remanence = cx
         .quantity::<Remanence>(t, "remanence", Sign::Positive)
@@ -129,9 +161,7 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<Rotor> {
         ) => (inner_diameter + outer_diameter) / 2.0,
         _ => cx.req_length(t, "pitch_diameter", Sign::Positive),
     };
-    let poles = poles?;
-    let rotor = Rotor {
-        poles,
+    let magnets = RotorMagnets {
         magnet,
         thickness,
         remanence: remanence?,
@@ -139,16 +169,16 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<Rotor> {
         pitch_diameter,
         discs,
     };
-    if let Some((key, message, help)) = overlap(&rotor) {
+    if let Some((key, message, help)) = overlap(&magnets, poles?) {
         cx.err(t.key(key), t.span_of(key), message, Some(help));
     }
-    Some(rotor)
+    Some(magnets)
 }
 
 /// Whether neighbouring magnets overlap (or an arc magnet spans more than
 /// its share of the circle): the key to blame, what is wrong, what fits.
-fn overlap(r: &Rotor) -> Option<(&'static str, String, String)> {
-    let share = 360.0 / r.poles as f64;
+fn overlap(r: &RotorMagnets, poles: u32) -> Option<(&'static str, String, String)> {
+    let share = 360.0 / poles as f64;
     let rp = r.pitch_diameter / 2.0;
     let half = (share / 2.0).to_radians();
     match r.magnet {
@@ -163,7 +193,7 @@ fn overlap(r: &Rotor) -> Option<(&'static str, String, String)> {
                         diameter - room,
                         r.pitch_diameter
                     ),
-                    format!("at most {room:.3} mm for {} poles", r.poles),
+                    format!("at most {room:.3} mm for {} poles", poles),
                 )
             })
         }
@@ -178,7 +208,7 @@ fn overlap(r: &Rotor) -> Option<(&'static str, String, String)> {
                     format!(
                         "{width} mm blocks overlap their neighbours at their inner faces ({inner:.3} mm from the axis)"
                     ),
-                    format!("at most {:.3} mm for {} poles", room.max(0.0), r.poles),
+                    format!("at most {:.3} mm for {} poles", room.max(0.0), poles),
                 )
             })
         }
@@ -186,7 +216,7 @@ fn overlap(r: &Rotor) -> Option<(&'static str, String, String)> {
             (
                 "angle",
                 format!("{angle} degree segments overlap: each pole has {share:.3} degrees"),
-                format!("at most {share:.3} degrees for {} poles", r.poles),
+                format!("at most {share:.3} degrees for {} poles", poles),
             )
         }),
     }
