@@ -86,6 +86,27 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let tail = tail::read(&mut cx, &tail_t, stackup.kind);
     let rotor = rotor::read(&mut cx, &rotor_t);
     let array = array::read(&mut cx, &array_t, rotor.as_ref());
+    // A rotor turns over a ring of coils: its magnets need one.
+    let ring =
+        array.is_some_and(|a| matches!(a.arrangement, super::model::Arrangement::Ring { .. }));
+    if rotor.is_some_and(|r| r.magnets.is_some()) && !ring && !array_t.present() {
+        cx.err(
+            String::from("rotor"),
+            rotor_t.span.clone(),
+            "a rotor's magnets turn over a ring of coils: this design has one coil",
+            Some(
+                "add [array] with arrangement = \"ring\", or remove the magnet keys from [rotor]"
+                    .into(),
+            ),
+        );
+    } else if rotor.is_some_and(|r| r.magnets.is_some()) && array.is_some() && !ring {
+        cx.err(
+            String::from("array.arrangement"),
+            array_t.span_of("arrangement"),
+            "a rotor's magnets turn over a ring of coils, not a grid",
+            Some("use arrangement = \"ring\", or remove the magnet keys from [rotor]".into()),
+        );
+    }
 
     let Ctx {
         mut errors,
