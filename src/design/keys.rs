@@ -429,6 +429,128 @@ pub const KEYS: &[Key] = &[
         Length,
         "thickness of the stiffener behind the fingers (0: none)",
     ),
+    // [array]
+    key(
+        "array",
+        "arrangement",
+        Choice(&["ring", "grid"]),
+        "copies of the coil on a ring about the origin, or on a grid",
+    ),
+    key("array", "count", Integer, "ring: number of coils, 2 to 96"),
+    key(
+        "array",
+        "inner_diameter",
+        Length,
+        "ring: inner diameter of the annulus the coils fill",
+    ),
+    key(
+        "array",
+        "outer_diameter",
+        Length,
+        "ring: outer diameter of the annulus the coils fill",
+    ),
+    key(
+        "array",
+        "spacing",
+        Length,
+        "ring: smallest copper gap between neighbouring coils (default: the clearance)",
+    ),
+    key("array", "rows", Integer, "grid: rows, 1 to 32"),
+    key("array", "columns", Integer, "grid: columns, 1 to 32"),
+    key("array", "pitch_x", Length, "grid: centre to centre along x"),
+    key("array", "pitch_y", Length, "grid: centre to centre along y"),
+    key(
+        "array",
+        "phases",
+        Integer,
+        "1 (every coil in series), 2 or 3; more than 1 needs [rotor] poles",
+    ),
+    key(
+        "array",
+        "connection",
+        Choice(&["star", "delta", "separate"]),
+        "how the phases meet their pads (separate: two pads per phase)",
+    ),
+    key(
+        "array",
+        "neutral",
+        Switch,
+        "star: bring the star point out to its own pad N",
+    ),
+    // [rotor]
+    key(
+        "rotor",
+        "poles",
+        Integer,
+        "magnet poles facing the coils, alternating north and south (even, 2 to 96)",
+    ),
+    key(
+        "rotor",
+        "magnet",
+        Choice(&["cylinder", "block", "arc"]),
+        "shape of the rotor's magnets (default cylinder)",
+    ),
+    key("rotor", "diameter", Length, "cylinder magnets: diameter"),
+    key(
+        "rotor",
+        "width",
+        Length,
+        "block magnets: size across the radius",
+    ),
+    key(
+        "rotor",
+        "length",
+        Length,
+        "block magnets: size along the radius",
+    ),
+    key(
+        "rotor",
+        "inner_diameter",
+        Length,
+        "arc magnets: inner diameter of the segments",
+    ),
+    key(
+        "rotor",
+        "outer_diameter",
+        Length,
+        "arc magnets: outer diameter of the segments",
+    ),
+    key(
+        "rotor",
+        "angle",
+        Number,
+        "arc magnets: degrees each segment spans",
+    ),
+    key(
+        "rotor",
+        "thickness",
+        Length,
+        "magnet thickness along the axis",
+    ),
+    key(
+        "rotor",
+        "remanence",
+        Kind::Quantity { unit: "T" },
+        "remanence of the magnet material",
+    ),
+    key(
+        "rotor",
+        "gap",
+        Length,
+        "top copper surface to the magnets' faces",
+    ),
+    key(
+        "rotor",
+        "pitch_diameter",
+        Length,
+        "circle through the magnets' centres (arc magnets: their mean diameter)",
+    ),
+    key(
+        "rotor",
+        "discs",
+        Integer,
+        "1, or 2 with a second disc below the board (doubles and evens the axial field)",
+    ),
 ];
 
 /// Every design-file key: [`KEYS`] with `limits` as `[rules]` keys after
@@ -478,7 +600,7 @@ mod tests {
             t,
             [
                 "coil", "stackup", "via", "terminal", "board", "rules", "magnet", "drive", "fin",
-                "tail"
+                "tail", "array", "rotor"
             ]
         );
     }

@@ -39,6 +39,7 @@ mod read;
 mod spans;
 mod templates;
 pub mod units;
+pub mod winding;
 
 pub use error::{DesignError, DesignErrors, line_col};
 pub use keys::{Key, LimitKey};

@@ -37,6 +37,81 @@ pub struct Design {
     pub fin: Option<Fin>,
     /// Optional flex tail with connector fingers.
     pub tail: Option<Tail>,
+    /// Optional array of copies of the coil on one board (`[array]`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub array: Option<Array>,
+    /// Optional rotor the coils face (`[rotor]`).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub rotor: Option<Rotor>,
+}
+
+/// Copies of the coil placed on one board and wired into phases
+/// (`[array]`). Lengths in mm.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Array {
+    /// Where the copies sit.
+    pub arrangement: Arrangement,
+    /// Number of phases: 1 (every coil in series), 2 or 3.
+    pub phases: u32,
+    /// How the phases meet the terminals.
+    pub connection: Connection,
+    /// Star connection: bring the star point out to its own pad "N".
+    pub neutral: bool,
+}
+
+/// Where the copies of an array sit.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "kind", rename_all = "snake_case")]
+pub enum Arrangement {
+    /// `count` coils evenly spaced on a ring about the board's origin,
+    /// filling the annulus between `inner_diameter` and `outer_diameter`,
+    /// each turned to face outward (coil 0 on +x).
+    Ring {
+        /// Number of coils.
+        count: u32,
+        /// Inner diameter of the annulus the coils fill, mm.
+        inner_diameter: f64,
+        /// Outer diameter of the annulus, mm.
+        outer_diameter: f64,
+        /// Smallest copper gap between neighbouring coils, mm (`None`: the
+        /// coil's clearance).
+        spacing: Option<f64>,
+    },
+    /// `rows` x `columns` coils on a rectangular grid centred on the origin,
+    /// row 0 at the bottom, column 0 at the left.
+    Grid {
+        /// Rows (along y).
+        rows: u32,
+        /// Columns (along x).
+        columns: u32,
+        /// Centre-to-centre distance along x, mm.
+        pitch_x: f64,
+        /// Centre-to-centre distance along y, mm.
+        pitch_y: f64,
+    },
+}
+
+impl Arrangement {
+    /// Number of coils.
+    pub fn count(&self) -> u32 {
+        match *self {
+            Arrangement::Ring { count, .. } => count,
+            Arrangement::Grid { rows, columns, .. } => rows * columns,
+        }
+    }
+}
+
+/// How the phases of an array meet their terminals.
+#[derive(Debug, Clone, Copy, PartialEq, Eq, Serialize)]
+#[serde(rename_all = "snake_case")]
+pub enum Connection {
+    /// The phase ends meet at a star point; one pad per phase (and "N"
+    /// when `neutral`).
+    Star,
+    /// Each phase's end joins the next phase's start; one pad per corner.
+    Delta,
+    /// Two pads per phase.
+    Separate,
 }
 
 /// A strip of the flex board leaving the coil at the terminal angle, with
@@ -385,6 +460,65 @@ pub struct RulesRequest {
     pub overrides: BTreeMap<String, f64>,
 }
 
+/// The rotor of an axial-flux machine turning over a ring of coils
+/// (`[rotor]`): `poles` magnets of alternating polarity, equally spaced on
+/// a circle about the board's origin. The pole count alone sets an
+/// array's winding pattern; with the magnets' sizes the analysis gives the
+/// flux linkage, back-EMF and torque.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct Rotor {
+    /// Number of magnets (poles), even.
+    pub poles: u32,
+    /// The magnets, when the design sizes them.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub magnets: Option<RotorMagnets>,
+}
+
+/// The magnets of a [`Rotor`], axially magnetised. Lengths in mm.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+pub struct RotorMagnets {
+    /// The magnets' shape and size.
+    pub magnet: RotorMagnet,
+    /// Magnet thickness along the axis, mm.
+    pub thickness: f64,
+    /// Remanence of the magnet material, tesla.
+    pub remanence: f64,
+    /// Gap from the top copper surface to the magnets' faces, mm (and from
+    /// the bottom copper surface to the second disc's, with two discs).
+    pub gap: f64,
+    /// Diameter of the circle through the magnets' centres, mm.
+    pub pitch_diameter: f64,
+    /// Rotor discs: 1 above the board, or 2 (a second one below it).
+    pub discs: u8,
+}
+
+/// The shape of a rotor's magnets, each centred on the pitch circle.
+#[derive(Debug, Clone, Copy, PartialEq, Serialize)]
+#[serde(tag = "magnet", rename_all = "snake_case")]
+pub enum RotorMagnet {
+    /// A round disc magnet.
+    Cylinder {
+        /// Diameter, mm.
+        diameter: f64,
+    },
+    /// A rectangular block, `length` along the radius and `width` across it.
+    Block {
+        /// Size across the radius (tangential), mm.
+        width: f64,
+        /// Size along the radius, mm.
+        length: f64,
+    },
+    /// A segment of a ring: between two radii and over an angle.
+    Arc {
+        /// Inner diameter of the segment, mm.
+        inner_diameter: f64,
+        /// Outer diameter of the segment, mm.
+        outer_diameter: f64,
+        /// Angle the segment spans, degrees.
+        angle: f64,
+    },
+}
+
 /// An axially magnetised cylindrical permanent magnet on the coil axis.
 #[derive(Debug, Clone, Copy, PartialEq, Serialize)]
 pub struct Magnet {
@@ -554,6 +688,8 @@ impl Design {
             },
             fin: None,
             tail: None,
+            array: None,
+            rotor: None,
         }
     }
 }
@@ -635,6 +771,10 @@ pub struct DesignRequest {
     pub fin: Option<Fin>,
     /// Optional flex tail with connector fingers.
     pub tail: Option<Tail>,
+    /// Optional array of copies of the coil.
+    pub array: Option<Array>,
+    /// Optional rotor.
+    pub rotor: Option<Rotor>,
     /// Where each key is in the text.
     pub spans: KeySpans,
 }
@@ -655,6 +795,8 @@ impl DesignRequest {
             drive: self.drive,
             fin: self.fin,
             tail: self.tail,
+            array: self.array,
+            rotor: self.rotor,
         }
     }
 }

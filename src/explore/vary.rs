@@ -62,7 +62,9 @@ pub struct Vary {
 }
 
 /// Resolves a key as typed (`turns`, `coil.turns`, `trace_width`) to its
-/// full path among the numeric keys.
+/// full path among the numeric keys. A short name that several tables use
+/// means the `[coil]` key when the coil has one (`outer_diameter` is
+/// `coil.outer_diameter`; the ring's is `array.outer_diameter`).
 pub fn resolve_key(typed: &str) -> Result<(String, Kind), SweepError> {
     let typed = typed.trim();
     let keys = crate::pipeline::design_keys();
@@ -71,7 +73,10 @@ pub fn resolve_key(typed: &str) -> Result<(String, Kind), SweepError> {
     if let Some(&(k, kind)) = numeric.iter().find(|(k, _)| k.path() == typed) {
         return Ok((k.path(), kind));
     }
-    let matches: Vec<_> = numeric.iter().filter(|(k, _)| short(k)).collect();
+    let mut matches: Vec<_> = numeric.iter().filter(|(k, _)| short(k)).collect();
+    if matches.len() > 1 && matches.iter().any(|(k, _)| k.table == "coil") {
+        matches.retain(|(k, _)| k.table == "coil");
+    }
     match matches.as_slice() {
         [one] => return Ok((one.0.path(), one.1)),
         [] => {}
@@ -299,6 +304,10 @@ mod tests {
             }
             other => panic!("{other:?}"),
         }
+        assert_eq!(
+            parse("outer_diameter=12mm").unwrap().key,
+            "coil.outer_diameter"
+        );
         assert!(matches!(
             parse("diameter=1"),
             Err(SweepError::AmbiguousKey { .. })
@@ -327,7 +336,12 @@ mod tests {
         assert_eq!(kind("terminal.pad_width"), Some(Kind::Quantity));
         assert_eq!(kind("tail.fingers"), Some(Kind::Integer));
         assert_eq!(kind("tail.pitch"), Some(Kind::Quantity));
-        assert_eq!(keys.len(), 56);
+        assert_eq!(kind("array.count"), Some(Kind::Integer));
+        assert_eq!(kind("array.spacing"), Some(Kind::Quantity));
+        assert_eq!(kind("rotor.poles"), Some(Kind::Integer));
+        assert_eq!(kind("array.connection"), None);
+        assert_eq!(kind("rotor.gap"), Some(Kind::Quantity));
+        assert_eq!(keys.len(), 77);
         assert_eq!(
             parse("min_drill=0.15mm,0.2mm").unwrap().key,
             "rules.min_drill"

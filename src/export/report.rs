@@ -113,6 +113,13 @@ pub fn plots(design: &Design, board: &Board, a: &Analysis) -> Vec<(String, &'sta
         ));
     }
     motion_plots(design, a, &mut v);
+    if let Some(r) = &a.rotor {
+        v.push((
+            "back_emf.svg".to_string(),
+            "plot: back-EMF of each phase",
+            back_emf_plot(r),
+        ));
+    }
     if let (Some(m), Some(mg)) = (&a.magnet, &design.magnet) {
         let pts: Vec<(f64, f64)> = m
             .force_vs_gap
@@ -192,6 +199,45 @@ fn impedance_plot(a: &Analysis) -> String {
         &marks,
         Scale::Log,
         Scale::Log,
+    )
+}
+
+/// Back-EMF per unit speed of each phase against the electrical angle.
+fn back_emf_plot(r: &crate::physics::rotor::RotorReport) -> String {
+    let series: Vec<(String, Vec<(f64, f64)>)> = r
+        .phases
+        .iter()
+        .map(|p| {
+            let pts = r
+                .electrical_degrees
+                .iter()
+                .zip(&p.emf_v_per_rad_s)
+                .map(|(x, e)| (*x, e * 1e3))
+                .collect();
+            (format!("phase {}", p.phase), pts)
+        })
+        .collect();
+    let named: Vec<(&str, Vec<(f64, f64)>)> = series
+        .iter()
+        .map(|(n, p)| (n.as_str(), p.clone()))
+        .collect();
+    let c = &r.constants;
+    line_plot(
+        &format!(
+            "Back-EMF per phase, {} poles (per unit rotor speed)",
+            r.poles
+        ),
+        "electrical angle (degrees)",
+        "back-EMF (mV per rad/s)",
+        &named,
+        &[Marker::new(
+            360.0,
+            format!(
+                "phase peak {} mV/(rad/s); torque {} mN m/A (sine drive)",
+                sig(c.back_emf_v_per_rad_s * 1e3, 4),
+                sig(c.torque_constant_n_m_per_a * 1e3, 4)
+            ),
+        )],
     )
 }
 

@@ -20,6 +20,8 @@ pub enum TrackRole {
     Winding,
     /// A lead joining a winding end to a via or a terminal pad.
     Lead,
+    /// A bus joining coils of an array, or a coil to a terminal.
+    Bus,
 }
 
 /// One piece of copper track on one layer.
@@ -259,6 +261,56 @@ pub struct Board {
     pub turns: f64,
     /// The flex tail with its fingers, if the design has one.
     pub tail: Option<TailLayout>,
+    /// An array's bus nets (empty for a coil alone).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub buses: Vec<Bus>,
+    /// An array's phases (empty for a coil alone).
+    #[serde(skip_serializing_if = "Vec::is_empty")]
+    pub phases: Vec<Phase>,
+    /// An array's winding factor (with a rotor).
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub winding_factor: Option<f64>,
+}
+
+/// One electrical node of an array between coils (a link from one coil's
+/// end to the next coil's start, a star point, a delta corner, a phase's
+/// terminal) and the bus copper that makes it. Copper of one bus may touch
+/// itself; it keeps the clearance to everything else.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Bus {
+    /// Net name: "A", "B", "C" (a phase's terminal, star connection; the
+    /// delta corner that starts the phase), "A1"/"A2" (a phase's start and
+    /// end, separate connection or one phase), "N" (the star point),
+    /// "A_L1" ... (the links between a phase's coils).
+    pub name: String,
+    /// Its tracks: `Board::tracks[tracks]` (role [`TrackRole::Bus`]).
+    pub tracks: Range<usize>,
+    /// Its vias: `Board::vias[vias]`.
+    pub vias: Range<usize>,
+    /// Its windings (one per track): `Board::windings[windings]`.
+    pub windings: Range<usize>,
+    /// Pads it joins: coils' terminals, then its terminal pad (if any).
+    pub pads: Vec<usize>,
+    /// Name of its terminal pad, if brought out.
+    pub terminal: Option<String>,
+}
+
+/// One phase of an array: its coils in the order the current passes them.
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct Phase {
+    /// "A", "B" or "C".
+    pub name: String,
+    /// `(index into Board::coils, +1.0 or -1.0)`: the sense in which the
+    /// phase current passes the coil (-1: it enters at the coil's pad "2").
+    pub coils: Vec<(usize, f64)>,
+    /// Indices into [`Board::buses`] of the buses that carry this phase's
+    /// current alone (its terminal leads and links; a star point or delta
+    /// corner shared with another phase is left out).
+    pub buses: Vec<usize>,
+    /// Pads where the phase current enters and leaves the phase's own
+    /// copper (terminal pad, or the coil pad at a shared star point or
+    /// delta corner).
+    pub ends: [usize; 2],
 }
 
 /// A flex tail as built: the strip, its contact fingers (surface pads in
@@ -300,6 +352,167 @@ impl Board {
     /// The coil that owns via `i`, if any.
     pub fn coil_of_via(&self, i: usize) -> Option<&PlacedCoil> {
         self.coils.iter().find(|c| c.vias.contains(&i))
+    }
+
+    /// Phase `ph` of an array alone, as a board of one conductor: the
+    /// phase's coils and its own buses (see [`Phase::buses`]), every
+    /// winding in the order the current passes it and every track along
+    /// the current (a coil the phase passes in sense -1 is walked from its
+    /// pad "2"), its pads and vias only, terminals "1" and "2" being
+    /// [`Phase::ends`]. The physics of one coil then applies to the phase
+    /// as it stands (resistance, inductance, field, force).
+    ///
+    /// # Panics
+    /// If `ph` is not a phase of the board.
+    pub fn phase_view(&self, ph: usize) -> Board {
+        let phase = &self.phases[ph];
+        // Legs: (winding index, walked backwards), in current order.
+        let mut legs: Vec<(usize, bool)> = Vec::new();
+        let mut at = Node::Pad(phase.ends[0]);
+        let bus_walk = |legs: &mut Vec<(usize, bool)>, from: Node, to: Node| {
+            for &b in &phase.buses {
+                if let Some(path) = self.bus_path(b, from, to) {
+                    legs.extend(path);
+                    return;
+                }
+            }
+        };
+        for &(k, sense) in &phase.coils {
+            let c = &self.coils[k];
+            let (enter, leave) = if sense > 0.0 {
+                (c.pads.start, c.pads.start + 1)
+            } else {
+                (c.pads.start + 1, c.pads.start)
+            };
+            bus_walk(&mut legs, at, Node::Pad(enter));
+            let ws: Vec<usize> = c.windings.clone().collect();
+            if sense > 0.0 {
+                legs.extend(ws.iter().map(|&w| (w, false)));
+            } else {
+                legs.extend(ws.iter().rev().map(|&w| (w, true)));
+            }
+            at = Node::Pad(leave);
+        }
+        bus_walk(&mut legs, at, Node::Pad(phase.ends[1]));
+
+        // Nodes kept, renumbered; the ends become pads "1" and "2".
+        let mut pads: Vec<usize> = vec![phase.ends[0], phase.ends[1]];
+        let mut vias: Vec<usize> = Vec::new();
+        let mut keep = |n: Node| match n {
+            Node::Pad(i) => Node::Pad(match pads.iter().position(|&p| p == i) {
+                Some(j) => j,
+                None => {
+                    pads.push(i);
+                    pads.len() - 1
+                }
+            }),
+            Node::Via(i) => Node::Via(match vias.iter().position(|&v| v == i) {
+                Some(j) => j,
+                None => {
+                    vias.push(i);
+                    vias.len() - 1
+                }
+            }),
+        };
+        let mut tracks = Vec::new();
+        let mut windings = Vec::new();
+        let (mut group, mut last) = (0usize, None);
+        for &(wi, back) in &legs {
+            let w = &self.windings[wi];
+            // A new group where the original one changes (parallel
+            // windings of a pair stay together).
+            let key = (self.coil_of_winding(wi), w.group);
+            if last.is_some() && last != Some(key) {
+                group += 1;
+            }
+            last = Some(key);
+            let t0 = tracks.len();
+            let ts = &self.tracks[w.tracks.0..w.tracks.1];
+            // Slivers shorter than 0.1 um (where a spiral is cut at
+            // its turn) are left out: moved off the origin they would be
+            // filaments of no length to the physics.
+            let kept = ts.iter().filter(|t| t.segment.length() > 1e-4);
+            if back {
+                tracks.extend(kept.rev().map(|t| Track {
+                    segment: t.segment.reversed(),
+                    ..*t
+                }));
+            } else {
+                tracks.extend(kept.copied());
+            }
+            let (from, to) = if back { (w.to, w.from) } else { (w.from, w.to) };
+            let direction = match (back, w.direction) {
+                (false, d) => d,
+                (true, Direction::Inward) => Direction::Outward,
+                (true, Direction::Outward) => Direction::Inward,
+            };
+            windings.push(Winding {
+                group,
+                tracks: (t0, tracks.len()),
+                from: keep(from),
+                to: keep(to),
+                direction,
+                ..w.clone()
+            });
+        }
+        let mut pads: Vec<Pad> = pads.iter().map(|&i| self.pads[i].clone()).collect();
+        pads[0].name = "1".into();
+        pads[1].name = "2".into();
+        let vias: Vec<Via> = vias.iter().map(|&i| self.vias[i].clone()).collect();
+        Board {
+            name: format!("{}-{}", self.name, phase.name),
+            coils: vec![],
+            tracks,
+            vias,
+            pads,
+            windings,
+            buses: vec![],
+            phases: vec![],
+            ..self.clone()
+        }
+    }
+
+    /// The coil that owns winding `i` (its index), if any.
+    fn coil_of_winding(&self, i: usize) -> Option<usize> {
+        self.coils.iter().position(|c| c.windings.contains(&i))
+    }
+
+    /// The windings of bus `b` from node `from` to node `to`, each with
+    /// whether it is walked backwards; `None` if the bus does not join them.
+    fn bus_path(&self, b: usize, from: Node, to: Node) -> Option<Vec<(usize, bool)>> {
+        let ws: Vec<usize> = self.buses[b].windings.clone().collect();
+        // Breadth-first over the bus's windings.
+        let mut seen = vec![from];
+        let mut queue = std::collections::VecDeque::from([(from, Vec::new())]);
+        while let Some((n, path)) = queue.pop_front() {
+            if n == to {
+                return Some(path);
+            }
+            for &w in &ws {
+                let wd = &self.windings[w];
+                let next = if wd.from == n {
+                    Some((wd.to, false))
+                } else if wd.to == n {
+                    Some((wd.from, true))
+                } else {
+                    None
+                };
+                if let Some((m, back)) = next
+                    && !seen.contains(&m)
+                {
+                    seen.push(m);
+                    let mut p: Vec<(usize, bool)> = path.clone();
+                    p.push((w, back));
+                    queue.push_back((m, p));
+                }
+            }
+        }
+        None
+    }
+
+    /// The bus (index into [`Board::buses`]) that owns track `i`, if any.
+    pub fn bus_of_track(&self, i: usize) -> Option<usize> {
+        self.buses.iter().position(|b| b.tracks.contains(&i))
     }
 
     /// The coil that owns pad `i`, if any.

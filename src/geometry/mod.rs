@@ -8,6 +8,7 @@
 //! ([`build`] and its phases), `board.rs` (the result), `round.rs` (the one
 //! rounding to nanometres every exporter uses).
 
+pub mod array;
 mod board;
 pub(crate) mod fit;
 mod primitives;
@@ -17,10 +18,10 @@ mod spiral;
 mod stitch;
 
 pub use board::{
-    Board, COIL_NETS, Direction, Node, Outline, Pad, Place, PlacedCoil, Sense, SmdLand, Track,
-    TrackRole, Via, Winding,
+    Board, Bus, COIL_NETS, Direction, Node, Outline, Pad, Phase, Place, PlacedCoil, Sense, SmdLand,
+    Track, TrackRole, Via, Winding,
 };
 pub use fit::{Fit, FitError, FitInput, TurnsRequest};
 pub use primitives::{Arc, Line, Nearest, Point, Rect, Segment, Vec2, angle_between, arc_steps};
 pub use spiral::{SpiralError, SpiralSpec, cut_at_polar_angle};
-pub use stitch::{GeometryError, build, min_inner_diameter};
+pub use stitch::{GeometryError, build, build_all, min_inner_diameter};

@@ -50,6 +50,9 @@ pub struct Analysis {
     pub heating: HeatingReport,
     /// The flexible fin's motion, if the design has a `[fin]`.
     pub fin: Option<FinReport>,
+    /// The rotor's flux linkage, back-EMF and torque, for an array with a
+    /// `[rotor]` whose magnets are sized.
+    pub rotor: Option<super::rotor::RotorReport>,
     /// Limits of the design exceeded, and results to distrust, in the
     /// order found (limits first).
     pub cautions: Vec<Caution>,
@@ -163,7 +166,7 @@ impl Serialize for Analysis {
         let magnet = self.magnet.as_ref();
         let fin = self.fin.as_ref();
         let (d, h) = (&self.drive, &self.heating);
-        let mut s = serializer.serialize_struct("Analysis", 51)?;
+        let mut s = serializer.serialize_struct("Analysis", 56)?;
         s.serialize_field("trace_length_mm", &r.trace_length_mm)?;
         s.serialize_field("resistance_ohm_20c", &r.total_ohm_20c)?;
         s.serialize_field("resistance_ohm_hot", &t.resistance_ohm_hot)?;
@@ -205,9 +208,23 @@ impl Serialize for Analysis {
         s.serialize_field("fin_deflection_mm", &fin.and_then(|f| f.deflection_mm))?;
         s.serialize_field("fin_amplitude_mm", &fin.map(|f| f.amplitude_mm))?;
         s.serialize_field("fin_stable", &fin.map(|f| f.stable))?;
+        let motor = self.rotor.as_ref().map(|r| &r.constants);
+        s.serialize_field(
+            "back_emf_v_per_rad_s",
+            &motor.map(|c| c.back_emf_v_per_rad_s),
+        )?;
+        s.serialize_field(
+            "torque_constant_n_m_per_a",
+            &motor.map(|c| c.torque_constant_n_m_per_a),
+        )?;
+        s.serialize_field(
+            "torque_ripple_percent",
+            &motor.map(|c| c.torque_ripple_percent),
+        )?;
         s.serialize_field("drive", &self.drive)?;
         s.serialize_field("heating", &self.heating)?;
         s.serialize_field("fin", &self.fin)?;
+        s.serialize_field("rotor", &self.rotor)?;
         s.serialize_field("warnings", &Texts(&self.cautions))?;
         s.serialize_field("notes", &self.notes)?;
         s.serialize_field("inputs", &self.inputs)?;

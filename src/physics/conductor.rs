@@ -83,6 +83,17 @@ pub struct Conductor {
 }
 
 impl Conductor {
+    /// The conductor of phase `phase` of an array (index into
+    /// [`Board::phases`]): its coils, each in the sense the phase passes it,
+    /// and its own bus copper, in current order ([`Board::phase_view`]).
+    /// Shared star-point or delta-corner buses are left out.
+    ///
+    /// # Panics
+    /// If `phase` is not a phase of the board.
+    pub fn of_phase(design: &Design, board: &Board, phase: usize) -> Conductor {
+        Conductor::new(design, &board.phase_view(phase))
+    }
+
     /// Builds the conductor from the layout and the stack-up of the design.
     pub fn new(design: &Design, layout: &Board) -> Conductor {
         let n = layout.layers as usize;

@@ -59,6 +59,7 @@ pub mod inductance;
 pub mod magnet;
 pub mod mechanics;
 pub mod resistance;
+pub mod rotor;
 pub mod section;
 #[allow(unsafe_code)]
 mod simd;
@@ -160,6 +161,16 @@ pub fn analyse_with(
     layout: &Board,
     detail: Detail,
 ) -> Result<Analysis, AnalysisError> {
+    // An array is analysed as its first phase alone (its coils and own
+    // buses, in current order): the phase resistance and inductance.
+    let board = layout;
+    let view;
+    let layout = if layout.phases.is_empty() {
+        layout
+    } else {
+        view = layout.phase_view(0);
+        &view
+    };
     check_inputs(design, layout)?;
     let cond = Conductor::new(design, layout);
     let mut found = Findings::default();
@@ -228,6 +239,24 @@ pub fn analyse_with(
     let fin = magnet
         .as_ref()
         .and_then(|mr| fin::analyse(design, layout, &cond, mr, &drive, full, &mut found));
+    let rotor = match (design.rotor, detail) {
+        (_, Detail::Limits) => None,
+        (Some(r), _) if !board.phases.is_empty() => r.magnets.map(|m| {
+            let phases: Vec<(String, Vec<conductor::Filament>)> = (0..board.phases.len())
+                .map(|i| {
+                    let c = Conductor::of_phase(design, board, i);
+                    (
+                        board.phases[i].name.clone(),
+                        c.balanced_filaments(rotor::SAGITTA),
+                    )
+                })
+                .collect();
+            let report = rotor::analyse(&r, &m, &phases, full);
+            found.note(report.method_note());
+            report
+        }),
+        _ => None,
+    };
     if inductance.method != inductance::InductanceMethod::NotComputed {
         found.note(inductance.method_note());
     }
@@ -247,6 +276,7 @@ pub fn analyse_with(
         drive,
         heating,
         fin,
+        rotor,
         cautions: found.cautions,
         notes: found.notes,
         inputs: Inputs::of(design),

@@ -2,11 +2,12 @@
 //! cannot be made becomes a problem at the key to change.
 
 use crate::design::{Design, DesignError, DesignErrors, KeySpans};
+use crate::geometry::array::ArrayError;
 use crate::geometry::{self, Board, GeometryError};
 
 /// The board of `design`.
 pub(super) fn build(design: &Design, spans: &KeySpans) -> Result<Board, DesignErrors> {
-    geometry::build(design).map_err(|e| geometry_error(e, spans))
+    geometry::build_all(design).map_err(|e| geometry_error(e, spans))
 }
 
 /// The problem a failed build is, at the key to change.
@@ -25,6 +26,7 @@ fn geometry_error(e: GeometryError, spans: &KeySpans) -> DesignErrors {
             ),
         ),
         GeometryError::Spiral(_) => ("coil", None),
+        GeometryError::Array(a) => array_key(a),
         GeometryError::SmdInCentre => (
             "terminal.kind",
             Some("add a layer, or use kind = \"hole\"".to_string()),
@@ -49,13 +51,40 @@ fn geometry_error(e: GeometryError, spans: &KeySpans) -> DesignErrors {
         "coil.inner_diameter" => spans.key_or_table("coil", "inner_diameter"),
         "tail" => spans.get("tail"),
         "tail.length" => spans.key_or_table("tail", "length"),
+        "array.outer_diameter" => spans.key_or_table("array", "outer_diameter"),
+        "array.count" => spans.key_or_table("array", "count"),
+        "array.arrangement" => spans.key_or_table("array", "arrangement"),
         _ => spans.get("coil"),
     };
     DesignError {
         key: key.into(),
         span,
-        message: format!("the coil cannot be built: {e}"),
+        message: match e {
+            GeometryError::Array(a) => format!("the array cannot be built: {a}"),
+            e => format!("the coil cannot be built: {e}"),
+        },
         help,
     }
     .into()
+}
+
+/// The key an array problem is about, and what to do.
+fn array_key(e: &ArrayError) -> (&'static str, Option<String>) {
+    match e {
+        ArrayError::Annulus { .. } => (
+            "array.outer_diameter",
+            Some("widen the annulus, or make the coil smaller".into()),
+        ),
+        ArrayError::Overlap { .. } => (
+            "array.count",
+            Some("use fewer or smaller coils, a larger ring, or a smaller spacing".into()),
+        ),
+        ArrayError::BusLayers { .. } => (
+            "coil.layers",
+            Some("use 4 or more layers in series (6 or more in parallel pairs)".into()),
+        ),
+        ArrayError::GridBuses => ("array.arrangement", None),
+        ArrayError::Tail => ("tail", Some("remove [tail]".into())),
+        ArrayError::Unbalanced => ("array.count", None),
+    }
 }

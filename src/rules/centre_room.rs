@@ -35,31 +35,39 @@ pub(super) const RULE: Rule = Rule {
 };
 
 pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
+    // Each placed coil about its own axis (a design alone: one coil at the
+    // origin).
+    for c in &ctx.layout.coils {
+        check_coil(ctx, c, out);
+    }
+}
+
+fn check_coil(ctx: &Context, c: &crate::geometry::PlacedCoil, out: &mut Vec<Violation>) {
     let l = ctx.layout;
-    let centre = l
-        .vias
+    let axis = c.position.to_vec2();
+    let local = |p: Point| p - axis;
+    let centre = l.vias[c.vias.clone()]
         .iter()
-        .enumerate()
-        .filter(|(_, v)| v.place == Place::Centre)
-        .map(|(i, v)| (Item::Via(i), v.at, v.diameter))
+        .zip(c.vias.clone())
+        .filter(|(v, _)| v.place == Place::Centre)
+        .map(|(v, i)| (Item::Via(i), v.at, v.diameter))
         .chain(
-            l.pads
+            l.pads[c.pads.clone()]
                 .iter()
-                .enumerate()
-                .filter(|(_, p)| p.place == Place::Centre)
-                .map(|(i, p)| (Item::Pad(i), p.at, p.diameter)),
+                .zip(c.pads.clone())
+                .filter(|(p, _)| p.place == Place::Centre)
+                .map(|(p, i)| (Item::Pad(i), p.at, p.diameter)),
         )
-        .map(|(item, at, d)| (item, at, at.radius() + d / 2.0))
+        .map(|(item, at, d)| (item, local(at), local(at).radius() + d / 2.0))
         .max_by(|a, b| a.2.total_cmp(&b.2).then(b.0.cmp(&a.0)));
     let Some((hole, at, reach)) = centre else {
         return;
     };
-    let free = l
-        .tracks
+    let free = l.tracks[c.tracks.clone()]
         .iter()
-        .enumerate()
-        .filter(|(_, t)| t.role == TrackRole::Winding)
-        .map(|(i, t)| (i, t.segment.min_radius() - t.width / 2.0))
+        .zip(c.tracks.clone())
+        .filter(|(t, _)| t.role == TrackRole::Winding)
+        .map(|(t, i)| (i, t.segment.distance(c.position) - t.width / 2.0))
         .min_by(|a, b| a.1.total_cmp(&b.1).then(a.0.cmp(&b.0)));
     let Some((track, free)) = free else {
         return;
@@ -74,7 +82,7 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
             measured,
             required,
             layer: None,
-            at: Point::ORIGIN + dir * free.max(0.0),
+            at: c.position + dir * free.max(0.0),
             items: vec![Item::Track(track), hole],
             message: format!(
                 "free centre {measured:.4} mm across; the centre holes need {required:.4} mm"

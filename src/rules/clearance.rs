@@ -11,6 +11,9 @@
 //! tracks in no winding, are never neighbours. One violation per pair of
 //! tracks, at the closest points.
 //!
+//! Tracks of one bus of an array (one electrical node between coils) may
+//! touch each other.
+//!
 //! **Why it matters.** The coil is a single net, so an ordinary design rule
 //! check sees nothing wrong when neighbouring turns touch; but a short
 //! between turns bypasses every turn between the two points: the coil
@@ -72,6 +75,11 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
                         continue;
                     }
                 }
+                // Copper of one bus net may touch itself: it is one node,
+                // with no turns to bypass.
+                if a.path != b.path && same_bus(ctx, a.track, b.track) {
+                    continue;
+                }
                 let thr = req + a.hw + b.hw;
                 let Some(c) = non_adjacent(ctx, a, b, thr) else {
                     continue;
@@ -125,6 +133,15 @@ pub(super) fn check(ctx: &Context, out: &mut Vec<Violation>) {
             message: format!("tracks {gap:.4} mm apart edge to edge; a short here bypasses turns"),
         });
     }
+}
+
+/// Whether tracks `a` and `b` both belong to one bus of an array.
+fn same_bus(ctx: &Context, a: usize, b: usize) -> bool {
+    let l = ctx.layout;
+    if l.buses.is_empty() {
+        return false;
+    }
+    matches!((l.bus_of_track(a), l.bus_of_track(b)), (Some(x), Some(y)) if x == y)
 }
 
 /// The closest approach of two pieces over the pairs of points that are

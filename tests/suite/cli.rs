@@ -365,6 +365,40 @@ fn catalogue() -> Vec<Case> {
             "too short",
         ),
         case(
+            "rotor magnets over a single coil",
+            format!(
+                "{BASE}\n[rotor]\npoles = 6\ndiameter = \"5mm\"\nthickness = \"2mm\"\nremanence = \"1.2T\"\ngap = \"1mm\"\npitch_diameter = \"30mm\"\n"
+            ),
+            "rotor",
+            "[|rotor]",
+            "ring of coils",
+        ),
+        case(
+            "odd rotor pole count",
+            format!("{BASE}\n[rotor]\npoles = 7\n"),
+            "rotor.poles",
+            "poles = |7",
+            "use 6 or 8",
+        ),
+        case(
+            "rotor magnets that overlap",
+            format!(
+                "{BASE}\n[rotor]\npoles = 8\ndiameter = \"14mm\"\nthickness = \"2mm\"\nremanence = \"1.2T\"\ngap = \"1mm\"\npitch_diameter = \"30mm\"\n"
+            ),
+            "rotor.diameter",
+            "diameter = |\"14mm\"",
+            "overlap their neighbours by",
+        ),
+        case(
+            "block magnet sized by a diameter",
+            format!(
+                "{BASE}\n[rotor]\npoles = 8\nmagnet = \"block\"\nwidth = \"4mm\"\nlength = \"6mm\"\ndiameter = \"5.5mm\"\nthickness = \"2mm\"\nremanence = \"1.2T\"\ngap = \"1mm\"\npitch_diameter = \"30mm\"\n"
+            ),
+            "rotor.diameter",
+            "diameter = |\"5.5mm\"",
+            "does not size block magnets",
+        ),
+        case(
             "terminal angle outside 0-360",
             mutate("[stackup]", "[terminal]\nangle = 400\n\n[stackup]"),
             "terminal.angle",

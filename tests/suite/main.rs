@@ -16,7 +16,8 @@
 //! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`, `motion`,
 //!   `coupling` (two coils, `couple`):
 //!   checks against outside truth, the source named beside each value
-//!   (`motion`: waveforms, heating over time, the fin);
+//!   (`motion`: waveforms, heating over time, the fin; `rotor`: a rotor's
+//!   field and flux linkage against magpylib);
 //! - `interop`: our files read by KiCad, gerbv, gerbonara, pygerber and
 //!   shapely (needs `tests/interop/setup.sh`);
 //! - `serve`: the workbench's request guard over plain HTTP, and the
@@ -43,6 +44,7 @@ mod motion;
 mod outputs;
 mod physics_magpylib;
 mod physics_reference;
+mod rotor;
 mod rules;
 mod rules_props;
 mod serve;

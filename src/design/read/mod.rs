@@ -6,6 +6,7 @@
 //! values. One reader per table, each in its own file; `table.rs` holds
 //! the helpers they share, `known_keys.rs` the unknown-key check.
 
+mod array;
 mod board;
 mod coil;
 mod drive;
@@ -14,6 +15,7 @@ mod holes;
 mod known_keys;
 mod magnet;
 mod name;
+mod rotor;
 mod rules;
 mod stackup;
 mod table;
@@ -59,6 +61,8 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let drive_t = cx.table(&root, "drive");
     let fin_t = cx.table(&root, "fin");
     let tail_t = cx.table(&root, "tail");
+    let array_t = cx.table(&root, "array");
+    let rotor_t = cx.table(&root, "rotor");
 
     let coil = coil::read(&mut cx, &coil_t);
     let layers = coil.as_ref().and_then(|c| c.layers);
@@ -80,6 +84,29 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let drive = drive::read(&mut cx, &drive_t);
     let fin = fin::read(&mut cx, &fin_t, magnet.as_ref());
     let tail = tail::read(&mut cx, &tail_t, stackup.kind);
+    let rotor = rotor::read(&mut cx, &rotor_t);
+    let array = array::read(&mut cx, &array_t, rotor.as_ref());
+    // A rotor turns over a ring of coils: its magnets need one.
+    let ring =
+        array.is_some_and(|a| matches!(a.arrangement, super::model::Arrangement::Ring { .. }));
+    if rotor.is_some_and(|r| r.magnets.is_some()) && !ring && !array_t.present() {
+        cx.err(
+            String::from("rotor"),
+            rotor_t.span.clone(),
+            "a rotor's magnets turn over a ring of coils: this design has one coil",
+            Some(
+                "add [array] with arrangement = \"ring\", or remove the magnet keys from [rotor]"
+                    .into(),
+            ),
+        );
+    } else if rotor.is_some_and(|r| r.magnets.is_some()) && array.is_some() && !ring {
+        cx.err(
+            String::from("array.arrangement"),
+            array_t.span_of("arrangement"),
+            "a rotor's magnets turn over a ring of coils, not a grid",
+            Some("use arrangement = \"ring\", or remove the magnet keys from [rotor]".into()),
+        );
+    }
 
     let Ctx {
         mut errors,
@@ -113,6 +140,8 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
         drive,
         fin,
         tail,
+        array,
+        rotor,
         spans: KeySpans::of(doc.get_ref()),
     })
 }

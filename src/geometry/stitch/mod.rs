@@ -92,6 +92,9 @@ pub enum GeometryError {
     /// The board outline cannot grow a tab around the terminals' leads.
     #[error("the terminals brought out by lead_length do not fit one tab of the board outline")]
     LeadTab,
+    /// The array cannot be placed or wired.
+    #[error(transparent)]
+    Array(#[from] super::array::ArrayError),
     /// The outer slots are too close for the vias and pads.
     #[error(
         "too many outside vias for the size: neighbouring slots are {gap:.3} mm apart, {need:.3} mm needed"
@@ -124,6 +127,13 @@ pub fn build(design: &Design) -> Result<Board, GeometryError> {
     board.outline = outline::draw(&board, design, &outer, tail.as_ref())?;
     board.coils.push(alone(&board));
     Ok(board)
+}
+
+/// Builds the copper of a design: its coil, or (with `[array]`) the copies
+/// of its coil with their buses ([`super::array`]).
+pub fn build_all(design: &Design) -> Result<Board, GeometryError> {
+    let single = build(design)?;
+    Ok(super::array::place(design, single)?)
 }
 
 /// A design's coil, alone on its board: at the origin, not rotated, as
@@ -162,6 +172,9 @@ fn empty_board(design: &Design) -> Board {
         outer_radius: 0.0,
         turns: coil.turns,
         tail: None,
+        buses: vec![],
+        phases: vec![],
+        winding_factor: None,
     }
 }
 

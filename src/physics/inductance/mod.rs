@@ -193,7 +193,9 @@ pub fn analyse(
     cond: &Conductor,
     detail: Detail,
 ) -> InductanceReport {
-    let circular = matches!(design.coil.shape, Shape::Circle);
+    // Coaxial rings hold for one circular coil about the origin; the coils
+    // of an array's phase sit about their own axes: filaments.
+    let circular = matches!(design.coil.shape, Shape::Circle) && design.array.is_none();
     let full = detail == Detail::Full;
     let (l, method, l1, lw, lw1) = if circular {
         let (l, method) = inductance(cond, circular);

@@ -1,0 +1,638 @@
+//! Many coils on one board (`[array]`): copies of the built coil placed on
+//! a ring, wired into phases by the star-of-slots pattern
+//! ([`crate::design::winding`]), joined by buses and brought to one
+//! terminal pad per phase end.
+//!
+//! Ring: coil `k` of `N` sits at the polar angle `k 2 pi / N` on the circle
+//! midway through the annulus, turned so that its terminals (at the coil's
+//! terminal angle) face outward. Its copper must lie in the annulus and
+//! keep `spacing` from its neighbours (measured between the circles about
+//! each axis that hold all of a coil's copper: conservative).
+//!
+//! Buses: every electrical node between coils (a link from one coil's end
+//! to the next coil's start in a phase, a star point, a delta corner, a
+//! phase's terminal) is a bus net. Its coil pads are joined by radial stubs
+//! running outward on the *stub layer* to a via on the net's *lane*, a
+//! circle outside the coils, where an arc on the *arc layer* joins the
+//! vias of the net. The two layers are the first two copper layers that
+//! the coil's terminals do not use (so the stubs meet no coil copper at a
+//! pad); lanes are handed out greedily so that arcs (with their end vias)
+//! on one lane never overlap in angle. A net that ends at a terminal has
+//! its first stub carried on past every lane to a terminal pad.
+//!
+//! Every bus track is a [`Winding`] of its own between two nodes (pads or
+//! vias), role [`TrackRole::Bus`], so the rule check knows where it is
+//! joined; its net is [`Board::buses`]`[i]`, and copper of one bus net may
+//! touch itself.
+//!
+//! # Units
+//! Millimetres and radians.
+
+use super::board::{Board, Bus, Direction, Node, Outline, Pad, Phase, Place, PlacedCoil, Sense};
+use super::board::{Track, TrackRole, Via, Winding};
+use super::{Arc, Point, Segment};
+use crate::design::winding::{PHASE_NAMES, pattern};
+use crate::design::{Arrangement, Connection, Design};
+use std::f64::consts::{PI, TAU};
+
+/// Why an array cannot be built.
+#[derive(Debug, Clone, PartialEq, thiserror::Error)]
+pub enum ArrayError {
+    /// A coil's copper reaches beyond the annulus.
+    #[error(
+        "each coil's copper reaches {reach:.3} mm from its axis but the annulus leaves {room:.3} mm: {over:.3} mm too wide"
+    )]
+    Annulus {
+        /// Reach of the coil's copper from its axis, mm.
+        reach: f64,
+        /// Half the width of the annulus, mm.
+        room: f64,
+        /// By how much, mm.
+        over: f64,
+    },
+    /// Neighbouring coils overlap or come closer than the spacing.
+    #[error(
+        "neighbouring coils are {gap:.3} mm apart (copper to copper, by the circles that hold them), {need:.3} mm needed: {short:.3} mm short"
+    )]
+    Overlap {
+        /// Gap, mm (negative: overlap).
+        gap: f64,
+        /// Spacing needed, mm.
+        need: f64,
+        /// By how much, mm.
+        short: f64,
+    },
+    /// No two free layers for the buses.
+    #[error(
+        "the buses need two copper layers that the coil's terminals do not use; this coil's terminals use {used:?} of {layers}"
+    )]
+    BusLayers {
+        /// Layers the coil's terminals join.
+        used: Vec<u8>,
+        /// Copper layers.
+        layers: u8,
+    },
+    /// Grids are placed but their buses are not routed.
+    #[error("buses for arrangement = \"grid\" are not built yet; use a ring")]
+    GridBuses,
+    /// A tail with an array.
+    #[error("a tail carries one coil's terminals; an array has its own terminal pads")]
+    Tail,
+    /// A pole count that gives no balanced winding (checked when reading).
+    #[error("no balanced winding for this coil and pole count")]
+    Unbalanced,
+}
+
+/// Places the copies of `single` (a coil built at the origin) that the
+/// design's `[array]` asks for, with their buses and terminals.
+pub fn place(design: &Design, single: Board) -> Result<Board, ArrayError> {
+    let Some(array) = design.array else {
+        return Ok(single);
+    };
+    if design.tail.is_some() {
+        return Err(ArrayError::Tail);
+    }
+    let Arrangement::Ring {
+        count,
+        inner_diameter,
+        outer_diameter,
+        spacing,
+    } = array.arrangement
+    else {
+        return Err(ArrayError::GridBuses);
+    };
+    let pat = pattern(count, array.phases, design.rotor.map(|r| r.poles))
+        .map_err(|_| ArrayError::Unbalanced)?;
+    let reach = coil_reach(&single);
+    let room = (outer_diameter - inner_diameter) / 4.0;
+    if reach > room + 1e-9 {
+        return Err(ArrayError::Annulus {
+            reach,
+            room,
+            over: reach - room,
+        });
+    }
+    let radius = (outer_diameter + inner_diameter) / 4.0;
+    let n = count as usize;
+    let need = spacing.unwrap_or(design.coil.clearance);
+    let gap = 2.0 * radius * (PI / n as f64).sin() - 2.0 * reach;
+    if gap < need - 1e-9 {
+        return Err(ArrayError::Overlap {
+            gap,
+            need,
+            short: need - gap,
+        });
+    }
+    let (stub_layer, arc_layer) = bus_layers(&single)?;
+
+    let mut board = Board {
+        coils: vec![],
+        tracks: vec![],
+        vias: vec![],
+        pads: vec![],
+        windings: vec![],
+        outline: Outline { segments: vec![] },
+        ..single.clone()
+    };
+    let a0 = design.terminal_place.angle();
+    for (k, &(ph, sense)) in pat.coils.iter().enumerate() {
+        let theta = TAU * k as f64 / n as f64;
+        let coil = PlacedCoil {
+            position: Point::polar(radius, theta),
+            rotation: theta - a0,
+            sense: if sense > 0.0 {
+                Sense::Positive
+            } else {
+                Sense::Negative
+            },
+            nets: [
+                format!("{}_{}", PHASE_NAMES[ph], k + 1),
+                format!("{}_{}", PHASE_NAMES[ph], k + 1),
+            ],
+            tracks: 0..0,
+            vias: 0..0,
+            pads: 0..0,
+            windings: 0..0,
+        };
+        copy_coil(&mut board, &single, coil, k);
+    }
+
+    // The circuit: each phase's coils in ring order, in series.
+    let phases: Vec<Vec<(usize, f64)>> = (0..pat.phases)
+        .map(|ph| {
+            pat.coils
+                .iter()
+                .enumerate()
+                .filter(|(_, c)| c.0 == ph)
+                .map(|(k, c)| (k, c.1))
+                .collect()
+        })
+        .collect();
+    let (nets, ends) = circuit(&board, &phases, array.connection, array.neutral);
+    let router = Router {
+        centre_reach: radius + reach,
+        stub_layer,
+        arc_layer,
+        width: design.coil.trace_width,
+        clearance: design.coil.clearance,
+        via: (design.via.drill, design.via.diameter),
+        terminal: (design.terminal.drill, design.terminal.diameter),
+    };
+    router.route(&mut board, &nets);
+    board.phases = phases
+        .iter()
+        .enumerate()
+        .map(|(ph, coils)| phase(&board, &nets, ends[ph], ph, coils))
+        .collect();
+    board.winding_factor = pat.winding_factor;
+    board.outline = disc_outline(&board, design.board.margin);
+    Ok(board)
+}
+
+/// How far a coil built at the origin reaches from its axis: the largest
+/// distance of any copper edge (tracks, vias, pads), mm.
+fn coil_reach(b: &Board) -> f64 {
+    b.tracks
+        .iter()
+        .map(|t| t.segment.max_radius() + t.width / 2.0)
+        .chain(b.vias.iter().map(|v| v.at.radius() + v.diameter / 2.0))
+        .chain(b.pads.iter().map(|p| p.at.radius() + p.diameter / 2.0))
+        .fold(0.0, f64::max)
+}
+
+/// The stub and arc layers: the first two layers the coil's terminals do
+/// not join.
+fn bus_layers(single: &Board) -> Result<(u8, u8), ArrayError> {
+    let mut used: Vec<u8> = single
+        .pads
+        .iter()
+        .flat_map(|p| p.joins.iter().copied())
+        .collect();
+    used.sort_unstable();
+    used.dedup();
+    let free: Vec<u8> = (1..=single.layers).filter(|l| !used.contains(l)).collect();
+    match free.as_slice() {
+        [a, b, ..] => Ok((*a, *b)),
+        _ => Err(ArrayError::BusLayers {
+            used,
+            layers: single.layers,
+        }),
+    }
+}
+
+/// Appends a copy of `single` placed as `coil` (its ranges filled in).
+fn copy_coil(board: &mut Board, single: &Board, mut coil: PlacedCoil, k: usize) {
+    let (t0, v0, p0, w0) = (
+        board.tracks.len(),
+        board.vias.len(),
+        board.pads.len(),
+        board.windings.len(),
+    );
+    let moved = |s: &Segment| place_segment(s, coil.rotation, coil.position);
+    board.tracks.extend(single.tracks.iter().map(|t| Track {
+        segment: moved(&t.segment),
+        ..*t
+    }));
+    board.vias.extend(single.vias.iter().map(|v| Via {
+        at: coil.to_board(v.at),
+        ..v.clone()
+    }));
+    board.pads.extend(single.pads.iter().map(|p| Pad {
+        name: format!("{}.{}", k + 1, p.name),
+        at: coil.to_board(p.at),
+        ..p.clone()
+    }));
+    let node = |n: Node| match n {
+        Node::Pad(i) => Node::Pad(i + p0),
+        Node::Via(i) => Node::Via(i + v0),
+    };
+    let groups = board
+        .windings
+        .iter()
+        .map(|w| w.group + 1)
+        .max()
+        .unwrap_or(0);
+    board
+        .windings
+        .extend(single.windings.iter().map(|w| Winding {
+            tracks: (w.tracks.0 + t0, w.tracks.1 + t0),
+            from: node(w.from),
+            to: node(w.to),
+            group: w.group + groups,
+            ..w.clone()
+        }));
+    coil.tracks = t0..board.tracks.len();
+    coil.vias = v0..board.vias.len();
+    coil.pads = p0..board.pads.len();
+    coil.windings = w0..board.windings.len();
+    board.coils.push(coil);
+}
+
+/// A segment of a coil built at the origin, rotated by `rotation` and
+/// moved to `position`.
+fn place_segment(s: &Segment, rotation: f64, position: Point) -> Segment {
+    let v = position.to_vec2();
+    match s.rotated(rotation) {
+        Segment::Line(l) => Segment::line(l.start + v, l.end + v),
+        Segment::Arc(a) => Segment::Arc(Arc {
+            center: a.center + v,
+            start: a.start + v,
+            end: a.end + v,
+            sweep: a.sweep,
+        }),
+    }
+}
+
+/// One electrical node between coils: the coil pads it joins and the
+/// terminal pad it is brought to (if any).
+#[derive(Debug, Clone)]
+struct Net {
+    name: String,
+    pads: Vec<usize>,
+    terminal: Option<String>,
+    /// The phase whose current alone it carries (`None`: shared).
+    owner: Option<usize>,
+}
+
+/// What the circuit says of one phase: its coil pads where the current
+/// enters and leaves, and the indices of its own terminal nets.
+#[derive(Debug, Clone, Copy)]
+struct PhaseEnds {
+    start: usize,
+    end: usize,
+    start_net: Option<usize>,
+    end_net: Option<usize>,
+}
+
+/// The pad where the current of coil `k` enters (its "1", or "2" when it
+/// runs the other way in its phase) and where it leaves.
+fn coil_ends(board: &Board, k: usize, sense: f64) -> (usize, usize) {
+    let pads = &board.coils[k].pads;
+    let (one, two) = (pads.start, pads.start + 1);
+    if sense > 0.0 { (one, two) } else { (two, one) }
+}
+
+/// The bus nets of the phases (each phase's coils in series) and their
+/// connection, and each phase's ends.
+fn circuit(
+    board: &Board,
+    phases: &[Vec<(usize, f64)>],
+    c: Connection,
+    neutral: bool,
+) -> (Vec<Net>, Vec<PhaseEnds>) {
+    let m = phases.len();
+    let mut nets = Vec::new();
+    let mut ends = Vec::new();
+    for (ph, coils) in phases.iter().enumerate() {
+        let name = PHASE_NAMES[ph];
+        let pads: Vec<(usize, usize)> =
+            coils.iter().map(|&(k, s)| coil_ends(board, k, s)).collect();
+        for (i, w) in pads.windows(2).enumerate() {
+            nets.push(Net {
+                name: format!("{name}_L{}", i + 1),
+                pads: vec![w[0].1, w[1].0],
+                terminal: None,
+                owner: Some(ph),
+            });
+        }
+        ends.push(PhaseEnds {
+            start: pads[0].0,
+            end: pads[pads.len() - 1].1,
+            start_net: None,
+            end_net: None,
+        });
+    }
+    let lead = |nets: &mut Vec<Net>, name: String, pad: usize, ph: usize| {
+        nets.push(Net {
+            name: name.clone(),
+            pads: vec![pad],
+            terminal: Some(name),
+            owner: Some(ph),
+        });
+        nets.len() - 1
+    };
+    if m == 1 || c == Connection::Separate {
+        for ph in 0..m {
+            let name = PHASE_NAMES[ph];
+            ends[ph].start_net = Some(lead(&mut nets, format!("{name}1"), ends[ph].start, ph));
+            ends[ph].end_net = Some(lead(&mut nets, format!("{name}2"), ends[ph].end, ph));
+        }
+    } else if c == Connection::Star {
+        for ph in 0..m {
+            ends[ph].start_net = Some(lead(&mut nets, PHASE_NAMES[ph].into(), ends[ph].start, ph));
+        }
+        nets.push(Net {
+            name: "N".into(),
+            pads: ends.iter().map(|e| e.end).collect(),
+            terminal: neutral.then(|| "N".into()),
+            owner: None,
+        });
+    } else {
+        // Delta: corner A joins A's start and the last phase's end, and so on.
+        for ph in 0..m {
+            let prev = (ph + m - 1) % m;
+            nets.push(Net {
+                name: PHASE_NAMES[ph].into(),
+                pads: vec![ends[ph].start, ends[prev].end],
+                terminal: Some(PHASE_NAMES[ph].into()),
+                owner: None,
+            });
+        }
+    }
+    (nets, ends)
+}
+
+/// Routes bus nets outside a ring of coils.
+struct Router {
+    /// Farthest coil copper from the ring's centre, mm.
+    centre_reach: f64,
+    stub_layer: u8,
+    arc_layer: u8,
+    width: f64,
+    clearance: f64,
+    /// Via drill and land, mm.
+    via: (f64, f64),
+    /// Terminal drill and land, mm.
+    terminal: (f64, f64),
+}
+
+/// A net's angular span on its lane: start angle and counter-clockwise
+/// sweep, radians.
+type Span = (f64, f64);
+
+impl Router {
+    /// Distance between neighbouring lanes, mm.
+    fn lane_pitch(&self) -> f64 {
+        self.width.max(self.via.1) + self.clearance
+    }
+
+    /// Radius of lane `j`, mm.
+    fn lane(&self, j: usize) -> f64 {
+        self.centre_reach
+            + self.clearance
+            + self.width.max(self.via.1) / 2.0
+            + j as f64 * self.lane_pitch()
+    }
+
+    fn route(&self, board: &mut Board, nets: &[Net]) {
+        // Spans of the nets with two pads or more, and their lanes.
+        let mut lanes: Vec<Vec<Span>> = Vec::new();
+        let mut lane_of = vec![None; nets.len()];
+        let mut order: Vec<usize> = (0..nets.len())
+            .filter(|&i| nets[i].pads.len() > 1)
+            .collect();
+        let spans: Vec<Span> = nets
+            .iter()
+            .map(|net| {
+                let angles: Vec<f64> = net.pads.iter().map(|&p| board.pads[p].at.angle()).collect();
+                span(&angles)
+            })
+            .collect();
+        order.sort_by(|&a, &b| spans[b].1.total_cmp(&spans[a].1));
+        for &i in &order {
+            let s = spans[i];
+            let j = (0..)
+                .find(|&j| {
+                    let r = self.lane(j);
+                    let pad = (self.via.1 + self.clearance) / r;
+                    lanes
+                        .get(j)
+                        .is_none_or(|taken: &Vec<Span>| taken.iter().all(|t| !overlaps(*t, s, pad)))
+                })
+                .unwrap_or(0);
+            if lanes.len() <= j {
+                lanes.resize(j + 1, Vec::new());
+            }
+            lanes[j].push(s);
+            lane_of[i] = Some(j);
+        }
+        let r_terminal = self.lane(lanes.len()) - self.width.max(self.via.1) / 2.0
+            + self.terminal.1 / 2.0
+            + self.width / 2.0;
+        for (i, net) in nets.iter().enumerate() {
+            let bus = board.buses.len();
+            let (t0, v0, w0) = (board.tracks.len(), board.vias.len(), board.windings.len());
+            let mut pads = net.pads.clone();
+            // Vias on the lane, in angle order along the span.
+            if let Some(j) = lane_of[i] {
+                let r = self.lane(j);
+                let s = spans[i];
+                let mut at: Vec<(f64, usize)> = net
+                    .pads
+                    .iter()
+                    .map(|&p| ((board.pads[p].at.angle() - s.0).rem_euclid(TAU), p))
+                    .collect();
+                at.sort_by(|a, b| a.0.total_cmp(&b.0));
+                let mut vias = Vec::new();
+                for &(_, p) in &at {
+                    let phi = board.pads[p].at.angle();
+                    let v = board.vias.len();
+                    board.vias.push(Via {
+                        at: Point::polar(r, phi),
+                        drill: self.via.0,
+                        diameter: self.via.1,
+                        joins: vec![self.stub_layer, self.arc_layer],
+                        place: Place::Outside,
+                    });
+                    self.stub(board, Node::Pad(p), Node::Via(v), self.stub_layer);
+                    vias.push(v);
+                }
+                for w in vias.windows(2) {
+                    let (a, b) = (board.vias[w[0]].at, board.vias[w[1]].at);
+                    let sweep = (b.angle() - a.angle()).rem_euclid(TAU);
+                    let arc = Arc {
+                        center: Point::ORIGIN,
+                        start: a,
+                        end: b,
+                        sweep,
+                    };
+                    self.track(
+                        board,
+                        Segment::Arc(arc),
+                        self.arc_layer,
+                        Node::Via(w[0]),
+                        Node::Via(w[1]),
+                    );
+                }
+            }
+            if let Some(name) = &net.terminal {
+                // The terminal beyond every lane, on the first pad's ray.
+                let from = net.pads[0];
+                let phi = board.pads[from].at.angle();
+                let t = board.pads.len();
+                board.pads.push(Pad {
+                    name: name.clone(),
+                    at: Point::polar(r_terminal, phi),
+                    drill: self.terminal.0,
+                    diameter: self.terminal.1,
+                    joins: vec![self.stub_layer],
+                    place: Place::Outside,
+                    smd: None,
+                });
+                let start = match lane_of[i] {
+                    // From the net's via on that ray (the stub ends there).
+                    Some(_) => Node::Via(
+                        (v0..board.vias.len())
+                            .find(|&v| (board.vias[v].at.angle() - phi).abs() < 1e-9)
+                            .unwrap_or(v0),
+                    ),
+                    None => Node::Pad(from),
+                };
+                self.stub(board, start, Node::Pad(t), self.stub_layer);
+                pads.push(t);
+            }
+            for &p in &net.pads {
+                let joins = &mut board.pads[p].joins;
+                if !joins.contains(&self.stub_layer) {
+                    joins.push(self.stub_layer);
+                    joins.sort_unstable();
+                }
+            }
+            board.buses.push(Bus {
+                name: net.name.clone(),
+                tracks: t0..board.tracks.len(),
+                vias: v0..board.vias.len(),
+                windings: w0..board.windings.len(),
+                pads,
+                terminal: net.terminal.clone(),
+            });
+            debug_assert_eq!(bus + 1, board.buses.len());
+        }
+    }
+
+    /// A straight radial stub on `layer` from node `a` to node `b`.
+    fn stub(&self, board: &mut Board, a: Node, b: Node, layer: u8) {
+        let seg = Segment::line(board.node_at(a), board.node_at(b));
+        self.track(board, seg, layer, a, b);
+    }
+
+    /// One bus track as a winding of its own from `a` to `b`.
+    fn track(&self, board: &mut Board, seg: Segment, layer: u8, a: Node, b: Node) {
+        let t = board.tracks.len();
+        board.tracks.push(Track {
+            layer,
+            segment: seg,
+            width: self.width,
+            role: TrackRole::Bus,
+        });
+        let group = board
+            .windings
+            .iter()
+            .map(|w| w.group + 1)
+            .max()
+            .unwrap_or(0);
+        board.windings.push(Winding {
+            layer,
+            group,
+            tracks: (t, t + 1),
+            from: a,
+            to: b,
+            direction: Direction::Outward,
+            turns: 0.0,
+        });
+    }
+}
+
+/// The smallest counter-clockwise span (start, sweep) holding every angle.
+fn span(angles: &[f64]) -> Span {
+    let mut a: Vec<f64> = angles.iter().map(|x| x.rem_euclid(TAU)).collect();
+    a.sort_by(f64::total_cmp);
+    // Leave out the largest gap between neighbours (around the circle).
+    let n = a.len();
+    let (mut best, mut at) = (-1.0, 0);
+    for i in 0..n {
+        let gap = (a[(i + 1) % n] - a[i]).rem_euclid(TAU);
+        let gap = if n == 1 { TAU } else { gap };
+        if gap > best {
+            best = gap;
+            at = (i + 1) % n;
+        }
+    }
+    (a[at], TAU - best)
+}
+
+/// Whether two spans come closer than `pad` radians.
+fn overlaps(a: Span, b: Span, pad: f64) -> bool {
+    let inside = |x: f64, s: Span| (x - (s.0 - pad)).rem_euclid(TAU) <= s.1 + 2.0 * pad;
+    inside(a.0, b) || inside(b.0, a)
+}
+
+/// The phase `ph` with its coils, its own buses and its ends.
+fn phase(board: &Board, nets: &[Net], e: PhaseEnds, ph: usize, coils: &[(usize, f64)]) -> Phase {
+    // Bus `i` is net `i` (routed in order); a terminal pad is its last pad.
+    let terminal = |net: Option<usize>, coil_pad: usize| {
+        net.and_then(|i| board.buses[i].pads.last().copied())
+            .unwrap_or(coil_pad)
+    };
+    Phase {
+        name: PHASE_NAMES[ph].into(),
+        coils: coils.to_vec(),
+        buses: (0..nets.len())
+            .filter(|&i| nets[i].owner == Some(ph))
+            .collect(),
+        ends: [terminal(e.start_net, e.start), terminal(e.end_net, e.end)],
+    }
+}
+
+/// A disc about the origin holding every copper edge with the margin.
+fn disc_outline(board: &Board, margin: f64) -> Outline {
+    let r = coil_reach(board) + margin;
+    let start = Point::new(r, 0.0);
+    let half = Point::new(-r, 0.0);
+    Outline {
+        segments: vec![
+            Segment::Arc(Arc {
+                center: Point::ORIGIN,
+                start,
+                end: half,
+                sweep: PI,
+            }),
+            Segment::Arc(Arc {
+                center: Point::ORIGIN,
+                start: half,
+                end: start,
+                sweep: PI,
+            }),
+        ],
+    }
+}
