@@ -38,8 +38,8 @@ mod model;
 mod read;
 mod spans;
 mod templates;
-pub mod winding;
 pub mod units;
+pub mod winding;
 
 pub use error::{DesignError, DesignErrors, line_col};
 pub use keys::{Key, LimitKey};

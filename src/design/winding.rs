@@ -87,7 +87,9 @@ fn balanced(coils: u32, phases: u32, poles: u32) -> Option<Pattern> {
         .collect();
     let n = counts[0];
     let balanced = counts.iter().all(|&c| c == n && c > 0)
-        && sums.iter().all(|s| (s.0.hypot(s.1) - sums[0].0.hypot(sums[0].1)).abs() < 1e-9)
+        && sums
+            .iter()
+            .all(|s| (s.0.hypot(s.1) - sums[0].0.hypot(sums[0].1)).abs() < 1e-9)
         && sums[0].0.hypot(sums[0].1) > 1e-9
         && (1..m).all(|ph| {
             let want = ph as f64 * TAU / m as f64 / if m == 2 { 2.0 } else { 1.0 };
@@ -204,7 +206,11 @@ mod tests {
                 (f64::from(qt / 3), PI / f64::from(qt))
             };
             let kd = (z * a / 2.0).sin() / (z * (a / 2.0).sin());
-            assert!((got - kp * kd).abs() < 1e-9, "{q}/{poles}: {got} vs {}", kp * kd);
+            assert!(
+                (got - kp * kd).abs() < 1e-9,
+                "{q}/{poles}: {got} vs {}",
+                kp * kd
+            );
         }
     }
 

@@ -246,14 +246,21 @@ fn copy_coil(board: &mut Board, single: &Board, mut coil: PlacedCoil, k: usize) 
         Node::Pad(i) => Node::Pad(i + p0),
         Node::Via(i) => Node::Via(i + v0),
     };
-    let groups = board.windings.iter().map(|w| w.group + 1).max().unwrap_or(0);
-    board.windings.extend(single.windings.iter().map(|w| Winding {
-        tracks: (w.tracks.0 + t0, w.tracks.1 + t0),
-        from: node(w.from),
-        to: node(w.to),
-        group: w.group + groups,
-        ..w.clone()
-    }));
+    let groups = board
+        .windings
+        .iter()
+        .map(|w| w.group + 1)
+        .max()
+        .unwrap_or(0);
+    board
+        .windings
+        .extend(single.windings.iter().map(|w| Winding {
+            tracks: (w.tracks.0 + t0, w.tracks.1 + t0),
+            from: node(w.from),
+            to: node(w.to),
+            group: w.group + groups,
+            ..w.clone()
+        }));
     coil.tracks = t0..board.tracks.len();
     coil.vias = v0..board.vias.len();
     coil.pads = p0..board.pads.len();
@@ -318,10 +325,8 @@ fn circuit(
     let mut ends = Vec::new();
     for (ph, coils) in phases.iter().enumerate() {
         let name = PHASE_NAMES[ph];
-        let pads: Vec<(usize, usize)> = coils
-            .iter()
-            .map(|&(k, s)| coil_ends(board, k, s))
-            .collect();
+        let pads: Vec<(usize, usize)> =
+            coils.iter().map(|&(k, s)| coil_ends(board, k, s)).collect();
         for (i, w) in pads.windows(2).enumerate() {
             nets.push(Net {
                 name: format!("{name}_L{}", i + 1),
@@ -403,7 +408,9 @@ impl Router {
 
     /// Radius of lane `j`, mm.
     fn lane(&self, j: usize) -> f64 {
-        self.centre_reach + self.clearance + self.width.max(self.via.1) / 2.0
+        self.centre_reach
+            + self.clearance
+            + self.width.max(self.via.1) / 2.0
             + j as f64 * self.lane_pitch()
     }
 
@@ -411,7 +418,9 @@ impl Router {
         // Spans of the nets with two pads or more, and their lanes.
         let mut lanes: Vec<Vec<Span>> = Vec::new();
         let mut lane_of = vec![None; nets.len()];
-        let mut order: Vec<usize> = (0..nets.len()).filter(|&i| nets[i].pads.len() > 1).collect();
+        let mut order: Vec<usize> = (0..nets.len())
+            .filter(|&i| nets[i].pads.len() > 1)
+            .collect();
         let spans: Vec<Span> = nets
             .iter()
             .map(|net| {
@@ -546,7 +555,12 @@ impl Router {
             width: self.width,
             role: TrackRole::Bus,
         });
-        let group = board.windings.iter().map(|w| w.group + 1).max().unwrap_or(0);
+        let group = board
+            .windings
+            .iter()
+            .map(|w| w.group + 1)
+            .max()
+            .unwrap_or(0);
         board.windings.push(Winding {
             layer,
             group,

@@ -35,6 +35,7 @@
 //!   for hexagons (rectangles are far from circles: tens of percent).
 
 mod analysis;
+pub mod array;
 pub mod caution;
 pub mod closed_forms;
 pub mod conductor;
@@ -138,6 +139,12 @@ pub fn analyse_with(
 ) -> Result<Analysis, AnalysisError> {
     // An array is analysed as its first phase alone (its coils and own
     // buses, in current order): the phase resistance and inductance.
+    let array = array::analyse(design, layout);
+    let whole = (
+        layout.coils.len().max(1),
+        layout.phases.len().max(1),
+        layout.winding_factor,
+    );
     let view;
     let layout = if layout.phases.is_empty() {
         layout
@@ -186,6 +193,8 @@ pub fn analyse_with(
         drive,
         heating,
         fin,
+        whole,
+        array,
         cautions: found.cautions,
         notes: found.notes,
         inputs: Inputs::of(design),
