@@ -25,6 +25,7 @@
 mod common;
 mod reference_designs;
 
+mod arrays;
 mod cli;
 mod cli_rules;
 mod designs;
