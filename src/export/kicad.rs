@@ -80,7 +80,7 @@ fn terminals_body(o: &mut String, stem: &str, layout: &Board, nets: bool) {
         "    (fp_text value {} (at 0 2) (layer \"F.Fab\")\n      (effects (font (size 1 1) (thickness 0.15)))\n    )",
         quote(stem)
     );
-    let array = ArrayNets::of(layout);
+    let array = layout.array_nets();
     for (i, p) in layout.pads.iter().enumerate() {
         // Spare tail fingers ("3" on) are on no net.
         let net = match (nets, p.name.as_str()) {
@@ -93,51 +93,6 @@ fn terminals_body(o: &mut String, stem: &str, layout: &Board, nets: bool) {
             _ => String::new(),
         };
         let _ = writeln!(o, "    {}", terminal_pad(p, Frame::LOCAL, &net));
-    }
-}
-
-/// The nets of an array's board: one per bus (an electrical node between
-/// coils, named as the bus: "A", "B", "C", "N", "A_L1" ...), KiCad net
-/// numbers from 1. A coil's copper is on the net of the bus at its pad "1";
-/// its pad "2" is on the next bus's net, tied to it by the coil through the
-/// net-tie terminals footprint, as for a coil alone.
-struct ArrayNets {
-    /// Net names, net `i + 1` first.
-    names: Vec<String>,
-    /// KiCad net of each track, via and pad.
-    track: Vec<usize>,
-    via: Vec<usize>,
-    pad: Vec<usize>,
-}
-
-impl ArrayNets {
-    /// `None` for a coil alone.
-    fn of(layout: &Board) -> Option<ArrayNets> {
-        if layout.buses.is_empty() {
-            return None;
-        }
-        let names = layout.buses.iter().map(|b| b.name.clone()).collect();
-        let mut pad = vec![0; layout.pads.len()];
-        let mut track = vec![0; layout.tracks.len()];
-        let mut via = vec![0; layout.vias.len()];
-        for (b, bus) in layout.buses.iter().enumerate() {
-            for &p in &bus.pads {
-                pad[p] = b + 1;
-            }
-            track[bus.tracks.clone()].fill(b + 1);
-            via[bus.vias.clone()].fill(b + 1);
-        }
-        for c in &layout.coils {
-            let net = pad[c.pads.start];
-            track[c.tracks.clone()].fill(net);
-            via[c.vias.clone()].fill(net);
-        }
-        Some(ArrayNets {
-            names,
-            track,
-            via,
-            pad,
-        })
     }
 }
 
@@ -505,7 +460,7 @@ pub fn board(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let _ = writeln!(o, "    (grid_origin {origin})");
     let _ = writeln!(o, "  )");
     let _ = writeln!(o, "  (net 0 \"\")");
-    let array = ArrayNets::of(layout);
+    let array = layout.array_nets();
     match &array {
         Some(a) => {
             for (i, name) in a.names.iter().enumerate() {
