@@ -405,7 +405,9 @@ pub fn copper(design: &Design, layout: &Board, layer: u8) -> Result<Vec<u8>, Exp
     // An array: each bus's net ([`Board::array_nets`]).
     let nets = layout.array_nets();
     let net_of = |n: &[usize], i: usize| nets.as_ref().map(|a| a.names[n[i] - 1].as_str());
-    w.set_net(Some(NET_1));
+    if nets.is_none() {
+        w.set_net(Some(NET_1));
+    }
     for (i, t) in layout
         .tracks
         .iter()
