@@ -10,7 +10,8 @@
 //! - `export_gerber`, `svg_golden`: golden files (insta snapshots in
 //!   `snapshots/`) and parsed-back exporter output;
 //! - `geometry_props`, `geometry_sanity`, `rules_props`, `rules`: property
-//!   tests and rule fixtures;
+//!   tests and rule fixtures; `arrays`: many coils on one board (rule check,
+//!   phase chains and senses);
 //! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`, `motion`:
 //!   checks against outside truth, the source named beside each value
 //!   (`motion`: waveforms, heating over time, the fin);
