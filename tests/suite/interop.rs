@@ -23,7 +23,9 @@
 //!   stiffener covering every finger; KiCad's DRC runs on these boards too.
 //!
 //! - ring stators (`[array]`, the fan-stator example with other counts and
-//!   connections): gerbonara and pygerber read every Gerber; KiCad 6 loads
+//!   connections): gerbonara and pygerber read every Gerber; shapely finds
+//!   no copper of different nets (the Gerbers' net attributes) closer than
+//!   the clearance, terminal pads aside; KiCad 6 loads
 //!   the board with one net per bus and its DRC finds 0 violations and 0
 //!   unconnected pads, each phase terminal on the net of its name.
 //!
@@ -415,10 +417,15 @@ fn ring_stators_pass_real_readers_and_kicad() {
             std::fs::write(p, &f.bytes).unwrap();
         }
         let dir_s = dir.to_str().unwrap();
+        let clearance = d.coil.clearance.to_string();
         for (prog, args) in [
             (
                 py.as_path(),
                 vec![checks.to_str().unwrap(), "readers", dir_s],
+            ),
+            (
+                py.as_path(),
+                vec![checks.to_str().unwrap(), "nets", dir_s, clearance.as_str()],
             ),
             (
                 Path::new("/usr/bin/python3"),
