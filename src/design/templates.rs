@@ -31,6 +31,11 @@ const TEMPLATES: &[Template] = &[
         text: include_str!("../../examples/motor-stator.toml"),
     },
     Template {
+        name: "fan-stator",
+        description: "whole stator of a flat fan motor: nine round 4-layer coils in a ring, three phases in star with buses, facing a 6-pole rotor",
+        text: include_str!("../../examples/fan-stator.toml"),
+    },
+    Template {
         name: "pickup-coil",
         description: "single-layer circular pickup coil that counts magnet passes for a tachometer",
         text: include_str!("../../examples/pickup-coil.toml"),

@@ -200,7 +200,7 @@ mod tests {
             let p = f64::from(poles / 2);
             let kp = (p * PI / f64::from(q)).sin();
             let qt = q / gcd(q, poles / 2);
-            let (z, a) = if qt % 2 == 0 {
+            let (z, a) = if qt.is_multiple_of(2) {
                 (f64::from(qt / 6), TAU / f64::from(qt))
             } else {
                 (f64::from(qt / 3), PI / f64::from(qt))

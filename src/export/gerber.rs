@@ -383,7 +383,8 @@ impl Writer {
 /// via that joins this layer and a `ComponentPad` flash for each terminal
 /// (terminals are plated through holes with a land on every layer), or an
 /// `SMDPad` region on the one layer of a surface pad. Coil
-/// copper and terminal "1" carry net [`NET_1`], terminal "2" net [`NET_2`].
+/// copper and terminal "1" carry net [`NET_1`], terminal "2" net [`NET_2`];
+/// on an array's board each item carries its bus's net.
 pub fn copper(design: &Design, layout: &Board, layer: u8) -> Result<Vec<u8>, ExportError> {
     let pos = if layer == 1 {
         ExtendedPosition::Top
@@ -401,22 +402,46 @@ pub fn copper(design: &Design, layout: &Board, layer: u8) -> Result<Vec<u8>, Exp
         &file_stem(&design.name),
         &format!("{} copper layer {layer} of {}", design.name, layout.layers),
     );
-    w.set_net(Some(NET_1));
-    for t in layout.tracks_on(layer) {
+    // An array: each bus's net ([`Board::array_nets`]).
+    let nets = layout.array_nets();
+    let net_of = |n: &[usize], i: usize| nets.as_ref().map(|a| a.names[n[i] - 1].as_str());
+    if nets.is_none() {
+        w.set_net(Some(NET_1));
+    }
+    for (i, t) in layout
+        .tracks
+        .iter()
+        .enumerate()
+        .filter(|(_, t)| t.layer == layer)
+    {
+        if let Some(a) = &nets {
+            w.set_net(net_of(&a.track, i));
+        }
         w.aperture(Some(ApertureFunction::Conductor), t.width);
         w.draw(&t.segment);
     }
-    for v in layout.vias.iter().filter(|v| v.joins.contains(&layer)) {
+    for (i, v) in layout
+        .vias
+        .iter()
+        .enumerate()
+        .filter(|(_, v)| v.joins.contains(&layer))
+    {
+        if let Some(a) = &nets {
+            w.set_net(net_of(&a.via, i));
+        }
         w.aperture(Some(ApertureFunction::ViaPad), v.diameter);
         w.flash(v.at);
     }
     // Pin attributes belong to component pads on the outer layers.
     let outer = layer == 1 || layer == layout.layers;
-    for p in &layout.pads {
+    for (i, p) in layout.pads.iter().enumerate() {
         if p.smd.is_some_and(|s| s.layer != layer) {
             continue;
         }
-        w.set_net(Some(if p.name == "2" { NET_2 } else { NET_1 }));
+        match &nets {
+            Some(a) => w.set_net(net_of(&a.pad, i)),
+            None => w.set_net(Some(if p.name == "2" { NET_2 } else { NET_1 })),
+        }
         if p.smd.is_none() {
             w.aperture(Some(ApertureFunction::ComponentPad), p.diameter);
         }

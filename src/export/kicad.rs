@@ -80,9 +80,14 @@ fn terminals_body(o: &mut String, stem: &str, layout: &Board, nets: bool) {
         "    (fp_text value {} (at 0 2) (layer \"F.Fab\")\n      (effects (font (size 1 1) (thickness 0.15)))\n    )",
         quote(stem)
     );
-    for p in &layout.pads {
+    let array = layout.array_nets();
+    for (i, p) in layout.pads.iter().enumerate() {
         // Spare tail fingers ("3" on) are on no net.
         let net = match (nets, p.name.as_str()) {
+            (true, _) if array.is_some() => array.as_ref().map_or(String::new(), |a| {
+                let n = a.pad[i];
+                format!(" (net {n} {})", quote(&a.names[n - 1]))
+            }),
             (true, "1") => format!(" (net 1 {})", quote(NET_1)),
             (true, "2") => format!(" (net 2 {})", quote(NET_2)),
             _ => String::new(),
@@ -455,8 +460,18 @@ pub fn board(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     let _ = writeln!(o, "    (grid_origin {origin})");
     let _ = writeln!(o, "  )");
     let _ = writeln!(o, "  (net 0 \"\")");
-    let _ = writeln!(o, "  (net 1 {})", quote(NET_1));
-    let _ = writeln!(o, "  (net 2 {})", quote(NET_2));
+    let array = layout.array_nets();
+    match &array {
+        Some(a) => {
+            for (i, name) in a.names.iter().enumerate() {
+                let _ = writeln!(o, "  (net {} {})", i + 1, quote(name));
+            }
+        }
+        None => {
+            let _ = writeln!(o, "  (net 1 {})", quote(NET_1));
+            let _ = writeln!(o, "  (net 2 {})", quote(NET_2));
+        }
+    }
 
     // Terminals: a net-tie footprint at the coil centre, the one in the
     // footprint library (`terminals_footprint`) with the coil's nets.
@@ -471,27 +486,29 @@ pub fn board(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError> {
     for s in &layout.outline.segments {
         let _ = writeln!(o, "  {}", graphic("gr", f, s, "Edge.Cuts", DRAWING_WIDTH));
     }
-    for t in &layout.tracks {
+    for (i, t) in layout.tracks.iter().enumerate() {
         let layer = copper_layer_name(t.layer, n);
         let w = mm(t.width);
+        let net = array.as_ref().map_or(1, |a| a.track[i]);
         let _ = match &t.segment {
             Segment::Line(l) => writeln!(
                 o,
-                "  (segment (start {}) (end {}) (width {w}) (layer \"{layer}\") (net 1))",
+                "  (segment (start {}) (end {}) (width {w}) (layer \"{layer}\") (net {net}))",
                 f.xy(l.start),
                 f.xy(l.end)
             ),
             Segment::Arc(a) => writeln!(
                 o,
-                "  (arc {} (width {w}) (layer \"{layer}\") (net 1))",
+                "  (arc {} (width {w}) (layer \"{layer}\") (net {net}))",
                 f.arc(a)
             ),
         };
     }
-    for v in &layout.vias {
+    for (i, v) in layout.vias.iter().enumerate() {
+        let net = array.as_ref().map_or(1, |a| a.via[i]);
         let _ = writeln!(
             o,
-            "  (via (at {}) (size {}) (drill {}) (layers \"F.Cu\" \"B.Cu\") (remove_unused_layers) (net 1))",
+            "  (via (at {}) (size {}) (drill {}) (layers \"F.Cu\" \"B.Cu\") (remove_unused_layers) (net {net}))",
             f.xy(v.at),
             mm(v.diameter),
             mm(v.drill)

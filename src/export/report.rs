@@ -644,6 +644,7 @@ pub fn markdown(design: &Design, board: &Board, a: &Analysis) -> String {
     [
         heading(design, board),
         cautions(&a.cautions),
+        phases(a),
         at_the_drive(a),
         layers(&a.resistance),
         inductance(&a.inductance, a.impedance.as_ref()),
@@ -663,6 +664,52 @@ pub fn markdown(design: &Design, board: &Board, a: &Analysis) -> String {
         general_cautions(),
     ]
     .concat()
+}
+
+/// An array's coils and phases; nothing for a coil alone.
+fn phases(a: &Analysis) -> String {
+    let Some(ar) = &a.array else {
+        return String::new();
+    };
+    let mut s = String::from("## Phases\n\n");
+    let (coils, phases, kw) = a.whole;
+    let _ = writeln!(
+        s,
+        "{coils} coils in {phases} phase(s), {} connection{}; terminal pads {}.\n",
+        match ar.connection {
+            crate::design::Connection::Star => "star",
+            crate::design::Connection::Delta => "delta",
+            crate::design::Connection::Separate => "separate",
+        },
+        match (ar.poles, kw) {
+            (Some(p), Some(k)) =>
+                format!(", {p} rotor poles, winding factor {k:.4} (star of slots)"),
+            _ => String::new(),
+        },
+        ar.terminals.join(", ")
+    );
+    let _ = writeln!(
+        s,
+        "| phase | coils (sense) | tracks R at 20 C |\n|---|---|---|"
+    );
+    for p in &ar.phases {
+        let list: Vec<String> = p
+            .coils
+            .iter()
+            .map(|&(k, sg)| format!("{k}{}", if sg > 0.0 { "+" } else { "-" }))
+            .collect();
+        let _ = writeln!(
+            s,
+            "| {} | {} | {:.4} ohm |",
+            p.name,
+            list.join(" "),
+            p.tracks_ohm_20c
+        );
+    }
+    s.push_str(
+        "\nThe sections below describe phase A alone (its coils and its own buses, star point or delta corner left out); fields and temperatures are those of phase A's copper about the board's centre.\n\n",
+    );
+    s
 }
 
 /// Title, the design in one line, and what its outer size measures

@@ -47,6 +47,39 @@ pub fn layer_colour(layer: u8, layers: u8) -> String {
     format!("#{:02x}{:02x}{:02x}", c(a.0, b.0), c(a.1, b.1), c(a.2, b.2))
 }
 
+/// Colour of an array's phase `ph` (0 = A) on the stacked preview: viridis
+/// sampled at 0.0, 0.45 and 0.8 (far apart, and clear of the pale end);
+/// copper shared by phases (`None`) in the outline grey.
+pub fn phase_colour(ph: Option<usize>) -> String {
+    let Some(ph) = ph else {
+        return OUTLINE.to_string();
+    };
+    let t = [0.0, 0.45, 0.8][ph.min(2)];
+    let x = t * (VIRIDIS.len() - 1) as f64;
+    let i = (x.floor() as usize).min(VIRIDIS.len() - 2);
+    let f = x - i as f64;
+    let (a, b) = (VIRIDIS[i], VIRIDIS[i + 1]);
+    let c = |u: f64, v: f64| ((u + (v - u) * f) * 255.0).round() as u8;
+    format!("#{:02x}{:02x}{:02x}", c(a.0, b.0), c(a.1, b.1), c(a.2, b.2))
+}
+
+/// The phase colour of winding `wi` of an array: its coil's phase, or the
+/// phase whose own bus it belongs to (shared buses in grey).
+fn winding_phase_colour(layout: &Board, wi: usize) -> String {
+    let phase_of_coil = |k: usize| {
+        layout
+            .phases
+            .iter()
+            .position(|p| p.coils.iter().any(|c| c.0 == k))
+    };
+    if let Some(k) = layout.coils.iter().position(|c| c.windings.contains(&wi)) {
+        return phase_colour(phase_of_coil(k));
+    }
+    let bus = layout.buses.iter().position(|b| b.windings.contains(&wi));
+    let ph = bus.and_then(|b| layout.phases.iter().position(|p| p.buses.contains(&b)));
+    phase_colour(ph)
+}
+
 /// A coordinate in SVG user units (mm) with y flipped, rounded through the
 /// shared nanometre grid.
 fn xy(p: Point) -> String {
@@ -151,8 +184,35 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     } else {
         1.0
     };
+    let phased = matches!(view, View::Stack) && !layout.phases.is_empty();
     for &l in &layers {
         let colour = layer_colour(l, layout.layers);
+        if phased {
+            // An array's stacked view: each phase in its own colour.
+            let _ = writeln!(
+                s,
+                r#"<g id="layer-{l}" stroke-opacity="{opacity}" fill="none" stroke-linecap="round" stroke-linejoin="round">"#
+            );
+            for (wi, w) in layout.windings.iter().enumerate() {
+                let segs: Vec<Segment> = layout
+                    .winding_tracks(w)
+                    .iter()
+                    .filter(|t| t.layer == l)
+                    .map(|t| t.segment)
+                    .collect();
+                if !segs.is_empty() {
+                    let _ = writeln!(
+                        s,
+                        r#"<path d="{}" stroke="{}" stroke-width="{}"/>"#,
+                        path_data(&segs),
+                        winding_phase_colour(layout, wi),
+                        mm(layout.trace_width)
+                    );
+                }
+            }
+            let _ = writeln!(s, "</g>");
+            continue;
+        }
         let _ = writeln!(
             s,
             r#"<g id="layer-{l}" stroke="{colour}" stroke-opacity="{opacity}" fill="none" stroke-linecap="round" stroke-linejoin="round">"#
@@ -170,7 +230,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         let _ = writeln!(s, "</g>");
     }
     // Current-direction arrows on the drawn layers.
-    for &l in &layers {
+    for &l in layers.iter().filter(|_| !phased) {
         let colour = layer_colour(l, layout.layers);
         for w in layout.windings.iter().filter(|w| w.layer == l) {
             for (p, dir) in arrow_points(layout, w, 4) {
@@ -318,7 +378,44 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         escape(&info)
     );
     ly += font * 1.4;
-    for l in 1..=layout.layers {
+    if matches!(view, View::Stack) && !layout.phases.is_empty() {
+        for (ph, p) in layout.phases.iter().enumerate() {
+            let coils: Vec<String> = p
+                .coils
+                .iter()
+                .map(|&(k, sg)| format!("{}{}", k + 1, if sg > 0.0 { "+" } else { "-" }))
+                .collect();
+            let _ = writeln!(
+                s,
+                r#"<rect x="{}" y="{}" width="{}" height="{}" fill="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}">phase {}: coils {}</text>"#,
+                mm(lx),
+                mm(ly - font * 0.7),
+                mm(font * 1.2),
+                mm(font * 0.7),
+                phase_colour(Some(ph)),
+                mm(lx + font * 1.6),
+                mm(ly),
+                mm(font * 0.8),
+                escape(&p.name),
+                coils.join(" ")
+            );
+            ly += font * 1.1;
+        }
+        let _ = writeln!(
+            s,
+            r#"<rect x="{}" y="{}" width="{}" height="{}" fill="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}">shared: star point / delta corners</text>"#,
+            mm(lx),
+            mm(ly - font * 0.7),
+            mm(font * 1.2),
+            mm(font * 0.7),
+            phase_colour(None),
+            mm(lx + font * 1.6),
+            mm(ly),
+            mm(font * 0.8),
+        );
+        ly += font * 1.1;
+    }
+    for l in (1..=layout.layers).filter(|_| !phased) {
         if let View::Layer(v) = view
             && v != l
             && layout.layers > 8
@@ -364,9 +461,14 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         mm(font * 0.8)
     );
     ly += font * 1.1;
+    let arrows = if matches!(view, View::Stack) && !layout.phases.is_empty() {
+        "+/-: sense each phase passes a coil (-: in at its pad 2)"
+    } else {
+        "arrows: current from pad 1 to pad 2"
+    };
     let _ = writeln!(
         s,
-        r#"<text x="{}" y="{}" font-size="{}" fill="{INK}">arrows: current from pad 1 to pad 2</text>"#,
+        r#"<text x="{}" y="{}" font-size="{}" fill="{INK}">{arrows}</text>"#,
         mm(lx),
         mm(ly),
         mm(font * 0.8)

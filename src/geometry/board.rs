@@ -582,3 +582,52 @@ impl Board {
             .sum()
     }
 }
+
+/// The nets of an array's board: one per bus (an electrical node between
+/// coils, named as the bus: "A", "B", "C", "N", "A_L1" ...), net
+/// numbers from 1 (as KiCad numbers them). A coil's copper is on the net of the bus at its pad "1";
+/// its pad "2" is on the next bus's net, tied to it by the coil through the
+/// net-tie terminals footprint, as for a coil alone.
+pub struct ArrayNets {
+    /// Net names, net `i + 1` first.
+    pub names: Vec<String>,
+    /// Net number of each track.
+    pub track: Vec<usize>,
+    /// KiCad-style net number of each via.
+    pub via: Vec<usize>,
+    /// Net number of each pad.
+    pub pad: Vec<usize>,
+}
+
+impl Board {
+    /// The nets of an array's board ([`ArrayNets`]); `None` for a coil
+    /// alone.
+    pub fn array_nets(&self) -> Option<ArrayNets> {
+        let layout = self;
+        if layout.buses.is_empty() {
+            return None;
+        }
+        let names = layout.buses.iter().map(|b| b.name.clone()).collect();
+        let mut pad = vec![0; layout.pads.len()];
+        let mut track = vec![0; layout.tracks.len()];
+        let mut via = vec![0; layout.vias.len()];
+        for (b, bus) in layout.buses.iter().enumerate() {
+            for &p in &bus.pads {
+                pad[p] = b + 1;
+            }
+            track[bus.tracks.clone()].fill(b + 1);
+            via[bus.vias.clone()].fill(b + 1);
+        }
+        for c in &layout.coils {
+            let net = pad[c.pads.start];
+            track[c.tracks.clone()].fill(net);
+            via[c.vias.clone()].fill(net);
+        }
+        Some(ArrayNets {
+            names,
+            track,
+            via,
+            pad,
+        })
+    }
+}

@@ -18,8 +18,8 @@ mod spiral;
 mod stitch;
 
 pub use board::{
-    Board, Bus, COIL_NETS, Direction, Node, Outline, Pad, Phase, Place, PlacedCoil, Sense, SmdLand,
-    Track, TrackRole, Via, Winding,
+    ArrayNets, Board, Bus, COIL_NETS, Direction, Node, Outline, Pad, Phase, Place, PlacedCoil,
+    Sense, SmdLand, Track, TrackRole, Via, Winding,
 };
 pub use fit::{Fit, FitError, FitInput, TurnsRequest};
 pub use primitives::{Arc, Line, Nearest, Point, Rect, Segment, Vec2, angle_between, arc_steps};

@@ -53,6 +53,11 @@ pub struct Analysis {
     /// The rotor's flux linkage, back-EMF and torque, for an array with a
     /// `[rotor]` whose magnets are sized.
     pub rotor: Option<super::rotor::RotorReport>,
+    /// Coils on the board, phases, winding factor (1, 1, `None` for a coil
+    /// alone).
+    pub whole: (usize, usize, Option<f64>),
+    /// The array's phases, `None` for a coil alone.
+    pub array: Option<super::array::ArrayReport>,
     /// Limits of the design exceeded, and results to distrust, in the
     /// order found (limits first).
     pub cautions: Vec<Caution>,
@@ -166,7 +171,7 @@ impl Serialize for Analysis {
         let magnet = self.magnet.as_ref();
         let fin = self.fin.as_ref();
         let (d, h) = (&self.drive, &self.heating);
-        let mut s = serializer.serialize_struct("Analysis", 56)?;
+        let mut s = serializer.serialize_struct("Analysis", 62)?;
         s.serialize_field("trace_length_mm", &r.trace_length_mm)?;
         s.serialize_field("resistance_ohm_20c", &r.total_ohm_20c)?;
         s.serialize_field("resistance_ohm_hot", &t.resistance_ohm_hot)?;
@@ -238,6 +243,14 @@ impl Serialize for Analysis {
         s.serialize_field("q_factor", &z.map(|z| z.q))?;
         s.serialize_field("capacitance", &self.capacitance)?;
         s.serialize_field("impedance_curve", &self.response)?;
+        // Many coils on one board (for a coil alone: 1 coil, 1 phase, no
+        // winding factor, and the coil's own resistance and inductance).
+        s.serialize_field("coils", &self.whole.0)?;
+        s.serialize_field("phases", &self.whole.1)?;
+        s.serialize_field("winding_factor", &self.whole.2)?;
+        s.serialize_field("phase_resistance_ohm_20c", &r.total_ohm_20c)?;
+        s.serialize_field("phase_inductance_h", &self.inductance.inductance_h)?;
+        s.serialize_field("array", &self.array)?;
         s.end()
     }
 }

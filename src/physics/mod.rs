@@ -43,6 +43,7 @@
 //!   for hexagons (rectangles are far from circles: tens of percent).
 
 mod analysis;
+pub mod array;
 pub mod capacitance;
 pub mod caution;
 pub mod chords;
@@ -164,6 +165,12 @@ pub fn analyse_with(
     // An array is analysed as its first phase alone (its coils and own
     // buses, in current order): the phase resistance and inductance.
     let board = layout;
+    let array = array::analyse(design, layout);
+    let whole = (
+        layout.coils.len().max(1),
+        layout.phases.len().max(1),
+        layout.winding_factor,
+    );
     let view;
     let layout = if layout.phases.is_empty() {
         layout
@@ -277,6 +284,8 @@ pub fn analyse_with(
         heating,
         fin,
         rotor,
+        whole,
+        array,
         cautions: found.cautions,
         notes: found.notes,
         inputs: Inputs::of(design),

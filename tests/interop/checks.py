@@ -18,6 +18,10 @@ Run with the interop venv (.venv-interop/bin/python, see setup.sh):
     checks.py raster DIR KDIR  gerbv renders our copper Gerbers and the ones
                                KiCad plotted from our board (in KDIR) in the
                                same frame; copper pixels must agree
+    checks.py nets DIR MM      an array's copper, per layer, grouped by the
+                               Gerber net attribute (gerbonara) and drawn
+                               with shapely: copper of different nets at
+                               least MM apart (1 um for arc flattening)
     checks.py tail DIR         a flex tail's fingers (gerbonara, shapely):
                                gaps = pitch - finger_width within 1 um,
                                coverlay opened over each finger, the
@@ -569,6 +573,55 @@ def tail(d):
           f"{'covers them' if t['stiffener'] > 0 else 'none'}")
 
 
+def nets(d, clearance):
+    """Copper of different nets keeps `clearance` (mm) on every layer: each
+    object of each copper Gerber (gerbonara, PyPI) drawn with shapely (PyPI)
+    at its aperture's width, united per net (the Gerber's .N attribute);
+    no two nets closer than the clearance less 1 um. Component (terminal)
+    pads are left out: at a coil's pad 2 the coil itself joins two nets
+    (KiCad's DRC, with the net-tie terminals footprint, checks them)."""
+    import shapely
+    from gerbonara import GerberFile
+    from gerbonara.graphic_objects import Arc, Flash, Line, Region
+
+    need = float(clearance) - 1e-3
+    files = sorted(glob.glob(os.path.join(d, "fab", "*-L*-copper-*.gbr")))
+    if not files:
+        fail("bundle", f"no copper Gerbers in {d}/fab")
+    worst = math.inf
+    for path in files:
+        by_net = {}
+        for o in GerberFile.open(path).objects:
+            net = (getattr(o, "attrs", {}) or {}).get(".N")
+            if not net:
+                fail("gerbonara", f"{os.path.basename(path)}: an object without a net")
+                continue
+            if isinstance(o, Line):
+                g = shapely.LineString([(o.x1, o.y1), (o.x2, o.y2)]).buffer(o.aperture.diameter / 2)
+            elif isinstance(o, Arc):
+                pts, _ = arc_points(o.x1, o.y1, o.x2, o.y2, o.x1 + o.cx, o.y1 + o.cy, o.clockwise)
+                g = shapely.LineString(pts).buffer(o.aperture.diameter / 2)
+            elif isinstance(o, Flash):
+                if ("ComponentPad",) in dict(o.aperture.attrs or ()).values():
+                    continue
+                g = shapely.Point(o.x, o.y).buffer(o.aperture.diameter / 2)
+            elif isinstance(o, Region):
+                continue  # surface pads: terminals too
+            else:
+                continue
+            by_net.setdefault(net[0], []).append(g)
+        names = sorted(by_net)
+        shapes = {n: shapely.union_all(by_net[n]) for n in names}
+        for i, a in enumerate(names):
+            for b in names[i + 1:]:
+                gap = shapes[a].distance(shapes[b])
+                worst = min(worst, gap)
+                if gap < need:
+                    fail("shapely", f"{os.path.basename(path)}: nets {a} and {b} are "
+                         f"{gap*1000:.1f} um apart, {float(clearance)*1000:.1f} um needed")
+    print(f"nets: {len(files)} copper layers, different nets at least {worst*1000:.1f} um apart")
+
+
 if __name__ == "__main__":
     run({"symbol": symbol, "readers": readers, "geometry": geometry, "dxf": dxf,
-         "raster": raster, "tail": tail})
+         "raster": raster, "tail": tail, "nets": nets})

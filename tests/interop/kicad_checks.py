@@ -312,5 +312,32 @@ def plot(d, out):
     print(f"plot: {layers} copper layers plotted by KiCad")
 
 
+def stator(d):
+    """An array's board (many coils, one net per bus): KiCad 6 loads it and
+    its DRC finds 0 violations (copper of different nets keeps the board's
+    clearance) and 0 unconnected pads (every coil and bus joined on its
+    net); each phase terminal pad (A, B, C, N, A1 ...) sits on the net of
+    its own name."""
+    b = load_board(d)
+    if b is None:
+        return
+    v, u, text = drc(b, os.path.join(d, "drc-stator.txt"))
+    if v != 0 or u != 0:
+        fail(f"stator board DRC: {v} violations, {u} unconnected\n{text}")
+    terminals = []
+    for fp in b.GetFootprints():
+        for p in fp.Pads():
+            name = p.GetName()
+            if "." in name:
+                continue  # a coil's own pad "<coil>.1" / "<coil>.2"
+            terminals.append(name)
+            if p.GetNetname() != name:
+                fail(f"terminal pad {name} is on net {p.GetNetname()!r}")
+    if not terminals:
+        fail("no phase terminal pads on the stator board")
+    nets = [str(k) for k in b.GetNetsByName().keys()]
+    print(f"stator: DRC 0 violations, 0 unconnected; terminals {sorted(terminals)}; {len(nets)} nets")
+
+
 if __name__ == "__main__":
-    run({"footprint": footprint, "board": board, "plot": plot})
+    run({"footprint": footprint, "board": board, "plot": plot, "stator": stator})

@@ -405,7 +405,56 @@ fn catalogue() -> Vec<Case> {
             "400",
             "0 to 360",
         ),
+        case(
+            "pole count without a balanced three-phase winding",
+            stator("poles = 6", "poles = 18"),
+            "array.count",
+            "count = |9",
+            "with 9 coils use 16 or 20 poles",
+        ),
+        case(
+            "odd pole count",
+            stator("poles = 6", "poles = 7"),
+            "rotor.poles",
+            "poles = |7",
+            "even",
+        ),
+        case(
+            "three phases without a rotor",
+            stator("[rotor]\npoles = 6\n", ""),
+            "rotor.poles",
+            "phases = |3",
+            "need the rotor's pole count",
+        ),
+        case(
+            "coils wider than the annulus",
+            stator("outer_diameter = \"56mm\"", "outer_diameter = \"36mm\""),
+            "array.outer_diameter",
+            "outer_diameter = |\"36mm\"",
+            "too wide",
+        ),
+        case(
+            "neighbouring coils overlap",
+            stator("count = 9", "count = 12").replace("poles = 6", "poles = 8"),
+            "array.count",
+            "count = |12",
+            "mm short",
+        ),
+        case(
+            "no free layers for the buses",
+            stator("layers = 4 ", "layers = 2 "),
+            "coil.layers",
+            "layers = |2",
+            "two copper layers",
+        ),
     ]
+}
+
+/// The fan-stator example with `from` replaced by `to`.
+fn stator(from: &str, to: &str) -> String {
+    let text = include_str!("../../examples/fan-stator.toml");
+    assert!(text.contains(from), "{from}");
+    text.replacen(from, to, 1)
 }
 
 /// Expected `path:line:col` of the first occurrence of `at` in `text`.

@@ -22,6 +22,13 @@
 //!   1 um, each finger's coverlay opening equal to the finger, and the
 //!   stiffener covering every finger; KiCad's DRC runs on these boards too.
 //!
+//! - ring stators (`[array]`, the fan-stator example with other counts and
+//!   connections): gerbonara and pygerber read every Gerber; shapely finds
+//!   no copper of different nets (the Gerbers' net attributes) closer than
+//!   the clearance, terminal pads aside; KiCad 6 loads
+//!   the board with one net per bus and its DRC finds 0 violations and 0
+//!   unconnected pads, each phase terminal on the net of its name.
+//!
 //! Needs `tests/interop/setup.sh` to have run (Debian packages kicad, gerbv
 //! and the venv .venv-interop); without them this test fails and says so.
 
@@ -374,4 +381,62 @@ fn random_designs_pass_real_readers_and_kicad() {
         "designs failing interop checks: {failed:?}"
     );
     assert!(results.len() >= only.len(), "not every design was checked");
+}
+
+#[test]
+fn ring_stators_pass_real_readers_and_kicad() {
+    let py = require_tools();
+    let tmp = tempfile::tempdir().unwrap();
+    let base = include_str!("../../examples/fan-stator.toml");
+    let checks = repo().join("tests/interop/checks.py");
+    let kicad = repo().join("tests/interop/kicad_checks.py");
+    let mut errors = String::new();
+    for (i, (count, poles, connection)) in [(9, 6, "star"), (9, 8, "delta"), (12, 10, "separate")]
+        .into_iter()
+        .enumerate()
+    {
+        let text = base
+            .replace("count = 9", &format!("count = {count}"))
+            .replace("poles = 6", &format!("poles = {poles}"))
+            .replace(
+                "connection = \"star\"",
+                &format!("connection = \"{connection}\""),
+            )
+            .replace(
+                "neutral = true ",
+                &format!("neutral = {} ", connection == "star"),
+            )
+            .replace("outer_diameter = \"56mm\"", "outer_diameter = \"80mm\"")
+            .replace("inner_diameter = \"26mm\" ", "inner_diameter = \"50mm\" ");
+        let (d, board) = coilwright::pipeline::parse_and_build(&text).unwrap();
+        let analysis = coilwright::physics::analyse(&d, &board).expect("analysis");
+        let dir = tmp.path().join(format!("stator-{i}"));
+        for f in export::bundle(&d, &board, &analysis).unwrap() {
+            let p = dir.join(&f.path);
+            std::fs::create_dir_all(p.parent().unwrap()).unwrap();
+            std::fs::write(p, &f.bytes).unwrap();
+        }
+        let dir_s = dir.to_str().unwrap();
+        let clearance = d.coil.clearance.to_string();
+        for (prog, args) in [
+            (
+                py.as_path(),
+                vec![checks.to_str().unwrap(), "readers", dir_s],
+            ),
+            (
+                py.as_path(),
+                vec![checks.to_str().unwrap(), "nets", dir_s, clearance.as_str()],
+            ),
+            (
+                Path::new("/usr/bin/python3"),
+                vec![kicad.to_str().unwrap(), "stator", dir_s],
+            ),
+        ] {
+            match run(prog, &args) {
+                Ok(t) => println!("{count}/{poles} {connection}: {t}"),
+                Err(e) => errors.push_str(&format!("{count}/{poles} {connection}: {e}\n")),
+            }
+        }
+    }
+    assert!(errors.is_empty(), "{errors}");
 }

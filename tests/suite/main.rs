@@ -10,7 +10,8 @@
 //! - `export_gerber`, `svg_golden`: golden files (insta snapshots in
 //!   `snapshots/`) and parsed-back exporter output;
 //! - `geometry_props`, `geometry_sanity`, `rules_props`, `rules`: property
-//!   tests and rule fixtures;
+//!   tests and rule fixtures; `arrays`: many coils on one board (rule check,
+//!   phase chains and senses);
 //! - `ac`: the coil at frequency (section response and capacitance against
 //!   scikit-fem, the report's frequency keys);
 //! - `physics_reference`, `physics_magpylib`, `magpylib_rerun`, `motion`,
@@ -30,6 +31,7 @@ mod common;
 mod reference_designs;
 
 mod ac;
+mod arrays;
 mod cli;
 mod cli_rules;
 mod coupling;
