@@ -485,6 +485,10 @@ fn trig_resample(v: &[f64], n: usize) -> Vec<f64> {
 pub struct MotorConstants {
     /// Back-EMF constant, V per rad/s: phase peak of `dLambda/dtheta`.
     pub back_emf_v_per_rad_s: f64,
+    /// Amplitude of the back-EMF's fundamental (one electrical period), V
+    /// per rad/s: under balanced three-phase sinusoidal currents the mean
+    /// torque per ampere is 1.5 times this, whatever the harmonics.
+    pub back_emf_fundamental_v_per_rad_s: f64,
     /// Line-to-line peak back-EMF constant, V per rad/s (phases A and B;
     /// `None` for one phase).
     pub back_emf_line_v_per_rad_s: Option<f64>,
@@ -560,6 +564,7 @@ impl MotorConstants {
         });
         MotorConstants {
             back_emf_v_per_rad_s: peak(&emf[0]),
+            back_emf_fundamental_v_per_rad_s: fundamental[0].0.hypot(fundamental[0].1),
             back_emf_line_v_per_rad_s: (phases.len() > 1).then(|| {
                 let line: Vec<f64> = emf[0].iter().zip(&emf[1]).map(|(a, b)| a - b).collect();
                 peak(&line)
