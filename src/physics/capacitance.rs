@@ -47,6 +47,7 @@ use crate::numeric::elliptic::ke;
 use serde::Serialize;
 use std::collections::HashMap;
 use std::f64::consts::PI;
+use std::hash::{BuildHasherDefault, Hasher};
 
 /// Permittivity of free space, F/m (CODATA 2022).
 pub const EPS0: f64 = 8.854_187_818_8e-12;
@@ -108,6 +109,27 @@ pub fn layer_eps(design: &Design, layers: usize) -> Vec<f64> {
         .collect()
 }
 
+/// FNV-1a over the cell key's bytes: the grid's keys are small integers
+/// made by the program, so the default hasher's protection against chosen
+/// keys is not needed and its cost showed in sweeps.
+#[derive(Default)]
+struct CellHasher(u64);
+
+impl Hasher for CellHasher {
+    fn finish(&self) -> u64 {
+        self.0
+    }
+
+    fn write(&mut self, bytes: &[u8]) {
+        if self.0 == 0 {
+            self.0 = 0xcbf2_9ce4_8422_2325;
+        }
+        for b in bytes {
+            self.0 = (self.0 ^ *b as u64).wrapping_mul(0x0100_0000_01b3);
+        }
+    }
+}
+
 /// The capacitance phase: from the chords of the conductor and the
 /// inductance `l` (H).
 pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> CapacitanceReport {
@@ -131,7 +153,8 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
         let p = c.mid();
         (c.layer, at(p.x), at(p.y))
     };
-    let mut grid: HashMap<(u8, i64, i64), Vec<usize>> = HashMap::new();
+    let mut grid: HashMap<(u8, i64, i64), Vec<usize>, BuildHasherDefault<CellHasher>> =
+        HashMap::default();
     for (i, c) in chords.iter().enumerate() {
         // The cells along the chord, at steps of half a cell.
         let steps = ((c.b - c.a).length() / (cell / 2.0)).ceil().max(1.0) as usize;

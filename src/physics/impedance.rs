@@ -178,6 +178,24 @@ struct AcAt {
     shares: Vec<(u8, f64, f64, f64)>,
 }
 
+/// Whether the proximity loss at `f` (Hz) can reach `1e-6` of the DC
+/// resistance of a coil with `turns` turns in all (per layer times
+/// layers), traces of width `w` and thickness `t` (m): a conservative
+/// bound for a sweep, which then leaves the proximity field out.
+///
+/// At low frequency a trace in a field `B` across it loses
+/// `sigma omega^2 B^2 w^3 t / 24` per metre (the classical eddy loss of a
+/// thin bar, recalled from memory), against `I^2 / (sigma w t)` for its DC
+/// loss. Bounding the field at the winding by a current sheet of every turn
+/// on one pitch (`B <= mu0 N I / w`, far above a planar coil's own field,
+/// which is at most about `mu0 I` per layer over a pitch) and with
+/// `delta^2 = 2 / (sigma omega mu0)`, the ratio is at most
+/// `N^2 w^2 t^2 / (6 delta^4)`.
+pub fn proximity_matters(f: f64, turns: f64, w: f64, t: f64) -> bool {
+    let delta = (RHO_20 / (PI * f * MU0)).sqrt();
+    turns * turns * w * w * t * t / (6.0 * delta.powi(4)) >= 1e-6
+}
+
 impl AcModel {
     /// The model of a coil: its conductor, chords, DC resistance,
     /// inductance `l` (H), self-capacitance `c` (F) and `heat`, the

@@ -200,9 +200,17 @@ pub fn analyse_with(
     });
     let full = detail == Detail::Full;
     let frequency = design.drive.frequency.filter(|f| *f > 0.0);
-    // A sweep's coarser chords; `check` (Limits) takes the report's, so
-    // that its cautions are the report's.
-    let most = if detail == Detail::Metrics {
+    // A sweep's coarser chords where no frequency asks for the AC
+    // resistance; `check` (Limits) takes the report's, so that its
+    // cautions are the report's.
+    // A sweep leaves the proximity field out where it cannot matter (a
+    // slow waveform's repetition rate) and finds neighbours on fewer chords.
+    let proximity = frequency.is_some_and(|f| {
+        let t = cond.layer_t.iter().cloned().fold(0.0, f64::max);
+        let turns = layout.turns * layout.layers as f64;
+        impedance::proximity_matters(f, turns, conductor::m(layout.trace_width), t)
+    });
+    let most = if detail == Detail::Metrics && !proximity {
         chords::MAX_CHORDS_METRICS
     } else {
         chords::MAX_CHORDS
@@ -223,7 +231,7 @@ pub fn analyse_with(
         inductance.inductance_h,
         capacitance.capacitance_f,
         thermal.resistance_ohm_hot / resistance.total_ohm_20c,
-        full || frequency.is_some(),
+        full || proximity,
     );
     let t_max = cond.layer_t.iter().cloned().fold(0.0, f64::max);
     let r_hot = thermal.resistance_ohm_hot;

@@ -12,7 +12,7 @@ const STATOR: &str = include_str!("../../examples/fan-stator.toml");
 /// The example with `count` coils, `poles` poles and `connection`, on a ring
 /// large enough for twelve coils.
 fn variant(count: u32, poles: u32, connection: &str, neutral: bool) -> String {
-    STATOR
+    crate::common::poles_only(STATOR)
         .replace("count = 9", &format!("count = {count}"))
         .replace("poles = 6", &format!("poles = {poles}"))
         .replace(

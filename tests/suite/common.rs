@@ -71,3 +71,22 @@ pub const README_SWEEP: &[&str] = &[
     "--maximize",
     "force_per_sqrt_w_n",
 ];
+
+/// A design text whose `[rotor]` keeps only its `poles` (the fan-stator
+/// example's magnets are sized for its own 6 poles: at other pole counts
+/// they would overlap).
+pub fn poles_only(text: &str) -> String {
+    let mut in_rotor = false;
+    let mut out = String::new();
+    for line in text.lines() {
+        if line.starts_with('[') {
+            in_rotor = line.trim() == "[rotor]";
+        }
+        let magnet_key = in_rotor && !line.starts_with('[') && !line.starts_with("poles");
+        if !magnet_key || line.trim().is_empty() {
+            out.push_str(line);
+            out.push('\n');
+        }
+    }
+    out
+}

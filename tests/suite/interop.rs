@@ -395,7 +395,7 @@ fn ring_stators_pass_real_readers_and_kicad() {
         .into_iter()
         .enumerate()
     {
-        let text = base
+        let text = crate::common::poles_only(base)
             .replace("count = 9", &format!("count = {count}"))
             .replace("poles = 6", &format!("poles = {poles}"))
             .replace(
