@@ -18,6 +18,29 @@ fn root() -> &'static Path {
     Path::new(env!("CARGO_MANIFEST_DIR"))
 }
 
+/// Runs the interop venv's Python on `script` (under tests/interop) with
+/// the JSON file `input`; fails with its output unless it exits 0.
+fn run_checker(script: &str, input: &Path) {
+    let python = root().join(".venv-interop/bin/python");
+    assert!(
+        python.exists(),
+        "{} is missing: run tests/interop/setup.sh first (it installs magpylib)",
+        python.display()
+    );
+    let o = Command::new(&python)
+        .arg(root().join("tests/interop").join(script))
+        .arg(input)
+        .output()
+        .unwrap();
+    println!("{}", String::from_utf8_lossy(&o.stdout));
+    assert!(
+        o.status.success(),
+        "{}\n{}",
+        String::from_utf8_lossy(&o.stdout),
+        String::from_utf8_lossy(&o.stderr)
+    );
+}
+
 /// A closed axis-aligned rectangle from (x0, y0) to (x1, y1) at height z
 /// (m), counter-clockwise, each side cut in 20 filaments.
 fn rectangle(x0: f64, y0: f64, x1: f64, y1: f64, z: f64) -> Vec<Filament> {
@@ -43,12 +66,6 @@ fn rectangle(x0: f64, y0: f64, x1: f64, y1: f64, z: f64) -> Vec<Filament> {
 
 #[test]
 fn rotor_field_and_flux_match_magpylib() {
-    let python = root().join(".venv-interop/bin/python");
-    assert!(
-        python.exists(),
-        "{} is missing: run tests/interop/setup.sh first (it installs magpylib)",
-        python.display()
-    );
     let rotors = [
         (RotorMagnet::Cylinder { diameter: 8.0 }, 8, 1),
         (
@@ -108,17 +125,7 @@ fn rotor_field_and_flux_match_magpylib() {
     let dir = tempfile::tempdir().unwrap();
     let file = std::env::var("ROTOR_JSON").map_or(dir.path().join("rotor.json"), Into::into);
     std::fs::write(&file, serde_json::to_string(&cases).unwrap()).unwrap();
-    let o = Command::new(&python)
-        .arg(root().join("tests/interop/rotor_magpylib.py"))
-        .arg(&file)
-        .output()
-        .unwrap();
-    assert!(
-        o.status.success(),
-        "{}\n{}",
-        String::from_utf8_lossy(&o.stdout),
-        String::from_utf8_lossy(&o.stderr)
-    );
+    run_checker("rotor_magpylib.py", &file);
 }
 
 /// The flux through the real copper of one layer of a coil, its spiral and
@@ -131,8 +138,6 @@ fn rotor_field_and_flux_match_magpylib() {
 #[test]
 fn flux_through_real_copper_matches_magpylib() {
     use coilwright::physics::conductor::Conductor;
-    let python = root().join(".venv-interop/bin/python");
-    assert!(python.exists(), "run tests/interop/setup.sh first");
     let text = std::fs::read_to_string(root().join("examples/fan-stator.toml")).unwrap();
     // The example's coil alone (no array), moved under the magnet ring.
     let single: String = text.split("[array]").next().unwrap().to_string();
@@ -179,18 +184,7 @@ fn flux_through_real_copper_matches_magpylib() {
     let dir = tempfile::tempdir().unwrap();
     let file = dir.path().join("copper.json");
     std::fs::write(&file, serde_json::to_string(&case).unwrap()).unwrap();
-    let o = Command::new(&python)
-        .arg(root().join("tests/interop/rotor_copper_magpylib.py"))
-        .arg(&file)
-        .output()
-        .unwrap();
-    println!("{}", String::from_utf8_lossy(&o.stdout));
-    assert!(
-        o.status.success(),
-        "{}\n{}",
-        String::from_utf8_lossy(&o.stdout),
-        String::from_utf8_lossy(&o.stderr)
-    );
+    run_checker("rotor_copper_magpylib.py", &file);
 }
 
 /// The fan-stator example end to end: the torque constant comes from the

@@ -126,14 +126,9 @@ fn magnets(cx: &mut Ctx, t: &Table, poles: Option<u32>) -> Option<RotorMagnets> 
         RotorMagnet::Block { .. } => &["width", "length"],
         RotorMagnet::Arc { .. } => &["inner_diameter", "outer_diameter", "angle"],
     };
-    for k in [
-        "diameter",
-        "width",
-        "length",
-        "inner_diameter",
-        "outer_diameter",
-        "angle",
-    ] {
+    // The size keys of every shape (MAGNET_KEYS after `magnet`, before
+    // `thickness`).
+    for &k in &MAGNET_KEYS[1..7] {
         if t.has(k) && !own.contains(&k) {
             cx.err(
                 t.key(k),
