@@ -462,7 +462,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     );
     ly += font * 1.1;
     let arrows = if matches!(view, View::Stack) && !layout.phases.is_empty() {
-        "+/-: sense each phase passes a coil (-: in at its pad 2)"
+        "+/-: coil sense (-: enters at pad 2)"
     } else {
         "arrows: current from pad 1 to pad 2"
     };
