@@ -37,15 +37,7 @@ fn bench(c: &mut Criterion) {
         coilwright::pipeline::parse_and_build(include_str!("../examples/fan-stator.toml")).unwrap();
     let rotor = d.rotor.unwrap();
     let magnets = rotor.magnets.unwrap();
-    let phases: Vec<(String, Vec<_>)> = (0..board.phases.len())
-        .map(|i| {
-            let c = coilwright::physics::conductor::Conductor::of_phase(&d, &board, i);
-            (
-                board.phases[i].name.clone(),
-                c.balanced_filaments(coilwright::physics::rotor::SAGITTA),
-            )
-        })
-        .collect();
+    let phases = coilwright::physics::rotor::phase_copper(&d, &board);
     g.bench_function(
         "fan-stator rotor: back-EMF and torque over one period",
         |b| {

@@ -47,6 +47,23 @@ pub fn layer_colour(layer: u8, layers: u8) -> String {
     format!("#{:02x}{:02x}{:02x}", c(a.0, b.0), c(a.1, b.1), c(a.2, b.2))
 }
 
+/// One legend row at (`lx`, `ly`) with text size `font` (all mm): a
+/// swatch of `colour` and `text` (already escaped), the text carrying the
+/// extra attributes `attrs` (empty, or starting with a space).
+fn swatch(s: &mut String, (lx, ly, font): (f64, f64, f64), colour: &str, attrs: &str, text: &str) {
+    let _ = writeln!(
+        s,
+        r#"<rect x="{}" y="{}" width="{}" height="{}" fill="{colour}"/><text x="{}" y="{}" font-size="{}" fill="{INK}"{attrs}>{text}</text>"#,
+        mm(lx),
+        mm(ly - font * 0.7),
+        mm(font * 1.2),
+        mm(font * 0.7),
+        mm(lx + font * 1.6),
+        mm(ly),
+        mm(font * 0.8),
+    );
+}
+
 /// Colour of an array's phase `ph` (0 = A) on the stacked preview: viridis
 /// sampled at 0.0, 0.45 and 0.8 (far apart, and clear of the pale end);
 /// copper shared by phases (`None`) in the outline grey.
@@ -385,34 +402,12 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
                 .iter()
                 .map(|&(k, sg)| format!("{}{}", k + 1, if sg > 0.0 { "+" } else { "-" }))
                 .collect();
-            let _ = writeln!(
-                s,
-                r#"<rect x="{}" y="{}" width="{}" height="{}" fill="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}">phase {}: coils {}</text>"#,
-                mm(lx),
-                mm(ly - font * 0.7),
-                mm(font * 1.2),
-                mm(font * 0.7),
-                phase_colour(Some(ph)),
-                mm(lx + font * 1.6),
-                mm(ly),
-                mm(font * 0.8),
-                escape(&p.name),
-                coils.join(" ")
-            );
+            let text = format!("phase {}: coils {}", escape(&p.name), coils.join(" "));
+            swatch(&mut s, (lx, ly, font), &phase_colour(Some(ph)), "", &text);
             ly += font * 1.1;
         }
-        let _ = writeln!(
-            s,
-            r#"<rect x="{}" y="{}" width="{}" height="{}" fill="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}">shared: star point / delta corners</text>"#,
-            mm(lx),
-            mm(ly - font * 0.7),
-            mm(font * 1.2),
-            mm(font * 0.7),
-            phase_colour(None),
-            mm(lx + font * 1.6),
-            mm(ly),
-            mm(font * 0.8),
-        );
+        let shared = "shared: star point / delta corners";
+        swatch(&mut s, (lx, ly, font), &phase_colour(None), "", shared);
         ly += font * 1.1;
     }
     for l in (1..=layout.layers).filter(|_| !phased) {
@@ -428,24 +423,21 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         } else {
             "normal"
         };
-        let _ = writeln!(
-            s,
-            r#"<rect x="{}" y="{}" width="{}" height="{}" fill="{}"/><text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="{weight}">L{l}{}: {dir}, clockwise</text>"#,
-            mm(lx),
-            mm(ly - font * 0.7),
-            mm(font * 1.2),
-            mm(font * 0.7),
-            layer_colour(l, layout.layers),
-            mm(lx + font * 1.6),
-            mm(ly),
-            mm(font * 0.8),
-            if l == 1 {
-                " top"
-            } else if l == layout.layers {
-                " bottom"
-            } else {
-                ""
-            }
+        let face = if l == 1 {
+            " top"
+        } else if l == layout.layers {
+            " bottom"
+        } else {
+            ""
+        };
+        let text = format!("L{l}{face}: {dir}, clockwise");
+        let weight = format!(r#" font-weight="{weight}""#);
+        swatch(
+            &mut s,
+            (lx, ly, font),
+            &layer_colour(l, layout.layers),
+            &weight,
+            &text,
         );
         ly += font * 1.1;
     }

@@ -200,15 +200,14 @@ pub fn analyse_with(
     });
     let full = detail == Detail::Full;
     let frequency = design.drive.frequency.filter(|f| *f > 0.0);
-    // A sweep's coarser chords where no frequency asks for the AC
-    // resistance; `check` (Limits) takes the report's, so that its
-    // cautions are the report's.
+    let t_max = cond.layer_t.iter().cloned().fold(0.0, f64::max);
     // A sweep leaves the proximity field out where it cannot matter (a
-    // slow waveform's repetition rate) and finds neighbours on fewer chords.
+    // slow waveform's repetition rate) and then finds neighbours on fewer
+    // chords; `check` (Limits) takes the report's chords, so that its
+    // cautions are the report's.
     let proximity = frequency.is_some_and(|f| {
-        let t = cond.layer_t.iter().cloned().fold(0.0, f64::max);
         let turns = layout.turns * layout.layers as f64;
-        impedance::proximity_matters(f, turns, conductor::m(layout.trace_width), t)
+        impedance::proximity_matters(f, turns, conductor::m(layout.trace_width), t_max)
     });
     let most = if detail == Detail::Metrics && !proximity {
         chords::MAX_CHORDS_METRICS
@@ -233,7 +232,6 @@ pub fn analyse_with(
         thermal.resistance_ohm_hot / resistance.total_ohm_20c,
         full || proximity,
     );
-    let t_max = cond.layer_t.iter().cloned().fold(0.0, f64::max);
     let r_hot = thermal.resistance_ohm_hot;
     let impedance = impedance::analyse(design, &ac, r_hot, t_max, &mut found);
     let response = if full {
@@ -257,16 +255,7 @@ pub fn analyse_with(
     let rotor = match (design.rotor, detail) {
         (_, Detail::Limits) => None,
         (Some(r), _) if !board.phases.is_empty() => r.magnets.map(|m| {
-            let phases: Vec<(String, Vec<conductor::Filament>)> = (0..board.phases.len())
-                .map(|i| {
-                    let c = Conductor::of_phase(design, board, i);
-                    (
-                        board.phases[i].name.clone(),
-                        c.balanced_filaments(rotor::SAGITTA),
-                    )
-                })
-                .collect();
-            let report = rotor::analyse(&r, &m, &phases, full);
+            let report = rotor::analyse(&r, &m, &rotor::phase_copper(design, board), full);
             found.note(report.method_note());
             report
         }),

@@ -413,12 +413,7 @@ impl Linkage {
         let w = 2.0 * PI / period;
         let mut out = vec![0.0; n];
         for h in 1..n.div_ceil(2) {
-            let (mut a, mut b) = (0.0, 0.0);
-            for (k, v) in self.flux_wb.iter().enumerate() {
-                let x = 2.0 * PI * (h * k) as f64 / n as f64;
-                a += v * x.cos();
-                b += v * x.sin();
-            }
+            let (a, b) = harmonic(&self.flux_wb, h);
             let (a, b) = (2.0 * a / n as f64, 2.0 * b / n as f64);
             // Lambda contains a cos(h w theta) + b sin(h w theta).
             for (k, o) in out.iter_mut().enumerate() {
@@ -456,6 +451,20 @@ impl Linkage {
     }
 }
 
+/// The sums `(sum v_k cos(2 pi h k / n), sum v_k sin(2 pi h k / n))` of
+/// the `n` periodic samples `v` for harmonic `h` (a discrete Fourier
+/// coefficient before its scale).
+fn harmonic(v: &[f64], h: usize) -> (f64, f64) {
+    let n = v.len();
+    let (mut a, mut b) = (0.0, 0.0);
+    for (k, x) in v.iter().enumerate() {
+        let t = 2.0 * PI * (h * k) as f64 / n as f64;
+        a += x * t.cos();
+        b += x * t.sin();
+    }
+    (a, b)
+}
+
 /// The periodic samples `v` at `n` equal steps over the same period, by
 /// their trigonometric interpolant (the highest harmonic of an even count
 /// split evenly between cosine and sine, as usual).
@@ -463,12 +472,7 @@ fn trig_resample(v: &[f64], n: usize) -> Vec<f64> {
     let m = v.len();
     let mut out = vec![0.0; n];
     for h in 0..=m / 2 {
-        let (mut a, mut b) = (0.0, 0.0);
-        for (k, x) in v.iter().enumerate() {
-            let t = 2.0 * PI * (h * k) as f64 / m as f64;
-            a += x * t.cos();
-            b += x * t.sin();
-        }
+        let (a, b) = harmonic(v, h);
         let scale = if h == 0 || 2 * h == m { 1.0 } else { 2.0 } / m as f64;
         let (a, b) = (a * scale, b * scale);
         for (k, o) in out.iter_mut().enumerate() {
@@ -517,12 +521,7 @@ impl MotorConstants {
         let fundamental: Vec<(f64, f64)> = emf
             .iter()
             .map(|e| {
-                let (mut a, mut b) = (0.0, 0.0);
-                for (k, v) in e.iter().enumerate() {
-                    let x = 2.0 * PI * k as f64 / n as f64;
-                    a += v * x.cos();
-                    b += v * x.sin();
-                }
+                let (a, b) = harmonic(e, 1);
                 (2.0 * a / n as f64, 2.0 * b / n as f64)
             })
             .collect();
@@ -639,6 +638,21 @@ impl RotorReport {
             self.constants.energy_balance * 100.0
         )
     }
+}
+
+/// Each phase of an array (`board.phases`) as the rotor sees it: its name
+/// and its own copper ([`super::conductor::Conductor::of_phase`]) as
+/// filaments of [`SAGITTA`].
+pub fn phase_copper(
+    design: &crate::design::Design,
+    board: &crate::geometry::Board,
+) -> Vec<(String, Vec<Filament>)> {
+    (0..board.phases.len())
+        .map(|i| {
+            let c = super::conductor::Conductor::of_phase(design, board, i);
+            (board.phases[i].name.clone(), c.balanced_filaments(SAGITTA))
+        })
+        .collect()
 }
 
 /// The rotor phase: each phase's copper (`phases`: name and filaments in
