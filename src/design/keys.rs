@@ -551,6 +551,12 @@ pub const KEYS: &[Key] = &[
         Integer,
         "1, or 2 with a second disc below the board (doubles and evens the axial field)",
     ),
+    key(
+        "rotor",
+        "torque",
+        Kind::Quantity { unit: "N m" },
+        "torque the motor must give: the report's phase current and copper loss at it",
+    ),
 ];
 
 /// Every design-file key: [`KEYS`] with `limits` as `[rules]` keys after

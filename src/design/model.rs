@@ -472,6 +472,10 @@ pub struct Rotor {
     /// The magnets, when the design sizes them.
     #[serde(skip_serializing_if = "Option::is_none")]
     pub magnets: Option<RotorMagnets>,
+    /// The torque the motor must give, N m (with magnets only): the
+    /// report's phase current and copper loss at it.
+    #[serde(skip_serializing_if = "Option::is_none")]
+    pub torque: Option<f64>,
 }
 
 /// The magnets of a [`Rotor`], axially magnetised. Lengths in mm.

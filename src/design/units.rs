@@ -499,6 +499,40 @@ impl Quantity for Speed {
 }
 impl_traits!(Speed);
 
+/// A torque, stored in newton metres.
+#[derive(Debug, Clone, Copy, PartialEq, PartialOrd)]
+pub struct Torque(f64);
+
+impl Torque {
+    /// The torque in newton metres.
+    pub fn newton_metres(self) -> f64 {
+        self.0
+    }
+}
+
+impl Quantity for Torque {
+    fn value(self) -> f64 {
+        self.0
+    }
+    const WHAT: &'static str = "torque";
+    const ALLOWED: &'static str =
+        "newton metres as a bare number or with Nm or mNm, e.g. 0.002, \"2mNm\"";
+    fn from_number(value: f64) -> Result<Self, UnitError> {
+        Ok(Torque(non_negative(value, Self::WHAT, Self::ALLOWED)?))
+    }
+    fn from_text(text: &str) -> Result<Self, UnitError> {
+        prefixed(
+            text,
+            "Nm",
+            &[("", 1.0), ("m", 1e-3), ("u", 1e-6)],
+            Self::WHAT,
+            Self::ALLOWED,
+        )
+        .map(Torque)
+    }
+}
+impl_traits!(Torque);
+
 impl fmt::Display for Length {
     fn fmt(&self, f: &mut fmt::Formatter<'_>) -> fmt::Result {
         write!(f, "{} mm", self.0)

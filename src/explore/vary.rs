@@ -341,7 +341,7 @@ mod tests {
         assert_eq!(kind("rotor.poles"), Some(Kind::Integer));
         assert_eq!(kind("array.connection"), None);
         assert_eq!(kind("rotor.gap"), Some(Kind::Quantity));
-        assert_eq!(keys.len(), 77);
+        assert_eq!(keys.len(), 78);
         assert_eq!(
             parse("min_drill=0.15mm,0.2mm").unwrap().key,
             "rules.min_drill"

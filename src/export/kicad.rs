@@ -19,6 +19,13 @@
 //! the gaps would form a shorted turn). Courtyard and fab outline follow the
 //! board outline.
 //!
+//! An array (a stator) is one footprint too: every pad, via and piece of
+//! copper is named after its net ([`Board::array_nets`]): the phase
+//! terminals "A", "B", "C" (and "N", or "A1"/"A2" ... for separate
+//! phases), the links between a phase's coils "A_L1" ... Each placed
+//! coil's copper is a custom pad per layer and each bus track a custom pad
+//! of its own, so KiCad's connectivity check sees every join between them.
+//!
 //! # Coordinates
 //! Our frame has y up, KiCad's y down: y is negated (on the nanometre
 //! integers from [`crate::geometry::round::to_nm`], so exactly). KiCad 6
@@ -92,7 +99,7 @@ fn terminals_body(o: &mut String, stem: &str, layout: &Board, nets: bool) {
             (true, "2") => format!(" (net 2 {})", quote(NET_2)),
             _ => String::new(),
         };
-        let _ = writeln!(o, "    {}", terminal_pad(p, Frame::LOCAL, &net));
+        let _ = writeln!(o, "    {}", terminal_pad(p, &p.name, Frame::LOCAL, &net));
     }
 }
 
@@ -139,7 +146,7 @@ pub fn copper_layer_name(layer: u8, layers: u8) -> String {
 /// The KiCad pad text of terminal `p` in frame `f`: a through-hole circle,
 /// or a rotated surface rectangle on its face with the mask opened; `net`
 /// is appended inside the pad (board) or empty (footprint).
-fn terminal_pad(p: &crate::geometry::Pad, f: Frame, net: &str) -> String {
+fn terminal_pad(p: &crate::geometry::Pad, name: &str, f: Frame, net: &str) -> String {
     match &p.smd {
         Some(s) => {
             let face = if s.layer == 1 { "F" } else { "B" };
@@ -149,7 +156,7 @@ fn terminal_pad(p: &crate::geometry::Pad, f: Frame, net: &str) -> String {
             let deg = crate::geometry::round::format_mm(crate::geometry::round::to_nm(deg));
             format!(
                 "(pad {} smd rect (at {} {deg}) (size {} {}) (layers \"{face}.Cu\" \"{face}.Mask\"){net})",
-                quote(&p.name),
+                quote(name),
                 f.xy(p.at),
                 mm(s.length),
                 mm(s.width)
@@ -157,7 +164,7 @@ fn terminal_pad(p: &crate::geometry::Pad, f: Frame, net: &str) -> String {
         }
         None => format!(
             "(pad {} thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\" \"*.Mask\"){net})",
-            quote(&p.name),
+            quote(name),
             f.xy(p.at),
             mm(p.drill),
             d = mm(p.diameter)
@@ -350,38 +357,80 @@ pub fn footprint(design: &Design, layout: &Board) -> Result<Vec<u8>, ExportError
         let _ = writeln!(o, "  {}", graphic("fp", f, s, "F.CrtYd", DRAWING_WIDTH));
         let _ = writeln!(o, "  {}", graphic("fp", f, s, "F.Fab", "0.1"));
     }
+    // Pad names: a coil alone has its terminals "1" and "2" and everything
+    // else on "1"; an array's pads, vias and copper are named after their
+    // net ("A", "B", "C", "N", "A_L1" ...), so that KiCad joins what the
+    // nets join and its check finds a break in any of them.
+    let nets = layout.array_nets();
+    let named = |net: Option<usize>| match (&nets, net) {
+        (Some(n), Some(k)) if k > 0 => n.names[k - 1].as_str(),
+        _ => "1",
+    };
     // Terminals.
-    for p in &layout.pads {
-        let _ = writeln!(o, "  {}", terminal_pad(p, f, ""));
+    for (i, p) in layout.pads.iter().enumerate() {
+        let name = match &nets {
+            Some(n) => named(Some(n.pad[i])),
+            None => p.name.as_str(),
+        };
+        let _ = writeln!(o, "  {}", terminal_pad(p, name, f, ""));
     }
-    // Vias: through-hole pads of net 1 that keep their land only where a
-    // layer's copper connects to them.
-    for v in &layout.vias {
+    // Vias: through-hole pads that keep their land only where a layer's
+    // copper connects to them.
+    for (i, v) in layout.vias.iter().enumerate() {
         let _ = writeln!(
             o,
-            "  (pad \"1\" thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\") (remove_unused_layers))",
+            "  (pad {} thru_hole circle (at {}) (size {d} {d}) (drill {}) (layers \"*.Cu\") (remove_unused_layers))",
+            quote(named(nets.as_ref().map(|n| n.via[i]))),
             f.xy(v.at),
             mm(v.drill),
             d = mm(v.diameter)
         );
     }
-    // Copper: one custom pad per layer.
-    for layer in 1..=layout.layers {
-        let tracks: Vec<_> = layout.tracks_on(layer).collect();
-        let Some(first) = tracks.first() else {
+    // Copper: one custom pad per layer of a coil alone; per layer of each
+    // placed coil and per bus track in an array (pads of one name are
+    // joined by KiCad, so a pad holds copper that is joined itself).
+    let groups: Vec<Vec<usize>> = if nets.is_some() {
+        let mut g: Vec<Vec<usize>> = Vec::new();
+        for c in &layout.coils {
+            for layer in 1..=layout.layers {
+                g.push(
+                    c.tracks
+                        .clone()
+                        .filter(|&t| layout.tracks[t].layer == layer)
+                        .collect(),
+                );
+            }
+        }
+        for b in &layout.buses {
+            g.extend(b.tracks.clone().map(|t| vec![t]));
+        }
+        g
+    } else {
+        (1..=layout.layers)
+            .map(|layer| {
+                (0..layout.tracks.len())
+                    .filter(|&t| layout.tracks[t].layer == layer)
+                    .collect()
+            })
+            .collect()
+    };
+    for group in groups {
+        let Some(&first) = group.first() else {
             continue;
         };
+        let first = &layout.tracks[first];
         let anchor = first.segment.start();
         let (ax, ay) = point_nm(anchor);
         let rel = Frame { dx: -ax, dy: ay };
         let _ = writeln!(
             o,
-            "  (pad \"1\" smd custom (at {}) (size {w} {w}) (layers {})\n    (options (clearance outline) (anchor circle))\n    (primitives",
+            "  (pad {} smd custom (at {}) (size {w} {w}) (layers {})\n    (options (clearance outline) (anchor circle))\n    (primitives",
+            quote(named(nets.as_ref().map(|n| n.track[group[0]]))),
             f.xy(anchor),
-            quote(&copper_layer_name(layer, layout.layers)),
+            quote(&copper_layer_name(first.layer, layout.layers)),
             w = mm(first.width)
         );
-        for t in &tracks {
+        for t in group.iter().map(|&t| &layout.tracks[t]) {
             let g = match &t.segment {
                 Segment::Line(l) => format!(
                     "(gr_line (start {}) (end {}) (width {}))",

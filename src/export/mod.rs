@@ -185,7 +185,7 @@ pub fn kicad_files(
     files.push(OutFile {
         path: kicad_lib::symbol_file_name(&stem),
         role: "kicad 6 symbol library: the coil's symbol, linked to its footprint".into(),
-        bytes: kicad_lib::symbol(design)?,
+        bytes: kicad_lib::symbol(design, layout)?,
     });
     files.push(OutFile {
         path: kicad_lib::SYM_TABLE.into(),

@@ -226,6 +226,13 @@ impl Serialize for Analysis {
             "torque_ripple_percent",
             &motor.map(|c| c.torque_ripple_percent),
         )?;
+        let load = self.rotor.as_ref().and_then(|r| r.load);
+        s.serialize_field(
+            "motor_constant_n_m_per_sqrt_w",
+            &load.map(|l| l.motor_constant_n_m_per_sqrt_w),
+        )?;
+        s.serialize_field("torque_max_n_m", &load.map(|l| l.torque_max_n_m))?;
+        s.serialize_field("copper_loss_w", &load.and_then(|l| l.copper_loss_w))?;
         s.serialize_field("drive", &self.drive)?;
         s.serialize_field("heating", &self.heating)?;
         s.serialize_field("fin", &self.fin)?;

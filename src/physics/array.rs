@@ -5,7 +5,8 @@
 //! adds what the whole board tells: coils, phases, the winding factor and
 //! each phase's resistance on its own copper.
 
-use super::conductor::{Conductor, m};
+use super::conductor::{Conductor, Filament, m};
+use super::inductance::{NEUMANN_SAGITTA, filaments_inductance, filaments_mutual};
 use super::resistance::RHO_20;
 use crate::design::Design;
 use crate::geometry::Board;
@@ -22,6 +23,22 @@ pub struct PhaseReport {
     /// Track resistance of the phase at 20 C (its coils and own buses, via
     /// barrels left out), ohm.
     pub tracks_ohm_20c: f64,
+    /// Self-inductance of the phase (Neumann's formula on its filaments),
+    /// H; `None` below the full analysis.
+    pub inductance_h: Option<f64>,
+}
+
+/// The mutual inductance of two phases (report.json's
+/// `array.mutual_inductance`).
+#[derive(Debug, Clone, PartialEq, Serialize)]
+pub struct PhaseMutual {
+    /// The two phases, e.g. `["A", "B"]`.
+    pub phases: [String; 2],
+    /// Mutual inductance by Neumann's formula on both phases' filaments,
+    /// each phase's current entering at its start, H.
+    pub mutual_inductance_h: f64,
+    /// Coupling coefficient `M / sqrt(L1 L2)`.
+    pub coupling: f64,
 }
 
 /// The array (report.json's `array`; `null` for a coil alone).
@@ -35,27 +52,55 @@ pub struct ArrayReport {
     pub phases: Vec<PhaseReport>,
     /// Names of the terminal pads.
     pub terminals: Vec<String>,
+    /// Mutual inductance of every pair of phases (full analysis only;
+    /// empty for one phase).
+    pub mutual_inductance: Vec<PhaseMutual>,
 }
 
 /// The array report of `design` on `board` (the whole board, not a phase's
 /// view), `None` for a coil alone.
-pub fn analyse(design: &Design, board: &Board) -> Option<ArrayReport> {
+/// With `inductances`, each phase's self-inductance and every pair's mutual
+/// inductance are computed (Neumann's formula on the phases' filaments,
+/// [`filaments_inductance`], [`filaments_mutual`]: the same pair integral
+/// as the report's inductance).
+pub fn analyse(design: &Design, board: &Board, inductances: bool) -> Option<ArrayReport> {
     let array = design.array?;
     if board.phases.is_empty() {
         return None;
     }
+    let conductors: Vec<Conductor> = (0..board.phases.len())
+        .map(|ph| Conductor::of_phase(design, board, ph))
+        .collect();
+    let filaments: Vec<Vec<Filament>> = if inductances {
+        conductors
+            .iter()
+            .map(|c| c.filaments(NEUMANN_SAGITTA))
+            .collect()
+    } else {
+        Vec::new()
+    };
+    let selfs: Vec<f64> = filaments.iter().map(|f| filaments_inductance(f)).collect();
+    let mut mutual = Vec::new();
+    for a in 0..filaments.len() {
+        for b in a + 1..filaments.len() {
+            let m = filaments_mutual(&filaments[a], &filaments[b]);
+            mutual.push(PhaseMutual {
+                phases: [board.phases[a].name.clone(), board.phases[b].name.clone()],
+                mutual_inductance_h: m,
+                coupling: m / (selfs[a] * selfs[b]).sqrt(),
+            });
+        }
+    }
     let phases = (0..board.phases.len())
-        .map(|ph| {
-            let c = Conductor::of_phase(design, board, ph);
-            PhaseReport {
-                name: board.phases[ph].name.clone(),
-                coils: board.phases[ph]
-                    .coils
-                    .iter()
-                    .map(|&(k, s)| (k + 1, s))
-                    .collect(),
-                tracks_ohm_20c: tracks_resistance(&c),
-            }
+        .map(|ph| PhaseReport {
+            name: board.phases[ph].name.clone(),
+            coils: board.phases[ph]
+                .coils
+                .iter()
+                .map(|&(k, s)| (k + 1, s))
+                .collect(),
+            tracks_ohm_20c: tracks_resistance(&conductors[ph]),
+            inductance_h: selfs.get(ph).copied(),
         })
         .collect();
     Some(ArrayReport {
@@ -67,6 +112,7 @@ pub fn analyse(design: &Design, board: &Board) -> Option<ArrayReport> {
             .iter()
             .filter_map(|b| b.terminal.clone())
             .collect(),
+        mutual_inductance: mutual,
     })
 }
 
@@ -95,7 +141,7 @@ mod tests {
         let (d, board) = crate::pipeline::parse_and_build(text).unwrap();
         let single = crate::geometry::build(&d).unwrap();
         let one = tracks_resistance(&Conductor::new(&d, &single));
-        let r = analyse(&d, &board).unwrap();
+        let r = analyse(&d, &board, false).unwrap();
         assert_eq!(r.phases.len(), 3);
         let rho_per_mm = RHO_20 * 1e-3 / (m(d.coil.trace_width) * m(d.stackup.copper[0]));
         for (ph, p) in r.phases.iter().enumerate() {

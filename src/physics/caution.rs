@@ -98,6 +98,16 @@ pub enum Caution {
         /// Self-resonant frequency, Hz.
         self_resonance_hz: f64,
     },
+    /// The rotor's `torque` needs more copper loss than the board sheds with
+    /// its hottest copper at `drive.max_temperature`.
+    TorqueAboveLimit {
+        /// The design's torque, N m.
+        torque_n_m: f64,
+        /// Largest continuous torque, N m.
+        limit_n_m: f64,
+        /// The design's max_temperature, C.
+        max_temperature_c: f64,
+    },
 }
 
 /// The fraction of the self-resonance above which a working frequency
@@ -122,15 +132,16 @@ impl Caution {
             Caution::FinPulledIn { .. } => "fin-pulled-in",
             Caution::SwingReachesGap { .. } => "swing-reaches-gap",
             Caution::NearSelfResonance { .. } => "near-self-resonance",
+            Caution::TorqueAboveLimit { .. } => "torque-above-limit",
         }
     }
 
     /// Whether the caution is a limit of the design exceeded or advice.
     pub fn kind(&self) -> CautionKind {
         match self {
-            Caution::NoSteadyState { .. } | Caution::TemperatureAboveLimit { .. } => {
-                CautionKind::LimitExceeded
-            }
+            Caution::NoSteadyState { .. }
+            | Caution::TemperatureAboveLimit { .. }
+            | Caution::TorqueAboveLimit { .. } => CautionKind::LimitExceeded,
             Caution::HotToTouch { .. }
             | Caution::ForceRough { .. }
             | Caution::BendTooTight { .. }
@@ -217,6 +228,16 @@ impl fmt::Display for Caution {
                     )
                 }
             }
+            Caution::TorqueAboveLimit {
+                torque_n_m,
+                limit_n_m,
+                max_temperature_c,
+            } => write!(
+                f,
+                "rotor torque {:.3} mN m exceeds the {:.3} mN m the board gives continuously with its hottest copper at max_temperature {max_temperature_c:.0} C",
+                torque_n_m * 1e3,
+                limit_n_m * 1e3
+            ),
         }
     }
 }

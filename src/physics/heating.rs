@@ -187,7 +187,14 @@ fn ripple_of(b: &super::thermal::Board, wave: Wave, ts: f64) -> f64 {
         .map(|k| {
             // Mean power over the step (Simpson on the current squared).
             let t0 = k as f64 * h;
-            let i = |t: f64| p.at(t).powi(2) * r;
+            // Every phase, each a 1 / phases period later.
+            let phases = b.phases.round().max(1.0) as usize;
+            let i = |t: f64| {
+                (0..phases)
+                    .map(|k| p.at(t + k as f64 * p.period / phases as f64).powi(2))
+                    .sum::<f64>()
+                    * r
+            };
             (i(t0 + 1e-12 * h) + 4.0 * i(t0 + h / 2.0) + i(t0 + h * (1.0 - 1e-12))) / 6.0
         })
         .collect();
@@ -229,6 +236,7 @@ mod tests {
             perimeter: 0.08,
             heat_capacity: 0.02,
             r20: 2.0,
+            phases: 1.0,
             inductance: 1e-9,
             ambient: 20.0,
             emissivity: 0.0,

@@ -165,7 +165,7 @@ pub fn analyse_with(
     // An array is analysed as its first phase alone (its coils and own
     // buses, in current order): the phase resistance and inductance.
     let board = layout;
-    let array = array::analyse(design, layout);
+    let array = array::analyse(design, layout, detail == Detail::Full);
     let whole = (
         layout.coils.len().max(1),
         layout.phases.len().max(1),
@@ -192,7 +192,8 @@ pub fn analyse_with(
         inductance::analyse(design, layout, &cond, detail)
     };
     let circuit = (resistance.total_ohm_20c, inductance.inductance_h);
-    let thermal = thermal::analyse(design, layout, &cond, circuit, &mut found);
+    // Every phase's loss heats the board.
+    let thermal = thermal::analyse(design, layout, &cond, circuit, whole.1, &mut found);
     let field = field::analyse(design, layout, &cond, detail, thermal.current_a);
     let magnet = design.magnet.map(|mg| {
         let drive = (thermal.current_a, thermal.power_w);
@@ -255,8 +256,28 @@ pub fn analyse_with(
     let rotor = match (design.rotor, detail) {
         (_, Detail::Limits) => None,
         (Some(r), _) if !board.phases.is_empty() => r.magnets.map(|m| {
-            let report = rotor::analyse(&r, &m, &rotor::phase_copper(design, board), full);
+            let mut report = rotor::analyse(&r, &m, &rotor::phase_copper(design, board), full);
             found.note(report.method_note());
+            // The board's heat limit: what it sheds with its hottest copper
+            // at max_temperature, and the phase resistance there.
+            let b = &thermal.board;
+            let t_avg = b.average_for_hottest(design.drive.max_temperature);
+            let r20 = resistance.total_ohm_20c;
+            let limit = (
+                b.losses(t_avg).power_w,
+                resistance::at_temperature(r20, b.winding_at(t_avg)),
+            );
+            let load = rotor::MotorLoad::of(&report.constants, whole.1, r20, limit, r.torque);
+            if let Some(t) = r.torque
+                && t > load.torque_max_n_m
+            {
+                found.caution(Caution::TorqueAboveLimit {
+                    torque_n_m: t,
+                    limit_n_m: load.torque_max_n_m,
+                    max_temperature_c: design.drive.max_temperature,
+                });
+            }
+            report.load = Some(load);
             report
         }),
         _ => None,

@@ -511,6 +511,53 @@ pub struct MotorConstants {
     pub energy_balance: f64,
 }
 
+/// What the motor's torque costs in copper (report.json's `rotor.load`),
+/// under balanced sinusoidal phase currents in phase with the back-EMF:
+/// torque `T = k_t I` (`I` the phase peak current) and copper loss
+/// `P = m I^2 R / 2` for `m` phases of resistance `R`.
+#[derive(Debug, Clone, Copy, PartialEq, serde::Serialize)]
+pub struct MotorLoad {
+    /// Motor constant `T / sqrt(P)` with the copper at 20 C,
+    /// N m / sqrt(W).
+    pub motor_constant_n_m_per_sqrt_w: f64,
+    /// Largest continuous torque: the loss the board sheds with its
+    /// hottest copper at `drive.max_temperature`, the phase resistance at
+    /// that temperature, N m.
+    pub torque_max_n_m: f64,
+    /// The design's `rotor.torque`, N m.
+    pub torque_n_m: Option<f64>,
+    /// Phase peak current for it, A.
+    pub phase_current_peak_a: Option<f64>,
+    /// Copper loss for it, the copper at 20 C (hot copper loses
+    /// `1 + alpha (T - 20 C)` times more), W.
+    pub copper_loss_w: Option<f64>,
+}
+
+impl MotorLoad {
+    /// The load of a motor with constants `c` and `phases` phases of
+    /// resistance `r20` (ohm at 20 C); `limit`: the loss the board sheds at
+    /// its temperature limit (W) and the phase resistance there (ohm);
+    /// `torque` the design's (N m).
+    pub fn of(
+        c: &MotorConstants,
+        phases: usize,
+        r20: f64,
+        (p_max, r_max): (f64, f64),
+        torque: Option<f64>,
+    ) -> MotorLoad {
+        let half_m = phases as f64 / 2.0;
+        let kt = c.torque_constant_n_m_per_a;
+        let current = torque.map(|t| t / kt);
+        MotorLoad {
+            motor_constant_n_m_per_sqrt_w: kt / (half_m * r20).sqrt(),
+            torque_max_n_m: kt * (p_max / (half_m * r_max)).sqrt(),
+            torque_n_m: torque,
+            phase_current_peak_a: current,
+            copper_loss_w: current.map(|i| half_m * i * i * r20),
+        }
+    }
+}
+
 impl MotorConstants {
     /// The constants of the phases `phases`.
     pub fn of(phases: &[Linkage]) -> MotorConstants {
@@ -627,6 +674,9 @@ pub struct RotorReport {
     pub electrical_degrees: Vec<f64>,
     /// Each phase's flux, back-EMF and torque over one electrical period.
     pub phases: Vec<PhaseCurve>,
+    /// What the torque costs in copper (set by the analysis, which knows
+    /// the phase resistance and the board's heat limit).
+    pub load: Option<MotorLoad>,
 }
 
 impl RotorReport {
@@ -698,6 +748,7 @@ pub fn analyse(
                 torque_n_m_per_a: l.torque_n_m_per_a.clone(),
             })
             .collect(),
+        load: None,
     }
 }
 

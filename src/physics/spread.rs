@@ -72,15 +72,35 @@ pub struct Disc {
 
 impl Disc {
     /// The disc of a design's board (`area` of one face, m^2).
+    ///
+    /// A ring of coils heats the annulus it fills, the copper fill thinned
+    /// by the share of the annulus its coils' windings cover (each coil
+    /// counted as the annulus between its inner and outer copper radius).
     pub fn of(design: &Design, layout: &Layout, area: f64) -> Disc {
         let s = &design.stackup;
         let kd = k_dielectric(s.kind);
-        let fill = (layout.trace_width / layout.pitch).clamp(0.0, 1.0);
+        let mut fill = (layout.trace_width / layout.pitch).clamp(0.0, 1.0);
+        let (mut r_in, mut r_out) = (layout.inner_radius, layout.outer_radius);
+        if let Some(crate::design::Array {
+            arrangement:
+                crate::design::Arrangement::Ring {
+                    count,
+                    inner_diameter,
+                    outer_diameter,
+                    ..
+                },
+            ..
+        }) = design.array
+        {
+            let coil = f64::from(count) * (r_out * r_out - r_in * r_in);
+            (r_in, r_out) = (inner_diameter / 2.0, outer_diameter / 2.0);
+            fill *= (coil / (r_out * r_out - r_in * r_in)).clamp(0.0, 1.0);
+        }
         let cu: f64 = s.copper.iter().sum::<f64>() * 1e-3;
         let rest = (s.dielectric.iter().sum::<f64>() + 2.0 * s.cover) * 1e-3;
         let radius = (area / std::f64::consts::PI).sqrt();
-        let r_out = (layout.outer_radius * 1e-3).min(radius);
-        let r_in = (layout.inner_radius * 1e-3).min(r_out * 0.999);
+        let r_out = (r_out * 1e-3).min(radius);
+        let r_in = (r_in * 1e-3).min(r_out * 0.999);
         Disc {
             radius,
             r_in,

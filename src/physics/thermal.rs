@@ -136,8 +136,12 @@ pub struct Board {
     pub perimeter: f64,
     /// Heat capacity, J/K.
     pub heat_capacity: f64,
-    /// Coil resistance at 20 C, ohm.
+    /// Coil resistance at 20 C, ohm (an array's: one phase's).
     pub r20: f64,
+    /// How many equal coils or phases heat the board, each carrying the
+    /// drive shifted by `1 / phases` of its period (a balanced drive): 1
+    /// for a coil; an array's phases, whose losses all heat its board.
+    pub phases: f64,
     /// Coil inductance, H.
     pub inductance: f64,
     /// Ambient, C.
@@ -278,7 +282,7 @@ impl Board {
     /// temperature).
     pub fn power_in(&self, wave: impl Into<Wave>, t: f64) -> f64 {
         let r = at_temperature(self.r20, self.winding_at(t));
-        wave.into().power(r, self.inductance)
+        self.phases * wave.into().power(r, self.inductance)
     }
 
     /// Steady board average temperature (C) for a drive: the root of
@@ -310,7 +314,7 @@ impl Board {
         let t_avg = self.average_for_hottest(t_max);
         let p = self.losses(t_avg).power_w;
         let r = at_temperature(self.r20, self.winding_at(t_avg));
-        let unit = |s: Source| Wave { source: s, ..wave }.power(r, self.inductance);
+        let unit = |s: Source| self.phases * Wave { source: s, ..wave }.power(r, self.inductance);
         let i = (p / unit(Source::Current(1.0))).sqrt();
         let v = (p / unit(Source::Voltage(1.0))).sqrt();
         (i, v)
@@ -436,6 +440,7 @@ pub fn analyse(
     layout: &Layout,
     cond: &Conductor,
     (r20, l): (f64, f64),
+    phases: usize,
     findings: &mut Findings,
 ) -> ThermalReport {
     let drive = &design.drive;
@@ -451,8 +456,9 @@ pub fn analyse(
     let mut board = Board {
         area,
         perimeter: m(per_mm),
-        heat_capacity: cu_vol * cu_rho * cu_c + area * di_thick * di_rho * di_c,
+        heat_capacity: phases as f64 * cu_vol * cu_rho * cu_c + area * di_thick * di_rho * di_c,
         r20,
+        phases: phases as f64,
         inductance: l,
         ambient: drive.ambient,
         emissivity: drive.emissivity,
@@ -524,7 +530,7 @@ pub fn analyse(
         resistance_ohm_hot: r_hot,
         current_a: current,
         voltage_v: voltage,
-        power_w: current * voltage,
+        power_w: phases as f64 * current * voltage,
         max_voltage_v: max_v,
         max_current_a: max_i,
         board,
@@ -585,6 +591,7 @@ mod tests {
             perimeter: 0.1,
             heat_capacity: 0.05,
             r20: 3.0,
+            phases: 1.0,
             inductance: 1e-6,
             ambient: 25.0,
             emissivity: 0.9,

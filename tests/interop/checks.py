@@ -90,8 +90,13 @@ def symbol(d):
         return
     sym = lib.symbols[0]
     pins = sorted(p.number for u in sym.units for p in u.pins)
-    if pins != ["1", "2"]:
-        fail("kiutils", f"symbol pins {pins}, expected ['1', '2']")
+    # An array's pins are its terminal pads ("A", "B", "C", "N", "A1" ...:
+    # the layout's pads whose names are not a coil's "<coil>.<1|2>").
+    lay_pads = [p["name"] for p in load_expect(d)["layout"]["pads"]]
+    array = any("." in n for n in lay_pads)
+    want = sorted(n for n in lay_pads if "." not in n) if array else ["1", "2"]
+    if pins != want:
+        fail("kiutils", f"symbol pins {pins}, expected {want}")
     props = {p.key: p.value for p in sym.properties}
     # The coil's footprint; `<name>_terminals` holds the board's pads.
     mods = [m for m in glob.glob(os.path.join(kdir, "*.pretty", "*.kicad_mod"))
@@ -101,10 +106,17 @@ def symbol(d):
     if props.get("Footprint") != f"coilwright:{fp_name}":
         fail("kiutils", f"Footprint property {props.get('Footprint')!r}, expected 'coilwright:{fp_name}'")
     # A tail's spare fingers ("3" on) are pads on no net, with no pin.
-    spare = sorted(p["name"] for p in load_expect(d)["layout"]["pads"] if p["name"] not in ("1", "2"))
     pads = sorted({p.number for p in fp.pads})
-    if pads != sorted(pins + spare):
-        fail("kiutils", f"footprint pads {pads} differ from symbol pins {pins} plus spare fingers {spare}")
+    if array:
+        # Every pin is a pad; the other pads are the links between a
+        # phase's coils ("A_L1" ...), joined inside the footprint.
+        inner = [n for n in pads if n not in pins]
+        if any(n not in pads for n in pins) or any("_L" not in n for n in inner):
+            fail("kiutils", f"footprint pads {pads}: expected pins {pins} plus links <phase>_L<k>")
+    else:
+        spare = sorted(n for n in lay_pads if n not in ("1", "2"))
+        if pads != sorted(pins + spare):
+            fail("kiutils", f"footprint pads {pads} differ from symbol pins {pins} plus spare fingers {spare}")
     if not props.get("Reference"):
         fail("kiutils", "symbol has no Reference")
     for name, want in (("sym-lib-table", syms[0]), ("fp-lib-table", os.path.dirname(mods[0]))):

@@ -177,15 +177,25 @@ def footprint(d):
         s.SetLayer(pcbnew.Edge_Cuts)
         s.SetWidth(pcbnew.FromMM(0.05))
         b.Add(s)
-    na = pcbnew.NETINFO_ITEM(b, "COIL_1")
-    nb = pcbnew.NETINFO_ITEM(b, "COIL_2")
-    b.Add(na)
-    b.Add(nb)
-    # Pads "1" (terminal 1 and the vias) and "2"; a tail's spare fingers
-    # ("3" on) stay on no net.
-    for p in fp.Pads():
-        if p.GetName() in ("1", "2"):
-            p.SetNet(nb if p.GetName() == "2" else na)
+    names = sorted({p.GetName() for p in fp.Pads()})
+    if any(not n.isdigit() for n in names):
+        # An array: every pad on the net of its own name ("A", "N",
+        # "A_L1" ...), so a break inside any net shows as unconnected.
+        nets = {n: pcbnew.NETINFO_ITEM(b, n) for n in names}
+        for n in nets.values():
+            b.Add(n)
+        for p in fp.Pads():
+            p.SetNet(nets[p.GetName()])
+    else:
+        na = pcbnew.NETINFO_ITEM(b, "COIL_1")
+        nb = pcbnew.NETINFO_ITEM(b, "COIL_2")
+        b.Add(na)
+        b.Add(nb)
+        # Pads "1" (terminal 1 and the vias) and "2"; a tail's spare fingers
+        # ("3" on) stay on no net.
+        for p in fp.Pads():
+            if p.GetName() in ("1", "2"):
+                p.SetNet(nb if p.GetName() == "2" else na)
     with tempfile.TemporaryDirectory() as t:
         path = os.path.join(t, "placed.kicad_pcb")
         pcbnew.SaveBoard(path, b)

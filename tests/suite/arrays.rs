@@ -129,3 +129,60 @@ fn twelve_coils_ten_poles_reverse_half_the_coils() {
     // design::winding).
     assert!((board.winding_factor.unwrap() - 0.9330).abs() < 1e-4);
 }
+
+#[test]
+fn every_phase_heats_the_board() {
+    // The board's heat balance counts every phase's loss: its electrical
+    // power is the phases times one phase's, and it equals the heat the
+    // board sheds at its steady temperature.
+    let (d, board) = coilwright::pipeline::parse_and_build(STATOR).unwrap();
+    let a = coilwright::physics::analyse(&d, &board).unwrap();
+    let t = &a.thermal;
+    assert!((t.power_w / (3.0 * t.current_a * t.voltage_v) - 1.0).abs() < 1e-12);
+    let avg = t.temperature_board_c.unwrap();
+    let shed = t.board.losses(avg).power_w;
+    assert!(
+        (shed / t.power_w - 1.0).abs() < 1e-6,
+        "{shed} {}",
+        t.power_w
+    );
+    // A slow balanced sine: sin^2 x + sin^2 (x - 120) + sin^2 (x - 240)
+    // = 3/2 at every instant, so the board's temperature does not ripple
+    // although each phase's loss swings fully every half period.
+    let slow = STATOR.replace(
+        "frequency = \"150Hz\"",
+        "waveform = \"sine\"\nfrequency = \"0.002Hz\"",
+    );
+    let (d, board) = coilwright::pipeline::parse_and_build(&slow).unwrap();
+    let a = coilwright::physics::analyse(&d, &board).unwrap();
+    let ripple = a.heating.ripple_k;
+    assert!(ripple < 1e-6 * (a.thermal.operating_c - 30.0), "{ripple}");
+}
+
+#[test]
+fn phase_mutual_inductance_is_the_series_excess() {
+    // Two phases in series store L_A + L_B + 2 M: the mutual inductance of
+    // the report equals half the excess of the pair's Neumann inductance
+    // (one filament list) over the two alone (energy identity).
+    use coilwright::physics::conductor::Conductor;
+    use coilwright::physics::inductance::{NEUMANN_SAGITTA, filaments_inductance};
+    let (d, board) = coilwright::pipeline::parse_and_build(STATOR).unwrap();
+    let a = coilwright::physics::analyse(&d, &board).unwrap();
+    let r = a.array.as_ref().unwrap();
+    assert_eq!(r.mutual_inductance.len(), 3);
+    let fa = Conductor::of_phase(&d, &board, 0).filaments(NEUMANN_SAGITTA);
+    let fb = Conductor::of_phase(&d, &board, 1).filaments(NEUMANN_SAGITTA);
+    let both: Vec<_> = fa.iter().chain(&fb).cloned().collect();
+    let (la, lb) = (filaments_inductance(&fa), filaments_inductance(&fb));
+    let m = (filaments_inductance(&both) - la - lb) / 2.0;
+    let ab = &r.mutual_inductance[0];
+    assert_eq!(ab.phases, ["A".to_string(), "B".to_string()]);
+    assert!(
+        (ab.mutual_inductance_h / m - 1.0).abs() < 1e-9,
+        "{} {m}",
+        ab.mutual_inductance_h
+    );
+    assert!((ab.coupling - m / (la * lb).sqrt()).abs() < 1e-9);
+    // Phase A's own inductance is the report's.
+    assert!((r.phases[0].inductance_h.unwrap() / a.inductance.inductance_h - 1.0).abs() < 1e-12);
+}

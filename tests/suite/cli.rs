@@ -374,6 +374,20 @@ fn catalogue() -> Vec<Case> {
             "ring of coils",
         ),
         case(
+            "a torque without the rotor's magnets",
+            format!("{BASE}\n[rotor]\npoles = 6\ntorque = \"2mNm\"\n"),
+            "rotor.torque",
+            "torque = |\"2mNm\"",
+            "size the magnets",
+        ),
+        case(
+            "a torque in the wrong unit",
+            format!("{BASE}\n[rotor]\npoles = 6\ndiameter = \"5mm\"\nthickness = \"2mm\"\nremanence = \"1.2T\"\ngap = \"1mm\"\npitch_diameter = \"30mm\"\ntorque = \"2N\"\n"),
+            "rotor.torque",
+            "torque = |\"2N\"",
+            "mNm",
+        ),
+        case(
             "odd rotor pole count",
             format!("{BASE}\n[rotor]\npoles = 7\n"),
             "rotor.poles",

@@ -244,8 +244,14 @@ fn require_tools() -> PathBuf {
 /// with) into `dir`.
 fn write_bundle(d: &Design, dir: &Path) {
     let layout = geometry::build(d).unwrap_or_else(|e| panic!("{}: {e}", d.name));
-    let analysis = coilwright::physics::analyse(d, &layout).expect("analysis");
-    for f in export::bundle(d, &layout, &analysis).unwrap() {
+    write_built_bundle(d, &layout, dir);
+}
+
+/// The outputs of a built design and `expect.json` (design, layout and
+/// outline bounds, read by the Python checkers) into `dir`.
+fn write_built_bundle(d: &Design, layout: &coilwright::geometry::Board, dir: &Path) {
+    let analysis = coilwright::physics::analyse(d, layout).expect("analysis");
+    for f in export::bundle(d, layout, &analysis).unwrap() {
         let p = dir.join(&f.path);
         std::fs::create_dir_all(p.parent().unwrap()).unwrap();
         std::fs::write(p, &f.bytes).unwrap();
@@ -387,6 +393,8 @@ fn random_designs_pass_real_readers_and_kicad() {
 fn ring_stators_pass_real_readers_and_kicad() {
     let py = require_tools();
     let tmp = tempfile::tempdir().unwrap();
+    let keep = std::env::var_os("COILWRIGHT_INTEROP_KEEP").map(PathBuf::from);
+    let root = keep.unwrap_or_else(|| tmp.path().to_path_buf());
     let base = include_str!("../../examples/fan-stator.toml");
     let checks = repo().join("tests/interop/checks.py");
     let kicad = repo().join("tests/interop/kicad_checks.py");
@@ -409,13 +417,8 @@ fn ring_stators_pass_real_readers_and_kicad() {
             .replace("outer_diameter = \"56mm\"", "outer_diameter = \"80mm\"")
             .replace("inner_diameter = \"26mm\" ", "inner_diameter = \"50mm\" ");
         let (d, board) = coilwright::pipeline::parse_and_build(&text).unwrap();
-        let analysis = coilwright::physics::analyse(&d, &board).expect("analysis");
-        let dir = tmp.path().join(format!("stator-{i}"));
-        for f in export::bundle(&d, &board, &analysis).unwrap() {
-            let p = dir.join(&f.path);
-            std::fs::create_dir_all(p.parent().unwrap()).unwrap();
-            std::fs::write(p, &f.bytes).unwrap();
-        }
+        let dir = root.join(format!("stator-{i}"));
+        write_built_bundle(&d, &board, &dir);
         let dir_s = dir.to_str().unwrap();
         let clearance = d.coil.clearance.to_string();
         for (prog, args) in [
@@ -428,8 +431,16 @@ fn ring_stators_pass_real_readers_and_kicad() {
                 vec![checks.to_str().unwrap(), "nets", dir_s, clearance.as_str()],
             ),
             (
+                py.as_path(),
+                vec![checks.to_str().unwrap(), "symbol", dir_s],
+            ),
+            (
                 Path::new("/usr/bin/python3"),
                 vec![kicad.to_str().unwrap(), "stator", dir_s],
+            ),
+            (
+                Path::new("/usr/bin/python3"),
+                vec![kicad.to_str().unwrap(), "footprint", dir_s],
             ),
         ] {
             match run(prog, &args) {

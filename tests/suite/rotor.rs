@@ -212,3 +212,46 @@ fn stator_torque_and_back_emf_agree() {
     let plots = coilwright::export::report::plots(&design, &board, &a);
     assert!(plots.iter().any(|p| p.0 == "back_emf.svg"));
 }
+
+#[test]
+fn the_torque_costs_what_the_constants_say() {
+    // Balanced sinusoidal drive of m phases: torque k_t I, copper loss
+    // m I^2 R / 2 (I the phase peak): the textbook relations the report's
+    // load must satisfy, and its torque limit is the torque constant times
+    // the thermal limit's sine amplitude from the heat balance.
+    let text = std::fs::read_to_string(root().join("examples/fan-stator.toml"))
+        .unwrap()
+        .replace(
+            "frequency = \"150Hz\"",
+            "waveform = \"sine\"\nfrequency = \"150Hz\"",
+        );
+    let (design, board) = coilwright::pipeline::parse_and_build(&text).unwrap();
+    let a = coilwright::physics::analyse(&design, &board).unwrap();
+    let j = serde_json::to_value(&a).unwrap();
+    let kt = j["torque_constant_n_m_per_a"].as_f64().unwrap();
+    let r20 = j["phase_resistance_ohm_20c"].as_f64().unwrap();
+    let load = &j["rotor"]["load"];
+    let t = load["torque_n_m"].as_f64().unwrap();
+    assert_eq!(t, 1e-3);
+    let i = t / kt;
+    assert!((load["phase_current_peak_a"].as_f64().unwrap() / i - 1.0).abs() < 1e-12);
+    let p = j["copper_loss_w"].as_f64().unwrap();
+    assert!((p / (1.5 * i * i * r20) - 1.0).abs() < 1e-12, "{p}");
+    let km = j["motor_constant_n_m_per_sqrt_w"].as_f64().unwrap();
+    assert!((t / p.sqrt() / km - 1.0).abs() < 1e-12);
+    let t_max = j["torque_max_n_m"].as_f64().unwrap();
+    let i_max = j["max_current_a"].as_f64().unwrap();
+    assert!((t_max / (kt * i_max) - 1.0).abs() < 1e-9, "{t_max} {i_max}");
+    assert!(!j["warnings"].to_string().contains("torque"));
+    // Past the limit: a caution naming it.
+    let over = text.replace("torque = \"1mNm\"", "torque = \"20mNm\"");
+    let (design, board) = coilwright::pipeline::parse_and_build(&over).unwrap();
+    let a = coilwright::physics::analyse(&design, &board).unwrap();
+    assert!(
+        a.cautions
+            .iter()
+            .any(|c| c.id() == "torque-above-limit" && c.is_limit()),
+        "{:?}",
+        a.cautions
+    );
+}

@@ -1,7 +1,7 @@
 //! `[rotor]`: the optional rotor of magnets turning over a ring of coils.
 
 use super::super::model::{Rotor, RotorMagnet, RotorMagnets};
-use super::super::units::Remanence;
+use super::super::units::{Remanence, Torque};
 use super::table::{Ctx, Sign, Table};
 
 /// Most magnet poles on a rotor.
@@ -36,9 +36,24 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<Rotor> {
     };
     let sized = MAGNET_KEYS.iter().any(|k| t.has(k));
     let magnets = if sized { magnets(cx, t, poles) } else { None };
+    let torque = cx
+        .quantity::<Torque>(t, "torque", Sign::Positive)
+        .map(Torque::newton_metres);
+    if t.has("torque") && !sized {
+        cx.err(
+            t.key("torque"),
+            t.span_of("torque"),
+            "a torque needs the rotor's magnets to be turned into a current".to_string(),
+            Some(
+                "size the magnets (magnet, thickness, remanence, gap ...) or leave torque out"
+                    .into(),
+            ),
+        );
+    }
     let rotor = Rotor {
         poles: poles?,
         magnets,
+        torque,
     };
     Some(rotor)
 }

@@ -220,6 +220,9 @@ fn stub_path(board: &Board, outer: &OuterSlots, outer_side: Boundary) -> Vec<Seg
     }
 }
 
+/// Shortest lead arc written, mm.
+const MIN_ARC_MM: f64 = 1e-3;
+
 /// A lead along a circle about the axis: radially from `node` to the circle
 /// at `slot_angle`, along the circle the short way to `end_angle`, then
 /// straight (radially) to `end`. Used outside circular windings and inside
@@ -234,7 +237,10 @@ fn circle_lead(
     let on_ring = Point::polar(radius, slot_angle);
     let mut lead = vec![Segment::line(node, on_ring)];
     let sweep = short_sweep(slot_angle, end_angle);
-    if sweep.abs() >= 1e-12 {
+    // An arc shorter than a micrometre is rounding between two angles
+    // meant to be equal: left out (KiCad builds a wild circle through three
+    // points nanometres apart), the line below bridging the gap.
+    if sweep.abs() * radius >= MIN_ARC_MM {
         lead.push(Segment::Arc(Arc::from_start(Point::ORIGIN, on_ring, sweep)));
     }
     let last = lead.last().map(|x| x.end()).unwrap_or(on_ring);
