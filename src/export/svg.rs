@@ -7,7 +7,7 @@
 //! viridis colour map (perceptually uniform), one per layer.
 
 use crate::geometry::round::{format_mm, to_nm};
-use crate::geometry::{Board, Direction, Point, Segment, TrackRole};
+use crate::geometry::{Board, Direction, Point, Segment, TrackRole, Vec2};
 use crate::rules::{Severity, Violation};
 use std::fmt::Write;
 
@@ -249,9 +249,20 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     // Current-direction arrows on the drawn layers.
     for &l in layers.iter().filter(|_| !phased) {
         let colour = layer_colour(l, layout.layers);
-        for w in layout.windings.iter().filter(|w| w.layer == l) {
-            for (p, dir) in arrow_points(layout, w, 4) {
-                let size = (layout.pitch * 2.5).max(font * 0.6);
+        for w in layout
+            .windings
+            .iter()
+            .filter(|w| w.layer == l && !(layout.coils.len() > 1 && w.turns == 0.0))
+        {
+            // An array's coils are small beside its board: fewer arrows,
+            // sized to the coil, none on the buses.
+            let (count, most) = if layout.coils.len() > 1 {
+                (2, 0.3 * layout.outer_radius)
+            } else {
+                (4, f64::INFINITY)
+            };
+            for (p, dir) in arrow_points(layout, w, count) {
+                let size = (layout.pitch * 2.5).max(font * 0.6).min(most);
                 arrow(&mut s, p, dir, size, &colour, 0.04);
             }
         }
@@ -275,21 +286,57 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
             mm(v.drill / 2.0)
         );
     }
+    // An array's coil pads ("<coil>.1", a millimetre apart) are not named
+    // one by one: each coil's number stands inside the ring beside it, and
+    // the phase pads' names stand radially outside them.
+    let array = layout.coils.len() > 1;
     for p in layout.pads.iter().filter(|p| p.smd.is_none()) {
         let _ = writeln!(
             s,
-            r#"<circle cx="{}" cy="{}" r="{}" fill="{INK}"/><circle cx="{}" cy="{}" r="{}" fill="{PAPER}"/><text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="bold">{}</text>"#,
+            r#"<circle cx="{}" cy="{}" r="{}" fill="{INK}"/><circle cx="{}" cy="{}" r="{}" fill="{PAPER}"/>"#,
             mm(p.at.x),
             mm(-p.at.y),
             mm(p.diameter / 2.0),
             mm(p.at.x),
             mm(-p.at.y),
             mm(p.drill / 2.0),
-            mm(p.at.x + p.diameter * 0.6),
-            mm(-p.at.y - p.diameter * 0.6),
-            mm(font),
-            escape(&p.name)
         );
+        if !array {
+            let _ = writeln!(
+                s,
+                r#"<text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="bold">{}</text>"#,
+                mm(p.at.x + p.diameter * 0.6),
+                mm(-p.at.y - p.diameter * 0.6),
+                mm(font),
+                escape(&p.name)
+            );
+        } else if !p.name.contains('.') {
+            let out = p.at.to_vec2().normalized().unwrap_or(Vec2::new(1.0, 0.0));
+            let at = p.at + out * (p.diameter / 2.0 + 0.8 * font);
+            let _ = writeln!(
+                s,
+                r#"<text x="{}" y="{}" font-size="{}" fill="{INK}" font-weight="bold" text-anchor="middle" dominant-baseline="central">{}</text>"#,
+                mm(at.x),
+                mm(-at.y),
+                mm(font),
+                escape(&p.name)
+            );
+        }
+    }
+    if array {
+        for (k, c) in layout.coils.iter().enumerate() {
+            let v = c.position.to_vec2();
+            let r = v.length();
+            let at = Point::ORIGIN + v * ((r - layout.outer_radius - 0.9 * font) / r.max(1e-9));
+            let _ = writeln!(
+                s,
+                r#"<text x="{}" y="{}" font-size="{}" fill="{INK}" fill-opacity="0.7" text-anchor="middle" dominant-baseline="central">{}</text>"#,
+                mm(at.x),
+                mm(-at.y),
+                mm(0.8 * font),
+                k + 1
+            );
+        }
     }
     // Surface pads: their rectangle, faint on views of other layers.
     for p in &layout.pads {
@@ -611,9 +658,21 @@ impl LayerStrip {
                     mm(stroke)
                 );
             }
-            for w in layout.windings.iter().filter(|w| w.layer == l) {
-                for (p, dir) in arrow_points(layout, w, 3) {
-                    arrow(s, p, dir, 0.9 * font / k, &colour, 0.05);
+            // An array's coils: one arrow each, sized to the coil; none on
+            // its buses.
+            let array = layout.coils.len() > 1;
+            let (count, size) = if array {
+                (1, (0.9 * font / k).min(0.5 * layout.outer_radius))
+            } else {
+                (3, 0.9 * font / k)
+            };
+            for w in layout
+                .windings
+                .iter()
+                .filter(|w| w.layer == l && !(array && w.turns == 0.0))
+            {
+                for (p, dir) in arrow_points(layout, w, count) {
+                    arrow(s, p, dir, size, &colour, 0.05);
                 }
             }
             let _ = writeln!(s, "</g>");

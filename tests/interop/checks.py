@@ -33,8 +33,10 @@ written by tests/suite/interop.rs). Each failure is printed as
 """
 
 import glob
+import json
 import math
 import os
+import re
 import subprocess
 import sys
 import tempfile
@@ -634,6 +636,102 @@ def nets(d, clearance):
     print(f"nets: {len(files)} copper layers, different nets at least {worst*1000:.1f} um apart")
 
 
+def phase_walk(d):
+    """Each phase's track resistance walked on the exported copper: every
+    line and arc of every copper Gerber (gerbonara, PyPI) is a resistor
+    rho L / (w t) (its length exact, arcs r |sweep|; w the aperture; t the
+    layer's copper from the design; rho 1.7241e-8 ohm m, annealed copper
+    at 20 C, IEC 60028), joined where ends meet on a layer and through
+    every flashed land (via or pad) to the other layers' lands at the same
+    point; a phase's resistance is the cheapest path (Dijkstra) between its
+    two terminal pads (`<phase>1` and `<phase>2`: the design must have
+    separate phase ends). Via barrels count nothing, as in the report's
+    `array.phases[].tracks_ohm_20c`, which must agree within 1e-6."""
+    import heapq
+    from gerbonara import GerberFile
+    from gerbonara.graphic_objects import Arc, Flash, Line
+
+    rho = 1.7241e-8
+    exp = load_expect(d)
+    copper = exp["design"]["stackup"]["copper"]
+    with open(os.path.join(d, "report.json")) as f:
+        report = json.load(f)
+    graph = {}
+
+    def edge(a, b, ohm):
+        graph.setdefault(a, []).append((b, ohm))
+        graph.setdefault(b, []).append((a, ohm))
+
+    def key(layer, x, y):
+        return (layer, round(x * 1e4), round(y * 1e4))
+
+    pads = {}
+    lands = []
+    for path in sorted(glob.glob(os.path.join(d, "fab", "*-L*-copper-*.gbr"))):
+        layer = int(re.search(r"-L(\d+)-copper-", path).group(1))
+        t = copper[layer - 1] * 1e-3
+        for o in GerberFile.open(path).objects:
+            if isinstance(o, Line):
+                length = math.hypot(o.x2 - o.x1, o.y2 - o.y1)
+            elif isinstance(o, Arc):
+                _, length = arc_points(o.x1, o.y1, o.x2, o.y2, o.x1 + o.cx, o.y1 + o.cy, o.clockwise)
+            elif isinstance(o, Flash):
+                lands.append((layer, o.x, o.y, o.aperture.diameter / 2))
+                name = ((getattr(o, "attrs", {}) or {}).get(".P") or [None, None])[1]
+                if name:
+                    pads[name] = (o.x, o.y)
+                continue
+            else:
+                continue
+            w = o.aperture.diameter * 1e-3
+            edge(key(layer, o.x1, o.y1), key(layer, o.x2, o.y2), rho * length * 1e-3 / (w * t))
+    # Lands: every track end on the land's layer within its radius joins the
+    # land's point, which joins the same point on every layer.
+    ends = {}
+    for k in graph:
+        ends.setdefault(k[0], []).append(k)
+    for (layer, x, y, r) in lands:
+        centre = ("land", round(x * 1e4), round(y * 1e4))
+        for k in ends.get(layer, []):
+            if math.hypot(k[1] * 1e-4 - x, k[2] * 1e-4 - y) <= r:
+                edge(k, centre, 0.0)
+
+    def walk(a, b):
+        start = ("land", round(a[0] * 1e4), round(a[1] * 1e4))
+        goal = ("land", round(b[0] * 1e4), round(b[1] * 1e4))
+        best = {start: 0.0}
+        queue = [(0.0, start)]
+        while queue:
+            c, n = heapq.heappop(queue)
+            if n == goal:
+                return c
+            if c > best.get(n, math.inf):
+                continue
+            for m, w in graph.get(n, []):
+                if c + w < best.get(m, math.inf):
+                    best[m] = c + w
+                    heapq.heappush(queue, (c + w, m))
+        return None
+
+    worst = 0.0
+    for ph in report["array"]["phases"]:
+        name = ph["name"]
+        if f"{name}1" not in pads or f"{name}2" not in pads:
+            fail("bundle", f"phase {name}: no pads {name}1 and {name}2 in the copper Gerbers")
+            continue
+        ohm = walk(pads[f"{name}1"], pads[f"{name}2"])
+        if ohm is None:
+            fail("gerbonara", f"phase {name}: no copper path from {name}1 to {name}2")
+            continue
+        rel = abs(ohm / ph["tracks_ohm_20c"] - 1)
+        worst = max(worst, rel)
+        if rel > 1e-6:
+            fail("gerbonara", f"phase {name}: {ohm:.6f} ohm walked on the Gerbers, "
+                 f"{ph['tracks_ohm_20c']:.6f} ohm reported")
+    print(f"phase_walk: {len(report['array']['phases'])} phases walked on the Gerbers, "
+          f"within {worst:.1e} of the report")
+
+
 if __name__ == "__main__":
     run({"symbol": symbol, "readers": readers, "geometry": geometry, "dxf": dxf,
-         "raster": raster, "tail": tail, "nets": nets})
+         "raster": raster, "tail": tail, "nets": nets, "phase_walk": phase_walk})

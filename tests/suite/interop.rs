@@ -27,7 +27,11 @@
 //!   no copper of different nets (the Gerbers' net attributes) closer than
 //!   the clearance, terminal pads aside; KiCad 6 loads
 //!   the board with one net per bus and its DRC finds 0 violations and 0
-//!   unconnected pads, each phase terminal on the net of its name.
+//!   unconnected pads, each phase terminal on the net of its name; the
+//!   library footprint, each pad on the net of its own name, passes DRC
+//!   with 0 violations and 0 unconnected; kiutils finds a symbol pin per
+//!   phase pad; with separate phase ends, each phase's resistance walked
+//!   on the copper Gerbers (gerbonara) equals the report's within 1e-6.
 //!
 //! Needs `tests/interop/setup.sh` to have run (Debian packages kicad, gerbv
 //! and the venv .venv-interop); without them this test fails and says so.
@@ -421,6 +425,14 @@ fn ring_stators_pass_real_readers_and_kicad() {
         write_built_bundle(&d, &board, &dir);
         let dir_s = dir.to_str().unwrap();
         let clearance = d.coil.clearance.to_string();
+        // Separate phases have both ends on pads: walk each phase's
+        // resistance on the Gerbers (gerbonara) against the report's.
+        let walk = (connection == "separate").then(|| {
+            (
+                py.as_path(),
+                vec![checks.to_str().unwrap(), "phase_walk", dir_s],
+            )
+        });
         for (prog, args) in [
             (
                 py.as_path(),
@@ -442,7 +454,10 @@ fn ring_stators_pass_real_readers_and_kicad() {
                 Path::new("/usr/bin/python3"),
                 vec![kicad.to_str().unwrap(), "footprint", dir_s],
             ),
-        ] {
+        ]
+        .into_iter()
+        .chain(walk)
+        {
             match run(prog, &args) {
                 Ok(t) => println!("{count}/{poles} {connection}: {t}"),
                 Err(e) => errors.push_str(&format!("{count}/{poles} {connection}: {e}\n")),
