@@ -291,7 +291,7 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     // the phase pads' names stand radially outside them.
     let array = layout.coils.len() > 1;
     for p in layout.pads.iter().filter(|p| p.smd.is_none()) {
-        let _ = writeln!(
+        let _ = write!(
             s,
             r#"<circle cx="{}" cy="{}" r="{}" fill="{INK}"/><circle cx="{}" cy="{}" r="{}" fill="{PAPER}"/>"#,
             mm(p.at.x),
@@ -310,7 +310,9 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
                 mm(font),
                 escape(&p.name)
             );
-        } else if !p.name.contains('.') {
+        } else if p.name.contains('.') {
+            s.push('\n');
+        } else {
             let out = p.at.to_vec2().normalized().unwrap_or(Vec2::new(1.0, 0.0));
             let at = p.at + out * (p.diameter / 2.0 + 0.8 * font);
             let _ = writeln!(
