@@ -70,99 +70,99 @@ fn form_values(text: &str) -> Value {
 }
 
 /// One of the report's key numbers as the page shows it: its report.json
-/// key, label, unit and the factor from the SI value to that unit.
+/// key, label, unit and the factor from the SI value to that unit;
+/// `optional` numbers (those of a drive frequency, a rotor, an array) are
+/// left off the page when the report has none.
 struct Number {
     key: &'static str,
     label: &'static str,
     unit: &'static str,
     factor: f64,
+    optional: bool,
+}
+
+/// A number every report has.
+const fn always(key: &'static str, label: &'static str, unit: &'static str, factor: f64) -> Number {
+    Number {
+        key,
+        label,
+        unit,
+        factor,
+        optional: false,
+    }
+}
+
+/// A number only some designs have.
+const fn when(key: &'static str, label: &'static str, unit: &'static str, factor: f64) -> Number {
+    Number {
+        key,
+        label,
+        unit,
+        factor,
+        optional: true,
+    }
 }
 
 const NUMBERS: &[Number] = &[
-    Number {
-        key: "resistance_ohm_20c",
-        label: "resistance at 20 °C",
-        unit: "Ω",
-        factor: 1.0,
-    },
-    Number {
-        key: "resistance_ohm_hot",
-        label: "resistance at the drive's temperature",
-        unit: "Ω",
-        factor: 1.0,
-    },
-    Number {
-        key: "inductance_h",
-        label: "inductance",
-        unit: "µH",
-        factor: 1e6,
-    },
-    Number {
-        key: "current_a",
-        label: "current",
-        unit: "A",
-        factor: 1.0,
-    },
-    Number {
-        key: "voltage_v",
-        label: "voltage",
-        unit: "V",
-        factor: 1.0,
-    },
-    Number {
-        key: "power_w",
-        label: "power",
-        unit: "mW",
-        factor: 1e3,
-    },
-    Number {
-        key: "temperature_c",
-        label: "temperature at the drive",
-        unit: "°C",
-        factor: 1.0,
-    },
-    Number {
-        key: "max_current_a",
-        label: "largest current within max_temperature",
-        unit: "A",
-        factor: 1.0,
-    },
-    Number {
-        key: "field_center_t_per_a",
-        label: "field at the centre",
-        unit: "mT/A",
-        factor: 1e3,
-    },
-    Number {
-        key: "force_n",
-        label: "force on the magnet",
-        unit: "mN",
-        factor: 1e3,
-    },
-    Number {
-        key: "force_per_sqrt_w_n",
-        label: "force per √W",
-        unit: "mN/√W",
-        factor: 1e3,
-    },
-    Number {
-        key: "trace_length_mm",
-        label: "trace length",
-        unit: "mm",
-        factor: 1.0,
-    },
-    Number {
-        key: "thickness_mm",
-        label: "board thickness",
-        unit: "mm",
-        factor: 1.0,
-    },
-    Number {
-        key: "bend_radius_dynamic_mm",
-        label: "smallest bend radius, flexing",
-        unit: "mm",
-        factor: 1.0,
-    },
+    always("resistance_ohm_20c", "resistance at 20 °C", "Ω", 1.0),
+    always(
+        "resistance_ohm_hot",
+        "resistance at the drive's temperature",
+        "Ω",
+        1.0,
+    ),
+    always("inductance_h", "inductance", "µH", 1e6),
+    always("current_a", "current", "A", 1.0),
+    always("voltage_v", "voltage", "V", 1.0),
+    always("power_w", "power", "mW", 1e3),
+    always("temperature_c", "temperature at the drive", "°C", 1.0),
+    always(
+        "max_current_a",
+        "largest current within max_temperature",
+        "A",
+        1.0,
+    ),
+    always("field_center_t_per_a", "field at the centre", "mT/A", 1e3),
+    always("force_n", "force on the magnet", "mN", 1e3),
+    always("force_per_sqrt_w_n", "force per √W", "mN/√W", 1e3),
+    always("trace_length_mm", "trace length", "mm", 1.0),
+    always("thickness_mm", "board thickness", "mm", 1.0),
+    always(
+        "bend_radius_dynamic_mm",
+        "smallest bend radius, flexing",
+        "mm",
+        1.0,
+    ),
+    when(
+        "resistance_ohm_ac",
+        "resistance at the drive frequency",
+        "Ω",
+        1.0,
+    ),
+    when("q_factor", "Q at the drive frequency", "", 1.0),
+    always("capacitance_f", "self-capacitance", "pF", 1e12),
+    always("self_resonance_hz", "self-resonance", "MHz", 1e-6),
+    when("winding_factor", "winding factor", "", 1.0),
+    when(
+        "back_emf_v_per_rad_s",
+        "back-EMF, phase peak",
+        "mV/(rad/s)",
+        1e3,
+    ),
+    when(
+        "torque_constant_n_m_per_a",
+        "torque constant (sine drive)",
+        "mN·m/A",
+        1e3,
+    ),
+    when("torque_ripple_percent", "torque ripple", "%", 1.0),
+    when("torque_max_n_m", "largest continuous torque", "mN·m", 1e3),
+    when(
+        "copper_loss_w",
+        "copper loss at the rotor's torque",
+        "mW",
+        1e3,
+    ),
 ];
 
 /// `v` with four significant digits (no exponent for everyday sizes).
@@ -176,17 +176,23 @@ pub fn sig4(v: f64) -> String {
 
 /// The key numbers with units, each flagged when it exceeds the limit
 /// the design sets for itself (the temperature above `max_temperature`,
-/// the current above the largest that stays within it).
+/// the current above the largest that stays within it, the copper loss of
+/// a rotor torque above the largest continuous one).
 fn numbers(report: &Value) -> Value {
     let max_t = report["inputs"]["max_temperature_c"].as_f64();
     let max_i = report["max_current_a"].as_f64();
     NUMBERS
         .iter()
+        .filter(|n| !(n.optional && report[n.key].as_f64().is_none()))
         .map(|n| {
             let si = report[n.key].as_f64();
             let over = match (n.key, si) {
                 ("temperature_c", Some(t)) => max_t.is_some_and(|m| t > m),
                 ("current_a", Some(i)) => max_i.is_some_and(|m| i > m),
+                ("copper_loss_w", Some(_)) => {
+                    let load = &report["rotor"]["load"];
+                    load["torque_n_m"].as_f64() > load["torque_max_n_m"].as_f64()
+                }
                 _ => false,
             };
             json!({
@@ -474,5 +480,38 @@ mod tests {
         let fields = form_fields();
         assert_eq!(fields.as_array().unwrap().len(), FORM_KEYS.len());
         assert_eq!(fields[1]["choices"][0], "circle");
+    }
+
+    /// The numbers of a drive frequency or a rotor appear only where the
+    /// report has them; the copper loss is flagged past the torque limit.
+    #[test]
+    fn optional_numbers_follow_the_report() {
+        let keys = |report: &Value| -> Vec<String> {
+            numbers(report)
+                .as_array()
+                .unwrap()
+                .iter()
+                .map(|n| n["key"].as_str().unwrap().to_string())
+                .collect()
+        };
+        let mut report = json!({"capacitance_f": 1e-12, "q_factor": null,
+            "torque_max_n_m": null, "copper_loss_w": null});
+        let plain = keys(&report);
+        assert!(plain.contains(&"capacitance_f".to_string()));
+        assert!(!plain.contains(&"q_factor".to_string()));
+        assert!(!plain.contains(&"copper_loss_w".to_string()));
+        report["q_factor"] = json!(40.0);
+        report["copper_loss_w"] = json!(0.5);
+        report["rotor"] = json!({"load": {"torque_n_m": 0.02, "torque_max_n_m": 0.01}});
+        let n = numbers(&report);
+        let loss = n
+            .as_array()
+            .unwrap()
+            .iter()
+            .find(|n| n["key"] == "copper_loss_w")
+            .unwrap();
+        assert_eq!(loss["over"], true);
+        assert_eq!(loss["shown"], "500.0");
+        assert!(keys(&report).contains(&"q_factor".to_string()));
     }
 }
