@@ -326,10 +326,20 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         }
     }
     if array {
+        // A ring's coils all sit at one radius: their numbers go inside the
+        // ring; a grid's beside each coil's upper left.
+        let radii = layout.coils.iter().map(|c| c.position.to_vec2().length());
+        let (lo, hi) = radii.fold((f64::INFINITY, 0.0_f64), |(a, b), r| (a.min(r), b.max(r)));
+        let ring = hi - lo < 1e-6;
         for (k, c) in layout.coils.iter().enumerate() {
             let v = c.position.to_vec2();
             let r = v.length();
-            let at = Point::ORIGIN + v * ((r - layout.outer_radius - 0.9 * font) / r.max(1e-9));
+            let at = if ring {
+                Point::ORIGIN + v * ((r - layout.outer_radius - 0.9 * font) / r.max(1e-9))
+            } else {
+                let d = (layout.outer_radius + 0.5 * font) / std::f64::consts::SQRT_2;
+                c.position + Vec2::new(-d, d)
+            };
             let _ = writeln!(
                 s,
                 r#"<text x="{}" y="{}" font-size="{}" fill="{INK}" fill-opacity="0.7" text-anchor="middle" dominant-baseline="central">{}</text>"#,
@@ -446,11 +456,16 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     ly += font * 1.4;
     if matches!(view, View::Stack) && !layout.phases.is_empty() {
         for (ph, p) in layout.phases.iter().enumerate() {
-            let coils: Vec<String> = p
+            let mut coils: Vec<String> = p
                 .coils
                 .iter()
                 .map(|&(k, sg)| format!("{}{}", k + 1, if sg > 0.0 { "+" } else { "-" }))
                 .collect();
+            // A long list (a grid's single phase) keeps its ends.
+            if coils.len() > 8 {
+                let n = coils.len();
+                coils.splice(3..n - 2, [format!("… ({n} coils)")]);
+            }
             let text = format!("phase {}: coils {}", escape(&p.name), coils.join(" "));
             swatch(&mut s, (lx, ly, font), &phase_colour(Some(ph)), "", &text);
             ly += font * 1.1;

@@ -72,9 +72,43 @@ pub enum ArrayError {
         /// Copper layers.
         layers: u8,
     },
-    /// Grids are placed but their buses are not routed.
-    #[error("buses for arrangement = \"grid\" are not built yet; use a ring")]
-    GridBuses,
+    /// Neighbouring coils of a grid overlap or come closer than the
+    /// spacing (the coil's clearance) along one axis.
+    #[error(
+        "{axis} = {pitch:.3} mm leaves {gap:.3} mm between neighbouring coils (copper to copper, by the circles that hold them), {need:.3} mm needed: {short:.3} mm short"
+    )]
+    GridPitch {
+        /// "pitch_x" or "pitch_y".
+        axis: &'static str,
+        /// The pitch, mm.
+        pitch: f64,
+        /// Gap, mm.
+        gap: f64,
+        /// Clearance needed, mm.
+        need: f64,
+        /// By how much, mm.
+        short: f64,
+    },
+    /// A grid's buses do not fit between its rows.
+    #[error(
+        "the buses below row {row} need {need:.3} mm between the rows' copper but pitch_y leaves {room:.3} mm: {short:.3} mm short"
+    )]
+    GridChannel {
+        /// Row (from 1 at the bottom).
+        row: usize,
+        /// Height the buses need, mm.
+        need: f64,
+        /// Height between the rows' copper, mm.
+        room: f64,
+        /// By how much, mm.
+        short: f64,
+    },
+    /// A grid wired as more than one phase.
+    #[error("a grid is wired as one phase, every coil in series; phases = {phases} needs a ring")]
+    GridPhases {
+        /// The design's phases.
+        phases: u32,
+    },
     /// A tail with an array.
     #[error("a tail carries one coil's terminals; an array has its own terminal pads")]
     Tail,
@@ -92,14 +126,26 @@ pub fn place(design: &Design, single: Board) -> Result<Board, ArrayError> {
     if design.tail.is_some() {
         return Err(ArrayError::Tail);
     }
-    let Arrangement::Ring {
-        count,
-        inner_diameter,
-        outer_diameter,
-        spacing,
-    } = array.arrangement
-    else {
-        return Err(ArrayError::GridBuses);
+    let (count, inner_diameter, outer_diameter, spacing) = match array.arrangement {
+        Arrangement::Ring {
+            count,
+            inner_diameter,
+            outer_diameter,
+            spacing,
+        } => (count, inner_diameter, outer_diameter, spacing),
+        Arrangement::Grid {
+            rows,
+            columns,
+            pitch_x,
+            pitch_y,
+        } => {
+            let grid = Grid {
+                rows: rows as usize,
+                columns: columns as usize,
+                pitch: (pitch_x, pitch_y),
+            };
+            return grid.place(design, single);
+        }
     };
     let pat = pattern(count, array.phases, design.rotor.map(|r| r.poles))
         .map_err(|_| ArrayError::Unbalanced)?;
@@ -187,6 +233,390 @@ pub fn place(design: &Design, single: Board) -> Result<Board, ArrayError> {
     board.winding_factor = pat.winding_factor;
     board.outline = disc_outline(&board, design.board.margin);
     Ok(board)
+}
+
+/// A grid of coils: `rows` x `columns` copies `pitch` (x, y) apart,
+/// centred on the origin, each turned so that its terminals face down
+/// (-y), wired in series along a serpentine (row 0 at the bottom left to
+/// right, row 1 right to left ...).
+///
+/// Buses run in the channel below each row: a stub on the stub layer from
+/// each coil pad straight down to a via on a lane (a horizontal line below
+/// the row's copper), lines on the arc layer along the lane; a link
+/// between two rows runs out along its lane beyond the grid's side (right
+/// after an even row, left after an odd one), up on the arc layer beside
+/// the grid into the next channel and along that channel's lane. The phase
+/// ends come out to terminal pads beyond the grid's side on their lanes.
+struct Grid {
+    rows: usize,
+    columns: usize,
+    pitch: (f64, f64),
+}
+
+impl Grid {
+    /// Row and column of the `k`-th coil along the serpentine.
+    fn cell(&self, k: usize) -> (usize, usize) {
+        let r = k / self.columns;
+        let c = k % self.columns;
+        (r, if r.is_multiple_of(2) { c } else { self.columns - 1 - c })
+    }
+
+    /// Centre of the coil in row `r`, column `c`, mm.
+    fn centre(&self, r: usize, c: usize) -> Point {
+        Point::new(
+            (c as f64 - (self.columns - 1) as f64 / 2.0) * self.pitch.0,
+            (r as f64 - (self.rows - 1) as f64 / 2.0) * self.pitch.1,
+        )
+    }
+
+    fn place(&self, design: &Design, single: Board) -> Result<Board, ArrayError> {
+        let array = design.array.expect("a grid is an array");
+        if array.phases > 1 {
+            return Err(ArrayError::GridPhases {
+                phases: array.phases,
+            });
+        }
+        let reach = coil_reach(&single);
+        let need = design.coil.clearance;
+        for (axis, pitch, n) in [
+            ("pitch_x", self.pitch.0, self.columns),
+            ("pitch_y", self.pitch.1, self.rows),
+        ] {
+            let gap = pitch - 2.0 * reach;
+            if n > 1 && gap < need - 1e-9 {
+                return Err(ArrayError::GridPitch {
+                    axis,
+                    pitch,
+                    gap,
+                    need,
+                    short: need - gap,
+                });
+            }
+        }
+        let (stub_layer, arc_layer) = bus_layers(&single)?;
+        let mut board = Board {
+            coils: vec![],
+            tracks: vec![],
+            vias: vec![],
+            pads: vec![],
+            windings: vec![],
+            outline: Outline { segments: vec![] },
+            ..single.clone()
+        };
+        let a0 = design.terminal_place.angle();
+        let n = self.rows * self.columns;
+        for k in 0..n {
+            let (r, c) = self.cell(k);
+            let coil = PlacedCoil {
+                position: self.centre(r, c),
+                rotation: -PI / 2.0 - a0,
+                sense: Sense::Positive,
+                nets: [format!("A_{}", k + 1), format!("A_{}", k + 1)],
+                tracks: 0..0,
+                vias: 0..0,
+                pads: 0..0,
+                windings: 0..0,
+            };
+            copy_coil(&mut board, &single, coil, k);
+        }
+        let phases = vec![(0..n).map(|k| (k, 1.0)).collect::<Vec<_>>()];
+        let (nets, ends) = circuit(&board, &phases, array.connection, array.neutral);
+        let router = GridRouter {
+            grid: self,
+            reach,
+            stub_layer,
+            arc_layer,
+            width: design.coil.trace_width,
+            clearance: design.coil.clearance,
+            via: (design.via.drill, design.via.diameter),
+            terminal: (design.terminal.drill, design.terminal.diameter),
+        };
+        router.route(&mut board, &nets)?;
+        board.phases = vec![phase(&board, &nets, ends[0], 0, &phases[0])];
+        board.winding_factor = None;
+        board.outline = rect_outline(&board, design.board.margin);
+        Ok(board)
+    }
+}
+
+/// Routes the bus nets of a [`Grid`].
+struct GridRouter<'a> {
+    grid: &'a Grid,
+    /// Reach of a coil's copper from its axis, mm.
+    reach: f64,
+    stub_layer: u8,
+    arc_layer: u8,
+    width: f64,
+    clearance: f64,
+    via: (f64, f64),
+    terminal: (f64, f64),
+}
+
+impl GridRouter<'_> {
+    /// Distance between neighbouring lanes (and side runs), mm.
+    fn pitch(&self) -> f64 {
+        self.width.max(self.via.1) + self.clearance
+    }
+
+    /// Height of lane `j` below row `r`, mm.
+    fn lane(&self, r: usize, j: usize) -> f64 {
+        self.grid.centre(r, 0).y
+            - self.reach
+            - self.clearance
+            - self.width.max(self.via.1) / 2.0
+            - j as f64 * self.pitch()
+    }
+
+    /// Where side runs go up beside the grid (`right`), mm.
+    fn side(&self, right: bool) -> f64 {
+        let x = self.grid.centre(0, self.grid.columns - 1).x
+            + self.reach
+            + self.clearance
+            + self.width.max(self.via.1) / 2.0;
+        if right { x } else { -x }
+    }
+
+    /// Where a terminal pad sits beside the grid (`right`), mm.
+    fn terminal_x(&self, right: bool) -> f64 {
+        let x = self.side(true) + self.pitch() + self.terminal.1 / 2.0;
+        if right { x } else { -x }
+    }
+
+    fn route(&self, board: &mut Board, nets: &[Net]) -> Result<(), ArrayError> {
+        let row_of = |board: &Board, p: usize| {
+            let k = board
+                .coils
+                .iter()
+                .position(|c| c.pads.contains(&p))
+                .expect("a bus pad is a coil's");
+            self.grid.cell(k).0
+        };
+        // Each net's pads per row, with the x span its lane covers there
+        // (out to the side for a link between rows or a terminal).
+        struct Run {
+            net: usize,
+            row: usize,
+            pads: Vec<usize>,
+            lo: f64,
+            hi: f64,
+        }
+        let mut runs: Vec<Run> = Vec::new();
+        for (i, net) in nets.iter().enumerate() {
+            let mut rows: Vec<usize> = net.pads.iter().map(|&p| row_of(board, p)).collect();
+            rows.sort_unstable();
+            rows.dedup();
+            for &r in &rows {
+                let pads: Vec<usize> = net
+                    .pads
+                    .iter()
+                    .copied()
+                    .filter(|&p| row_of(board, p) == r)
+                    .collect();
+                let xs = pads.iter().map(|&p| board.pads[p].at.x);
+                let (mut lo, mut hi) = xs.fold((f64::INFINITY, f64::NEG_INFINITY), |(a, b), x| {
+                    (a.min(x), b.max(x))
+                });
+                if rows.len() > 1 {
+                    // A link from row r to r + 1 goes up on the side
+                    // where row r ends.
+                    let right = rows[0].is_multiple_of(2);
+                    let x = self.side(right);
+                    (lo, hi) = (lo.min(x), hi.max(x));
+                }
+                if net.terminal.is_some() {
+                    let x = self.terminal_x(hi > 0.0);
+                    (lo, hi) = (lo.min(x), hi.max(x));
+                }
+                runs.push(Run {
+                    net: i,
+                    row: r,
+                    pads,
+                    lo,
+                    hi,
+                });
+            }
+        }
+        // Lanes per row, longest runs first.
+        let pad = self.via.1 / 2.0 + self.clearance + self.width.max(self.via.1) / 2.0;
+        let mut order: Vec<usize> = (0..runs.len()).collect();
+        order.sort_by(|&a, &b| (runs[b].hi - runs[b].lo).total_cmp(&(runs[a].hi - runs[a].lo)));
+        let mut lanes: Vec<Vec<Vec<(f64, f64)>>> = vec![Vec::new(); self.grid.rows];
+        let mut lane_of = vec![0; runs.len()];
+        for &i in &order {
+            let run = &runs[i];
+            let taken = &mut lanes[run.row];
+            let j = (0..)
+                .find(|&j| {
+                    taken.get(j).is_none_or(|spans: &Vec<(f64, f64)>| {
+                        spans
+                            .iter()
+                            .all(|&(a, b)| run.hi + pad <= a || b + pad <= run.lo)
+                    })
+                })
+                .unwrap_or(0);
+            if taken.len() <= j {
+                taken.resize(j + 1, Vec::new());
+            }
+            taken[j].push((run.lo, run.hi));
+            lane_of[i] = j;
+        }
+        // Every channel holds its lanes (and a terminal pad) above the
+        // copper of the row below.
+        for (r, row) in lanes.iter().enumerate().skip(1) {
+            let used = row.len();
+            if used == 0 {
+                continue;
+            }
+            let lowest = self.lane(r, used - 1) - self.width.max(self.via.1) / 2.0 - self.clearance;
+            let floor = self.grid.centre(r - 1, 0).y + self.reach;
+            if lowest < floor - 1e-9 {
+                let room = self.grid.centre(r, 0).y - self.reach - floor;
+                let need = room + floor - lowest;
+                return Err(ArrayError::GridChannel {
+                    row: r + 1,
+                    need,
+                    room,
+                    short: need - room,
+                });
+            }
+        }
+        for (i, net) in nets.iter().enumerate() {
+            let bus = board.buses.len();
+            let (t0, v0, w0) = (board.tracks.len(), board.vias.len(), board.windings.len());
+            let mut pads = net.pads.clone();
+            // Per row: vias under the pads, joined along the lane; the
+            // first via of each row run is where side runs and terminals
+            // attach (the via nearest the side).
+            let mut ends: Vec<(usize, usize, f64)> = Vec::new(); // (row, via at the side, lane y)
+            for (ri, run) in runs.iter().enumerate().filter(|(_, r)| r.net == i) {
+                let y = self.lane(run.row, lane_of[ri]);
+                let mut vias: Vec<usize> = Vec::new();
+                let mut at: Vec<usize> = run.pads.clone();
+                at.sort_by(|&a, &b| board.pads[a].at.x.total_cmp(&board.pads[b].at.x));
+                for &p in &at {
+                    let v = board.vias.len();
+                    board.vias.push(Via {
+                        at: Point::new(board.pads[p].at.x, y),
+                        drill: self.via.0,
+                        diameter: self.via.1,
+                        joins: vec![self.stub_layer, self.arc_layer],
+                        place: Place::Outside,
+                    });
+                    let seg = Segment::line(board.pads[p].at, board.vias[v].at);
+                    self.path(
+                        board,
+                        vec![seg],
+                        self.stub_layer,
+                        Node::Pad(p),
+                        Node::Via(v),
+                    );
+                    vias.push(v);
+                }
+                for w in vias.windows(2) {
+                    let seg = Segment::line(board.vias[w[0]].at, board.vias[w[1]].at);
+                    self.path(
+                        board,
+                        vec![seg],
+                        self.arc_layer,
+                        Node::Via(w[0]),
+                        Node::Via(w[1]),
+                    );
+                }
+                // The via on the side the run reaches out to.
+                let right = run.hi > board.vias[vias[vias.len() - 1]].at.x + 1e-9;
+                let side = if right { vias[vias.len() - 1] } else { vias[0] };
+                ends.push((run.row, side, y));
+            }
+            // A link between rows: out to the side, up, and in.
+            if let [(r0, a, ya), (_, b, yb)] = ends[..] {
+                let x = self.side(r0.is_multiple_of(2));
+                let (pa, pb) = (board.vias[a].at, board.vias[b].at);
+                let segs = vec![
+                    Segment::line(pa, Point::new(x, ya)),
+                    Segment::line(Point::new(x, ya), Point::new(x, yb)),
+                    Segment::line(Point::new(x, yb), pb),
+                ];
+                self.path(board, segs, self.arc_layer, Node::Via(a), Node::Via(b));
+            }
+            if let Some(name) = &net.terminal {
+                let (_, v, y) = ends[0];
+                let from = board.vias[v].at;
+                let t = board.pads.len();
+                board.pads.push(Pad {
+                    name: name.clone(),
+                    at: Point::new(self.terminal_x(from.x > 0.0), y),
+                    drill: self.terminal.0,
+                    diameter: self.terminal.1,
+                    joins: vec![self.arc_layer],
+                    place: Place::Outside,
+                    smd: None,
+                });
+                let seg = Segment::line(from, board.pads[t].at);
+                self.path(board, vec![seg], self.arc_layer, Node::Via(v), Node::Pad(t));
+                pads.push(t);
+            }
+            for &p in &net.pads {
+                let joins = &mut board.pads[p].joins;
+                if !joins.contains(&self.stub_layer) {
+                    joins.push(self.stub_layer);
+                    joins.sort_unstable();
+                }
+            }
+            board.buses.push(Bus {
+                name: net.name.clone(),
+                tracks: t0..board.tracks.len(),
+                vias: v0..board.vias.len(),
+                windings: w0..board.windings.len(),
+                pads,
+                terminal: net.terminal.clone(),
+            });
+            debug_assert_eq!(bus + 1, board.buses.len());
+        }
+        Ok(())
+    }
+
+    /// Bus tracks `segs` on `layer` as one winding from `a` to `b`.
+    fn path(&self, board: &mut Board, segs: Vec<Segment>, layer: u8, a: Node, b: Node) {
+        let t = board.tracks.len();
+        let n = segs.len();
+        board.tracks.extend(segs.into_iter().map(|segment| Track {
+            layer,
+            segment,
+            width: self.width,
+            role: TrackRole::Bus,
+        }));
+        let group = board
+            .windings
+            .iter()
+            .map(|w| w.group + 1)
+            .max()
+            .unwrap_or(0);
+        board.windings.push(Winding {
+            layer,
+            group,
+            tracks: (t, t + n),
+            from: a,
+            to: b,
+            direction: Direction::Outward,
+            turns: 0.0,
+        });
+    }
+}
+
+/// A rectangle holding every copper edge with the margin.
+fn rect_outline(board: &Board, margin: f64) -> Outline {
+    let b = board.copper_bounds().inflate(margin);
+    let c = [
+        b.min,
+        Point::new(b.max.x, b.min.y),
+        b.max,
+        Point::new(b.min.x, b.max.y),
+    ];
+    Outline {
+        segments: (0..4)
+            .map(|i| Segment::line(c[i], c[(i + 1) % 4]))
+            .collect(),
+    }
 }
 
 /// How far a coil built at the origin reaches from its axis: the largest

@@ -45,16 +45,10 @@ fn geometry_error(e: GeometryError, spans: &KeySpans) -> DesignErrors {
             Some("make the free centre larger, or use smaller vias or terminal pads".to_string()),
         ),
     };
-    let span = match key {
-        "coil.layers" => spans.key_or_table("coil", "layers"),
-        "coil.wiring" => spans.key_or_table("coil", "wiring"),
-        "coil.inner_diameter" => spans.key_or_table("coil", "inner_diameter"),
-        "tail" => spans.get("tail"),
-        "tail.length" => spans.key_or_table("tail", "length"),
-        "array.outer_diameter" => spans.key_or_table("array", "outer_diameter"),
-        "array.count" => spans.key_or_table("array", "count"),
-        "array.arrangement" => spans.key_or_table("array", "arrangement"),
-        _ => spans.get("coil"),
+    // At the key itself, or its table when the file leaves it out.
+    let span = match key.split_once('.') {
+        Some((table, k)) => spans.key_or_table(table, k),
+        None => spans.get(key),
     };
     DesignError {
         key: key.into(),
@@ -83,7 +77,22 @@ fn array_key(e: &ArrayError) -> (&'static str, Option<String>) {
             "coil.layers",
             Some("use 4 or more layers in series (6 or more in parallel pairs)".into()),
         ),
-        ArrayError::GridBuses => ("array.arrangement", None),
+        ArrayError::GridPitch { axis, .. } => (
+            if *axis == "pitch_x" {
+                "array.pitch_x"
+            } else {
+                "array.pitch_y"
+            },
+            Some("widen the pitch, or make the coil smaller".into()),
+        ),
+        ArrayError::GridChannel { .. } => (
+            "array.pitch_y",
+            Some("widen pitch_y so the buses fit between the rows".into()),
+        ),
+        ArrayError::GridPhases { .. } => (
+            "array.phases",
+            Some("use phases = 1 on a grid, or a ring".into()),
+        ),
         ArrayError::Tail => ("tail", Some("remove [tail]".into())),
         ArrayError::Unbalanced => ("array.count", None),
     }

@@ -2,7 +2,9 @@
 //! with other pole counts and connections pass their own rule check (every
 //! coil and bus, different nets kept apart by the clearance), every phase is
 //! one unbroken chain from its pad "1" to its pad "2", and each coil is
-//! passed in the sense the star of slots gives it.
+//! passed in the sense the star of slots gives it. Grids of coils (one
+//! phase along a serpentine, buses in the channels between rows) pass the
+//! same rule check and make one chain through every coil.
 
 use coilwright::geometry::{Node, TrackRole};
 use coilwright::rules::{self, Profile};
@@ -185,4 +187,50 @@ fn phase_mutual_inductance_is_the_series_excess() {
     assert!((ab.coupling - m / (la * lb).sqrt()).abs() < 1e-9);
     // Phase A's own inductance is the report's.
     assert!((r.phases[0].inductance_h.unwrap() / a.inductance.inductance_h - 1.0).abs() < 1e-12);
+}
+
+#[test]
+fn grids_pass_their_own_rule_check_and_chain_every_coil() {
+    let profile = Profile::builtin("standard").unwrap();
+    for (rows, columns) in [(1, 3), (2, 2), (3, 4), (4, 3)] {
+        let text = crate::common::grid(rows, columns, "14mm", "17mm");
+        let (d, board) = coilwright::pipeline::parse_and_build(&text).unwrap();
+        let v = rules::check(&d, &board, &profile);
+        assert!(v.is_empty(), "{rows}x{columns}: {v:#?}");
+        let n = (rows * columns) as usize;
+        assert_eq!(board.coils.len(), n);
+        assert_eq!(board.phases.len(), 1);
+        assert_eq!(board.phases[0].coils.len(), n);
+        let terminals: Vec<String> = board
+            .buses
+            .iter()
+            .filter_map(|b| b.terminal.clone())
+            .collect();
+        assert_eq!(terminals, ["A1", "A2"]);
+        // Consecutive coils of the chain are neighbours on the grid.
+        for w in board.phases[0].coils.windows(2) {
+            let (a, b) = (board.coils[w[0].0].position, board.coils[w[1].0].position);
+            let d = a.distance(b);
+            assert!((d - 14.0).abs() < 1e-9 || (d - 17.0).abs() < 1e-9, "{d}");
+        }
+        // One unbroken chain from pad "1" to pad "2".
+        let view = board.phase_view(0);
+        assert_eq!(view.windings[0].from, Node::Pad(0));
+        assert_eq!(view.windings.last().unwrap().to, Node::Pad(1));
+        for w in view.windings.windows(2) {
+            assert_eq!(w[0].to, w[1].from, "{rows}x{columns}");
+        }
+        // The outline holds every copper edge.
+        let (o, c) = (board.outline_bounds(), board.copper_bounds());
+        assert!(o.min.x < c.min.x && o.min.y < c.min.y && o.max.x > c.max.x && o.max.y > c.max.y);
+        // The phase's resistance is the coils' and its buses'.
+        let a = coilwright::physics::analyse(&d, &board).unwrap();
+        let r = a.array.as_ref().unwrap();
+        let single = coilwright::geometry::build(&d).unwrap();
+        let one = coilwright::physics::array::tracks_resistance(
+            &coilwright::physics::conductor::Conductor::new(&d, &single),
+        );
+        assert!(r.phases[0].tracks_ohm_20c > n as f64 * one);
+        assert!(r.phases[0].tracks_ohm_20c < n as f64 * one * 1.2);
+    }
 }

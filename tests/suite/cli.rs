@@ -388,6 +388,20 @@ fn catalogue() -> Vec<Case> {
             "mNm",
         ),
         case(
+            "grid coils closer than the clearance",
+            crate::common::grid(2, 3, "10mm", "17mm"),
+            "array.pitch_x",
+            "pitch_x = |\"10mm\"",
+            "widen the pitch",
+        ),
+        case(
+            "grid rows too close for their buses",
+            crate::common::grid(3, 3, "14mm", "14mm"),
+            "array.pitch_y",
+            "pitch_y = |\"14mm\"",
+            "widen pitch_y",
+        ),
+        case(
             "odd rotor pole count",
             format!("{BASE}\n[rotor]\npoles = 7\n"),
             "rotor.poles",

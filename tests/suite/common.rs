@@ -90,3 +90,13 @@ pub fn poles_only(text: &str) -> String {
     }
     out
 }
+
+/// The example's coil on a `rows` x `columns` grid, one phase, a gentle
+/// drive.
+pub fn grid(rows: u32, columns: u32, pitch_x: &str, pitch_y: &str) -> String {
+    let stator = include_str!("../../examples/fan-stator.toml");
+    let head = &stator[..stator.find("[array]").unwrap()];
+    format!(
+        "{head}[array]\narrangement = \"grid\"\nrows = {rows}\ncolumns = {columns}\npitch_x = \"{pitch_x}\"\npitch_y = \"{pitch_y}\"\n\n[drive]\ncurrent = \"0.05A\"\n"
+    )
+}

@@ -22,8 +22,8 @@
 //!   1 um, each finger's coverlay opening equal to the finger, and the
 //!   stiffener covering every finger; KiCad's DRC runs on these boards too.
 //!
-//! - ring stators (`[array]`, the fan-stator example with other counts and
-//!   connections): gerbonara and pygerber read every Gerber; shapely finds
+//! - arrays (`[array]`, the fan-stator example with other counts and
+//!   connections, and its coil on a 3 x 4 grid): gerbonara and pygerber read every Gerber; shapely finds
 //!   no copper of different nets (the Gerbers' net attributes) closer than
 //!   the clearance, terminal pads aside; KiCad 6 loads
 //!   the board with one net per bus and its DRC finds 0 violations and 0
@@ -394,7 +394,7 @@ fn random_designs_pass_real_readers_and_kicad() {
 }
 
 #[test]
-fn ring_stators_pass_real_readers_and_kicad() {
+fn arrays_pass_real_readers_and_kicad() {
     let py = require_tools();
     let tmp = tempfile::tempdir().unwrap();
     let keep = std::env::var_os("COILWRIGHT_INTEROP_KEEP").map(PathBuf::from);
@@ -403,31 +403,45 @@ fn ring_stators_pass_real_readers_and_kicad() {
     let checks = repo().join("tests/interop/checks.py");
     let kicad = repo().join("tests/interop/kicad_checks.py");
     let mut errors = String::new();
-    for (i, (count, poles, connection)) in [(9, 6, "star"), (9, 8, "delta"), (12, 10, "separate")]
-        .into_iter()
-        .enumerate()
-    {
-        let text = crate::common::poles_only(base)
-            .replace("count = 9", &format!("count = {count}"))
-            .replace("poles = 6", &format!("poles = {poles}"))
-            .replace(
-                "connection = \"star\"",
-                &format!("connection = \"{connection}\""),
-            )
-            .replace(
-                "neutral = true ",
-                &format!("neutral = {} ", connection == "star"),
-            )
-            .replace("outer_diameter = \"56mm\"", "outer_diameter = \"80mm\"")
-            .replace("inner_diameter = \"26mm\" ", "inner_diameter = \"50mm\" ");
-        let (d, board) = coilwright::pipeline::parse_and_build(&text).unwrap();
+    let mut cases: Vec<(String, String, bool)> =
+        [(9, 6, "star"), (9, 8, "delta"), (12, 10, "separate")]
+            .into_iter()
+            .map(|(count, poles, connection)| {
+                let text = crate::common::poles_only(base)
+                    .replace("count = 9", &format!("count = {count}"))
+                    .replace("poles = 6", &format!("poles = {poles}"))
+                    .replace(
+                        "connection = \"star\"",
+                        &format!("connection = \"{connection}\""),
+                    )
+                    .replace(
+                        "neutral = true ",
+                        &format!("neutral = {} ", connection == "star"),
+                    )
+                    .replace("outer_diameter = \"56mm\"", "outer_diameter = \"80mm\"")
+                    .replace("inner_diameter = \"26mm\" ", "inner_diameter = \"50mm\" ");
+                (
+                    format!("{count}/{poles} {connection}"),
+                    text,
+                    connection == "separate",
+                )
+            })
+            .collect();
+    // A grid: one phase in series, ends A1 and A2.
+    cases.push((
+        "grid 3x4".into(),
+        crate::common::grid(3, 4, "14mm", "17mm"),
+        true,
+    ));
+    for (i, (label, text, separate)) in cases.iter().enumerate() {
+        let (d, board) = coilwright::pipeline::parse_and_build(text).unwrap();
         let dir = root.join(format!("stator-{i}"));
         write_built_bundle(&d, &board, &dir);
         let dir_s = dir.to_str().unwrap();
         let clearance = d.coil.clearance.to_string();
         // Separate phases have both ends on pads: walk each phase's
         // resistance on the Gerbers (gerbonara) against the report's.
-        let walk = (connection == "separate").then(|| {
+        let walk = separate.then(|| {
             (
                 py.as_path(),
                 vec![checks.to_str().unwrap(), "phase_walk", dir_s],
@@ -459,8 +473,8 @@ fn ring_stators_pass_real_readers_and_kicad() {
         .chain(walk)
         {
             match run(prog, &args) {
-                Ok(t) => println!("{count}/{poles} {connection}: {t}"),
-                Err(e) => errors.push_str(&format!("{count}/{poles} {connection}: {e}\n")),
+                Ok(t) => println!("{label}: {t}"),
+                Err(e) => errors.push_str(&format!("{label}: {e}\n")),
             }
         }
     }
