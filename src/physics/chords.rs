@@ -204,6 +204,50 @@ fn floor_i64(x: f64) -> i64 {
     }
 }
 
+/// The cell along one axis of the points of a chord taken in order:
+/// `floor(v / cell)` of each, which can only move one way (the points
+/// `a + (b - a) t` are monotone in `t` in floating point too), so the
+/// division is skipped while a point is clearly inside the current cell.
+struct Axis {
+    cell: f64,
+    rising: bool,
+    /// Current cell and the bound the next point must stay below (rising)
+    /// or at or above (falling) to be in it for certain.
+    at: Option<(i64, f64)>,
+}
+
+impl Axis {
+    fn new(delta: f64, cell: f64) -> Axis {
+        Axis {
+            cell,
+            rising: delta >= 0.0,
+            at: None,
+        }
+    }
+
+    fn cell(&mut self, v: f64) -> i64 {
+        if let Some((i, bound)) = self.at
+            && (if self.rising { v < bound } else { v >= bound })
+        {
+            return i;
+        }
+        let i = floor_i64(v / self.cell);
+        // The edge the points move towards, pulled into the cell by far
+        // more than the rounding of the division (and off zero).
+        let edge = (if self.rising { i + 1 } else { i }) as f64 * self.cell;
+        let margin = edge.abs() * 1e-9 + 1e-290;
+        self.at = Some((
+            i,
+            if self.rising {
+                edge - margin
+            } else {
+                edge + margin
+            },
+        ));
+        i
+    }
+}
+
 impl CellIndex {
     /// The index of `chords` in cells of side `cell` (mm).
     pub fn new(chords: &[Chord], cell: f64) -> CellIndex {
@@ -230,10 +274,12 @@ impl CellIndex {
         // Each chord's cells in order along it, `visit(layer, ix, iy)`.
         let along = |c: &Chord, visit: &mut dyn FnMut(u8, i64, i64)| {
             let steps = steps(c, cell);
+            let d = c.b - c.a;
+            let (mut x, mut y) = (Axis::new(d.x, cell), Axis::new(d.y, cell));
             let mut last = None;
             for k in 0..=steps {
                 let p = c.a.lerp(c.b, k as f64 / steps as f64);
-                let here = (at(p.x), at(p.y));
+                let here = (x.cell(p.x), y.cell(p.y));
                 if last != Some(here) {
                     visit(c.layer, here.0, here.1);
                     last = Some(here);
@@ -389,6 +435,20 @@ mod tests {
             for k in 0..=10 {
                 let at = dense.cell_of(c.a.lerp(c.b, f64::from(k) / 10.0));
                 assert!(listed(&dense, c.layer, at).contains(&i), "chord {i}");
+            }
+        }
+        // The shortcut of the cells along a chord gives the plain floor.
+        for (a, b) in [
+            (-3.7, 5.2),
+            (5.2, -3.7),
+            (0.0, 0.0),
+            (-1e-300, 1e-300),
+            (0.4, 0.4 * 7.0),
+        ] {
+            let (mut ax, n) = (Axis::new(b - a, 0.4), 997);
+            for k in 0..=n {
+                let v = a + (b - a) * (f64::from(k) / f64::from(n));
+                assert_eq!(ax.cell(v), (v / 0.4).floor() as i64, "{a} {b} {k}");
             }
         }
         // The floor without the library call, at and near integers.

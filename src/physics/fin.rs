@@ -307,6 +307,14 @@ impl std::ops::IndexMut<(usize, usize)> for Banded {
     }
 }
 
+impl Banded {
+    /// Row `i`, columns `lo..hi` (all within the band).
+    fn row(&self, i: usize, lo: usize, hi: usize) -> &[f64] {
+        let at = i * (2 * BAND + 1) + BAND - i;
+        &self.band[at + lo..at + hi]
+    }
+}
+
 /// `a x` for a matrix of half bandwidth [`BAND`].
 fn mul(a: &Banded, x: &[f64]) -> Vec<f64> {
     let n = a.n;
@@ -314,7 +322,11 @@ fn mul(a: &Banded, x: &[f64]) -> Vec<f64> {
         .map(|i| {
             let lo = i.saturating_sub(BAND);
             let hi = (i + BAND + 1).min(n);
-            (lo..hi).map(|j| a[(i, j)] * x[j]).sum()
+            a.row(i, lo, hi)
+                .iter()
+                .zip(&x[lo..hi])
+                .map(|(a, x)| a * x)
+                .sum()
         })
         .collect()
 }
@@ -344,7 +356,13 @@ fn solve(l: &Banded, b: &[f64]) -> Vec<f64> {
     let n = l.n;
     let mut y = vec![0.0; n];
     for i in 0..n {
-        let s: f64 = (i.saturating_sub(BAND)..i).map(|k| l[(i, k)] * y[k]).sum();
+        let lo = i.saturating_sub(BAND);
+        let s: f64 = l
+            .row(i, lo, i)
+            .iter()
+            .zip(&y[lo..i])
+            .map(|(l, y)| l * y)
+            .sum();
         y[i] = (b[i] - s) / l[(i, i)];
     }
     let mut x = vec![0.0; n];
