@@ -140,7 +140,15 @@ fn bench(c: &mut Criterion) {
     // turn count and every 2.5 mm of size, all layers and widths (1,680
     // candidates, 1,329 of them analysed, 351 refused before the analysis,
     // e.g. turns that do not fit). Candidates per second =
-    // 1,680 / the time.
+    // 1,680 / the time. On the 2-core development machine, shared with
+    // two other builds (this process got about half a core), it took
+    // 6.0 s; the whole 20,580-candidate sweep there took 37.0 s of
+    // processor time against 60.5 s before the day's second speed pass
+    // (GNU time, same load): about 560 candidates per processor-second,
+    // about 1,100 per second on two free cores. The gains: capacitance
+    // neighbours from a dense cell index instead of a hash map of lists,
+    // the next chunk evaluated while the last one is written, the fin's
+    // beam in band storage.
     let mix = Sweep::new(
         fin,
         [
