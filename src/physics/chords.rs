@@ -272,24 +272,10 @@ impl CellIndex {
         let n = (hi.0 - lo.0 + 1, hi.1 - lo.1 + 1);
         let cells = (n.0 as u128) * (n.1 as u128) * (u128::from(layers) + 1);
         // Each chord's cells in order along it, `visit(layer, ix, iy)`.
-        let along = |c: &Chord, visit: &mut dyn FnMut(u8, i64, i64)| {
-            let steps = steps(c, cell);
-            let d = c.b - c.a;
-            let (mut x, mut y) = (Axis::new(d.x, cell), Axis::new(d.y, cell));
-            let mut last = None;
-            for k in 0..=steps {
-                let p = c.a.lerp(c.b, k as f64 / steps as f64);
-                let here = (x.cell(p.x), y.cell(p.y));
-                if last != Some(here) {
-                    visit(c.layer, here.0, here.1);
-                    last = Some(here);
-                }
-            }
-        };
         if !dense || chords.is_empty() || cells > 2 * samples as u128 + 4096 {
             let mut pairs: Vec<(u8, i64, i64, u32)> = Vec::with_capacity(samples);
             for (i, c) in chords.iter().enumerate() {
-                along(c, &mut |l, x, y| pairs.push((l, x, y, i as u32)));
+                along(c, cell, |l, x, y| pairs.push((l, x, y, i as u32)));
             }
             pairs.sort_unstable();
             return CellIndex {
@@ -301,7 +287,7 @@ impl CellIndex {
             |l: u8, x: i64, y: i64| ((i64::from(l) * n.0 + (x - lo.0)) * n.1 + (y - lo.1)) as u32;
         let mut pairs: Vec<(u32, u32)> = Vec::with_capacity(samples);
         for (i, c) in chords.iter().enumerate() {
-            along(c, &mut |l, x, y| pairs.push((id(l, x, y), i as u32)));
+            along(c, cell, |l, x, y| pairs.push((id(l, x, y), i as u32)));
         }
         let mut start = vec![0u32; cells as usize + 1];
         for &(c, _) in &pairs {
@@ -370,6 +356,24 @@ impl CellIndex {
                     );
                 }
             }
+        }
+    }
+}
+
+/// Calls `visit(layer, ix, iy)` with each cell a chord passes through, in
+/// order along it (its points half a cell apart, consecutive repeats
+/// skipped), for [`CellIndex`].
+fn along(c: &Chord, cell: f64, mut visit: impl FnMut(u8, i64, i64)) {
+    let steps = steps(c, cell);
+    let d = c.b - c.a;
+    let (mut x, mut y) = (Axis::new(d.x, cell), Axis::new(d.y, cell));
+    let mut last = None;
+    for k in 0..=steps {
+        let p = c.a.lerp(c.b, k as f64 / steps as f64);
+        let here = (x.cell(p.x), y.cell(p.y));
+        if last != Some(here) {
+            visit(c.layer, here.0, here.1);
+            last = Some(here);
         }
     }
 }
