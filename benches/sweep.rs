@@ -134,6 +134,48 @@ fn bench(c: &mut Criterion) {
         )
     });
     g.finish();
+    // README's large sweep of the fin starter (layers 2 to 8, turns 6 to
+    // 40, widths 0.1 to 0.16 mm, outer diameters 12 to 22 mm: 20,580
+    // candidates) thinned to a spread sample of the same mix: every third
+    // turn count and every 2.5 mm of size, all layers and widths (1,680
+    // candidates, 1,329 of them analysed, 351 refused before the analysis,
+    // e.g. turns that do not fit). Candidates per second =
+    // 1,680 / the time. On the 2-core development machine, shared with
+    // two other builds (this process got about half a core), it took
+    // 6.0 s; the whole 20,580-candidate sweep there took 37.0 s of
+    // processor time against 60.5 s before the day's second speed pass
+    // (GNU time, same load): about 560 candidates per processor-second,
+    // about 1,100 per second on two free cores. The gains: capacitance
+    // neighbours from a dense cell index instead of a hash map of lists,
+    // the next chunk evaluated while the last one is written, the fin's
+    // beam in band storage.
+    let mix = Sweep::new(
+        fin,
+        [
+            "layers=2,4,6,8",
+            "turns=6..40:3",
+            "trace_width=0.1mm..0.16mm:0.01mm",
+            "outer_diameter=12mm..22mm:2.5mm",
+        ]
+        .iter()
+        .map(|v| explore::parse_vary(v).expect("vary"))
+        .collect(),
+        vec![],
+        Objective {
+            metric: "force_per_sqrt_w_n".into(),
+            maximize: true,
+        },
+        None,
+        &known_fin,
+    )
+    .expect("sweep");
+    assert_eq!(mix.len(), 1680);
+    let mut g = c.benchmark_group("README large sweep mix");
+    g.sample_size(10);
+    g.bench_function("1,680 fin-starter candidates, all cores", |b| {
+        b.iter(|| mix.summarise(evaluate))
+    });
+    g.finish();
 }
 
 criterion_group!(benches, bench);

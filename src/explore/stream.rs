@@ -196,30 +196,46 @@ fn line(fields: impl Iterator<Item = String>) -> String {
 impl Sweep {
     /// Evaluates the candidates in `range` in chunks of [`CHUNK`] and calls
     /// `visit` with each in index order. Checks `stop` between chunks and
-    /// returns early when it is set. Returns how many were evaluated.
+    /// returns early when it is set (after visiting the chunks already
+    /// evaluated). Returns how many were evaluated.
+    ///
+    /// The next chunk is evaluated while the one before is visited (both
+    /// on the current rayon pool), so writing the tables does not hold the
+    /// evaluation up.
     pub fn stream(
         &self,
         range: Range<usize>,
         eval: impl Fn(&str) -> Evaluation + Sync,
         stop: &AtomicBool,
-        mut visit: impl FnMut(usize, Candidate),
+        mut visit: impl FnMut(usize, Candidate) + Send,
     ) -> usize {
         let mut done = 0;
         let mut at = range.start;
-        while at < range.end {
-            if stop.load(Ordering::Relaxed) {
-                break;
-            }
-            let end = (at + CHUNK).min(range.end);
-            let chunk: Vec<Candidate> = (at..end)
-                .into_par_iter()
-                .map(|i| self.candidate(i, &eval))
-                .collect();
-            for (i, c) in (at..end).zip(chunk) {
-                visit(i, c);
-            }
-            done += end - at;
-            at = end;
+        let mut pending: Option<(usize, Vec<Candidate>)> = None;
+        loop {
+            let go = at < range.end && !stop.load(Ordering::Relaxed);
+            let (fresh, ()) = rayon::join(
+                || {
+                    go.then(|| {
+                        let end = (at + CHUNK).min(range.end);
+                        (at..end)
+                            .into_par_iter()
+                            .map(|i| self.candidate(i, &eval))
+                            .collect::<Vec<Candidate>>()
+                    })
+                },
+                || {
+                    if let Some((from, chunk)) = pending.take() {
+                        for (i, c) in (from..).zip(chunk) {
+                            visit(i, c);
+                        }
+                    }
+                },
+            );
+            let Some(chunk) = fresh else { break };
+            done += chunk.len();
+            pending = Some((at, chunk));
+            at += pending.as_ref().map_or(0, |p| p.1.len());
         }
         done
     }

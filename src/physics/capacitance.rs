@@ -41,13 +41,12 @@
 //!
 //! [`analyse`] is the analysis phase ([`CapacitanceReport`]).
 
-use super::chords::Chord;
+use super::chords::{CellIndex, Chord};
 use crate::design::Design;
+use crate::geometry::{Point, Vec2};
 use crate::numeric::elliptic::ke;
 use serde::Serialize;
-use std::collections::HashMap;
 use std::f64::consts::PI;
-use std::hash::{BuildHasherDefault, Hasher};
 
 /// Permittivity of free space, F/m (CODATA 2022).
 pub const EPS0: f64 = 8.854_187_818_8e-12;
@@ -109,23 +108,29 @@ pub fn layer_eps(design: &Design, layers: usize) -> Vec<f64> {
         .collect()
 }
 
-/// FNV-1a over the cell key's bytes: the grid's keys are small integers
-/// made by the program, so the default hasher's protection against chosen
-/// keys is not needed and its cost showed in sweeps.
-#[derive(Default)]
-struct CellHasher(u64);
+/// A chord's geometry, computed once per chord (the same expressions as
+/// [`Chord`]'s methods, so the same bits).
+struct Frame {
+    mid: Point,
+    dir: Vec2,
+    /// Length, mm.
+    span: f64,
+}
 
-impl Hasher for CellHasher {
-    fn finish(&self) -> u64 {
-        self.0
-    }
+/// The last arguments of a per-length formula and its value: neighbouring
+/// chords mostly share width, gap and height, so most calls repeat.
+struct Memo<const N: usize>(Option<([u64; N], f64)>);
 
-    fn write(&mut self, bytes: &[u8]) {
-        if self.0 == 0 {
-            self.0 = 0xcbf2_9ce4_8422_2325;
-        }
-        for b in bytes {
-            self.0 = (self.0 ^ *b as u64).wrapping_mul(0x0100_0000_01b3);
+impl<const N: usize> Memo<N> {
+    fn get(&mut self, args: [f64; N], f: impl FnOnce() -> f64) -> f64 {
+        let key = args.map(f64::to_bits);
+        match self.0 {
+            Some((k, v)) if k == key => v,
+            _ => {
+                let v = f();
+                self.0 = Some((key, v));
+                v
+            }
         }
     }
 }
@@ -148,40 +153,32 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
             .cloned()
             .fold(0.0, f64::max),
     );
-    let at = |x: f64| (x / cell).floor() as i64;
-    let key = |c: &Chord| {
-        let p = c.mid();
-        (c.layer, at(p.x), at(p.y))
-    };
-    let mut grid: HashMap<(u8, i64, i64), Vec<usize>, BuildHasherDefault<CellHasher>> =
-        HashMap::default();
-    for (i, c) in chords.iter().enumerate() {
-        // The cells along the chord, at steps of half a cell.
-        let steps = ((c.b - c.a).length() / (cell / 2.0)).ceil().max(1.0) as usize;
-        let mut last = None;
-        for k in 0..=steps {
-            let p = c.a.lerp(c.b, k as f64 / steps as f64);
-            let here = (c.layer, at(p.x), at(p.y));
-            if last != Some(here) {
-                let list = grid.entry(here).or_default();
-                if list.last() != Some(&i) {
-                    list.push(i);
-                }
-                last = Some(here);
-            }
-        }
-    }
+    let grid = CellIndex::new(chords, cell);
+    let frames: Vec<Frame> = chords
+        .iter()
+        .map(|c| Frame {
+            mid: c.mid(),
+            dir: c.dir(),
+            span: (c.b - c.a).length(),
+        })
+        .collect();
     // Voltage of chord j at the foot of point p on it.
-    let volt_at = |c: &Chord, p: crate::geometry::Point| {
-        let len = (c.b - c.a).length().max(1e-12);
-        let u = ((p - c.a).dot(c.dir()) / len).clamp(0.0, 1.0);
+    let volt_at = |c: &Chord, f: &Frame, p: Point| {
+        let len = f.span.max(1e-12);
+        let u = ((p - c.a).dot(f.dir) / len).clamp(0.0, 1.0);
         c.volt.0 + (c.volt.1 - c.volt.0) * u
     };
+    let (mut strips, mut facing) = (Memo::<4>(None), Memo::<3>(None));
+    // Candidates from the cells (each once, in chord order) and which
+    // chord's search last listed each chord.
+    let mut near: Vec<usize> = Vec::new();
+    let mut listed = vec![usize::MAX; chords.len()];
     let (mut e_turns, mut e_layers) = (0.0, 0.0);
-    for c in chords {
-        let (u, mid) = (c.dir(), c.mid());
+    for (i, (c, fc)) in chords.iter().zip(&frames).enumerate() {
+        let (u, mid) = (fc.dir, fc.mid);
         let v = u.perp();
-        let (layer, ix, iy) = key(c);
+        let layer = c.layer;
+        let here = grid.cell_of(mid);
         let vi = (c.volt.0 + c.volt.1) / 2.0;
         let len = c.length();
         let li = (layer as usize).saturating_sub(1);
@@ -192,58 +189,54 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
             if !same && (lk as usize) > layers {
                 continue;
             }
-            let mut near: Vec<usize> = Vec::new();
-            for dx in -1..=1 {
-                for dy in -1..=1 {
-                    if let Some(list) = grid.get(&(lk, ix + dx, iy + dy)) {
-                        near.extend_from_slice(list);
-                    }
-                }
-            }
+            near.clear();
+            grid.around(lk, here, &mut near);
+            let tag = 2 * i + usize::from(same);
+            near.retain(|&j| std::mem::replace(&mut listed[j], tag) != tag);
             near.sort_unstable();
-            near.dedup();
-            {
-                {
-                    for &j in &near {
-                        let o = &chords[j];
-                        if std::ptr::eq(o, c) || o.dir().dot(u).abs() < 0.8 {
-                            continue;
-                        }
-                        let half = (o.b - o.a).length() / 2.0;
-                        let d = o.mid() - mid;
-                        if (mid - o.mid()).dot(o.dir()).abs() > half {
-                            continue;
-                        }
-                        let lat = d.dot(v);
-                        let dv = volt_at(o, mid) - vi;
-                        if same {
-                            if lat.abs() < 0.5 * pitch || lat.abs() > 1.5 * pitch {
-                                continue;
-                            }
-                            let k = usize::from(lat > 0.0);
-                            let lon = d.dot(u).abs();
-                            if side[k].is_none_or(|(best, _)| lon < best) {
-                                side[k] = Some((lon, dv));
-                            }
-                        } else {
-                            let (wi, wj) = (c.width, o.width);
-                            let overlap = ((wi + wj) / 2.0 - super::conductor::m(lat.abs()))
-                                .clamp(0.0, wi.min(wj));
-                            if overlap <= 0.0 {
-                                continue;
-                            }
-                            let h = (c.z - o.z).abs() - (c.thickness + o.thickness) / 2.0;
-                            if h <= 0.0 {
-                                continue;
-                            }
-                            let cp = facing_strips(wi.min(wj), h, er) * overlap / wi.min(wj);
-                            e_layers += 0.5 * cp * len * dv * dv;
-                        }
+            for &j in &near {
+                let (o, fo) = (&chords[j], &frames[j]);
+                if j == i || fo.dir.dot(u).abs() < 0.8 {
+                    continue;
+                }
+                let half = fo.span / 2.0;
+                let d = fo.mid - mid;
+                if (mid - fo.mid).dot(fo.dir).abs() > half {
+                    continue;
+                }
+                let lat = d.dot(v);
+                if same {
+                    if lat.abs() < 0.5 * pitch || lat.abs() > 1.5 * pitch {
+                        continue;
                     }
+                    let dv = volt_at(o, fo, mid) - vi;
+                    let k = usize::from(lat > 0.0);
+                    let lon = d.dot(u).abs();
+                    if side[k].is_none_or(|(best, _)| lon < best) {
+                        side[k] = Some((lon, dv));
+                    }
+                } else {
+                    let (wi, wj) = (c.width, o.width);
+                    let overlap =
+                        ((wi + wj) / 2.0 - super::conductor::m(lat.abs())).clamp(0.0, wi.min(wj));
+                    if overlap <= 0.0 {
+                        continue;
+                    }
+                    let h = (c.z - o.z).abs() - (c.thickness + o.thickness) / 2.0;
+                    if h <= 0.0 {
+                        continue;
+                    }
+                    let w = wi.min(wj);
+                    let dv = volt_at(o, fo, mid) - vi;
+                    let cp = facing.get([w, h, er], || facing_strips(w, h, er)) * overlap / w;
+                    e_layers += 0.5 * cp * len * dv * dv;
                 }
             }
         }
-        let cp = coplanar_strips(c.width, gap, c.thickness, eps[li.min(eps.len() - 1)]);
+        let e = eps[li.min(eps.len() - 1)];
+        let cp = strips.get([c.width, gap, c.thickness, e], || {
+            coplanar_strips(c.width, gap, c.thickness, e)
+        });
         for (_, dv) in side.iter().flatten() {
             // Each gap is seen from both of its chords: half each.
             e_turns += 0.5 * 0.5 * cp * len * dv * dv;

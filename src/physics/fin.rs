@@ -163,13 +163,13 @@ impl Laminate {
 #[derive(Debug, Clone)]
 pub struct Beam {
     /// Stiffness matrix (free degrees of freedom: w, theta per node 1..).
-    k: Vec<Vec<f64>>,
+    k: Banded,
     /// Mass matrix.
-    mass: Vec<Vec<f64>>,
+    mass: Banded,
     /// Index of the load node's deflection.
     load_dof: usize,
     /// Cholesky factor of the stiffness matrix.
-    chol: Vec<Vec<f64>>,
+    chol: Banded,
 }
 
 impl Beam {
@@ -187,8 +187,8 @@ impl Beam {
         let mut nodes: Vec<f64> = (0..=n1).map(|i| load_at * i as f64 / n1 as f64).collect();
         nodes.extend((1..=n2).map(|i| load_at + rest * i as f64 / n2 as f64));
         let dofs = 2 * (nodes.len() - 1);
-        let mut k = vec![vec![0.0; dofs]; dofs];
-        let mut mass = vec![vec![0.0; dofs]; dofs];
+        let mut k = Banded::zeros(dofs);
+        let mut mass = Banded::zeros(dofs);
         // 4-point Gauss-Legendre on each element.
         let (gx, gw) = crate::numeric::quadrature::rule(4);
         for e in 0..nodes.len() - 1 {
@@ -222,14 +222,14 @@ impl Beam {
             for i in 0..4 {
                 for j in 0..4 {
                     if let (Some(gi), Some(gj)) = (g(i), g(j)) {
-                        k[gi][gj] += cs * ke[i][j];
-                        mass[gi][gj] += cm * me[i][j];
+                        k[(gi, gj)] += cs * ke[i][j];
+                        mass[(gi, gj)] += cm * me[i][j];
                     }
                 }
             }
         }
         let load_dof = 2 * (n1 - 1);
-        mass[load_dof][load_dof] += tip;
+        mass[(load_dof, load_dof)] += tip;
         let chol = cholesky(&k);
         Beam {
             k,
@@ -241,7 +241,7 @@ impl Beam {
 
     /// Deflection at the load point per newton there, m/N.
     pub fn compliance(&self) -> f64 {
-        let mut f = vec![0.0; self.k.len()];
+        let mut f = vec![0.0; self.k.n];
         f[self.load_dof] = 1.0;
         solve(&self.chol, &f)[self.load_dof]
     }
@@ -249,7 +249,7 @@ impl Beam {
     /// First natural frequency, Hz (inverse iteration with the Rayleigh
     /// quotient).
     pub fn first_frequency(&self) -> f64 {
-        let n = self.k.len();
+        let n = self.k.n;
         let mut x = vec![1.0; n];
         let mut lambda = 0.0;
         for _ in 0..100 {
@@ -276,30 +276,75 @@ impl Beam {
 /// freedom couple only with its neighbours'.
 const BAND: usize = 3;
 
+/// A square matrix of half bandwidth [`BAND`], stored by rows of the
+/// band (entries outside it are zero and never addressed).
+#[derive(Debug, Clone)]
+struct Banded {
+    n: usize,
+    /// Row `i`, columns `i - BAND ..= i + BAND`.
+    band: Vec<f64>,
+}
+
+impl Banded {
+    fn zeros(n: usize) -> Banded {
+        Banded {
+            n,
+            band: vec![0.0; n * (2 * BAND + 1)],
+        }
+    }
+}
+
+impl std::ops::Index<(usize, usize)> for Banded {
+    type Output = f64;
+    fn index(&self, (i, j): (usize, usize)) -> &f64 {
+        &self.band[i * (2 * BAND + 1) + (j + BAND - i)]
+    }
+}
+
+impl std::ops::IndexMut<(usize, usize)> for Banded {
+    fn index_mut(&mut self, (i, j): (usize, usize)) -> &mut f64 {
+        &mut self.band[i * (2 * BAND + 1) + (j + BAND - i)]
+    }
+}
+
+impl Banded {
+    /// Row `i`, columns `lo..hi` (all within the band).
+    fn row(&self, i: usize, lo: usize, hi: usize) -> &[f64] {
+        let at = i * (2 * BAND + 1) + BAND - i;
+        &self.band[at + lo..at + hi]
+    }
+}
+
 /// `a x` for a matrix of half bandwidth [`BAND`].
-fn mul(a: &[Vec<f64>], x: &[f64]) -> Vec<f64> {
-    let n = a.len();
+fn mul(a: &Banded, x: &[f64]) -> Vec<f64> {
+    let n = a.n;
     (0..n)
         .map(|i| {
             let lo = i.saturating_sub(BAND);
             let hi = (i + BAND + 1).min(n);
-            (lo..hi).map(|j| a[i][j] * x[j]).sum()
+            a.row(i, lo, hi)
+                .iter()
+                .zip(&x[lo..hi])
+                .map(|(a, x)| a * x)
+                .sum()
         })
         .collect()
 }
 
 /// The Cholesky factor `L` of a symmetric positive definite `a` of half
 /// bandwidth [`BAND`] (the factor keeps the band).
-fn cholesky(a: &[Vec<f64>]) -> Vec<Vec<f64>> {
-    let n = a.len();
-    let mut l = vec![vec![0.0; n]; n];
+fn cholesky(a: &Banded) -> Banded {
+    let n = a.n;
+    let mut l = Banded::zeros(n);
     for i in 0..n {
         for j in i.saturating_sub(BAND)..=i {
-            let s: f64 = (i.saturating_sub(BAND)..j).map(|k| l[i][k] * l[j][k]).sum();
+            let s: f64 = (i.saturating_sub(BAND)..j)
+                .map(|k| l[(i, k)] * l[(j, k)])
+                .sum();
             if i == j {
-                l[i][i] = (a[i][i] - s).max(1e-300).sqrt();
+                l[(i, i)] = (a[(i, i)] - s).max(1e-300).sqrt();
             } else {
-                l[i][j] = (a[i][j] - s) / l[j][j];
+                l[(i, j)] = (a[(i, j)] - s) / l[(j, j)];
             }
         }
     }
@@ -307,17 +352,25 @@ fn cholesky(a: &[Vec<f64>]) -> Vec<Vec<f64>> {
 }
 
 /// Solves `L L^T x = b` with the factor `l` of [`cholesky`].
-fn solve(l: &[Vec<f64>], b: &[f64]) -> Vec<f64> {
-    let n = l.len();
+fn solve(l: &Banded, b: &[f64]) -> Vec<f64> {
+    let n = l.n;
     let mut y = vec![0.0; n];
     for i in 0..n {
-        let s: f64 = (i.saturating_sub(BAND)..i).map(|k| l[i][k] * y[k]).sum();
-        y[i] = (b[i] - s) / l[i][i];
+        let lo = i.saturating_sub(BAND);
+        let s: f64 = l
+            .row(i, lo, i)
+            .iter()
+            .zip(&y[lo..i])
+            .map(|(l, y)| l * y)
+            .sum();
+        y[i] = (b[i] - s) / l[(i, i)];
     }
     let mut x = vec![0.0; n];
     for i in (0..n).rev() {
-        let s: f64 = (i + 1..(i + BAND + 1).min(n)).map(|k| l[k][i] * x[k]).sum();
-        x[i] = (y[i] - s) / l[i][i];
+        let s: f64 = (i + 1..(i + BAND + 1).min(n))
+            .map(|k| l[(k, i)] * x[k])
+            .sum();
+        x[i] = (y[i] - s) / l[(i, i)];
     }
     x
 }

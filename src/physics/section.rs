@@ -209,19 +209,19 @@ impl SectionTable {
     }
 
     /// The table of a section `aspect = w / t`, computed once per aspect
-    /// ratio in the process.
+    /// ratio in the process (a thread that asks for a table another one
+    /// is computing waits for it instead of computing it again).
     pub fn cached(aspect: f64) -> Arc<SectionTable> {
-        static CACHE: OnceLock<Mutex<HashMap<u64, Arc<SectionTable>>>> = OnceLock::new();
+        type Slot = Arc<OnceLock<Arc<SectionTable>>>;
+        static CACHE: OnceLock<Mutex<HashMap<u64, Slot>>> = OnceLock::new();
         let key = aspect.to_bits();
         let cache = CACHE.get_or_init(|| Mutex::new(HashMap::new()));
-        if let Some(t) = cache.lock().ok().and_then(|c| c.get(&key).cloned()) {
-            return t;
-        }
-        let t = Arc::new(SectionTable::new(aspect));
-        if let Ok(mut c) = cache.lock() {
-            c.insert(key, t.clone());
-        }
-        t
+        let slot: Slot = match cache.lock() {
+            Ok(mut c) => c.entry(key).or_default().clone(),
+            Err(_) => Slot::default(),
+        };
+        slot.get_or_init(|| Arc::new(SectionTable::new(aspect)))
+            .clone()
     }
 
     /// Computes the table of a section `aspect = w / t` (about 30 ms).
