@@ -23,7 +23,8 @@
 //!   stiffener covering every finger; KiCad's DRC runs on these boards too.
 //!
 //! - ring stators (`[array]`, the fan-stator example with other counts and
-//!   connections): gerbonara and pygerber read every Gerber; shapely finds
+//!   connections, and rings of sector coils from the gimbal-stator
+//!   example): gerbonara and pygerber read every Gerber; shapely finds
 //!   no copper of different nets (the Gerbers' net attributes) closer than
 //!   the clearance, terminal pads aside; KiCad 6 loads
 //!   the board with one net per bus and its DRC finds 0 violations and 0
@@ -391,23 +392,39 @@ fn ring_stators_pass_real_readers_and_kicad() {
     let checks = repo().join("tests/interop/checks.py");
     let kicad = repo().join("tests/interop/kicad_checks.py");
     let mut errors = String::new();
-    for (i, (count, poles, connection)) in [(9, 6, "star"), (9, 8, "delta"), (12, 10, "separate")]
+    let mut cases: Vec<(String, String)> = [(9, 6, "star"), (9, 8, "delta"), (12, 10, "separate")]
         .into_iter()
-        .enumerate()
-    {
-        let text = crate::common::poles_only(base)
-            .replace("count = 9", &format!("count = {count}"))
-            .replace("poles = 6", &format!("poles = {poles}"))
-            .replace(
-                "connection = \"star\"",
-                &format!("connection = \"{connection}\""),
-            )
-            .replace(
-                "neutral = true ",
-                &format!("neutral = {} ", connection == "star"),
-            )
-            .replace("outer_diameter = \"56mm\"", "outer_diameter = \"80mm\"")
-            .replace("inner_diameter = \"26mm\" ", "inner_diameter = \"50mm\" ");
+        .map(|(count, poles, connection)| {
+            let text = crate::common::poles_only(base)
+                .replace("count = 9", &format!("count = {count}"))
+                .replace("poles = 6", &format!("poles = {poles}"))
+                .replace(
+                    "connection = \"star\"",
+                    &format!("connection = \"{connection}\""),
+                )
+                .replace(
+                    "neutral = true ",
+                    &format!("neutral = {} ", connection == "star"),
+                )
+                .replace("outer_diameter = \"56mm\"", "outer_diameter = \"80mm\"")
+                .replace("inner_diameter = \"26mm\" ", "inner_diameter = \"50mm\" ");
+            (format!("{count}/{poles} {connection}"), text)
+        })
+        .collect();
+    // Sector coils (the gimbal-stator example, and a 9-coil delta on six
+    // layers): arcs about the ring's centre, slanted sides.
+    let sectors = include_str!("../../examples/gimbal-stator.toml");
+    cases.push(("sectors 12/14 star".into(), sectors.to_string()));
+    cases.push((
+        "sectors 9/8 delta 6 layers".into(),
+        crate::common::poles_only(sectors)
+            .replace("count = 12", "count = 9")
+            .replace("poles = 14", "poles = 8")
+            .replace("connection = \"star\"", "connection = \"delta\"")
+            .replace("neutral = true ", "neutral = false ")
+            .replace("layers = 4 ", "layers = 6 "),
+    ));
+    for (i, (label, text)) in cases.into_iter().enumerate() {
         let (d, board) = coilwright::pipeline::parse_and_build(&text).unwrap();
         let analysis = coilwright::physics::analyse(&d, &board).expect("analysis");
         let dir = tmp.path().join(format!("stator-{i}"));
@@ -418,6 +435,25 @@ fn ring_stators_pass_real_readers_and_kicad() {
         }
         let dir_s = dir.to_str().unwrap();
         let clearance = d.coil.clearance.to_string();
+        let coilwright::geometry::Rect { min: lo, max: hi } = board.outline_bounds();
+        let expect = serde_json::json!({
+            "design": d,
+            "layout": board,
+            "outline_bounds": [[lo.x, lo.y], [hi.x, hi.y]],
+        });
+        std::fs::write(
+            dir.join("expect.json"),
+            serde_json::to_vec(&expect).unwrap(),
+        )
+        .unwrap();
+        if label.starts_with("sectors") {
+            // Turn to turn in every sector coil, and every drill hit on
+            // copper of exactly the layers it joins (shapely, gerbonara).
+            match run(py.as_path(), &[checks.to_str().unwrap(), "geometry", dir_s]) {
+                Ok(t) => println!("{label}: {t}"),
+                Err(e) => errors.push_str(&format!("{label}: {e}\n")),
+            }
+        }
         for (prog, args) in [
             (
                 py.as_path(),
@@ -433,8 +469,8 @@ fn ring_stators_pass_real_readers_and_kicad() {
             ),
         ] {
             match run(prog, &args) {
-                Ok(t) => println!("{count}/{poles} {connection}: {t}"),
-                Err(e) => errors.push_str(&format!("{count}/{poles} {connection}: {e}\n")),
+                Ok(t) => println!("{label}: {t}"),
+                Err(e) => errors.push_str(&format!("{label}: {e}\n")),
             }
         }
     }
