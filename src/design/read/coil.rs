@@ -116,7 +116,9 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
                 inner_radius: 0.0,
                 outer_radius: 0.0,
                 spacing: 0.0,
-                corner_radius: cx.length(t, "corner_radius", Sign::Positive).unwrap_or(0.0),
+                corner_radius: cx
+                    .length(t, "corner_radius", Sign::Positive)
+                    .unwrap_or(SECTOR_CORNER_PITCHES * (trace_width + clearance)),
             };
         }
         _ => {}
@@ -411,16 +413,6 @@ fn read_sector_rest(
             Some("use 4, 6, ... layers or wiring = \"series\"".into()),
         );
     }
-    let shape = match shape {
-        Shape::Sector { corner_radius, .. } if corner_radius == 0.0 => Shape::Sector {
-            count: 0,
-            inner_radius: 0.0,
-            outer_radius: 0.0,
-            spacing: 0.0,
-            corner_radius: SECTOR_CORNER_PITCHES * (trace_width + clearance),
-        },
-        s => s,
-    };
     Some(CoilInput {
         shape,
         outer_diameter: None,
