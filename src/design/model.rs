@@ -244,7 +244,8 @@ impl Coil {
 
     /// The outer size as people read it: "12.000 mm" for a circle, "14.000
     /// mm across corners" for a polygon, "24.000 x 12.000 mm" (width x
-    /// height) for a rectangle.
+    /// height) for a rectangle, "filling 1/12 of the ring 24.000 to 50.000
+    /// mm" for a sector.
     pub fn outer_size_text(&self) -> String {
         match self.shape {
             Shape::Circle => format!("{:.3} mm", self.outer_diameter),
@@ -256,7 +257,7 @@ impl Coil {
                 outer_radius,
                 ..
             } => format!(
-                "one of {count} slots of the ring {:.3} to {:.3} mm",
+                "filling 1/{count} of the ring {:.3} to {:.3} mm",
                 2.0 * inner_radius,
                 2.0 * outer_radius
             ),
