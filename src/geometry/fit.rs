@@ -86,6 +86,10 @@ pub enum FitError {
     },
 }
 
+/// How far [`FitInput::buildable_inner`] looks for a buildable innermost
+/// turn, mm.
+const MAX_INNER_SEARCH_MM: f64 = 1000.0;
+
 impl FitInput {
     /// The spiral's `inner` parameter for a free-centre diameter.
     fn inner_param(&self, inner_diameter: f64) -> f64 {
@@ -145,6 +149,37 @@ impl FitInput {
         }
     }
 
+    /// The smallest spiral `inner` parameter from `inner` up whose
+    /// innermost turn can be built: `inner` itself except for a sector,
+    /// whose sides converge towards the ring's centre, so that too small
+    /// an innermost turn closes before its inner arc (found by doubling,
+    /// then bisection to 1 nm); `inner` when none builds.
+    fn buildable_inner(&self, inner: f64) -> f64 {
+        let builds = |x: f64| self.spiral(x, 1.0).segments().is_ok();
+        if !self.shape.whole_turns() || builds(inner) {
+            return inner;
+        }
+        let (mut lo, mut step) = (inner, inner.max(0.01));
+        let mut hi = inner + step;
+        while !builds(hi) {
+            lo = hi;
+            step *= 2.0;
+            hi = inner + step;
+            if step > MAX_INNER_SEARCH_MM {
+                return inner;
+            }
+        }
+        while hi - lo > 1e-6 {
+            let mid = 0.5 * (lo + hi);
+            if builds(mid) {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        hi
+    }
+
     /// Most turns that fit with the free centre `inner` (bracketed by
     /// doubling, then [`largest_feasible`]).
     fn max_turns(&self, inner: f64, outer: f64) -> Result<f64, FitError> {
@@ -179,7 +214,8 @@ impl FitInput {
         {
             // Whole turns only: as many as fit with the smallest free
             // centre, then the free centre as large as that many allow.
-            let t = self.max_turns(self.inner_param(min_id), od)?.floor();
+            let inner = self.buildable_inner(self.inner_param(min_id));
+            let t = self.max_turns(inner, od)?.floor();
             if t < 1.0 {
                 return Err(FitError::InnerTooSmall {
                     given: min_id,
@@ -237,7 +273,7 @@ impl FitInput {
             }
             (Some(od), None, Some(TurnsRequest::Count(t))) => {
                 // Largest free centre such that `t` turns fit inside `od`.
-                let lo_inner = self.inner_param(min_id);
+                let lo_inner = self.buildable_inner(self.inner_param(min_id));
                 let mut f_lo = self.excess(lo_inner, t, od)?;
                 if f_lo > 0.0 {
                     let most = self.max_turns(lo_inner, od)?;

@@ -496,9 +496,7 @@ fn catalogue() -> Vec<Case> {
         ),
         case(
             "a slot too small for the centre vias",
-            sectors("count = 12", "count = 18")
-                .replace("poles = 14", "poles = 16")
-                .replace("layers = 4 ", "layers = 2 "),
+            sectors("inner_diameter = \"24mm\"", "inner_diameter = \"4mm\""),
             "coil.shape",
             "shape = |\"sector\"",
             "leaves no room for one turn",
