@@ -117,8 +117,8 @@ pub const KEYS: &[Key] = &[
     key(
         "coil",
         "shape",
-        Choice(&["circle", "polygon", "rectangle"]),
-        "outline of the spiral",
+        Choice(&["circle", "polygon", "rectangle", "sector"]),
+        "outline of the spiral (sector: fills a slot of the [array] ring)",
     ),
     key("coil", "sides", Integer, "polygon only: 3 to 12"),
     key(
@@ -175,7 +175,7 @@ pub const KEYS: &[Key] = &[
         "coil",
         "corner_radius",
         Length,
-        "innermost corner radius, with corner = \"round\"",
+        "innermost corner radius, with corner = \"round\"; sector: the outline's corner radius",
     ),
     // [stackup]
     key(

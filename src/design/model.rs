@@ -153,6 +153,28 @@ pub enum Shape {
         /// Outer copper height (y), mm.
         height: f64,
     },
+    /// Annular sector filling one slot of an `[array]` ring: arcs about the
+    /// ring's centre at the annulus's inner and outer radius, two sides
+    /// parallel to the slot's bounding rays (each `spacing / 2` inside its
+    /// ray, so neighbouring sectors are `spacing` apart all along), four
+    /// rounded corners. In the coil's own frame the axis is the middle of
+    /// the slot's radial extent, +x points away from the ring's centre
+    /// (which lies at `(-(inner_radius + outer_radius) / 2, 0)`). The
+    /// outline is the outermost turn's outer copper edge; the sizes come
+    /// from `[array]`.
+    Sector {
+        /// Coils on the ring (slots), >= 2.
+        count: u32,
+        /// Inner radius of the annulus about the ring's centre, mm.
+        inner_radius: f64,
+        /// Outer radius of the annulus about the ring's centre, mm.
+        outer_radius: f64,
+        /// Copper gap between neighbouring sectors, mm.
+        spacing: f64,
+        /// Radius of the outline's four corners (outer copper edge), mm;
+        /// inner turns' corners shrink with the offset down to half a pitch.
+        corner_radius: f64,
+    },
 }
 
 /// Corner style of polygon and rectangle spirals.
@@ -222,12 +244,23 @@ impl Coil {
 
     /// The outer size as people read it: "12.000 mm" for a circle, "14.000
     /// mm across corners" for a polygon, "24.000 x 12.000 mm" (width x
-    /// height) for a rectangle.
+    /// height) for a rectangle, "filling 1/12 of the ring 24.000 to 50.000
+    /// mm" for a sector.
     pub fn outer_size_text(&self) -> String {
         match self.shape {
             Shape::Circle => format!("{:.3} mm", self.outer_diameter),
             Shape::Polygon { .. } => format!("{:.3} mm across corners", self.outer_diameter),
             Shape::Rectangle { width, height } => format!("{width:.3} x {height:.3} mm"),
+            Shape::Sector {
+                count,
+                inner_radius,
+                outer_radius,
+                ..
+            } => format!(
+                "filling 1/{count} of the ring {:.3} to {:.3} mm",
+                2.0 * inner_radius,
+                2.0 * outer_radius
+            ),
         }
     }
 

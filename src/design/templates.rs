@@ -36,6 +36,11 @@ const TEMPLATES: &[Template] = &[
         text: include_str!("../../examples/fan-stator.toml"),
     },
     Template {
+        name: "gimbal-stator",
+        description: "stator of a slim gimbal motor: twelve 4-layer sector coils filling a ring, three phases in star with buses, facing a 14-pole rotor",
+        text: include_str!("../../examples/gimbal-stator.toml"),
+    },
+    Template {
         name: "pickup-coil",
         description: "single-layer circular pickup coil that counts magnet passes for a tachometer",
         text: include_str!("../../examples/pickup-coil.toml"),

@@ -722,6 +722,7 @@ fn heading(design: &Design, board: &Board) -> String {
         Shape::Rectangle { .. } => "rectangle".to_string(),
         Shape::Polygon { sides } => format!("{sides}-sided polygon"),
         Shape::Circle => "circle".to_string(),
+        Shape::Sector { .. } => "annular sector".to_string(),
     };
     let _ = writeln!(
         s,

@@ -30,6 +30,7 @@
 
 use super::board::{Board, Bus, Direction, Node, Outline, Pad, Phase, Place, PlacedCoil, Sense};
 use super::board::{Track, TrackRole, Via, Winding};
+use super::spiral::{SectorOutline, shifted};
 use super::{Arc, Point, Segment};
 use crate::design::winding::{PHASE_NAMES, pattern};
 use crate::design::{Arrangement, Connection, Design};
@@ -151,18 +152,31 @@ pub fn place(design: &Design, single: Board) -> Result<Board, ArrayError> {
         .map_err(|_| ArrayError::Unbalanced)?;
     let reach = coil_reach(&single);
     let room = (outer_diameter - inner_diameter) / 4.0;
-    if reach > room + 1e-9 {
+    let radius = (outer_diameter + inner_diameter) / 4.0;
+    let n = count as usize;
+    let need = spacing.unwrap_or(design.coil.clearance);
+    let sector = SectorOutline::of(&design.coil.shape);
+    if let Some(g) = &sector {
+        // A sector's winding fills its slot by construction (the fit keeps
+        // it inside the outline); its outer vias and pads stand beyond the
+        // outer arc. Measure how close all its copper comes to each side.
+        let gap = slot_margin(&single, g, true) + slot_margin(&single, g, false);
+        if gap < need - 1e-9 {
+            return Err(ArrayError::Overlap {
+                gap,
+                need,
+                short: need - gap,
+            });
+        }
+    } else if reach > room + 1e-9 {
         return Err(ArrayError::Annulus {
             reach,
             room,
             over: reach - room,
         });
     }
-    let radius = (outer_diameter + inner_diameter) / 4.0;
-    let n = count as usize;
-    let need = spacing.unwrap_or(design.coil.clearance);
     let gap = 2.0 * radius * (PI / n as f64).sin() - 2.0 * reach;
-    if gap < need - 1e-9 {
+    if sector.is_none() && gap < need - 1e-9 {
         return Err(ArrayError::Overlap {
             gap,
             need,
@@ -216,7 +230,13 @@ pub fn place(design: &Design, single: Board) -> Result<Board, ArrayError> {
         .collect();
     let (nets, ends) = circuit(&board, &phases, array.connection, array.neutral);
     let router = Router {
-        centre_reach: radius + reach,
+        // Circles and polygons: the circle about each axis that holds its
+        // copper, outermost point; sectors (far from round): measured.
+        centre_reach: if sector.is_some() {
+            coil_reach(&board)
+        } else {
+            radius + reach
+        },
         stub_layer,
         arc_layer,
         width: design.coil.trace_width,
@@ -258,7 +278,14 @@ impl Grid {
     fn cell(&self, k: usize) -> (usize, usize) {
         let r = k / self.columns;
         let c = k % self.columns;
-        (r, if r.is_multiple_of(2) { c } else { self.columns - 1 - c })
+        (
+            r,
+            if r.is_multiple_of(2) {
+                c
+            } else {
+                self.columns - 1 - c
+            },
+        )
     }
 
     /// Centre of the coil in row `r`, column `c`, mm.
@@ -628,6 +655,23 @@ fn coil_reach(b: &Board) -> f64 {
         .chain(b.vias.iter().map(|v| v.at.radius() + v.diameter / 2.0))
         .chain(b.pads.iter().map(|p| p.at.radius() + p.diameter / 2.0))
         .fold(0.0, f64::max)
+}
+
+/// How far all copper of a sector coil built at the origin (tracks, vias,
+/// pads, with their widths) stays inside the ray bounding its slot on one
+/// side (`left`: +y), mm: half the copper gap to the neighbour there.
+fn slot_margin(b: &Board, g: &SectorOutline, left: bool) -> f64 {
+    let n = g.normal(left);
+    let shift = Point::ORIGIN - g.centre;
+    let beyond = |p: Point| n.dot(p - g.centre);
+    let reach = b
+        .tracks
+        .iter()
+        .map(|t| shifted(&t.segment, shift).support(n) + t.width / 2.0)
+        .chain(b.vias.iter().map(|v| beyond(v.at) + v.diameter / 2.0))
+        .chain(b.pads.iter().map(|p| beyond(p.at) + p.diameter / 2.0))
+        .fold(f64::NEG_INFINITY, f64::max);
+    -reach
 }
 
 /// The stub and arc layers: the first two layers the coil's terminals do

@@ -86,6 +86,10 @@ pub enum FitError {
     },
 }
 
+/// How far [`FitInput::buildable_inner`] looks for a buildable innermost
+/// turn, mm.
+const MAX_INNER_SEARCH_MM: f64 = 1000.0;
+
 impl FitInput {
     /// The spiral's `inner` parameter for a free-centre diameter.
     fn inner_param(&self, inner_diameter: f64) -> f64 {
@@ -123,6 +127,14 @@ impl FitInput {
     fn outer_of(&self, inner: f64, turns: f64) -> Result<f64, FitError> {
         match self.shape.own_size() {
             Some((width, height)) => Ok(width.hypot(height)),
+            None if self.shape.carries_size() => {
+                // A sector: the circle about the axis holding its copper.
+                let segs = self
+                    .spiral(inner, turns)
+                    .segments()
+                    .map_err(|_| FitError::InnerNotInside)?;
+                Ok(2.0 * (super::spiral::radial_extent(&segs).1 + self.trace_width / 2.0))
+            }
             None => Ok(2.0 * (self.excess(inner, turns, 0.0)?)),
         }
     }
@@ -130,10 +142,42 @@ impl FitInput {
     /// The outer size to fit into, mm (a shape with its own size: an unused
     /// placeholder).
     fn outer_limit(&self) -> Option<f64> {
-        match self.shape.own_size() {
-            Some(_) => Some(0.0),
-            None => self.outer_diameter,
+        if self.shape.carries_size() {
+            Some(0.0)
+        } else {
+            self.outer_diameter
         }
+    }
+
+    /// The smallest spiral `inner` parameter from `inner` up whose
+    /// innermost turn can be built: `inner` itself except for a sector,
+    /// whose sides converge towards the ring's centre, so that too small
+    /// an innermost turn closes before its inner arc (found by doubling,
+    /// then bisection to 1 nm); `inner` when none builds.
+    fn buildable_inner(&self, inner: f64) -> f64 {
+        let builds = |x: f64| self.spiral(x, 1.0).segments().is_ok();
+        if !self.shape.whole_turns() || builds(inner) {
+            return inner;
+        }
+        let (mut lo, mut step) = (inner, inner.max(0.01));
+        let mut hi = inner + step;
+        while !builds(hi) {
+            lo = hi;
+            step *= 2.0;
+            hi = inner + step;
+            if step > MAX_INNER_SEARCH_MM {
+                return inner;
+            }
+        }
+        while hi - lo > 1e-6 {
+            let mid = 0.5 * (lo + hi);
+            if builds(mid) {
+                hi = mid;
+            } else {
+                lo = mid;
+            }
+        }
+        hi
     }
 
     /// Most turns that fit with the free centre `inner` (bracketed by
@@ -165,6 +209,25 @@ impl FitInput {
     pub fn resolve(&self) -> Result<Fit, FitError> {
         let outer = self.outer_limit();
         let min_id = self.min_inner_diameter;
+        if self.shape.whole_turns()
+            && let (Some(od), Some(TurnsRequest::Max)) = (outer, self.turns)
+        {
+            // Whole turns only: as many as fit with the smallest free
+            // centre, then the free centre as large as that many allow.
+            let inner = self.buildable_inner(self.inner_param(min_id));
+            let t = self.max_turns(inner, od)?.floor();
+            if t < 1.0 {
+                return Err(FitError::InnerTooSmall {
+                    given: min_id,
+                    min: min_id,
+                });
+            }
+            return FitInput {
+                turns: Some(TurnsRequest::Count(t)),
+                ..*self
+            }
+            .resolve();
+        }
         let check_inner = |id: f64| {
             if id < min_id - 1e-9 {
                 Err(FitError::InnerTooSmall {
@@ -210,10 +273,15 @@ impl FitInput {
             }
             (Some(od), None, Some(TurnsRequest::Count(t))) => {
                 // Largest free centre such that `t` turns fit inside `od`.
-                let lo_inner = self.inner_param(min_id);
+                let lo_inner = self.buildable_inner(self.inner_param(min_id));
                 let mut f_lo = self.excess(lo_inner, t, od)?;
                 if f_lo > 0.0 {
-                    let max = (self.max_turns(lo_inner, od)? * 100.0).floor() / 100.0;
+                    let most = self.max_turns(lo_inner, od)?;
+                    let max = if self.shape.whole_turns() {
+                        most.floor()
+                    } else {
+                        (most * 100.0).floor() / 100.0
+                    };
                     return Err(FitError::TooManyTurns { requested: t, max });
                 }
                 let (mut lo, mut hi) = (lo_inner, lo_inner + 1.0);
@@ -230,7 +298,7 @@ impl FitInput {
                     turns: t,
                 })
             }
-            (None, Some(id), Some(TurnsRequest::Count(t))) if self.shape.own_size().is_none() => {
+            (None, Some(id), Some(TurnsRequest::Count(t))) if !self.shape.carries_size() => {
                 check_inner(id)?;
                 Ok(Fit {
                     outer_diameter: self.outer_of(self.inner_param(id), t)?,

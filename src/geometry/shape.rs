@@ -9,7 +9,7 @@
 //! Millimetres.
 
 use super::Segment;
-use super::spiral::{SpiralError, SpiralSpec, box_extent, radial_extent};
+use super::spiral::{SectorOutline, SpiralError, SpiralSpec, box_extent, radial_extent};
 use crate::design::Shape;
 
 impl Shape {
@@ -17,6 +17,9 @@ impl Shape {
     /// its turns, cut afterwards by [`SpiralSpec::segments`]): the shape's
     /// spiral builder.
     pub(crate) fn whole_spiral(&self, spec: &SpiralSpec) -> Result<Vec<Segment>, SpiralError> {
+        if let Some(g) = SectorOutline::of(self) {
+            return spec.sector_whole(&g);
+        }
         match self.side_bases(spec.inner) {
             None => spec.circle_whole(),
             Some(bases) => spec.polygon_whole(&bases),
@@ -25,10 +28,11 @@ impl Shape {
 
     /// Distances from the axis of the innermost sides (side `k` has its
     /// normal at angle `k * 2 pi / N`) of a shape made of straight sides
-    /// whose spiral starts `inner` mm out on +x; `None` for a circle.
+    /// whose spiral starts `inner` mm out on +x; `None` for a circle and a
+    /// sector (whose sides are not at regular angles).
     pub(crate) fn side_bases(&self, inner: f64) -> Option<Vec<f64>> {
         match *self {
-            Shape::Circle => None,
+            Shape::Circle | Shape::Sector { .. } => None,
             Shape::Polygon { sides } => Some(vec![inner; sides as usize]),
             Shape::Rectangle { width, height } => {
                 let a = inner;
@@ -43,10 +47,34 @@ impl Shape {
     /// like the next turn, held by a polygon with as many sides.
     pub fn sides(&self) -> Option<usize> {
         match *self {
-            Shape::Circle => None,
+            Shape::Circle | Shape::Sector { .. } => None,
             Shape::Polygon { sides } => Some(sides as usize),
             Shape::Rectangle { .. } => Some(4),
         }
+    }
+
+    /// Sides of the regular polygon about the axis that holds the lead
+    /// ring outside the winding (the outer vias sit beyond it): a polygon's
+    /// or rectangle's own sides; for a sector, whose lead ring is the next
+    /// turn of arcs and slanted sides, 36 (a side every 10 degrees, close
+    /// around the outer arc where its vias sit); `None` for a circle.
+    pub fn ring_sides(&self) -> Option<usize> {
+        match *self {
+            Shape::Sector { .. } => Some(36),
+            _ => self.sides(),
+        }
+    }
+
+    /// Whether the shape's outer size is its own (a rectangle's width and
+    /// height, a sector's slot of the ring) rather than a diameter to fit.
+    pub fn carries_size(&self) -> bool {
+        matches!(self, Shape::Rectangle { .. } | Shape::Sector { .. })
+    }
+
+    /// Whether the turns must be whole: a sector's layers end on its outer
+    /// arc, facing out of the ring where its outer vias sit.
+    pub fn whole_turns(&self) -> bool {
+        matches!(self, Shape::Sector { .. })
     }
 
     /// Whether each layer's spiral is turned about the axis so that its
@@ -100,9 +128,12 @@ impl Shape {
 
     /// How far a spiral's copper (centre line `spiral`, tracks
     /// `2 half_width` wide) reaches beyond the outer size, mm (negative:
-    /// inside): beyond the shape's own size, or beyond the circle of
-    /// `outer_diameter` about the axis.
+    /// inside): beyond the shape's own size (a sector's outline), or beyond
+    /// the circle of `outer_diameter` about the axis.
     pub fn overreach(&self, spiral: &[Segment], half_width: f64, outer_diameter: f64) -> f64 {
+        if let Some(g) = SectorOutline::of(self) {
+            return g.overreach(spiral, half_width);
+        }
         match self.own_size() {
             Some((width, height)) => {
                 let (x, y) = box_extent(spiral);

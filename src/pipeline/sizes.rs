@@ -61,6 +61,18 @@ pub(super) fn resolve(request: &DesignRequest, spans: &KeySpans) -> Result<Coil,
 
 /// The problem a failed fit is, at the key to change.
 fn fit_error(e: FitError, spans: &KeySpans, shape: Shape, inner_given: bool) -> DesignErrors {
+    if let (Shape::Sector { .. }, FitError::InnerNotInside | FitError::InnerTooSmall { .. }) =
+        (shape, &e)
+    {
+        // A sector's size is its slot of the ring: too small a slot.
+        return DesignError {
+            key: "coil.shape".into(),
+            span: spans.key_or_table("coil", "shape"),
+            message: "the slot of the [array] ring leaves no room for one turn around the free centre the centre vias need".into(),
+            help: Some("use fewer coils or a wider annulus in [array], smaller vias ([via] diameter), or an even number of layers (terminals outside the winding)".into()),
+        }
+        .into();
+    }
     let rect = matches!(shape, Shape::Rectangle { .. });
     let size_key = if rect { "width" } else { "outer_diameter" };
     let (key, help) = match &e {

@@ -515,3 +515,50 @@ fn a_tail_is_refused_on_rigid_boards_and_where_the_fingers_do_not_fit() {
             .any(|e| e.key == "tail.finger_width")
     );
 }
+
+/// A sector takes its slot from the ring: count, the annulus's radii and
+/// the spacing (the clearance when not given); its corner radius defaults
+/// to four pitches; "max" gives whole turns whose outermost copper touches
+/// the slot's outline.
+#[test]
+fn sector_takes_its_slot_from_the_ring() {
+    let text = include_str!("../../examples/gimbal-stator.toml");
+    let d = parse(text).unwrap();
+    assert_eq!(
+        d.coil.shape,
+        Shape::Sector {
+            count: 12,
+            inner_radius: 12.0,
+            outer_radius: 25.0,
+            spacing: 0.3,
+            corner_radius: 1.0,
+        }
+    );
+    assert_eq!(d.coil.turns.fract(), 0.0);
+    assert_eq!(d.terminal_place.angle_deg, 0.0);
+    let plain = text
+        .replace("corner_radius = \"1mm\"", "")
+        .replace("spacing = \"0.3mm\"", "");
+    let d = parse(&plain).unwrap();
+    match d.coil.shape {
+        Shape::Sector {
+            spacing,
+            corner_radius,
+            ..
+        } => {
+            assert_eq!(spacing, 0.15);
+            assert!((corner_radius - 4.0 * 0.3).abs() < 1e-12);
+        }
+        other => panic!("{other:?}"),
+    }
+    // The outermost turn's copper reaches the outer arc: 25 mm from the
+    // ring's centre, which lies (12 + 25) / 2 mm from the coil's axis on -x.
+    let board = geometry::build(&d).unwrap();
+    let reach = board
+        .tracks
+        .iter()
+        .filter(|t| t.role == geometry::TrackRole::Winding)
+        .map(|t| t.segment.start().distance(geometry::Point::new(-18.5, 0.0)) + t.width / 2.0)
+        .fold(0.0, f64::max);
+    assert!((reach - 25.0).abs() < 1e-6, "{reach}");
+}

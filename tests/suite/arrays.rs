@@ -2,9 +2,11 @@
 //! with other pole counts and connections pass their own rule check (every
 //! coil and bus, different nets kept apart by the clearance), every phase is
 //! one unbroken chain from its pad "1" to its pad "2", and each coil is
-//! passed in the sense the star of slots gives it. Grids of coils (one
-//! phase along a serpentine, buses in the channels between rows) pass the
-//! same rule check and make one chain through every coil.
+//! passed in the sense the star of slots gives it. The same for rings of
+//! sector coils (the gimbal-stator example), whose copper must also stay
+//! in its slot of the annulus with the spacing to its neighbours. Grids of
+//! coils (one phase along a serpentine, buses in the channels between
+//! rows) pass the same rule check and make one chain through every coil.
 
 use coilwright::geometry::{Node, TrackRole};
 use coilwright::rules::{self, Profile};
@@ -35,13 +37,55 @@ const VARIANTS: [(u32, u32, &str, bool); 6] = [
     (12, 10, "separate", false),
 ];
 
+const SECTORS: &str = include_str!("../../examples/gimbal-stator.toml");
+
+/// The sector example with `count` coils, `poles` poles, `connection` and
+/// `layers`.
+fn sector_variant(count: u32, poles: u32, connection: &str, neutral: bool, layers: u8) -> String {
+    crate::common::poles_only(SECTORS)
+        .replace("count = 12", &format!("count = {count}"))
+        .replace("poles = 14", &format!("poles = {poles}"))
+        .replace(
+            "connection = \"star\"",
+            &format!("connection = \"{connection}\""),
+        )
+        .replace("neutral = true ", &format!("neutral = {neutral} "))
+        .replace("layers = 4 ", &format!("layers = {layers} "))
+}
+
+const SECTOR_VARIANTS: [(u32, u32, &str, bool, u8); 5] = [
+    (12, 14, "star", true, 4),
+    (9, 6, "star", false, 4),
+    (9, 8, "delta", false, 6),
+    (12, 10, "separate", false, 4),
+    (6, 4, "star", true, 6),
+];
+
+/// Every variant's text: the round coils' and the sectors', with a label.
+fn all_variants() -> Vec<(String, String, u32, &'static str, bool)> {
+    let mut v: Vec<_> = VARIANTS
+        .iter()
+        .map(|&(q, p, c, n)| (format!("{q}/{p} {c}"), variant(q, p, c, n), q, c, n))
+        .collect();
+    v.extend(SECTOR_VARIANTS.iter().map(|&(q, p, c, n, l)| {
+        (
+            format!("sectors {q}/{p} {c} {l} layers"),
+            sector_variant(q, p, c, n, l),
+            q,
+            c,
+            n,
+        )
+    }));
+    v
+}
+
 #[test]
 fn stators_pass_their_own_rule_check() {
     let profile = Profile::builtin("standard").unwrap();
-    for (q, p, c, n) in VARIANTS {
-        let (d, board) = coilwright::pipeline::parse_and_build(&variant(q, p, c, n)).unwrap();
+    for (label, text, q, c, n) in all_variants() {
+        let (d, board) = coilwright::pipeline::parse_and_build(&text).unwrap();
         let v = rules::check(&d, &board, &profile);
-        assert!(v.is_empty(), "{q}/{p} {c}: {v:#?}");
+        assert!(v.is_empty(), "{label}: {v:#?}");
         assert_eq!(board.coils.len(), q as usize);
         assert_eq!(board.phases.len(), 3);
         let terminals: Vec<String> = board
@@ -54,14 +98,14 @@ fn stators_pass_their_own_rule_check() {
             ("star", false) | ("delta", _) => &["A", "B", "C"],
             _ => &["A1", "A2", "B1", "B2", "C1", "C2"],
         };
-        assert_eq!(terminals, want, "{q}/{p} {c}");
+        assert_eq!(terminals, want, "{label}");
     }
 }
 
 #[test]
 fn each_phase_is_one_chain_in_the_sense_of_its_coils() {
-    for (q, p, c, n) in VARIANTS {
-        let (_, board) = coilwright::pipeline::parse_and_build(&variant(q, p, c, n)).unwrap();
+    for (label, text, ..) in all_variants() {
+        let (_, board) = coilwright::pipeline::parse_and_build(&text).unwrap();
         for (ph, phase) in board.phases.iter().enumerate() {
             let view = board.phase_view(ph);
             // From pad "1" to pad "2", each winding starting where the
@@ -70,7 +114,7 @@ fn each_phase_is_one_chain_in_the_sense_of_its_coils() {
             assert_eq!(view.windings[0].from, Node::Pad(0));
             assert_eq!(view.windings.last().unwrap().to, Node::Pad(1));
             for w in view.windings.windows(2) {
-                assert_eq!(w[0].to, w[1].from, "{q}/{p} {c} phase {ph}");
+                assert_eq!(w[0].to, w[1].from, "{label} phase {ph}");
             }
             for w in &view.windings {
                 let ts = view.winding_tracks(w);
@@ -109,7 +153,7 @@ fn each_phase_is_one_chain_in_the_sense_of_its_coils() {
                     .sum();
                 assert!(
                     swept * -sense > 0.0,
-                    "{q}/{p} {c}: coil {k} sense {sense} sweeps {swept}"
+                    "{label}: coil {k} sense {sense} sweeps {swept}"
                 );
             }
         }
@@ -233,4 +277,139 @@ fn grids_pass_their_own_rule_check_and_chain_every_coil() {
         assert!(r.phases[0].tracks_ohm_20c > n as f64 * one);
         assert!(r.phases[0].tracks_ohm_20c < n as f64 * one * 1.2);
     }
+}
+/// Sector coils fill their slot: every winding track's copper lies in the
+/// annulus (the outermost turn touching its outer edge), every piece of a
+/// coil's copper (tracks, vias, pads) keeps half the spacing inside the
+/// rays bounding its slot (so neighbours are the spacing apart), and the
+/// arcs of the winding are concentric with the ring.
+#[test]
+fn sectors_fill_their_slots_and_keep_the_spacing() {
+    for &(q, p, c, n, l) in &SECTOR_VARIANTS {
+        let (d, board) =
+            coilwright::pipeline::parse_and_build(&sector_variant(q, p, c, n, l)).unwrap();
+        let (ri, ro) = (12.0, 25.0);
+        let (half, gap) = (std::f64::consts::PI / q as f64, 0.3);
+        let w = d.coil.trace_width;
+        let mut reach = 0.0f64;
+        for coil in &board.coils {
+            // In the slot's frame: the slot's bisector on +x.
+            let turn = -coil.rotation;
+            let side = |left: bool| {
+                coilwright::geometry::Vec2::new(
+                    -half.sin(),
+                    if left { half.cos() } else { -half.cos() },
+                )
+            };
+            for t in &board.tracks[coil.tracks.clone()] {
+                let seg = t.segment.rotated(turn);
+                for left in [true, false] {
+                    let beyond = seg.support(side(left)) + t.width / 2.0;
+                    assert!(
+                        beyond <= -gap / 2.0 + 1e-9,
+                        "{q}/{p}: track {beyond} past its slot"
+                    );
+                }
+                if t.role == TrackRole::Winding {
+                    assert!(seg.min_radius() - w / 2.0 >= ri - 1e-9);
+                    assert!(seg.max_radius() + w / 2.0 <= ro + 1e-9);
+                    reach = reach.max(seg.max_radius() + w / 2.0);
+                    if let coilwright::geometry::Segment::Arc(a) = seg
+                        && a.radius() > 5.0
+                    {
+                        assert!(a.center.distance(coilwright::geometry::Point::ORIGIN) < 1e-9);
+                    }
+                }
+            }
+            let round = board.vias[coil.vias.clone()]
+                .iter()
+                .map(|v| (v.at, v.diameter))
+                .chain(
+                    board.pads[coil.pads.clone()]
+                        .iter()
+                        .map(|p| (p.at, p.diameter)),
+                );
+            for (at, dia) in round {
+                let at = at.rotated(turn).to_vec2();
+                for left in [true, false] {
+                    assert!(at.dot(side(left)) + dia / 2.0 <= -gap / 2.0 + 1e-9);
+                }
+            }
+        }
+        assert!(
+            (reach - ro).abs() < 1e-6,
+            "{q}/{p}: outermost copper at {reach}"
+        );
+    }
+}
+
+/// A sector coil's resistance is that of its copper walked independently
+/// here (lines by their end points, arcs by radius x sweep) as a bar of
+/// resistivity 1.7241e-8 ohm m (IEC 60028 annealed copper at 20 C) and
+/// the track's cross-section.
+#[test]
+fn sector_coil_resistance_is_its_walked_copper() {
+    use coilwright::geometry::Segment;
+    let (d, board) = coilwright::pipeline::parse_and_build(SECTORS).unwrap();
+    let a = coilwright::physics::analyse(&d, &board).unwrap();
+    let t = 35e-6;
+    let w = d.coil.trace_width * 1e-3;
+    // Phase A starts at coil 1: its four layers follow the terminal's bus.
+    let first = &board.coils[0];
+    let rows = &a.resistance.layers[1..=4];
+    for (row, wi) in rows.iter().zip(first.windings.clone()) {
+        let winding = &board.windings[wi];
+        assert_eq!(row.layer, winding.layer);
+        let walked: f64 = board.tracks[winding.tracks.0..winding.tracks.1]
+            .iter()
+            .map(|t| match t.segment {
+                Segment::Line(l) => (l.end.x - l.start.x).hypot(l.end.y - l.start.y),
+                Segment::Arc(a) => {
+                    a.sweep.abs() * (a.start.x - a.center.x).hypot(a.start.y - a.center.y)
+                }
+            })
+            .sum();
+        assert!(
+            (row.length_mm / walked - 1.0).abs() < 1e-9,
+            "{} {}",
+            row.length_mm,
+            walked
+        );
+        let r = 1.7241e-8 * walked * 1e-3 / (w * t);
+        assert!(
+            (row.resistance_ohm_20c / r - 1.0).abs() < 1e-6,
+            "{} {r}",
+            row.resistance_ohm_20c
+        );
+    }
+}
+
+/// Sectors fill the slot that a round coil leaves half empty: under the
+/// same rotor, with the same track, clearance and layers and as many turns
+/// as fit, the sector stator's phase links more flux (a larger back-EMF
+/// constant) than a stator of the largest round coils that fit the same
+/// ring.
+#[test]
+fn sectors_link_more_flux_than_round_coils_in_the_same_slots() {
+    let emf = |text: &str| {
+        let (d, board) = coilwright::pipeline::parse_and_build(text).ok()?;
+        let a = coilwright::physics::analyse(&d, &board).ok()?;
+        Some(a.rotor?.constants.back_emf_v_per_rad_s)
+    };
+    let sector = emf(SECTORS).unwrap();
+    // The largest round coil (0.25 mm steps) whose copper, vias and pads
+    // fit the annulus and keep the spacing.
+    let round = (0..40)
+        .map(|k| 14.0 - 0.25 * k as f64)
+        .find_map(|od| {
+            emf(&SECTORS
+                .replace("shape = \"sector\"", "shape = \"circle\"")
+                .replace(
+                    "turns = \"max\"",
+                    &format!("turns = \"max\"\nouter_diameter = {od}"),
+                )
+                .replace("corner_radius = \"1mm\"", ""))
+        })
+        .unwrap();
+    assert!(sector > 1.3 * round, "sector {sector} round {round}");
 }

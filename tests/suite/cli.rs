@@ -475,7 +475,68 @@ fn catalogue() -> Vec<Case> {
             "layers = |2",
             "two copper layers",
         ),
+        case(
+            "a sector without a ring",
+            mutate("shape = \"circle\"", "shape = \"sector\"")
+                .replace("outer_diameter = \"16mm\"\n", ""),
+            "coil.shape",
+            "shape = |\"sector\"",
+            "a sector fills a slot of a ring of coils",
+        ),
+        case(
+            "a sector on a grid",
+            sectors("arrangement = \"ring\"", "arrangement = \"grid\"")
+                .replace("count = 12\n", "rows = 3\ncolumns = 4\npitch_x = 20\npitch_y = 20\n")
+                .replace("inner_diameter = \"24mm\"", "")
+                .replace("outer_diameter = \"50mm\"", "")
+                .replace("spacing = \"0.3mm\"", ""),
+            "coil.shape",
+            "shape = |\"sector\"",
+            "a sector fills a slot of a ring of coils",
+        ),
+        case(
+            "a sector's size is its slot",
+            sectors("turns = \"max\"", "turns = \"max\"\nouter_diameter = 20"),
+            "coil.outer_diameter",
+            "outer_diameter = |20",
+            "not used by a sector",
+        ),
+        case(
+            "a sector takes whole turns",
+            sectors("turns = \"max\"", "turns = 7.5"),
+            "coil.turns",
+            "turns = |7.5",
+            "not a whole number",
+        ),
+        case(
+            "too many turns for the slot",
+            sectors("turns = \"max\"", "turns = 30"),
+            "coil.turns",
+            "turns = |30",
+            "at most 11",
+        ),
+        case(
+            "a sector's terminals face out of the ring",
+            sectors("diameter = \"1mm\"", "diameter = \"1mm\"\nangle = 90"),
+            "terminal.angle",
+            "angle = |90",
+            "face out of the ring",
+        ),
+        case(
+            "a slot too small for the centre vias",
+            sectors("inner_diameter = \"24mm\"", "inner_diameter = \"4mm\""),
+            "coil.shape",
+            "shape = |\"sector\"",
+            "leaves no room for one turn",
+        ),
     ]
+}
+
+/// The gimbal-stator example (sector coils) with `from` replaced by `to`.
+fn sectors(from: &str, to: &str) -> String {
+    let text = crate::common::poles_only(include_str!("../../examples/gimbal-stator.toml"));
+    assert!(text.contains(from), "{from}");
+    text.replacen(from, to, 1)
 }
 
 /// The fan-stator example with `from` replaced by `to`.

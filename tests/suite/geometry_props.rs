@@ -265,42 +265,90 @@ proptest! {
             inner: 4.0,
             turns,
         };
-        let segs = spec.segments().unwrap();
-        // Polar angle interval swept by each segment (cumulative, from the inner end).
-        let mut acc = 0.0;
-        let spans: Vec<(f64, f64)> = segs
+        pitch_holds(&spec, &samples)?;
+    }
+
+    /// The same for annular sectors (arcs about the ring's centre, slanted
+    /// sides) whose corners are all concentric (the outline's corner radius
+    /// at least half a pitch above the innermost turn's inset).
+    #[test]
+    fn sector_pitch_is_exact(
+        count in 6u32..=12,
+        inner_radius in 14.0f64..20.0,
+        depth in 16.0f64..24.0,
+        spacing in 0.2f64..0.5,
+        extra in 0.0f64..1.0,
+        pitch in 0.15f64..0.6,
+        turns in 2u32..6,
+        samples in proptest::collection::vec((0.0f64..1.0, 0.0f64..1.0), 8),
+    ) {
+        let outer_radius = inner_radius + depth;
+        let rc = inner_radius + depth / 2.0;
+        let half = PI / count as f64;
+        let inset = (depth / 2.0).min(rc * half.sin() - spacing / 2.0 + pitch / 4.0) - 4.0;
+        let spec = SpiralSpec {
+            shape: Shape::Sector {
+                count,
+                inner_radius,
+                outer_radius,
+                spacing,
+                corner_radius: inset + pitch / 2.0 + extra,
+            },
+            corner: Corner::Sharp,
+            pitch,
+            inner: 4.0,
+            turns: turns as f64,
+        };
+        pitch_holds(&spec, &samples)?;
+    }
+}
+
+/// Every sampled point of the spiral is at least a pitch from the turns
+/// before and after it, and exactly a pitch from the next turn out.
+fn pitch_holds(spec: &SpiralSpec, samples: &[(f64, f64)]) -> Result<(), TestCaseError> {
+    let pitch = spec.pitch;
+    let segs = spec.segments().unwrap();
+    // Polar angle interval swept by each segment (cumulative, from the inner end).
+    let mut acc = 0.0;
+    let spans: Vec<(f64, f64)> = segs
+        .iter()
+        .map(|s| {
+            let a = acc;
+            acc += s.swept_about_origin();
+            (a, acc)
+        })
+        .collect();
+    for &(u, f) in samples {
+        let i = ((u * segs.len() as f64) as usize).min(segs.len() - 1);
+        let p = segs[i].point_at(f);
+        let theta = spans[i].0 + f * (spans[i].1 - spans[i].0);
+        let others: Vec<&Segment> = segs
             .iter()
-            .map(|s| {
-                let a = acc;
-                acc += s.swept_about_origin();
-                (a, acc)
-            })
+            .zip(&spans)
+            .filter(|(_, (a, b))| *b <= theta - PI / 2.0 || *a >= theta + PI / 2.0)
+            .map(|(s, _)| s)
             .collect();
-        for (u, f) in samples {
-            let i = ((u * segs.len() as f64) as usize).min(segs.len() - 1);
-            let p = segs[i].point_at(f);
-            let theta = spans[i].0 + f * (spans[i].1 - spans[i].0);
-            let others: Vec<&Segment> = segs
+        let nearest = others
+            .iter()
+            .map(|s| s.distance(p))
+            .fold(f64::INFINITY, f64::min);
+        prop_assert!(nearest >= pitch - 1e-9, "closer than a pitch: {nearest}");
+        // The next turn out is exactly one pitch away (looking inward
+        // from a sharp outer corner the gap is wider, by design).
+        if theta + TAU + 0.3 <= acc {
+            let outward = segs
                 .iter()
                 .zip(&spans)
-                .filter(|(_, (a, b))| *b <= theta - PI / 2.0 || *a >= theta + PI / 2.0)
-                .map(|(s, _)| s)
-                .collect();
-            let nearest = others.iter().map(|s| s.distance(p)).fold(f64::INFINITY, f64::min);
-            prop_assert!(nearest >= pitch - 1e-9, "closer than a pitch: {nearest}");
-            // The next turn out is exactly one pitch away (looking inward
-            // from a sharp outer corner the gap is wider, by design).
-            if theta + TAU + 0.3 <= acc {
-                let outward = segs
-                    .iter()
-                    .zip(&spans)
-                    .filter(|(_, (a, _))| *a >= theta + PI / 2.0)
-                    .map(|(s, _)| s.distance(p))
-                    .fold(f64::INFINITY, f64::min);
-                prop_assert!((outward - pitch).abs() < 1e-9, "pitch {outward} != {pitch} at {p:?}");
-            }
+                .filter(|(_, (a, _))| *a >= theta + PI / 2.0)
+                .map(|(s, _)| s.distance(p))
+                .fold(f64::INFINITY, f64::min);
+            prop_assert!(
+                (outward - pitch).abs() < 1e-9,
+                "pitch {outward} != {pitch} at {p:?}"
+            );
         }
     }
+    Ok(())
 }
 
 /// The circular spiral against the closed-form length of an Archimedean

@@ -23,7 +23,9 @@
 //!   stiffener covering every finger; KiCad's DRC runs on these boards too.
 //!
 //! - arrays (`[array]`, the fan-stator example with other counts and
-//!   connections, and its coil on a 3 x 4 grid): gerbonara and pygerber read every Gerber; shapely finds
+//!   connections, rings of sector coils from the gimbal-stator example,
+//!   and the fan-stator's coil on a 3 x 4 grid): gerbonara and pygerber
+//!   read every Gerber; shapely finds
 //!   no copper of different nets (the Gerbers' net attributes) closer than
 //!   the clearance, terminal pads aside; KiCad 6 loads
 //!   the board with one net per bus and its DRC finds 0 violations and 0
@@ -433,6 +435,20 @@ fn arrays_pass_real_readers_and_kicad() {
         crate::common::grid(3, 4, "14mm", "17mm"),
         true,
     ));
+    // Sector coils (the gimbal-stator example, and a 9-coil delta on six
+    // layers): arcs about the ring's centre, slanted sides.
+    let sectors = include_str!("../../examples/gimbal-stator.toml");
+    cases.push(("sectors 12/14 star".into(), sectors.to_string(), false));
+    cases.push((
+        "sectors 9/8 delta 6 layers".into(),
+        crate::common::poles_only(sectors)
+            .replace("count = 12", "count = 9")
+            .replace("poles = 14", "poles = 8")
+            .replace("connection = \"star\"", "connection = \"delta\"")
+            .replace("neutral = true ", "neutral = false ")
+            .replace("layers = 4 ", "layers = 6 "),
+        false,
+    ));
     for (i, (label, text, separate)) in cases.iter().enumerate() {
         let (d, board) = coilwright::pipeline::parse_and_build(text).unwrap();
         let dir = root.join(format!("stator-{i}"));
@@ -447,6 +463,14 @@ fn arrays_pass_real_readers_and_kicad() {
                 vec![checks.to_str().unwrap(), "phase_walk", dir_s],
             )
         });
+        if label.starts_with("sectors") {
+            // Turn to turn in every sector coil, and every drill hit on
+            // copper of exactly the layers it joins (shapely, gerbonara).
+            match run(py.as_path(), &[checks.to_str().unwrap(), "geometry", dir_s]) {
+                Ok(t) => println!("{label}: {t}"),
+                Err(e) => errors.push_str(&format!("{label}: {e}\n")),
+            }
+        }
         for (prog, args) in [
             (
                 py.as_path(),

@@ -137,13 +137,53 @@ fn rotor_field_and_flux_match_magpylib() {
 /// reference).
 #[test]
 fn flux_through_real_copper_matches_magpylib() {
-    use coilwright::physics::conductor::Conductor;
     let text = std::fs::read_to_string(root().join("examples/fan-stator.toml")).unwrap();
     // The example's coil alone (no array), moved under the magnet ring.
     let single: String = text.split("[array]").next().unwrap().to_string();
     let (design, board) = coilwright::pipeline::parse_and_build(&single).unwrap();
-    let cond = Conductor::new(&design, &board);
-    let shift = 0.0205;
+    let magnets = RotorMagnets {
+        magnet: RotorMagnet::Cylinder { diameter: 10.0 },
+        thickness: 3.0,
+        remanence: 1.25,
+        gap: 1.0,
+        pitch_diameter: 41.0,
+        discs: 1,
+    };
+    copper_flux_against_magpylib(&design, &board, 0.0205, 6, magnets);
+}
+
+/// The same for a sector coil of the gimbal-stator example (arcs about
+/// the ring's centre, slanted sides), in its slot of the ring under ten
+/// cylinder magnets passing over it.
+#[test]
+fn flux_through_sector_copper_matches_magpylib() {
+    let text = std::fs::read_to_string(root().join("examples/gimbal-stator.toml")).unwrap();
+    let design = coilwright::pipeline::parse(&text).unwrap();
+    // The coil alone at the origin: its ring's centre is 18.5 mm on -x.
+    let board = coilwright::geometry::build(&design).unwrap();
+    let magnets = RotorMagnets {
+        magnet: RotorMagnet::Cylinder { diameter: 10.0 },
+        thickness: 2.0,
+        remanence: 1.3,
+        gap: 0.6,
+        pitch_diameter: 37.0,
+        discs: 1,
+    };
+    copper_flux_against_magpylib(&design, &board, 0.0185, 10, magnets);
+}
+
+/// Layer 1 of the coil on `board` (built at the origin), moved `shift` m
+/// along x under `poles` `magnets`: its flux at three rotor angles against
+/// magpylib (tests/interop/rotor_copper_magpylib.py).
+fn copper_flux_against_magpylib(
+    design: &coilwright::design::Design,
+    board: &coilwright::geometry::Board,
+    shift: f64,
+    poles: u32,
+    magnets: RotorMagnets,
+) {
+    use coilwright::physics::conductor::Conductor;
+    let cond = Conductor::new(design, board);
     let top: Vec<Filament> = cond
         .balanced_filaments(coilwright::physics::rotor::SAGITTA)
         .into_iter()
@@ -166,20 +206,12 @@ fn flux_through_real_copper_matches_magpylib() {
         b: top[0].a,
         ..top[0]
     });
-    let magnets = RotorMagnets {
-        magnet: RotorMagnet::Cylinder { diameter: 10.0 },
-        thickness: 3.0,
-        remanence: 1.25,
-        gap: 1.0,
-        pitch_diameter: 41.0,
-        discs: 1,
-    };
-    let src = RotorSource::new(6, &magnets, -1.0e-3);
+    let src = RotorSource::new(poles, &magnets, -1.0e-3);
     let c = Coupling::new(&src, &closed);
     let thetas = [0.0, 0.3, 0.7];
     let ours: Vec<f64> = thetas.iter().map(|t| c.at(*t).0).collect();
     let path: Vec<[f64; 2]> = closed.iter().map(|f| [f.a[0], f.a[1]]).collect();
-    let case = json!({"poles": 6, "rotor": magnets, "z": top[0].a[2], "path": path,
+    let case = json!({"poles": poles, "rotor": magnets, "z": top[0].a[2], "path": path,
                       "thetas": thetas, "ours": ours});
     let dir = tempfile::tempdir().unwrap();
     let file = dir.path().join("copper.json");

@@ -28,6 +28,24 @@ pub(super) struct CoilInput {
 }
 
 impl CoilInput {
+    /// Whether the coil is a sector (its slot still to be given).
+    pub fn is_sector(&self) -> bool {
+        matches!(self.shape, Shape::Sector { .. })
+    }
+
+    /// The gap between turns, mm.
+    pub fn clearance(&self) -> f64 {
+        self.clearance
+    }
+
+    /// Gives a sector its slot of the ring: count, inner and outer
+    /// diameter, spacing ([`complete_sector`]).
+    pub fn set_slot(&mut self, ring: (u32, f64, f64, f64)) {
+        if let Some(s) = complete_sector(self.shape, Some(ring)) {
+            self.shape = s;
+        }
+    }
+
     /// The request, once reading found no problem.
     pub fn into_request(self) -> CoilRequest {
         CoilRequest {
@@ -90,7 +108,23 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
                 height: h,
             };
         }
+        3 => {
+            // The ring's sizes are filled in once [array] is read
+            // (`complete_sector`).
+            shape = Shape::Sector {
+                count: 0,
+                inner_radius: 0.0,
+                outer_radius: 0.0,
+                spacing: 0.0,
+                corner_radius: cx
+                    .length(t, "corner_radius", Sign::Positive)
+                    .unwrap_or(SECTOR_CORNER_PITCHES * (trace_width + clearance)),
+            };
+        }
         _ => {}
+    }
+    if shape_i == 3 {
+        return read_sector_rest(cx, t, shape, trace_width, clearance);
     }
     if shape_i != 1 && t.has("sides") {
         cx.err(
@@ -299,4 +333,114 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
         wiring,
         corner,
     })
+}
+
+/// Default corner radius of a sector's outline: four pitches (common
+/// practice, no source: corners round enough to etch well, small enough
+/// to keep the slot filled), so the four outermost turns have concentric
+/// corners.
+pub const SECTOR_CORNER_PITCHES: f64 = 4.0;
+
+/// The rest of `[coil]` for a sector: its size is its slot of the ring, so
+/// it takes `turns` (a whole number, or "max") and no diameters; its
+/// corners are always round (`corner_radius`, default
+/// [`SECTOR_CORNER_PITCHES`] pitches).
+fn read_sector_rest(
+    cx: &mut Ctx,
+    t: &Table,
+    shape: Shape,
+    trace_width: f64,
+    clearance: f64,
+) -> Option<CoilInput> {
+    for k in ["outer_diameter", "inner_diameter"] {
+        if t.has(k) {
+            cx.err(
+                t.key(k),
+                t.span_of(k),
+                "not used by a sector, which fills its slot of the [array] ring",
+                Some("remove it; the ring's inner_diameter and outer_diameter size the sector, turns says how many turns".into()),
+            );
+        }
+    }
+    if t.has("corner") {
+        cx.err(
+            t.key("corner"),
+            t.span_of("corner"),
+            "a sector's corners are always round",
+            Some("remove it; corner_radius sets the outline's corner radius".into()),
+        );
+    }
+    let whole = "a whole number of turns per layer from 1, or \"max\" (a sector's layers end on its outer arc)";
+    let turns = match t.get("turns") {
+        None => {
+            cx.missing(t, "turns", Some(whole.into()));
+            None
+        }
+        Some(v) => match v.get_ref() {
+            DeValue::String(s) if s.as_ref() == "max" => Some(TurnsRequest::Max),
+            _ => match cx.number(t, "turns", 1.0, MAX_TURNS, whole) {
+                Some(n) if n.fract() != 0.0 => {
+                    cx.err(
+                        t.key("turns"),
+                        t.span_of("turns"),
+                        format!("{n} is not a whole number: a sector's layers end on its outer arc, facing out of the ring"),
+                        Some(format!("use turns = {} or {}, or \"max\"", n.floor(), n.ceil())),
+                    );
+                    None
+                }
+                n => n.map(TurnsRequest::Count),
+            },
+        },
+    };
+    let layers = if t.has("layers") {
+        cx.integer(t, "layers", 1, 32).map(|n| n as u8)
+    } else {
+        cx.missing(t, "layers", Some("a whole number from 1 to 32".into()));
+        None
+    };
+    let wiring = match cx.choice(t, "wiring") {
+        Some(1) => Wiring::ParallelPairs,
+        _ => Wiring::Series,
+    };
+    if wiring == Wiring::ParallelPairs
+        && let Some(n) = layers
+        && (!n.is_multiple_of(2) || n == 2)
+    {
+        cx.err(
+            t.key("wiring"),
+            t.span_of("wiring"),
+            format!("parallel-pairs wiring needs 4, 6, ... layers, but layers = {n}"),
+            Some("use 4, 6, ... layers or wiring = \"series\"".into()),
+        );
+    }
+    Some(CoilInput {
+        shape,
+        outer_diameter: None,
+        inner_diameter: None,
+        turns,
+        trace_width,
+        clearance,
+        layers,
+        wiring,
+        corner: Corner::Sharp,
+    })
+}
+
+/// Gives a sector its slot: the ring's count and annulus and the spacing
+/// between coils (`spacing`, or the clearance). `None` when there is no
+/// ring (the caller reports it).
+pub(super) fn complete_sector(shape: Shape, ring: Option<(u32, f64, f64, f64)>) -> Option<Shape> {
+    match shape {
+        Shape::Sector { corner_radius, .. } => {
+            let (count, inner_diameter, outer_diameter, spacing) = ring?;
+            Some(Shape::Sector {
+                count,
+                inner_radius: inner_diameter / 2.0,
+                outer_radius: outer_diameter / 2.0,
+                spacing,
+                corner_radius,
+            })
+        }
+        s => Some(s),
+    }
 }

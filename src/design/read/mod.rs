@@ -64,7 +64,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let array_t = cx.table(&root, "array");
     let rotor_t = cx.table(&root, "rotor");
 
-    let coil = coil::read(&mut cx, &coil_t);
+    let mut coil = coil::read(&mut cx, &coil_t);
     let layers = coil.as_ref().and_then(|c| c.layers);
     // Layers in series, or pairs in parallel: the windings the current
     // passes one after another.
@@ -77,7 +77,7 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let stackup = stackup::read(&mut cx, &stackup_t, layers);
     let via = holes::read(&mut cx, &via_t, holes::VIA);
     let terminal = holes::read(&mut cx, &terminal_t, holes::TERMINAL);
-    let terminal_place = holes::read_place(&mut cx, &terminal_t, groups);
+    let mut terminal_place = holes::read_place(&mut cx, &terminal_t, groups);
     let board = board::read(&mut cx, &board_t);
     let rules = rules::read(&mut cx, &rules_t);
     let magnet = magnet::read(&mut cx, &magnet_t);
@@ -86,6 +86,15 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
     let tail = tail::read(&mut cx, &tail_t, stackup.kind);
     let rotor = rotor::read(&mut cx, &rotor_t);
     let array = array::read(&mut cx, &array_t, rotor.as_ref());
+    if let Some(c) = coil.as_mut().filter(|c| c.is_sector()) {
+        sector_slot(
+            &mut cx,
+            c,
+            array.as_ref(),
+            (&coil_t, &array_t, &terminal_t),
+            &mut terminal_place,
+        );
+    }
     // A rotor turns over a ring of coils: its magnets need one.
     let ring =
         array.is_some_and(|a| matches!(a.arrangement, super::model::Arrangement::Ring { .. }));
@@ -144,4 +153,47 @@ pub fn read(text: &str, limits: &[LimitKey]) -> Result<DesignRequest, DesignErro
         rotor,
         spans: KeySpans::of(doc.get_ref()),
     })
+}
+
+/// A sector fills a slot of the `[array]` ring: gives it the ring's sizes,
+/// or says it needs a ring. Its terminals face out of the ring (terminal
+/// angle 0, where its layers end and the buses run).
+fn sector_slot(
+    cx: &mut Ctx,
+    c: &mut coil::CoilInput,
+    array: Option<&super::model::Array>,
+    (coil_t, array_t, terminal_t): (&Table, &Table, &Table),
+    place: &mut super::model::TerminalPlace,
+) {
+    use super::model::Arrangement;
+    match array.map(|a| a.arrangement) {
+        Some(Arrangement::Ring {
+            count,
+            inner_diameter,
+            outer_diameter,
+            spacing,
+        }) => c.set_slot((
+            count,
+            inner_diameter,
+            outer_diameter,
+            spacing.unwrap_or(c.clearance()),
+        )),
+        // A bad [array] has been reported already.
+        None if array_t.present() => {}
+        _ => cx.err(
+            coil_t.key("shape"),
+            coil_t.span_of("shape"),
+            "a sector fills a slot of a ring of coils, and this design has no ring",
+            Some("add [array] with arrangement = \"ring\", count, inner_diameter and outer_diameter, or use another shape".into()),
+        ),
+    }
+    if terminal_t.has("angle") && place.angle_deg != 0.0 {
+        cx.err(
+            terminal_t.key("angle"),
+            terminal_t.span_of("angle"),
+            "a sector's terminals face out of the ring, where its layers end: the angle is 0",
+            Some("remove angle or set angle = 0".into()),
+        );
+    }
+    place.angle_deg = 0.0;
 }

@@ -4,7 +4,8 @@
 //!
 //! Each shape's builder makes whole turns (`circle.rs`: two-centre
 //! semicircles; `polygon.rs`: offset sides with concentric corners, for
-//! polygons and rectangles), chosen by [`Shape`]'s `whole_spiral`
+//! polygons and rectangles; `sector.rs`: annular sectors with arcs about
+//! the ring's centre), chosen by [`Shape`]'s `whole_spiral`
 //! (`geometry/shape.rs`); [`SpiralSpec::segments`] then cuts them at the
 //! requested turns.
 //!
@@ -13,8 +14,10 @@
 
 mod circle;
 mod polygon;
+mod sector;
 
 pub(super) use polygon::intersect;
+pub(in crate::geometry) use sector::{SectorOutline, shifted};
 
 use super::{Segment, angle_between};
 use crate::design::{Corner, Shape};
@@ -31,7 +34,8 @@ pub struct SpiralSpec {
     pub pitch: f64,
     /// Distance of the inner end (on the +x axis) from the axis, mm: for a
     /// circle the inner end's radius, for a polygon the innermost apothem,
-    /// for a rectangle the innermost half width.
+    /// for a rectangle the innermost half width; for a sector the smallest
+    /// distance of the innermost turn's centre line from the axis.
     pub inner: f64,
     /// Turns (may be fractional), > 0.
     pub turns: f64,
@@ -68,13 +72,16 @@ impl SpiralSpec {
         Ok(cut_at_polar_angle(&full, TAU * self.turns))
     }
 
-    /// A closed path one pitch outside a polygon or rectangle spiral built
-    /// by [`SpiralSpec::segments`] (`None` for a circle): the sides of the
+    /// A closed path one pitch outside a polygon, rectangle or sector
+    /// spiral built by [`SpiralSpec::segments`] (`None` for a circle): the sides of the
     /// turn after the last, with the same corners (concentric with the
     /// winding's, so the gap is exactly one pitch), closed by one sharp
     /// corner away from the spiral's outer end. Starts at that sharp corner
     /// and runs counter-clockwise.
     pub fn lead_ring(&self, segs: &[Segment]) -> Option<Vec<Segment>> {
+        if let Some(g) = SectorOutline::of(&self.shape) {
+            return Some(self.sector_lead_ring(&g, segs));
+        }
         let bases = self.shape.side_bases(self.inner)?;
         Some(self.polygon_lead_ring(&bases, segs))
     }

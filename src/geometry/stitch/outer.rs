@@ -40,7 +40,7 @@ impl OuterSlots {
         let coil = &design.coil;
         let (w, s, p) = (coil.trace_width, coil.clearance, coil.pitch());
         let (via_d, term_d) = (design.via.diameter, design.terminal_land());
-        let lead_ring = match (coil.shape.sides(), &canonical.lead_loop) {
+        let lead_ring = match (coil.shape.ring_sides(), &canonical.lead_loop) {
             (Some(sides), Some(l)) => {
                 let mut segs = l.segs.clone();
                 if coil.layers > 1 {
@@ -87,6 +87,19 @@ impl OuterSlots {
             .collect();
         let need = slots.need(design);
         let outer_angles: Vec<f64> = match &canonical.lead_loop {
+            Some(_) if coil.shape.whole_turns() && no > 1 => {
+                // A sector's layers all end on its outer arc, at the
+                // terminal angle: the slots stand in a row along the outer
+                // arc, terminal 1 at that angle, terminal 2 next to it
+                // counter-clockwise, the junction vias next to it clockwise.
+                let junctions = no - 1 - usize::from(ends_outside);
+                let mut a = vec![a0];
+                a.extend(walk_from(&via_at, a0, junctions, 1.02 * need, -1.0));
+                if ends_outside {
+                    a.push(a0 + terminal_step);
+                }
+                a
+            }
             Some(_) if no > 1 + usize::from(ends_outside) => {
                 // Junction vias next to the layers' outer ends, which sit near
                 // the x axis on both sides (mirrored layers): cluster them on
@@ -209,28 +222,39 @@ impl OuterSlots {
 fn cluster_on(ring: &impl Fn(f64) -> Point, n: usize, at: f64, need: f64) -> Vec<f64> {
     let walk = |start: f64| {
         let mut out = vec![start];
-        for _ in 1..n {
-            let prev = *out.last().unwrap_or(&start);
-            let p = ring(prev);
-            // Smallest increment reaching `need`, by doubling then bisection.
-            let (mut lo, mut hi) = (0.0, 1e-3);
-            while p.distance(ring(prev + hi)) < need && hi < TAU {
-                lo = hi;
-                hi *= 2.0;
-            }
-            for _ in 0..24 {
-                let mid = 0.5 * (lo + hi);
-                if p.distance(ring(prev + mid)) < need {
-                    lo = mid;
-                } else {
-                    hi = mid;
-                }
-            }
-            out.push(prev + hi);
-        }
+        out.extend(walk_from(ring, start, n.saturating_sub(1), need, 1.0));
         out
     };
     let first = walk(at);
     let span = first.last().copied().unwrap_or(at) - at;
     walk(at - span / 2.0)
+}
+
+/// `n` polar angles of points on `ring` after `start`, each `need` from
+/// the one before (straight-line distance), going counter-clockwise for
+/// `sign` 1, clockwise for -1.
+fn walk_from(ring: &impl Fn(f64) -> Point, start: f64, n: usize, need: f64, sign: f64) -> Vec<f64> {
+    let mut out = Vec::with_capacity(n);
+    let mut prev = start;
+    for _ in 0..n {
+        let p = ring(prev);
+        let at = |d: f64| ring(prev + sign * d);
+        // Smallest increment reaching `need`, by doubling then bisection.
+        let (mut lo, mut hi) = (0.0, 1e-3);
+        while p.distance(at(hi)) < need && hi < TAU {
+            lo = hi;
+            hi *= 2.0;
+        }
+        for _ in 0..24 {
+            let mid = 0.5 * (lo + hi);
+            if p.distance(at(mid)) < need {
+                lo = mid;
+            } else {
+                hi = mid;
+            }
+        }
+        prev += sign * hi;
+        out.push(prev);
+    }
+    out
 }
