@@ -187,7 +187,26 @@ fn report_gives_the_values_at_the_drive_frequency() {
         rac > r_hot * 1.2,
         "skin and proximity raise R: {rac} {r_hot}"
     );
-    assert!((q - std::f64::consts::TAU * f * l / rac).abs() < 1e-9 * q);
+    let l_ac = j["inductance_h_ac"].as_f64().unwrap();
+    assert_eq!(l_ac, j["impedance"]["inductance_h"].as_f64().unwrap());
+    assert!(l_ac < l && l_ac > 0.99 * l, "{l_ac} {l}");
+    assert!((q - std::f64::consts::TAU * f * l_ac / rac).abs() < 1e-9 * q);
+    // L(f): at low frequency the DC inductance (1e-6); it falls with f; at
+    // high frequency the fall settles at the internal inductance of the
+    // copper at DC (the section solution's flux inside the copper, which
+    // for a round wire is the exact mu0 / (8 pi) per length:
+    // physics::section's round-wire test against the Bessel solution).
+    assert!((a.ac.inductance(1.0) / l - 1.0).abs() < 1e-6);
+    let fs = [1e3, 1e5, 1e6, 1e7, 1e8, 1e9, 1e10];
+    for w in fs.windows(2) {
+        assert!(a.ac.inductance(w[1]) <= a.ac.inductance(w[0]));
+    }
+    let (d12, d14) = (l - a.ac.inductance(1e12), l - a.ac.inductance(1e14));
+    assert!(d12 > 0.0 && (d12 / d14 - 1.0).abs() < 0.02, "{d12} {d14}");
+    // The reactive part of the proximity effect, left out, is bounded by
+    // 3 % of L (the perfect-conductor limit: 2.6 % here).
+    let bound = a.ac.proximity_inductance_bound();
+    assert!(bound > 0.0 && bound < 0.03 * l, "{bound} {l}");
     assert_eq!(q, a.q_at(f));
     assert_eq!(j["impedance"]["q"].as_f64().unwrap(), q);
     assert!(
