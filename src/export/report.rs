@@ -165,7 +165,12 @@ fn impedance_plot(a: &Analysis) -> String {
         .collect();
     let xl: Vec<(f64, f64)> = r
         .iter()
-        .map(|p| (p.frequency_hz, std::f64::consts::TAU * p.frequency_hz * p.inductance_h))
+        .map(|p| {
+            (
+                p.frequency_hz,
+                std::f64::consts::TAU * p.frequency_hz * p.inductance_h,
+            )
+        })
         .collect();
     let mut marks = Vec::new();
     let srf = a.capacitance.self_resonance_hz;

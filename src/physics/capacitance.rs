@@ -413,8 +413,8 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
                     }
                 } else {
                     let (wi, wj) = (c.width, o.width);
-                    let overlap = ((wi + wj) / 2.0 - super::conductor::m(lat.abs()))
-                        .clamp(0.0, wi.min(wj));
+                    let overlap =
+                        ((wi + wj) / 2.0 - super::conductor::m(lat.abs())).clamp(0.0, wi.min(wj));
                     if overlap <= 0.0 {
                         continue;
                     }
@@ -465,7 +465,9 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
             }
         }
         let n = a + b + 1;
-        let table = tables[n].get_or_insert_with(|| strip_partials(ratio, n)).clone();
+        let table = tables[n]
+            .get_or_insert_with(|| strip_partials(ratio, n))
+            .clone();
         let li = (c.layer as usize).saturating_sub(1).min(eps.len() - 1);
         let vi = (c.volt.0 + c.volt.1) / 2.0;
         let len = c.length();

@@ -93,7 +93,11 @@ fn capacitance_formulas_match_finite_elements() {
     // model (the method-of-moments partial capacitances of the whole run,
     // coupling past the next trace included).
     let mut array = Vec::new();
-    for (w, s, n) in [(0.15e-3, 0.15e-3, 4usize), (0.6e-3, 0.4e-3, 4), (0.1e-3, 0.1e-3, 8)] {
+    for (w, s, n) in [
+        (0.15e-3, 0.15e-3, 4usize),
+        (0.6e-3, 0.4e-3, 4),
+        (0.1e-3, 0.1e-3, 8),
+    ] {
         let volts: Vec<f64> = (0..n).map(|k| k as f64 / (n - 1) as f64 - 0.5).collect();
         array.push(serde_json::json!({
             "w": w, "s": s, "t": t, "er": er, "n": n,
@@ -115,12 +119,26 @@ fn capacitance_formulas_match_finite_elements() {
     ] {
         let p = w + s;
         let top: Vec<f64> = (0..n).map(|k| k as f64 / (2 * n) as f64).collect();
-        let bottom: Vec<f64> = (0..n).map(|k| 1.0 - (k + 1) as f64 / (2 * n) as f64).collect();
+        let bottom: Vec<f64> = (0..n)
+            .map(|k| 1.0 - (k + 1) as f64 / (2 * n) as f64)
+            .collect();
         let mut traces = Vec::new();
         for k in 0..n {
             let x = k as f64 * p;
-            traces.push([x - w / 2.0, x + w / 2.0, h / 2.0, h / 2.0 + tc, top[k] - 0.5]);
-            traces.push([x - w / 2.0, x + w / 2.0, -h / 2.0 - tc, -h / 2.0, bottom[k] - 0.5]);
+            traces.push([
+                x - w / 2.0,
+                x + w / 2.0,
+                h / 2.0,
+                h / 2.0 + tc,
+                top[k] - 0.5,
+            ]);
+            traces.push([
+                x - w / 2.0,
+                x + w / 2.0,
+                -h / 2.0 - tc,
+                -h / 2.0,
+                bottom[k] - 0.5,
+            ]);
         }
         let e_in = run_energy(w, s, tc, (er2 + 1.0) / 2.0, &top)
             + run_energy(w, s, tc, (er2 + 1.0) / 2.0, &bottom);
