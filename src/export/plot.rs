@@ -435,7 +435,7 @@ pub fn line_plot_scaled(
     );
     // Series, then the markers over them.
     let mut curves = Vec::new();
-    for (i, (name, pts)) in series.iter().enumerate() {
+    for (i, (_, pts)) in series.iter().enumerate() {
         let c = COLOURS[i % COLOURS.len()];
         let d: Vec<String> = pts
             .iter()
@@ -461,9 +461,50 @@ pub fn line_plot_scaled(
                 .map(|&(x, y)| (px(x), py(y)))
                 .collect::<Vec<_>>(),
         );
-        if series.len() > 1 {
-            let ly = t + 14.0 + 16.0 * i as f64;
-            let lx = w - r - 150.0;
+    }
+    let area = (px(xa), py(yb), px(xb), py(ya));
+    // The legend (several series): in the first corner of the plot where
+    // it covers no curve and no marker line (top right, top left, bottom
+    // left, bottom right), else the first such place along the bottom or
+    // the top, else a corner with no curve, else the top right; labels
+    // keep off it.
+    let mut taken: Vec<PxBox> = Vec::new();
+    if series.len() > 1 {
+        let (lw, lh) = (154.0, 16.0 + 16.0 * series.len() as f64);
+        let (right, left) = (w - r - lw, area.0 + 4.0);
+        let (top, bottom) = (t + 4.0, area.3 - 4.0 - lh);
+        let corners = [(right, top), (left, top), (left, bottom), (right, bottom)];
+        // Then along the bottom and the top, from the right, between the
+        // marker lines.
+        let steps = ((right - left) / 10.0).max(0.0) as usize;
+        let along: Vec<(f64, f64)> = [bottom, top]
+            .into_iter()
+            .flat_map(|y| (0..=steps).map(move |k| (right - 10.0 * k as f64, y)))
+            .collect();
+        let clear = |&(x, y): &(f64, f64)| {
+            !curves.iter().any(|c| {
+                c.windows(2)
+                    .any(|s| segment_hits(s[0], s[1], (x, y, x + lw, y + lh)))
+            })
+        };
+        let marks: Vec<f64> = markers
+            .iter()
+            .filter(|m| m.at.is_finite())
+            .map(|m| px(m.at))
+            .collect();
+        let off_marks =
+            |&(x, _): &(f64, f64)| !marks.iter().any(|m| *m > x - 1.0 && *m < x + lw + 1.0);
+        let (bx, by) = corners
+            .iter()
+            .copied()
+            .chain(along.iter().copied())
+            .find(|c| clear(c) && off_marks(c))
+            .or_else(|| corners.iter().copied().find(clear))
+            .unwrap_or(corners[0]);
+        for (i, (name, _)) in series.iter().enumerate() {
+            let c = COLOURS[i % COLOURS.len()];
+            let ly = by + 10.0 + 16.0 * i as f64;
+            let lx = bx + 4.0;
             let _ = writeln!(
                 s,
                 r#"<line x1="{lx}" y1="{ly}" x2="{}" y2="{ly}" stroke="{c}" stroke-width="2"/>"#,
@@ -477,19 +518,8 @@ pub fn line_plot_scaled(
                 esc(name)
             );
         }
+        taken.push((bx, by, bx + lw, by + lh));
     }
-    // The legend (several series) is in the top right: labels keep off it.
-    let mut taken: Vec<PxBox> = Vec::new();
-    if series.len() > 1 {
-        let lx = w - r - 150.0;
-        taken.push((
-            lx - 4.0,
-            t + 4.0,
-            w - r,
-            t + 20.0 + 16.0 * series.len() as f64,
-        ));
-    }
-    let area = (px(xa), py(yb), px(xb), py(ya));
     let shown: Vec<&Marker> = markers.iter().filter(|m| m.at.is_finite()).collect();
     // Labels keep off the dots too.
     for m in &shown {

@@ -155,7 +155,6 @@ pub fn plots(design: &Design, board: &Board, a: &Analysis) -> Vec<(String, &'sta
 /// and the drive frequency marked.
 fn impedance_plot(a: &Analysis) -> String {
     let r = &a.response;
-    let l = a.inductance.inductance_h;
     let z: Vec<(f64, f64)> = r
         .iter()
         .map(|p| (p.frequency_hz, p.impedance_ohm))
@@ -166,7 +165,12 @@ fn impedance_plot(a: &Analysis) -> String {
         .collect();
     let xl: Vec<(f64, f64)> = r
         .iter()
-        .map(|p| (p.frequency_hz, std::f64::consts::TAU * p.frequency_hz * l))
+        .map(|p| {
+            (
+                p.frequency_hz,
+                std::f64::consts::TAU * p.frequency_hz * p.inductance_h,
+            )
+        })
         .collect();
     let mut marks = Vec::new();
     let srf = a.capacitance.self_resonance_hz;
@@ -934,8 +938,9 @@ fn inductance(i: &InductanceReport, impedance: Option<&Impedance>) -> String {
     if let Some(z) = impedance {
         let _ = writeln!(
             s,
-            "- at {}: reactance {} ohm, |Z| {} ohm, Q {}; skin depth {:.1} um",
+            "- at {}: L(f) {}, reactance {} ohm, |Z| {} ohm, Q {}; skin depth {:.1} um",
             si_given(z.frequency_hz, "Hz"),
+            si(z.inductance_h, "H"),
             sig(z.reactance_ohm, 4),
             sig(z.impedance_ohm, 4),
             sig(z.q, 3),
@@ -972,7 +977,7 @@ fn at_frequency(a: &Analysis) -> String {
     if let Some(z) = &a.impedance {
         let _ = writeln!(
             s,
-            "- at {}: AC resistance {} ohm ({} ohm of it from the proximity effect; DC {} ohm), Q {} (omega L / R_ac), |Z| {} ohm at {:.1} deg (with the self-capacitance), {:.3} of the self-resonance",
+            "- at {}: AC resistance {} ohm ({} ohm of it from the proximity effect; DC {} ohm), Q {} (omega L(f) / R_ac), |Z| {} ohm at {:.1} deg (with the self-capacitance), {:.3} of the self-resonance",
             si_given(z.frequency_hz, "Hz"),
             sig(z.resistance_ac_ohm, 4),
             sig(z.proximity_ohm, 3),
@@ -997,7 +1002,7 @@ fn at_frequency(a: &Analysis) -> String {
             );
         }
     }
-    s.push_str("- lumped model: (R_ac + j omega L) in parallel with the self-capacitance, L constant; plot: plots/impedance.svg\n\n");
+    s.push_str("- lumped model: (R_ac + j omega L(f)) in parallel with the self-capacitance, L(f) less the internal inductance the skin effect takes; plot: plots/impedance.svg\n\n");
     s
 }
 

@@ -171,7 +171,7 @@ impl Serialize for Analysis {
         let magnet = self.magnet.as_ref();
         let fin = self.fin.as_ref();
         let (d, h) = (&self.drive, &self.heating);
-        let mut s = serializer.serialize_struct("Analysis", 62)?;
+        let mut s = serializer.serialize_struct("Analysis", 63)?;
         s.serialize_field("trace_length_mm", &r.trace_length_mm)?;
         s.serialize_field("resistance_ohm_20c", &r.total_ohm_20c)?;
         s.serialize_field("resistance_ohm_hot", &t.resistance_ohm_hot)?;
@@ -242,6 +242,7 @@ impl Serialize for Analysis {
         s.serialize_field("inputs", &self.inputs)?;
         let z = self.impedance.as_ref();
         s.serialize_field("resistance_ohm_ac", &z.map(|z| z.resistance_ac_ohm))?;
+        s.serialize_field("inductance_h_ac", &z.map(|z| z.inductance_h))?;
         s.serialize_field("capacitance_f", &self.capacitance.capacitance_f)?;
         s.serialize_field(
             "self_resonance_hz",

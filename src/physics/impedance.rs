@@ -42,9 +42,21 @@
 //! percent where the skin effect starts).
 //!
 //! # Impedance
-//! `L(f)` is taken constant (the skin effect lowers the internal
-//! inductance of a flat trace by well under 1 % of a coil's). `Z = Z_s /
-//! (1 + j omega C Z_s)`, `Z_s = R_ac + j omega L`; `q` is `omega L /
+//! `L(f) = L_dc - sum over tracks mu0 l d(t / delta)`: the skin effect
+//! pushes the current to the section's surface and takes away flux
+//! inside the copper; `d` is the drop of the section's inductance per
+//! length from the same section solution as `R_ac`
+//! ([`SectionTable::inductance_drop`]; for a round wire the same method
+//! gives the exact Bessel-function internal inductance, `mu0 / (8 pi)`
+//! at DC, tests in `super::section`), weighted by each parallel winding's
+//! share squared. At DC `L(f)` is the GMD-based inductance, which counts
+//! the DC internal inductance already. The eddy currents of the
+//! proximity effect take some inductance too (their reactive part); it is
+//! left out, bounded by [`AcModel::proximity_inductance_bound`] (the
+//! perfect-conductor limit, 2.6 % of L on the tag reader:
+//! tests/suite/ac.rs; the real part at 6.78 MHz is smaller). The
+//! self-resonance uses `L_dc`. `Z = Z_s / (1 + j omega C Z_s)`, `Z_s =
+//! R_ac + j omega L(f)`; `q` is `omega L(f) /
 //! R_ac` (the coil's Q as link formulas use it) and `q_terminals` the ratio
 //! `Im Z / Re Z` of the lumped model, which falls to zero at
 //! self-resonance.
@@ -73,12 +85,14 @@ use std::f64::consts::PI;
 pub struct Impedance {
     /// Frequency, Hz.
     pub frequency_hz: f64,
-    /// Reactance 2 pi f L, ohm.
+    /// Inductance at this frequency, `L(f)`, H.
+    pub inductance_h: f64,
+    /// Reactance 2 pi f L(f), ohm.
     pub reactance_ohm: f64,
     /// Magnitude of the lumped model's impedance (AC resistance, L and
     /// the self-capacitance), ohm.
     pub impedance_ohm: f64,
-    /// Q of the coil, `omega L / R_ac` (AC resistance at the operating
+    /// Q of the coil, `omega L(f) / R_ac` (AC resistance at the operating
     /// temperature).
     pub q: f64,
     /// Skin depth in copper at the operating temperature, um.
@@ -121,11 +135,13 @@ pub struct ResponsePoint {
     pub frequency_hz: f64,
     /// AC resistance, ohm.
     pub resistance_ohm: f64,
+    /// Inductance `L(f)`, H.
+    pub inductance_h: f64,
     /// `|Z|` of the lumped model, ohm.
     pub impedance_ohm: f64,
     /// Phase of `Z`, degrees.
     pub phase_deg: f64,
-    /// `omega L / R_ac`.
+    /// `omega L(f) / R_ac`.
     pub q: f64,
 }
 
@@ -175,6 +191,8 @@ pub struct AcModel {
 struct AcAt {
     r: f64,
     prox: f64,
+    /// Internal inductance lost to the skin effect, H.
+    drop: f64,
     shares: Vec<(u8, f64, f64, f64)>,
 }
 
@@ -325,6 +343,17 @@ impl AcModel {
                 .map(|(a, t, r)| r * self.heat * SectionTable::cached(*a).skin(t / delta))
                 .sum()
         };
+        // The tracks' length from their DC resistance: r = rho l / (a t^2).
+        let branch_drop = |b: &Branch| -> f64 {
+            b.terms
+                .iter()
+                .map(|(a, t, r)| {
+                    let len = r * a * t * t / RHO_20;
+                    MU0 * len * SectionTable::cached(*a).inductance_drop(t / delta)
+                })
+                .sum()
+        };
+        let mut drop = 0.0;
         let groups = self.branches.iter().map(|b| b.group + 1).max().unwrap_or(0);
         let mut r = 0.0;
         let mut shares = Vec::new();
@@ -332,6 +361,7 @@ impl AcModel {
             let members: Vec<&Branch> = self.branches.iter().filter(|b| b.group == g).collect();
             if members.len() == 1 {
                 r += branch_r(members[0]);
+                drop += branch_drop(members[0]);
                 continue;
             }
             // Admittances of the branches, then each one's share.
@@ -356,6 +386,7 @@ impl AcModel {
                 let si = (yi * ys_re - yr * ys_im) / ys2;
                 let mag2 = sr * sr + si * si;
                 r += mag2 * rb;
+                drop += mag2 * branch_drop(b);
                 shares.push((b.layer, mag2.sqrt(), b.share_dc, si.atan2(sr).to_degrees()));
             }
         }
@@ -371,6 +402,7 @@ impl AcModel {
         AcAt {
             r: r + prox + vias,
             prox,
+            drop,
             shares,
         }
     }
@@ -380,15 +412,38 @@ impl AcModel {
         self.at(f).r
     }
 
-    /// The lumped model's impedance at `f` (Hz): `(Re, Im)`, ohm.
-    pub fn impedance(&self, f: f64) -> (f64, f64) {
-        let r = self.resistance(f);
-        lumped(r, self.inductance_h, self.capacitance_f, f)
+    /// Inductance at `f` (Hz): the DC inductance less the internal
+    /// inductance the skin effect takes from the tracks, H.
+    pub fn inductance(&self, f: f64) -> f64 {
+        self.inductance_h - self.at(f).drop
     }
 
-    /// Q of the coil at `f`: `omega L / R_ac`.
+    /// The lumped model's impedance at `f` (Hz): `(Re, Im)`, ohm.
+    pub fn impedance(&self, f: f64) -> (f64, f64) {
+        let at = self.at(f);
+        lumped(at.r, self.inductance_h - at.drop, self.capacitance_f, f)
+    }
+
+    /// Q of the coil at `f`: `omega L(f) / R_ac`.
     pub fn q(&self, f: f64) -> f64 {
-        2.0 * PI * f * self.inductance_h / self.resistance(f)
+        let at = self.at(f);
+        2.0 * PI * f * (self.inductance_h - at.drop) / at.r
+    }
+
+    /// A bound on the inductance the eddy currents of the proximity effect
+    /// take (their reactive part, left out of `L(f)`), H: at most the
+    /// field each section would expel as a perfect conductor, an elliptic
+    /// cylinder of its width and thickness, `mu0 pi (w + t) / 4 (w
+    /// H_across^2 + t H_along^2)` per length per A^2 (the 2-D magnetic
+    /// polarisability of an ellipse, recalled from memory).
+    pub fn proximity_inductance_bound(&self) -> f64 {
+        self.proximity
+            .iter()
+            .map(|(a, t, ac, al)| {
+                let w = a * t;
+                MU0 * PI * (w + t) / 4.0 * (w * ac + t * al)
+            })
+            .sum()
     }
 
     /// Self-resonant frequency, Hz.
@@ -398,14 +453,16 @@ impl AcModel {
 
     /// One point of the curve at `f`.
     pub fn point(&self, f: f64) -> ResponsePoint {
-        let r = self.resistance(f);
-        let (re, im) = lumped(r, self.inductance_h, self.capacitance_f, f);
+        let at = self.at(f);
+        let (r, l) = (at.r, self.inductance_h - at.drop);
+        let (re, im) = lumped(r, l, self.capacitance_f, f);
         ResponsePoint {
             frequency_hz: f,
             resistance_ohm: r,
+            inductance_h: l,
             impedance_ohm: re.hypot(im),
             phase_deg: im.atan2(re).to_degrees(),
-            q: 2.0 * PI * f * self.inductance_h / r,
+            q: 2.0 * PI * f * l / r,
         }
     }
 
@@ -552,7 +609,8 @@ pub fn analyse(
     });
     Some(Impedance {
         frequency_hz: f,
-        reactance_ohm: 2.0 * PI * f * model.inductance_h,
+        inductance_h: p.inductance_h,
+        reactance_ohm: 2.0 * PI * f * p.inductance_h,
         impedance_ohm: p.impedance_ohm,
         q: p.q,
         skin_depth_um: delta * 1e6,

@@ -140,6 +140,10 @@ const X_LO: f64 = 0.2;
 const X_HI: f64 = 24.0;
 const X_POINTS: usize = 22;
 
+/// Where the section counts as at DC for its inductance (the drop goes
+/// with `x^4`: 1e-12 of the internal inductance here).
+const X_DC: f64 = 1e-3;
+
 /// The frequency response of one section shape (aspect ratio `w / t`).
 #[derive(Debug, Clone, PartialEq)]
 pub struct SectionTable {
@@ -153,6 +157,9 @@ pub struct SectionTable {
     ln_across: Vec<f64>,
     /// `ln phi` for a field along the width.
     ln_along: Vec<f64>,
+    /// `ln` of the internal inductance's drop from DC, per length over
+    /// `mu0` ([`SectionTable::inductance_drop`]).
+    ln_drop: Vec<f64>,
 }
 
 /// Interpolates `ln y` against `ln x` linearly; below the grid with slope
@@ -208,6 +215,28 @@ impl SectionTable {
         interp(&self.ln_x, &self.ln_along, x, 0.0)
     }
 
+    /// How much the section's inductance per length has fallen from its DC
+    /// value at `x = t / delta`, over `mu0` (no unit): the current leaves
+    /// the middle of the section, so the flux inside the copper shrinks;
+    /// at high frequency it tends to the whole internal inductance at DC.
+    /// Above the table's grid `A - B / x` through its last two points
+    /// (the internal inductance of the skin layer goes with `delta`),
+    /// below it the `x^4` law.
+    pub fn inductance_drop(&self, x: f64) -> f64 {
+        let n = self.ln_x.len();
+        let x_hi = self.ln_x[n - 1].exp();
+        if x <= x_hi {
+            return interp(&self.ln_x, &self.ln_drop, x, 0.0);
+        }
+        let (x_p, d_p, d_hi) = (
+            self.ln_x[n - 2].exp(),
+            self.ln_drop[n - 2].exp(),
+            self.ln_drop[n - 1].exp(),
+        );
+        let b = (d_hi - d_p) / (1.0 / x_p - 1.0 / x_hi);
+        d_hi + b * (1.0 / x_hi - 1.0 / x)
+    }
+
     /// The table of a section `aspect = w / t`, computed once per aspect
     /// ratio in the process (a thread that asks for a table another one
     /// is computing waits for it instead of computing it again).
@@ -233,10 +262,13 @@ impl SectionTable {
         let mut ln_skin = Vec::with_capacity(X_POINTS);
         let mut ln_across = Vec::with_capacity(X_POINTS);
         let mut ln_along = Vec::with_capacity(X_POINTS);
+        let mut ln_drop = Vec::with_capacity(X_POINTS);
+        let l_dc = q.impedance(X_DC).1;
         for &lx in &ln_x {
             let x = lx.exp();
-            let s = q.skin(x);
+            let (s, l) = q.impedance(x);
             ln_skin.push((s - 1.0).max(1e-300).ln());
+            ln_drop.push((l_dc - l).max(1e-300).ln());
             ln_across.push(q.eddy(x, Field::Across).max(1e-300).ln());
             ln_along.push(q.eddy(x, Field::Along).max(1e-300).ln());
         }
@@ -246,6 +278,7 @@ impl SectionTable {
             ln_skin,
             ln_across,
             ln_along,
+            ln_drop,
         }
     }
 
@@ -254,6 +287,13 @@ impl SectionTable {
     pub fn solve_at(aspect: f64, x: f64) -> (f64, f64, f64) {
         let q = Quarter::new(aspect);
         (q.skin(x), q.eddy(x, Field::Across), q.eddy(x, Field::Along))
+    }
+
+    /// The solved inductance per length over `mu0` at `x` (partial, to a
+    /// distance of one thickness), and at DC (for tests).
+    pub fn inductance_at(aspect: f64, x: f64) -> (f64, f64) {
+        let q = Quarter::new(aspect);
+        (q.impedance(x).1, q.impedance(X_DC).1)
     }
 }
 
@@ -336,13 +376,20 @@ impl Quarter {
             .sum::<f64>()
     }
 
-    /// `R_ac / R_dc`: the quarter carries a quarter of the current, every
-    /// cell sees the same voltage per length (`Z y = 1`, scaled).
+    /// `R_ac / R_dc`.
     fn skin(&self, x: f64) -> f64 {
+        self.impedance(x).0
+    }
+
+    /// `R_ac / R_dc` and the inductance per length over `mu0` (partial, to
+    /// a distance of one thickness, so only its change with `x` means
+    /// something): the quarter carries a quarter of the current, every
+    /// cell sees the same voltage per length (`Z y = 1`, scaled).
+    fn impedance(&self, x: f64) -> (f64, f64) {
         let n = self.cells.len();
         let a = self.matrix(x, 1.0, 1.0);
         let Some(y) = solve_complex(a, vec![vec![C64::new(1.0, 0.0); n]], n) else {
-            return 1.0;
+            return (1.0, 0.0);
         };
         let y = &y[0];
         let total = y
@@ -353,7 +400,9 @@ impl Quarter {
         let cur: Vec<C64> = y.iter().map(|v| v.mul(k)).collect();
         let r_ac = self.loss(&cur);
         let r_dc = 1.0 / self.aspect;
-        r_ac / r_dc
+        // The section's impedance per length is the voltage per length
+        // for a unit current, `k`; omega mu0 = 2 x^2.
+        (r_ac / r_dc, k.im / (2.0 * x * x))
     }
 
     /// Eddy loss per length over `rho H^2` in a unit field: the field's
@@ -544,6 +593,32 @@ mod tests {
                 (ours / want - 1.0).abs() < 5e-3,
                 "a/delta {a_over_delta}: {ours} {want}"
             );
+            // The internal reactance over R_dc: (q/2) (ber ber' + bei
+            // bei') / (ber'^2 + bei'^2) (same source); the tubes' mutual
+            // `-ln max(r_i, r_j)` counts the flux inside the wire only, so
+            // Im Z is the internal reactance. R_dc = 1 / pi.
+            let (q, x_want) = {
+                let q = std::f64::consts::SQRT_2 * a_over_delta;
+                let (br, bi, dr, di) = ber_bei(q);
+                (q, q / 2.0 * (br * dr + bi * di) / (dr * dr + di * di))
+            };
+            let x_ours = k.im * std::f64::consts::PI;
+            assert!(
+                (x_ours / x_want - 1.0).abs() < 5e-3,
+                "a/delta {a_over_delta} (q {q}): {x_ours} {x_want}"
+            );
+            // DC limit: mu0 / (8 pi) per length (omega mu0 = 2 (a/delta)^2
+            // here); at a/delta = 1 the internal inductance has hardly
+            // started to fall (within 2 %), at 8 it is down to about
+            // delta / a of it.
+            let l_int = k.im / wmu;
+            let dc = 1.0 / (8.0 * std::f64::consts::PI);
+            if a_over_delta == 1.0 {
+                assert!((l_int / dc - 1.0).abs() < 0.03, "{l_int} {dc}");
+            }
+            if a_over_delta == 8.0 {
+                assert!(l_int < dc * 2.5 / a_over_delta, "{l_int} {dc}");
+            }
         }
     }
 

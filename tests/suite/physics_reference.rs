@@ -383,7 +383,12 @@ fn json_has_the_contract_keys() {
     assert!(v["layers"][0]["length_mm"].as_f64().unwrap() > 0.0);
     let z = &v["impedance"];
     let x = z["reactance_ohm"].as_f64().unwrap();
-    assert!((x - 2.0 * std::f64::consts::PI * 100e3 * a.inductance.inductance_h).abs() < 1e-9 * x);
+    // The reactance is omega L(f), L(f) the inductance at that frequency
+    // (below the DC one by the internal inductance the skin effect takes).
+    let l_ac = z["inductance_h"].as_f64().unwrap();
+    assert_eq!(v["inductance_h_ac"].as_f64().unwrap(), l_ac);
+    assert!(l_ac <= a.inductance.inductance_h && l_ac > 0.99 * a.inductance.inductance_h);
+    assert!((x - 2.0 * std::f64::consts::PI * 100e3 * l_ac).abs() < 1e-9 * x);
     assert!(a.inductance.mohan_modified_wheeler_h.is_some());
     let _ = MU0;
 }
