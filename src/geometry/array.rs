@@ -582,21 +582,7 @@ impl GridRouter<'_> {
                 self.path(board, vec![seg], self.arc_layer, Node::Via(v), Node::Pad(t));
                 pads.push(t);
             }
-            for &p in &net.pads {
-                let joins = &mut board.pads[p].joins;
-                if !joins.contains(&self.stub_layer) {
-                    joins.push(self.stub_layer);
-                    joins.sort_unstable();
-                }
-            }
-            board.buses.push(Bus {
-                name: net.name.clone(),
-                tracks: t0..board.tracks.len(),
-                vias: v0..board.vias.len(),
-                windings: w0..board.windings.len(),
-                pads,
-                terminal: net.terminal.clone(),
-            });
+            close_bus(board, net, self.stub_layer, (t0, v0, w0), pads);
             debug_assert_eq!(bus + 1, board.buses.len());
         }
         Ok(())
@@ -604,29 +590,7 @@ impl GridRouter<'_> {
 
     /// Bus tracks `segs` on `layer` as one winding from `a` to `b`.
     fn path(&self, board: &mut Board, segs: Vec<Segment>, layer: u8, a: Node, b: Node) {
-        let t = board.tracks.len();
-        let n = segs.len();
-        board.tracks.extend(segs.into_iter().map(|segment| Track {
-            layer,
-            segment,
-            width: self.width,
-            role: TrackRole::Bus,
-        }));
-        let group = board
-            .windings
-            .iter()
-            .map(|w| w.group + 1)
-            .max()
-            .unwrap_or(0);
-        board.windings.push(Winding {
-            layer,
-            group,
-            tracks: (t, t + n),
-            from: a,
-            to: b,
-            direction: Direction::Outward,
-            turns: 0.0,
-        });
+        bus_winding(board, segs, self.width, layer, (a, b));
     }
 }
 
@@ -745,16 +709,7 @@ fn copy_coil(board: &mut Board, single: &Board, mut coil: PlacedCoil, k: usize) 
 /// A segment of a coil built at the origin, rotated by `rotation` and
 /// moved to `position`.
 fn place_segment(s: &Segment, rotation: f64, position: Point) -> Segment {
-    let v = position.to_vec2();
-    match s.rotated(rotation) {
-        Segment::Line(l) => Segment::line(l.start + v, l.end + v),
-        Segment::Arc(a) => Segment::Arc(Arc {
-            center: a.center + v,
-            start: a.start + v,
-            end: a.end + v,
-            sweep: a.sweep,
-        }),
-    }
+    shifted(&s.rotated(rotation), position.to_vec2())
 }
 
 /// One electrical node between coils: the coil pads it joins and the
@@ -995,21 +950,7 @@ impl Router {
                 self.stub(board, start, Node::Pad(t), self.stub_layer);
                 pads.push(t);
             }
-            for &p in &net.pads {
-                let joins = &mut board.pads[p].joins;
-                if !joins.contains(&self.stub_layer) {
-                    joins.push(self.stub_layer);
-                    joins.sort_unstable();
-                }
-            }
-            board.buses.push(Bus {
-                name: net.name.clone(),
-                tracks: t0..board.tracks.len(),
-                vias: v0..board.vias.len(),
-                windings: w0..board.windings.len(),
-                pads,
-                terminal: net.terminal.clone(),
-            });
+            close_bus(board, net, self.stub_layer, (t0, v0, w0), pads);
             debug_assert_eq!(bus + 1, board.buses.len());
         }
     }
@@ -1022,29 +963,64 @@ impl Router {
 
     /// One bus track as a winding of its own from `a` to `b`.
     fn track(&self, board: &mut Board, seg: Segment, layer: u8, a: Node, b: Node) {
-        let t = board.tracks.len();
-        board.tracks.push(Track {
-            layer,
-            segment: seg,
-            width: self.width,
-            role: TrackRole::Bus,
-        });
-        let group = board
-            .windings
-            .iter()
-            .map(|w| w.group + 1)
-            .max()
-            .unwrap_or(0);
-        board.windings.push(Winding {
-            layer,
-            group,
-            tracks: (t, t + 1),
-            from: a,
-            to: b,
-            direction: Direction::Outward,
-            turns: 0.0,
-        });
+        bus_winding(board, vec![seg], self.width, layer, (a, b));
     }
+}
+
+/// Bus tracks `segs` (`width` wide) on `layer` as one winding from node
+/// `ends.0` to `ends.1`, in a winding group of its own.
+fn bus_winding(board: &mut Board, segs: Vec<Segment>, width: f64, layer: u8, ends: (Node, Node)) {
+    let t = board.tracks.len();
+    let n = segs.len();
+    board.tracks.extend(segs.into_iter().map(|segment| Track {
+        layer,
+        segment,
+        width,
+        role: TrackRole::Bus,
+    }));
+    let group = board
+        .windings
+        .iter()
+        .map(|w| w.group + 1)
+        .max()
+        .unwrap_or(0);
+    board.windings.push(Winding {
+        layer,
+        group,
+        tracks: (t, t + n),
+        from: ends.0,
+        to: ends.1,
+        direction: Direction::Outward,
+        turns: 0.0,
+    });
+}
+
+/// Records the bus of `net` whose copper starts at track, via and winding
+/// `starts` (its coil pads now joining `stub_layer`), with `pads` (its coil
+/// pads and its terminal pad, if any).
+fn close_bus(
+    board: &mut Board,
+    net: &Net,
+    stub_layer: u8,
+    starts: (usize, usize, usize),
+    pads: Vec<usize>,
+) {
+    for &p in &net.pads {
+        let joins = &mut board.pads[p].joins;
+        if !joins.contains(&stub_layer) {
+            joins.push(stub_layer);
+            joins.sort_unstable();
+        }
+    }
+    let (t0, v0, w0) = starts;
+    board.buses.push(Bus {
+        name: net.name.clone(),
+        tracks: t0..board.tracks.len(),
+        vias: v0..board.vias.len(),
+        windings: w0..board.windings.len(),
+        pads,
+        terminal: net.terminal.clone(),
+    });
 }
 
 /// The smallest counter-clockwise span (start, sweep) holding every angle.
