@@ -129,7 +129,7 @@ pub const MAX_RUN: usize = 40;
 /// coil's winding: no ground), so the energy at voltages `V` is
 /// `sum over i < j of C_ij (V_i - V_j)^2 / 2`.
 ///
-/// A 2-D method of moments: every strip cut into [`PANELS`] panels of
+/// A 2-D method of moments: every strip cut into `PANELS` panels of
 /// uniform charge, the potential matched at the panel middles with the
 /// free-space line-charge kernel `-ln r / (2 pi)` integrated exactly over
 /// each panel, plus a common unknown potential for the zero net charge
