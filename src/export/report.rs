@@ -649,6 +649,7 @@ pub fn markdown(design: &Design, board: &Board, a: &Analysis) -> String {
         heading(design, board),
         cautions(&a.cautions),
         phases(a),
+        rotor(a),
         at_the_drive(a),
         layers(&a.resistance),
         inductance(&a.inductance, a.impedance.as_ref()),
@@ -710,8 +711,91 @@ fn phases(a: &Analysis) -> String {
             p.tracks_ohm_20c
         );
     }
+    if !ar.mutual_inductance.is_empty() {
+        let _ = writeln!(
+            s,
+            "\n| phases | mutual inductance | coupling |\n|---|---|---|"
+        );
+        for m in &ar.mutual_inductance {
+            let _ = writeln!(
+                s,
+                "| {}-{} | {} | {:.4} |",
+                m.phases[0],
+                m.phases[1],
+                si(m.mutual_inductance_h, "H"),
+                m.coupling
+            );
+        }
+    }
     s.push_str(
-        "\nThe sections below describe phase A alone (its coils and its own buses, star point or delta corner left out); fields and temperatures are those of phase A's copper about the board's centre.\n\n",
+        "\nThe sections below describe phase A alone (its coils and its own buses, star point or delta corner left out) with the drive's current in it; fields are those of phase A's copper about the board's centre. The heating is the whole board's: every phase carries the drive (a fraction of its period apart) and the power is all phases'.\n\n",
+    );
+    s
+}
+
+/// The rotor's constants and what its torque costs; nothing without one.
+fn rotor(a: &Analysis) -> String {
+    let Some(r) = &a.rotor else {
+        return String::new();
+    };
+    let c = &r.constants;
+    let mut s = format!(
+        "## Rotor\n\n{} poles, {} disc(s)\n\n| quantity | value |\n|---|---|\n",
+        r.poles, r.discs
+    );
+    let mut row = |k: &str, v: String| {
+        let _ = writeln!(s, "| {k} | {v} |");
+    };
+    row(
+        "back-EMF constant, phase peak",
+        format!("{} V per rad/s", sig(c.back_emf_v_per_rad_s, 4)),
+    );
+    if let Some(l) = c.back_emf_line_v_per_rad_s {
+        row(
+            "back-EMF constant, line to line peak",
+            format!("{} V per rad/s", sig(l, 4)),
+        );
+    }
+    row(
+        "torque constant, sinusoidal drive",
+        format!("{} N m/A (phase peak)", sig(c.torque_constant_n_m_per_a, 4)),
+    );
+    if let Some(k6) = c.torque_constant_six_step_n_m_per_a {
+        row(
+            "torque constant, six-step drive",
+            format!("{} N m/A", sig(k6, 4)),
+        );
+    }
+    row(
+        "torque ripple, sinusoidal drive",
+        format!("{:.1} %", c.torque_ripple_percent),
+    );
+    if let Some(l) = &r.load {
+        row(
+            "motor constant (copper at 20 C)",
+            format!("{} N m/sqrt(W)", sig(l.motor_constant_n_m_per_sqrt_w, 4)),
+        );
+        row(
+            "largest continuous torque (hottest copper at max_temperature)",
+            format!("{} N m", sig(l.torque_max_n_m, 4)),
+        );
+        if let (Some(t), Some(i), Some(p)) = (l.torque_n_m, l.phase_current_peak_a, l.copper_loss_w)
+        {
+            row(
+                "at the rotor's torque",
+                format!(
+                    "{} N m: phase peak current {}, copper loss {} (copper at 20 C)",
+                    sig(t, 4),
+                    si(i, "A"),
+                    si(p, "W")
+                ),
+            );
+        }
+    }
+    let _ = writeln!(
+        s,
+        "\nLorentz torque and back-EMF agree to {:.2} % of the peak back-EMF (energy balance).\n\n![back-EMF](plots/back_emf.svg)\n",
+        c.energy_balance * 100.0
     );
     s
 }
@@ -788,7 +872,14 @@ fn at_the_drive(a: &Analysis) -> String {
     let rows = [
         ("current", si(t.current_a, "A")),
         ("voltage", si(t.voltage_v, "V")),
-        ("power", si(t.power_w, "W")),
+        (
+            if a.whole.1 > 1 {
+                "power (all phases)"
+            } else {
+                "power"
+            },
+            si(t.power_w, "W"),
+        ),
         ("steady temperature, hottest copper", temp),
         (
             "steady temperature, board average",
