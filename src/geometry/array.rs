@@ -185,15 +185,7 @@ pub fn place(design: &Design, single: Board) -> Result<Board, ArrayError> {
     }
     let (stub_layer, arc_layer) = bus_layers(&single)?;
 
-    let mut board = Board {
-        coils: vec![],
-        tracks: vec![],
-        vias: vec![],
-        pads: vec![],
-        windings: vec![],
-        outline: Outline { segments: vec![] },
-        ..single.clone()
-    };
+    let mut board = emptied(&single);
     let a0 = design.terminal_place.angle();
     for (k, &(ph, sense)) in pat.coils.iter().enumerate() {
         let theta = TAU * k as f64 / n as f64;
@@ -321,15 +313,7 @@ impl Grid {
             }
         }
         let (stub_layer, arc_layer) = bus_layers(&single)?;
-        let mut board = Board {
-            coils: vec![],
-            tracks: vec![],
-            vias: vec![],
-            pads: vec![],
-            windings: vec![],
-            outline: Outline { segments: vec![] },
-            ..single.clone()
-        };
+        let mut board = emptied(&single);
         let a0 = design.terminal_place.angle();
         let n = self.rows * self.columns;
         for k in 0..n {
@@ -607,6 +591,20 @@ fn rect_outline(board: &Board, margin: f64) -> Outline {
         segments: (0..4)
             .map(|i| Segment::line(c[i], c[(i + 1) % 4]))
             .collect(),
+    }
+}
+
+/// A board with the settings of `single` (layers, sizes, nets) and none of
+/// its copper or outline, to place copies of it on.
+fn emptied(single: &Board) -> Board {
+    Board {
+        coils: vec![],
+        tracks: vec![],
+        vias: vec![],
+        pads: vec![],
+        windings: vec![],
+        outline: Outline { segments: vec![] },
+        ..single.clone()
     }
 }
 
