@@ -59,11 +59,16 @@ pub struct ArrayReport {
 
 /// The array report of `design` on `board` (the whole board, not a phase's
 /// view), `None` for a coil alone.
-/// With `inductances`, each phase's self-inductance and every pair's mutual
-/// inductance are computed (Neumann's formula on the phases' filaments,
-/// [`filaments_inductance`], [`filaments_mutual`]: the same pair integral
-/// as the report's inductance).
-pub fn analyse(design: &Design, board: &Board, inductances: bool) -> Option<ArrayReport> {
+/// With `phase_a_inductance` (phase A's self-inductance, H, as the report
+/// computed it on the same copper), the other phases' self-inductances and
+/// every pair's mutual inductance are computed (Neumann's formula on the
+/// phases' filaments, [`filaments_inductance`], [`filaments_mutual`]: the
+/// same pair integral as the report's inductance).
+pub fn analyse(
+    design: &Design,
+    board: &Board,
+    phase_a_inductance: Option<f64>,
+) -> Option<ArrayReport> {
     let array = design.array?;
     if board.phases.is_empty() {
         return None;
@@ -71,7 +76,7 @@ pub fn analyse(design: &Design, board: &Board, inductances: bool) -> Option<Arra
     let conductors: Vec<Conductor> = (0..board.phases.len())
         .map(|ph| Conductor::of_phase(design, board, ph))
         .collect();
-    let filaments: Vec<Vec<Filament>> = if inductances {
+    let filaments: Vec<Vec<Filament>> = if phase_a_inductance.is_some() {
         conductors
             .iter()
             .map(|c| c.filaments(NEUMANN_SAGITTA))
@@ -79,7 +84,14 @@ pub fn analyse(design: &Design, board: &Board, inductances: bool) -> Option<Arra
     } else {
         Vec::new()
     };
-    let selfs: Vec<f64> = filaments.iter().map(|f| filaments_inductance(f)).collect();
+    let selfs: Vec<f64> = filaments
+        .iter()
+        .enumerate()
+        .map(|(ph, f)| match (ph, phase_a_inductance) {
+            (0, Some(l)) => l,
+            _ => filaments_inductance(f),
+        })
+        .collect();
     let mut mutual = Vec::new();
     for a in 0..filaments.len() {
         for b in a + 1..filaments.len() {
@@ -141,7 +153,7 @@ mod tests {
         let (d, board) = crate::pipeline::parse_and_build(text).unwrap();
         let single = crate::geometry::build(&d).unwrap();
         let one = tracks_resistance(&Conductor::new(&d, &single));
-        let r = analyse(&d, &board, false).unwrap();
+        let r = analyse(&d, &board, None).unwrap();
         assert_eq!(r.phases.len(), 3);
         let rho_per_mm = RHO_20 * 1e-3 / (m(d.coil.trace_width) * m(d.stackup.copper[0]));
         for (ph, p) in r.phases.iter().enumerate() {

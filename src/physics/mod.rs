@@ -165,7 +165,6 @@ pub fn analyse_with(
     // An array is analysed as its first phase alone (its coils and own
     // buses, in current order): the phase resistance and inductance.
     let board = layout;
-    let array = array::analyse(design, layout, detail == Detail::Full);
     let whole = (
         layout.coils.len().max(1),
         layout.phases.len().max(1),
@@ -191,6 +190,10 @@ pub fn analyse_with(
     } else {
         inductance::analyse(design, layout, &cond, detail)
     };
+    // The phases' inductances with the full analysis (phase A's is the
+    // report's, on the same copper).
+    let full_l = (detail == Detail::Full).then_some(inductance.inductance_h);
+    let array = array::analyse(design, board, full_l);
     let circuit = (resistance.total_ohm_20c, inductance.inductance_h);
     // Every phase's loss heats the board.
     let thermal = thermal::analyse(design, layout, &cond, circuit, whole.1, &mut found);
