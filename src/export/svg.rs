@@ -246,21 +246,22 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
         }
         let _ = writeln!(s, "</g>");
     }
-    // Current-direction arrows on the drawn layers.
+    // Current-direction arrows on the drawn layers. An array's coils are
+    // small beside its board: fewer arrows, sized to the coil, none on the
+    // buses.
+    let array = layout.is_array();
+    let (count, most) = if array {
+        (2, 0.3 * layout.outer_radius)
+    } else {
+        (4, f64::INFINITY)
+    };
     for &l in layers.iter().filter(|_| !phased) {
         let colour = layer_colour(l, layout.layers);
         for w in layout
             .windings
             .iter()
-            .filter(|w| w.layer == l && !(layout.coils.len() > 1 && w.turns == 0.0))
+            .filter(|w| w.layer == l && !(array && w.turns == 0.0))
         {
-            // An array's coils are small beside its board: fewer arrows,
-            // sized to the coil, none on the buses.
-            let (count, most) = if layout.coils.len() > 1 {
-                (2, 0.3 * layout.outer_radius)
-            } else {
-                (4, f64::INFINITY)
-            };
             for (p, dir) in arrow_points(layout, w, count) {
                 let size = (layout.pitch * 2.5).max(font * 0.6).min(most);
                 arrow(&mut s, p, dir, size, &colour, 0.04);
@@ -289,7 +290,6 @@ pub fn preview(layout: &Board, view: View, violations: &[Violation]) -> String {
     // An array's coil pads ("<coil>.1", a millimetre apart) are not named
     // one by one: each coil's number stands inside the ring beside it, and
     // the phase pads' names stand radially outside them.
-    let array = layout.coils.len() > 1;
     for p in layout.pads.iter().filter(|p| p.smd.is_none()) {
         let _ = write!(
             s,
@@ -677,7 +677,7 @@ impl LayerStrip {
             }
             // An array's coils: one arrow each, sized to the coil; none on
             // its buses.
-            let array = layout.coils.len() > 1;
+            let array = layout.is_array();
             let (count, size) = if array {
                 (1, (0.9 * font / k).min(0.5 * layout.outer_radius))
             } else {

@@ -543,6 +543,11 @@ impl Board {
         self.tracks.iter().map(|t| t.segment.length()).sum()
     }
 
+    /// Whether the board holds an array: more than one placed coil.
+    pub fn is_array(&self) -> bool {
+        self.coils.len() > 1
+    }
+
     /// Axis-aligned bounds of all copper (track edges, pads, vias), mm.
     pub fn copper_bounds(&self) -> Rect {
         let tracks = self
