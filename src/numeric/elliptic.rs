@@ -150,6 +150,75 @@ pub fn cel(kc: f64, p: f64, c: f64, s: f64) -> f64 {
     FRAC_PI_2 * (ss + cc * em) / (em * (em + pp))
 }
 
+/// [`cel`] for `N` arguments at once with `p > 0` in every lane, lane by
+/// lane the same operations in the same order (so the same bits), written
+/// like [`ke_lanes`] so that the lanes stay in vector registers: a lane
+/// that has converged keeps its values while the others go on. A lane
+/// with `p <= 0` gives NaN (that branch of [`cel`] is not taken here).
+#[inline(always)]
+pub fn cel_lanes<const N: usize>(
+    kc: [f64; N],
+    p: [f64; N],
+    c: [f64; N],
+    s: [f64; N],
+) -> [f64; N] {
+    const ERRTOL: f64 = 1e-9;
+    let mut k = kc.map(f64::abs);
+    let mut pp = p.map(f64::sqrt);
+    let mut cc = c;
+    let mut ss = [0.0; N];
+    let mut em = [1.0; N];
+    let mut f = [0.0; N];
+    let mut g = [0.0; N];
+    let mut kk = [0.0; N];
+    for l in 0..N {
+        ss[l] = s[l] / pp[l];
+        f[l] = cc[l];
+        cc[l] += ss[l] / pp[l];
+        g[l] = k[l] / pp[l];
+        ss[l] = 2.0 * (ss[l] + f[l] * g[l]);
+        pp[l] += g[l];
+        g[l] = em[l];
+        em[l] += k[l];
+        kk[l] = k[l];
+    }
+    for _ in 0..60 {
+        // The scalar loop's test, negated: go on while not converged.
+        let mut go = [false; N];
+        for l in 0..N {
+            go[l] = (g[l] - k[l]).abs() > g[l] * ERRTOL || (g[l] - k[l]).is_nan() || g[l].is_nan();
+        }
+        if !go.contains(&true) {
+            break;
+        }
+        for l in 0..N {
+            let kn = 2.0 * kk[l].sqrt();
+            let kkn = kn * em[l];
+            let fnew = cc[l];
+            let ccn = cc[l] + ss[l] / pp[l];
+            let gn = kkn / pp[l];
+            let ssn = 2.0 * (ss[l] + fnew * gn);
+            let ppn = pp[l] + gn;
+            let gn2 = em[l];
+            let emn = em[l] + kn;
+            k[l] = pick(go[l], kn, k[l]);
+            kk[l] = pick(go[l], kkn, kk[l]);
+            f[l] = pick(go[l], fnew, f[l]);
+            cc[l] = pick(go[l], ccn, cc[l]);
+            ss[l] = pick(go[l], ssn, ss[l]);
+            pp[l] = pick(go[l], ppn, pp[l]);
+            g[l] = pick(go[l], gn2, g[l]);
+            em[l] = pick(go[l], emn, em[l]);
+        }
+    }
+    let mut out = [0.0; N];
+    for l in 0..N {
+        let v = FRAC_PI_2 * (ss[l] + cc[l] * em[l]) / (em[l] * (em[l] + pp[l]));
+        out[l] = pick(kc[l] == 0.0 || p[l] <= 0.0 || p[l].is_nan(), f64::NAN, v);
+    }
+    out
+}
+
 #[cfg(test)]
 mod tests {
     use super::*;
@@ -167,6 +236,27 @@ mod tests {
         let (k1, e1) = ke(0.6);
         let (k2, e2) = ke(0.8);
         assert!((e1 * k2 + e2 * k1 - k1 * k2 - FRAC_PI_2).abs() < 1e-13);
+    }
+
+    /// The lanes give the scalar [`cel`]'s bits, lane by lane, for the
+    /// magnet's arguments and others with `p > 0` (lanes converging after
+    /// different numbers of steps in one call).
+    #[test]
+    fn cel_lanes_give_the_scalar_bits() {
+        for t in 0..50 {
+            let kc: [f64; 8] = std::array::from_fn(|l| {
+                let x = ((t * 8 + l) as f64 * 0.618_033_988_7).fract();
+                if l == 0 { 1e-15 + x * 1e-6 } else { x.powi(3) + 1e-12 }
+            });
+            let p: [f64; 8] = std::array::from_fn(|l| if l % 2 == 0 { 1.0 } else { 0.01 + (l * t) as f64 * 0.1 });
+            let c: [f64; 8] = std::array::from_fn(|l| 1.0 - l as f64 * 0.1);
+            let s: [f64; 8] = std::array::from_fn(|l| if l % 3 == 0 { -1.0 } else { 0.3 * l as f64 });
+            let v = cel_lanes(kc, p, c, s);
+            for l in 0..8 {
+                assert_eq!(v[l].to_bits(), cel(kc[l], p[l], c[l], s[l]).to_bits(), "{t} {l}");
+            }
+        }
+        assert!(cel_lanes([0.5], [0.0], [1.0], [1.0])[0].is_nan());
     }
 
     #[test]

@@ -198,9 +198,16 @@ pub fn analyse_with(
     // Every phase's loss heats the board.
     let thermal = thermal::analyse(design, layout, &cond, circuit, whole.1, &mut found);
     let field = field::analyse(design, layout, &cond, detail, thermal.current_a);
+    // The coaxial rings of the copper, with a magnet: the force's
+    // cross-check and the fin's force against the gap.
+    let rings = if design.magnet.is_some() {
+        cond.rings()
+    } else {
+        Vec::new()
+    };
     let magnet = design.magnet.map(|mg| {
         let drive = (thermal.current_a, thermal.power_w);
-        magnet::analyse(design, &mg, &cond, detail, drive, &mut found)
+        magnet::analyse(design, &mg, &cond, &rings, detail, drive, &mut found)
     });
     let full = detail == Detail::Full;
     let frequency = design.drive.frequency.filter(|f| *f > 0.0);
@@ -255,7 +262,7 @@ pub fn analyse_with(
     let heating = heating::analyse(design, &thermal, full, &mut found);
     let fin = magnet
         .as_ref()
-        .and_then(|mr| fin::analyse(design, layout, &cond, mr, &drive, full, &mut found));
+        .and_then(|mr| fin::analyse(design, layout, &rings, mr, &drive, full, &mut found));
     let rotor = match (design.rotor, detail) {
         (_, Detail::Limits) => None,
         (Some(r), _) if !board.phases.is_empty() => r.magnets.map(|m| {

@@ -1,9 +1,10 @@
-//! The vector paths of the two hot sums, and the only `unsafe` code in the
+//! The vector paths of the hot sums, and the only `unsafe` code in the
 //! crate: the Biot-Savart sum of [`super::field::Segments::field_at`]
 //! (AVX-512 intrinsics, or the plain sum compiled for AVX2 and FMA) and
 //! Maxwell's formula eight ring pairs at a time
 //! ([`super::inductance::maxwell_mutual_8`], the plain body compiled for
-//! AVX-512 or AVX2).
+//! AVX-512 or AVX2), and the magnet's radial field eight points at a time
+//! ([`super::magnet::Cylinder::b_rho_8`], likewise).
 //!
 //! The processor's features are detected once ([`Level::detected`]) and
 //! every call dispatches from here. The plain paths live beside their
@@ -18,6 +19,7 @@
 use super::MU0;
 use super::field::{self, Segments};
 use super::inductance;
+use super::magnet::Cylinder;
 use std::f64::consts::PI;
 use std::sync::LazyLock;
 use std::sync::atomic::{AtomicBool, Ordering};
@@ -174,6 +176,46 @@ unsafe fn maxwell_avx512(a: [f64; 8], b: [f64; 8], d: [f64; 8]) -> [f64; 8] {
 #[target_feature(enable = "avx2")]
 unsafe fn maxwell_avx2(a: [f64; 8], b: [f64; 8], d: [f64; 8]) -> [f64; 8] {
     inductance::maxwell_8(a, b, d)
+}
+
+/// The magnet's radial field at eight points (see
+/// [`super::magnet::Cylinder::b_rho_8`]) by the widest path: the plain
+/// body compiled for AVX-512F, else for AVX2, else plain. The same bits on
+/// every path.
+pub(super) fn b_rho_8(mag: &Cylinder, rho: [f64; 8], z: [f64; 8]) -> [f64; 8] {
+    b_rho_8_on(Level::detected(), mag, rho, z)
+}
+
+/// [`b_rho_8`] by the path of `level` (plain where the processor lacks it).
+pub(super) fn b_rho_8_on(level: Level, mag: &Cylinder, rho: [f64; 8], z: [f64; 8]) -> [f64; 8] {
+    #[cfg(target_arch = "x86_64")]
+    match level {
+        Level::Avx512 if level.supported() => {
+            // SAFETY: the processor has AVX-512F (`supported` just above).
+            return unsafe { b_rho_avx512(mag, rho, z) };
+        }
+        Level::Avx2 | Level::Avx2Fma if Level::Avx2.supported() => {
+            // SAFETY: the processor has AVX2 (`supported` just above).
+            return unsafe { b_rho_avx2(mag, rho, z) };
+        }
+        _ => {}
+    }
+    let _ = level;
+    mag.b_rho_lanes(rho, z)
+}
+
+/// The plain eight-point radial field compiled for AVX-512F.
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx512f")]
+unsafe fn b_rho_avx512(mag: &Cylinder, rho: [f64; 8], z: [f64; 8]) -> [f64; 8] {
+    mag.b_rho_lanes(rho, z)
+}
+
+/// The plain eight-point radial field compiled for AVX2.
+#[cfg(target_arch = "x86_64")]
+#[target_feature(enable = "avx2")]
+unsafe fn b_rho_avx2(mag: &Cylinder, rho: [f64; 8], z: [f64; 8]) -> [f64; 8] {
+    mag.b_rho_lanes(rho, z)
 }
 
 /// The plain field sum ([`field::sum`]) compiled for AVX2 and FMA.
@@ -367,6 +409,46 @@ mod tests {
                     assert!(
                         (b[c] - plain[c]).abs() <= 1e-13 * scale,
                         "{p:?}: {b:?} vs {plain:?}"
+                    );
+                }
+            }
+        }
+    }
+
+    /// The magnet's radial field, every path lane by lane against the
+    /// one-point formula, bit for bit: points near the rim (a small
+    /// modulus), inside the radius and far away.
+    #[test]
+    fn every_magnet_field_path_gives_the_same_bits() {
+        let mag = Cylinder {
+            radius: 2.5e-3,
+            length: 1.5e-3,
+            remanence: 1.2,
+            gap: 1e-3,
+        };
+        for i in 0..40 {
+            let t = i as f64;
+            let rho: [f64; 8] = std::array::from_fn(|l| match l {
+                0 => mag.radius * (1.0 + 1e-9 * t),
+                1 => 1e-13,
+                _ => 1e-2 * ((t * 1.7 + l as f64) * 0.29).fract(),
+            });
+            let z: [f64; 8] = std::array::from_fn(|l| {
+                if l == 0 {
+                    mag.gap
+                } else {
+                    -2e-4 + 3e-3 * ((t + 3.0 * l as f64) * 0.41).fract()
+                }
+            });
+            for level in Level::available() {
+                let b = b_rho_8_on(level, &mag, rho, z);
+                for l in 0..8 {
+                    assert_eq!(
+                        b[l].to_bits(),
+                        mag.b_rho(rho[l], z[l]).to_bits(),
+                        "{level:?} {} {}",
+                        rho[l],
+                        z[l]
                     );
                 }
             }
