@@ -55,24 +55,24 @@ const T_CAP: f64 = 1000.0;
 
 /// Air at 1 atm: (T K, kinematic viscosity m^2/s, conductivity W/(m K),
 /// diffusivity m^2/s). Incropera Table A.4, recalled from memory \[M\].
-const AIR: [(f64, f64, f64, f64); 6] = [
-    (250.0, 11.44e-6, 22.3e-3, 15.9e-6),
-    (300.0, 15.89e-6, 26.3e-3, 22.5e-6),
-    (350.0, 20.92e-6, 30.0e-3, 29.9e-6),
-    (400.0, 26.41e-6, 33.8e-3, 38.3e-6),
-    (450.0, 32.39e-6, 37.3e-3, 47.2e-6),
-    (500.0, 38.79e-6, 40.7e-3, 56.7e-6),
+const AIR: [(f64, [f64; 3]); 6] = [
+    (250.0, [11.44e-6, 22.3e-3, 15.9e-6]),
+    (300.0, [15.89e-6, 26.3e-3, 22.5e-6]),
+    (350.0, [20.92e-6, 30.0e-3, 29.9e-6]),
+    (400.0, [26.41e-6, 33.8e-3, 38.3e-6]),
+    (450.0, [32.39e-6, 37.3e-3, 47.2e-6]),
+    (500.0, [38.79e-6, 40.7e-3, 56.7e-6]),
 ];
 
 /// Saturated liquid water: (T K, kinematic viscosity m^2/s, conductivity
 /// W/(m K), Prandtl number, expansion coefficient 1/K). Incropera Table
 /// A.6, recalled from memory \[M\].
-const WATER: [(f64, f64, f64, f64, f64); 5] = [
-    (280.0, 1.422e-6, 0.582, 10.26, 46.0e-6),
-    (300.0, 0.858e-6, 0.613, 5.83, 276.1e-6),
-    (320.0, 0.583e-6, 0.640, 3.77, 436.7e-6),
-    (340.0, 0.429e-6, 0.660, 2.66, 566.0e-6),
-    (360.0, 0.335e-6, 0.674, 2.02, 697.9e-6),
+const WATER: [(f64, [f64; 4]); 5] = [
+    (280.0, [1.422e-6, 0.582, 10.26, 46.0e-6]),
+    (300.0, [0.858e-6, 0.613, 5.83, 276.1e-6]),
+    (320.0, [0.583e-6, 0.640, 3.77, 436.7e-6]),
+    (340.0, [0.429e-6, 0.660, 2.66, 566.0e-6]),
+    (360.0, [0.335e-6, 0.674, 2.02, 697.9e-6]),
 ];
 
 /// Linear interpolation in a table whose rows start with the temperature.
@@ -92,13 +92,10 @@ fn interpolate<const N: usize>(table: &[(f64, [f64; N])], t: f64) -> [f64; N] {
 /// coefficient 1/K (air: ideal gas, 1/T).
 fn fluid(medium: Surroundings, t_k: f64) -> (f64, f64, f64, f64) {
     if medium == Surroundings::Water {
-        let rows: Vec<(f64, [f64; 4])> =
-            WATER.iter().map(|r| (r.0, [r.1, r.2, r.3, r.4])).collect();
-        let [nu, k, pr, beta] = interpolate(&rows, t_k);
+        let [nu, k, pr, beta] = interpolate(&WATER, t_k);
         (nu, k, pr, beta)
     } else {
-        let rows: Vec<(f64, [f64; 3])> = AIR.iter().map(|r| (r.0, [r.1, r.2, r.3])).collect();
-        let [nu, k, alpha] = interpolate(&rows, t_k);
+        let [nu, k, alpha] = interpolate(&AIR, t_k);
         (nu, k, nu / alpha, 1.0 / t_k)
     }
 }
