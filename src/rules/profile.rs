@@ -136,8 +136,19 @@ impl Profile {
 
     /// A built-in profile by name ("standard", "fine", "cautious").
     pub fn builtin(name: &str) -> Option<Profile> {
+        // Parsed once in the process (a sweep asks for every candidate).
         // The built-in files are tested to parse; a failure here is a bug.
-        Self::builtin_text(name).and_then(|t| Profile::from_toml(t).ok())
+        static PARSED: std::sync::LazyLock<Vec<(&'static str, Option<Profile>)>> =
+            std::sync::LazyLock::new(|| {
+                BUILTIN
+                    .iter()
+                    .map(|(n, t)| (*n, Profile::from_toml(t).ok()))
+                    .collect()
+            });
+        PARSED
+            .iter()
+            .find(|(n, _)| *n == name)
+            .and_then(|(_, p)| p.clone())
     }
 
     /// A built-in profile by name, or an error naming the closest built-in
