@@ -420,7 +420,11 @@ impl AcModel {
 
     /// The lumped model's impedance at `f` (Hz): `(Re, Im)`, ohm.
     pub fn impedance(&self, f: f64) -> (f64, f64) {
-        let at = self.at(f);
+        self.impedance_of(f, &self.at(f))
+    }
+
+    /// [`AcModel::impedance`] from the model's state at `f`.
+    fn impedance_of(&self, f: f64, at: &AcAt) -> (f64, f64) {
         lumped(at.r, self.inductance_h - at.drop, self.capacitance_f, f)
     }
 
@@ -453,7 +457,11 @@ impl AcModel {
 
     /// One point of the curve at `f`.
     pub fn point(&self, f: f64) -> ResponsePoint {
-        let at = self.at(f);
+        self.point_of(f, &self.at(f))
+    }
+
+    /// [`AcModel::point`] from the model's state at `f`.
+    fn point_of(&self, f: f64, at: &AcAt) -> ResponsePoint {
         let (r, l) = (at.r, self.inductance_h - at.drop);
         let (re, im) = lumped(r, l, self.capacitance_f, f);
         ResponsePoint {
@@ -582,9 +590,10 @@ pub fn analyse(
     findings: &mut Findings,
 ) -> Option<Impedance> {
     let f = design.drive.frequency.filter(|f| *f > 0.0)?;
+    // The model's state at f once, for every number below.
     let at = model.at(f);
-    let p = model.point(f);
-    let (re, im) = model.impedance(f);
+    let p = model.point_of(f, &at);
+    let (re, im) = model.impedance_of(f, &at);
     let srf = model.self_resonance_hz();
     let delta = model.skin_depth(f);
     if f >= RESONANCE_MARGIN * srf {
