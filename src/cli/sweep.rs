@@ -117,8 +117,7 @@ pub(super) fn evaluate(base: &Loaded, text: &str) -> Evaluation {
         Ok(a) => a,
         Err(e) => return Evaluation::Invalid(format!("analysis: {e}")),
     };
-    let json = serde_json::to_value(&analysis).unwrap_or_default();
-    let m = explore::metrics(&loaded.design, &layout, &violations, &json);
+    let m = explore::metrics_of(&loaded.design, &layout, &violations, &analysis);
     let errors: Vec<String> = violations
         .iter()
         .filter(|v| v.severity == Severity::Error)

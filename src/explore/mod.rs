@@ -20,7 +20,7 @@ mod require;
 mod stream;
 mod vary;
 
-pub use metrics::metrics;
+pub use metrics::{metrics, metrics_of};
 pub use pareto::{PlotPoint, front, settle};
 pub use refine::{
     EVALUATIONS as REFINE_EVALUATIONS, Minimum, Refinement, STARTS as REFINE_STARTS, nelder_mead,
