@@ -26,7 +26,10 @@ pub use refine::{
     EVALUATIONS as REFINE_EVALUATIONS, Minimum, Refinement, STARTS as REFINE_STARTS, nelder_mead,
 };
 pub use require::{Op, Requirement, check_metric};
-pub use stream::{CHUNK, PLOT_POINTS, Row, Shard, Summary, TOP, Tally, csv_header, csv_row};
+pub use stream::{
+    CHUNK, PLOT_POINTS, Row, Shard, Summary, TOP, Tally, csv_header, csv_row, push_csv_row,
+    push_f64, write_jsonl_row,
+};
 pub use vary::{Kind, Value, Vary, kind_of, numeric_keys, parse as parse_vary, resolve_key};
 
 use serde::{Deserialize, Serialize};
