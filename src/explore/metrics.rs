@@ -129,38 +129,101 @@ fn derived(
 /// 64 bits, an error of the value's own); the caller then goes through
 /// `serde_json::to_value`.
 fn flatten_direct<T: Serialize + ?Sized>(value: &T) -> Option<BTreeMap<String, f64>> {
-    let mut flat = Flat::default();
-    value
-        .serialize(Sink {
-            flat: &mut flat,
-            on: true,
-        })
-        .ok()?;
-    let mut all = flat.all;
-    all.sort_unstable_by(|a, b| a.0.cmp(&b.0));
-    if all.windows(2).any(|w| w[0].0 == w[1].0) {
-        return None;
+    LAYOUT.with(|layout| {
+        let mut layout = layout.borrow_mut();
+        let mut flat = Flat::default();
+        if let Some(l) = layout.as_ref() {
+            flat.paths.reserve(l.paths.len());
+            flat.ends.reserve(l.ends.len());
+            flat.values.reserve(l.ends.len());
+        }
+        value
+            .serialize(Sink {
+                flat: &mut flat,
+                on: true,
+            })
+            .ok()?;
+        let same = layout
+            .as_ref()
+            .is_some_and(|l| l.ends == flat.ends && l.paths == flat.paths);
+        if !same {
+            *layout = Some(Layout::of(flat.paths.clone(), flat.ends.clone())?);
+        }
+        let l = layout.as_ref()?;
+        Some(
+            l.order
+                .iter()
+                .filter_map(|&k| {
+                    let v = flat.values[k as usize]?;
+                    Some((l.path(k as usize).to_string(), v))
+                })
+                .collect(),
+        )
+    })
+}
+
+thread_local! {
+    /// The layout of the last value [`flatten_direct`] flattened on this
+    /// thread: a sweep's candidates all have the same paths, so their
+    /// order is worked out once per thread.
+    static LAYOUT: std::cell::RefCell<Option<Layout>> = const { std::cell::RefCell::new(None) };
+}
+
+/// The key paths of a flattened value in the order met, and that order
+/// sorted.
+struct Layout {
+    /// Every path, one after another.
+    paths: String,
+    /// Where each ends in `paths`.
+    ends: Vec<u32>,
+    /// Path indices in key order.
+    order: Vec<u32>,
+}
+
+impl Layout {
+    /// The layout of these paths; `None` when one is met twice.
+    fn of(paths: String, ends: Vec<u32>) -> Option<Layout> {
+        let mut l = Layout {
+            paths,
+            order: (0..ends.len() as u32).collect(),
+            ends,
+        };
+        let mut order = std::mem::take(&mut l.order);
+        order.sort_unstable_by(|&a, &b| l.path(a as usize).cmp(l.path(b as usize)));
+        if order
+            .windows(2)
+            .any(|w| l.path(w[0] as usize) == l.path(w[1] as usize))
+        {
+            return None;
+        }
+        l.order = order;
+        Some(l)
     }
-    Some(
-        all.into_iter()
-            .filter_map(|(k, v)| v.map(|x| (k, x)))
-            .collect(),
-    )
+
+    /// Path `k`.
+    fn path(&self, k: usize) -> &str {
+        let start = if k == 0 { 0 } else { self.ends[k - 1] as usize };
+        &self.paths[start..self.ends[k] as usize]
+    }
 }
 
 /// What [`flatten_direct`] has collected: every key path met (objects,
-/// arrays, text and nulls with no number, so that a path met twice shows),
-/// and the path being written.
+/// arrays, text and nulls with no number, so that a path met twice shows)
+/// with its number, and the path being written.
 #[derive(Default)]
 struct Flat {
-    all: Vec<(String, Option<f64>)>,
+    paths: String,
+    ends: Vec<u32>,
+    values: Vec<Option<f64>>,
     path: String,
 }
 
 impl Flat {
     /// Records the value at the current path.
     fn put(&mut self, v: Option<f64>) {
-        self.all.push((self.path.clone(), v));
+        self.paths.push_str(&self.path);
+        self.ends.push(self.paths.len() as u32);
+        self.values.push(v);
     }
 
     /// Enters key `k` of an object (joined with '.' as [`flatten`] does);
@@ -713,6 +776,15 @@ mod tests {
         assert_eq!(direct["after"], f64::from(0.1f32));
         assert!(!direct.contains_key("inner.nan"));
         assert!(direct["inner.x"].is_sign_negative());
+        // Again with the same paths (the layout kept from the first) and
+        // other numbers, one of them no longer finite.
+        let mut again = outer();
+        again.top = f64::NAN;
+        again.inner.nan = 3.0;
+        let direct = flatten_direct(&again).expect("flattened directly");
+        assert_eq!(direct, via_value(&again));
+        assert!(!direct.contains_key("top"));
+        assert_eq!(direct["inner.nan"], 3.0);
     }
 
     #[test]
