@@ -323,7 +323,7 @@ fn maybe_tie(v: f64) -> bool {
     let e = e + m.trailing_zeros() as i32;
     let m = m >> m.trailing_zeros();
     // 5^26 alone has 19 digits.
-    if e >= 0 || e < -25 {
+    if !(-25..0).contains(&e) {
         return false;
     }
     u128::from(m) * 5u128.pow(e.unsigned_abs()) < 10u128.pow(18)
