@@ -219,11 +219,13 @@ fn push_field(out: &mut String, f: &str) {
 /// that read back as `v`, never an exponent, no fraction for a whole
 /// number, `-0` for minus zero), from serde_json's shortest digits
 /// (which may come with an exponent) laid out again: the same digits, as
-/// both give the shortest that reads back, and of those the nearest.
+/// both give the shortest that reads back, and of those the nearest. Where
+/// two are equally near, the two may choose differently; `{}` itself
+/// writes those numbers (and those that are not finite).
 pub fn push_f64(out: &mut String, v: f64) {
     use serde_json::ser::Formatter as _;
     use std::fmt::Write as _;
-    if !v.is_finite() || maybe_tie(v) {
+    if !v.is_finite() {
         let _ = write!(out, "{v}");
         return;
     }
@@ -278,6 +280,10 @@ pub fn push_f64(out: &mut String, v: f64) {
     while let Some((b'0', rest)) = digits.split_last() {
         digits = rest;
     }
+    if digits.len() >= 16 && maybe_tie(v) {
+        let _ = write!(out, "{v}");
+        return;
+    }
     if neg {
         out.push('-');
     }
@@ -298,16 +304,16 @@ pub fn push_f64(out: &mut String, v: f64) {
     }
 }
 
-/// Whether two shortest digit strings of `v` may be equally near it (then
-/// serde_json and `{}` may choose differently: 2122363682541629.25 is
-/// written ...629.2 by one, ...629.3 by the other). The two are equally
-/// near only when `v` is exactly the decimal halfway between them, one
-/// digit longer, and shortest strings have at least 16 digits (those of
-/// 15 lie further apart than the doubles around them); so `v`'s exact
-/// decimal has at most 18 significant digits. With `v = m 2^e`, `m` odd,
-/// that decimal is `m 5^-e / 10^-e` for `e < 0`, with as many significant
-/// digits as `m 5^-e`; for `e >= 0` its last digit 5 would sit at or left
-/// of the doubles' spacing, so there is no tie.
+/// Whether two shortest digit strings of `v`, of 16 digits or more, may
+/// be equally near it (then serde_json and `{}` may choose differently:
+/// 2122363682541629.25 is written ...629.2 by one, ...629.3 by the
+/// other). Shorter strings cannot tie: two of `k` digits both within the
+/// doubles' spacing around `v` need `10^-k < 2^-52`, so `k >= 16`. A tie
+/// needs `v` to be exactly the decimal halfway between the two, one digit
+/// longer: at most 18 significant digits. With `v = m 2^e`, `m` odd, the
+/// exact decimal of `v` is `m 5^-e / 10^-e` for `e < 0`, with as many
+/// significant digits as `m 5^-e`; for `e >= 0` its last digit 5 would
+/// sit at or left of the doubles' spacing, so there is no tie.
 fn maybe_tie(v: f64) -> bool {
     let bits = v.to_bits();
     let biased = ((bits >> 52) & 0x7ff) as i32;
