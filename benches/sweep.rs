@@ -47,8 +47,7 @@ fn evaluate(text: &str) -> Evaluation {
     let profile = rules::Profile::builtin("standard").expect("built-in profile");
     let v = rules::check(&d, &l, &profile);
     let a = physics::analyse_with(&d, &l, physics::Detail::Metrics).expect("analysis");
-    let json = serde_json::to_value(&a).expect("json");
-    Evaluation::Metrics(explore::metrics(&d, &l, &v, &json))
+    Evaluation::Metrics(explore::metrics_of(&d, &l, &v, &a))
 }
 
 fn bench(c: &mut Criterion) {

@@ -117,8 +117,7 @@ pub(super) fn evaluate(base: &Loaded, text: &str) -> Evaluation {
         Ok(a) => a,
         Err(e) => return Evaluation::Invalid(format!("analysis: {e}")),
     };
-    let json = serde_json::to_value(&analysis).unwrap_or_default();
-    let m = explore::metrics(&loaded.design, &layout, &violations, &json);
+    let m = explore::metrics_of(&loaded.design, &layout, &violations, &analysis);
     let errors: Vec<String> = violations
         .iter()
         .filter(|v| v.severity == Severity::Error)
@@ -222,6 +221,8 @@ fn make_sweep(
 struct Tables {
     csv: std::io::BufWriter<std::fs::File>,
     jsonl: std::io::BufWriter<std::fs::File>,
+    /// The CSV row being written (one buffer for every row).
+    row: String,
 }
 
 impl Tables {
@@ -235,6 +236,7 @@ impl Tables {
         let mut t = Tables {
             csv: open("candidates.csv")?,
             jsonl: open("candidates.jsonl")?,
+            row: String::new(),
         };
         t.csv
             .write_all(header.as_bytes())
@@ -394,15 +396,12 @@ pub fn run(a: Args<'_>) -> Result<Exit, Failure> {
 
 /// Writes one candidate to both tables.
 fn write_row(t: &mut Tables, i: usize, c: &Candidate, metrics: &[String]) -> Result<(), Failure> {
+    t.row.clear();
+    explore::push_csv_row(&mut t.row, i, c, metrics, false);
     t.csv
-        .write_all(explore::csv_row(i, c, metrics, false).as_bytes())
+        .write_all(t.row.as_bytes())
         .context("cannot write candidates.csv")?;
-    let mut line =
-        serde_json::to_string(&Row::of(i, c)).context("cannot write candidates.jsonl")?;
-    line.push('\n');
-    t.jsonl
-        .write_all(line.as_bytes())
-        .context("cannot write candidates.jsonl")?;
+    explore::write_jsonl_row(&mut t.jsonl, i, c).context("cannot write candidates.jsonl")?;
     Ok(())
 }
 

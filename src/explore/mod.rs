@@ -20,13 +20,16 @@ mod require;
 mod stream;
 mod vary;
 
-pub use metrics::metrics;
+pub use metrics::{metrics, metrics_of};
 pub use pareto::{PlotPoint, front, settle};
 pub use refine::{
     EVALUATIONS as REFINE_EVALUATIONS, Minimum, Refinement, STARTS as REFINE_STARTS, nelder_mead,
 };
 pub use require::{Op, Requirement, check_metric};
-pub use stream::{CHUNK, PLOT_POINTS, Row, Shard, Summary, TOP, Tally, csv_header, csv_row};
+pub use stream::{
+    CHUNK, PLOT_POINTS, Row, Shard, Summary, TOP, Tally, csv_header, csv_row, push_csv_row,
+    push_f64, write_jsonl_row,
+};
 pub use vary::{Kind, Value, Vary, kind_of, numeric_keys, parse as parse_vary, resolve_key};
 
 use serde::{Deserialize, Serialize};
@@ -168,6 +171,116 @@ pub struct Sweep {
     /// Whether `versus` was chosen by default (then a default that is the
     /// same for every candidate gives way to the resistance).
     pub versus_default: bool,
+    /// The candidates' design texts in pieces (made by [`Sweep::new`];
+    /// `None` where they cannot be).
+    template: Option<Template>,
+}
+
+/// Every candidate's design text is the text of its table
+/// (`toml::to_string`), and the tables differ only in the varied values:
+/// the text of one table cut at those values, and each value as that text
+/// writes it, give any candidate's text by joining the pieces, without
+/// copying the base table and writing it out again.
+#[derive(Debug, Clone)]
+struct Template {
+    /// The base and the keys this was made for (a sweep whose public
+    /// fields were changed since falls back to writing the table).
+    base: toml::Table,
+    vary: Vec<Vary>,
+    /// The text around the values: one piece more than values.
+    pieces: Vec<String>,
+    /// Which `--vary` each cut is, in text order.
+    slots: Vec<usize>,
+    /// Per `--vary`, per value: the value as the text writes it.
+    values: Vec<Vec<String>>,
+}
+
+impl Template {
+    /// The template of a sweep's candidates, checked against the tables'
+    /// own text for the first, a middle and the last candidate; `None`
+    /// when a value is not a plain number, text or truth value, or the
+    /// text does not cut cleanly.
+    fn of(sweep: &Sweep) -> Option<Template> {
+        let marker = |k: usize| format!("coilwright-sweep-slot-{k}-of-{}", sweep.vary.len());
+        let scalar = |v: &toml::Value| {
+            matches!(
+                v,
+                toml::Value::String(_)
+                    | toml::Value::Integer(_)
+                    | toml::Value::Float(_)
+                    | toml::Value::Boolean(_)
+            )
+        };
+        if sweep.vary.is_empty()
+            || sweep
+                .vary
+                .iter()
+                .any(|v| !v.values.iter().all(|x| scalar(&x.toml)))
+        {
+            return None;
+        }
+        let marked = sweep.table_with(|k| toml::Value::String(marker(k)));
+        let text = toml::to_string(&marked).ok()?;
+        // Each marker once, as a quoted string, cut out in text order.
+        let mut at: Vec<(usize, usize)> = Vec::new();
+        for k in 0..sweep.vary.len() {
+            let quoted = format!("\"{}\"", marker(k));
+            let found: Vec<usize> = text.match_indices(&quoted).map(|m| m.0).collect();
+            if found.len() != 1 || text.matches(&marker(k)).count() != 1 {
+                return None;
+            }
+            at.push((found[0], k));
+        }
+        at.sort_unstable();
+        let mut pieces = Vec::new();
+        let mut from = 0;
+        for &(start, k) in &at {
+            pieces.push(text[from..start].to_string());
+            from = start + marker(k).len() + 2;
+        }
+        pieces.push(text[from..].to_string());
+        let values = sweep
+            .vary
+            .iter()
+            .map(|v| {
+                v.values
+                    .iter()
+                    .map(|x| {
+                        let mut one = toml::Table::new();
+                        one.insert("v".into(), x.toml.clone());
+                        let line = toml::to_string(&one).ok()?;
+                        Some(line.strip_prefix("v = ")?.strip_suffix('\n')?.to_string())
+                    })
+                    .collect::<Option<Vec<String>>>()
+            })
+            .collect::<Option<Vec<_>>>()?;
+        let t = Template {
+            base: sweep.base.clone(),
+            vary: sweep.vary.clone(),
+            pieces,
+            slots: at.iter().map(|a| a.1).collect(),
+            values,
+        };
+        let n = sweep.len();
+        for i in [0, n / 2, n.saturating_sub(1)] {
+            if toml::to_string(&sweep.candidate_table(i)).ok()? != t.text(&sweep.choice(i)) {
+                return None;
+            }
+        }
+        Some(t)
+    }
+
+    /// The text of the candidate with these value indices.
+    fn text(&self, choice: &[usize]) -> String {
+        let len = self.pieces.iter().map(String::len).sum::<usize>() + 16 * self.slots.len();
+        let mut out = String::with_capacity(len);
+        for (piece, &k) in self.pieces.iter().zip(&self.slots) {
+            out.push_str(piece);
+            out.push_str(&self.values[k][choice[k]]);
+        }
+        out.push_str(self.pieces.last().map_or("", String::as_str));
+        out
+    }
 }
 
 /// Why a candidate was set aside.
@@ -261,14 +374,17 @@ impl Sweep {
                 (x.to_string(), false)
             }
         };
-        Ok(Sweep {
+        let mut sweep = Sweep {
             base,
             vary,
             require,
             objective,
             versus,
             versus_default,
-        })
+            template: None,
+        };
+        sweep.template = Template::of(&sweep);
+        Ok(sweep)
     }
 
     /// Number of candidates.
@@ -293,12 +409,18 @@ impl Sweep {
 
     /// The design table of candidate `i`.
     pub fn candidate_table(&self, i: usize) -> toml::Table {
-        let mut t = self.base.clone();
         let choice = self.choice(i);
+        self.table_with(|k| self.vary[k].values[choice[k]].toml.clone())
+    }
+
+    /// The base table with `value(k)` at the `k`-th varied key, and
+    /// exactly two of the size keys when one of them is swept.
+    fn table_with(&self, value: impl Fn(usize) -> toml::Value) -> toml::Table {
+        let mut t = self.base.clone();
         let sizes = ["coil.inner_diameter", "coil.turns", "coil.outer_diameter"];
         let varied: Vec<&str> = self.vary.iter().map(|v| v.key.as_str()).collect();
-        for (v, &c) in self.vary.iter().zip(&choice) {
-            set(&mut t, &v.key, v.values[c].toml.clone());
+        for (k, v) in self.vary.iter().enumerate() {
+            set(&mut t, &v.key, value(k));
         }
         // Keep exactly two of the size keys when one of them is swept.
         if varied.iter().any(|k| sizes.contains(k))
@@ -317,6 +439,15 @@ impl Sweep {
         t
     }
 
+    /// The design text of candidate `i`: the text of its table, from the
+    /// template when there is one.
+    fn candidate_text_of(&self, i: usize) -> String {
+        match &self.template {
+            Some(t) if t.base == self.base && t.vary == self.vary => t.text(&self.choice(i)),
+            _ => toml::to_string(&self.candidate_table(i)).unwrap_or_default(),
+        }
+    }
+
     /// The parameters of candidate `i` as (key, text).
     pub fn params(&self, i: usize) -> Vec<(String, String)> {
         self.vary
@@ -330,7 +461,7 @@ impl Sweep {
     /// text) and judges it against the requirements and the design's own
     /// temperature limit.
     pub fn candidate(&self, i: usize, eval: impl Fn(&str) -> Evaluation) -> Candidate {
-        self.judge(&self.candidate_table(i), self.params(i), eval)
+        self.judge_text(&self.candidate_text_of(i), self.params(i), eval)
     }
 
     /// Evaluates a design table (a candidate's, or one with refined values)
@@ -341,8 +472,17 @@ impl Sweep {
         params: Vec<(String, String)>,
         eval: impl Fn(&str) -> Evaluation,
     ) -> Candidate {
-        let text = toml::to_string(table).unwrap_or_default();
-        match eval(&text) {
+        self.judge_text(&toml::to_string(table).unwrap_or_default(), params, eval)
+    }
+
+    /// [`Sweep::judge`] of a design table's text.
+    fn judge_text(
+        &self,
+        text: &str,
+        params: Vec<(String, String)>,
+        eval: impl Fn(&str) -> Evaluation,
+    ) -> Candidate {
+        match eval(text) {
             Evaluation::Invalid(reason) => Candidate {
                 params,
                 status: Status::Invalid,
@@ -651,6 +791,61 @@ layers = 2
         )
         .unwrap_err();
         assert!(e.to_string().contains("did you mean 'force_n'"), "{e}");
+    }
+
+    #[test]
+    fn candidate_texts_are_their_tables_text() {
+        // Sizes swept from a base giving outer and inner diameter (the
+        // inner one gives way), a key whose table the base lacks, and the
+        // fin starter's own keys.
+        let sweeps = [
+            (
+                BASE,
+                vec![
+                    "layers=2,4",
+                    "turns=4..8:0.5",
+                    "outer_diameter=18mm,20mm",
+                    "magnet.gap=1mm,2mm",
+                ],
+            ),
+            (
+                include_str!("../../examples/fin-actuator.toml"),
+                vec![
+                    "layers=2,4,6,8",
+                    "turns=6..9",
+                    "trace_width=0.1mm..0.16mm:0.01mm",
+                    "outer_diameter=12mm..13mm:0.5mm",
+                ],
+            ),
+        ];
+        for (base, vary) in sweeps {
+            let mut s = Sweep::new(
+                base,
+                vary.iter().map(|v| parse_vary(v).unwrap()).collect(),
+                vec![],
+                Objective {
+                    metric: "force_n".into(),
+                    maximize: true,
+                },
+                None,
+                &known(),
+            )
+            .unwrap();
+            assert!(s.template.is_some());
+            for i in 0..s.len() {
+                let want = toml::to_string(&s.candidate_table(i)).unwrap();
+                assert_eq!(s.candidate_text_of(i), want, "candidate {i}");
+            }
+            // A base changed after the sweep was made: the text follows it.
+            set(
+                &mut s.base,
+                "coil.clearance",
+                toml::Value::String("0.2mm".into()),
+            );
+            let want = toml::to_string(&s.candidate_table(1)).unwrap();
+            assert!(want.contains("0.2mm"));
+            assert_eq!(s.candidate_text_of(1), want);
+        }
     }
 
     #[test]

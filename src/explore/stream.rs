@@ -151,21 +151,235 @@ pub fn csv_header(params: &[String], metrics: &[String], ranked: bool) -> String
 
 /// One row of a candidate table (see [`csv_header`]).
 pub fn csv_row(index: usize, c: &Candidate, metrics: &[String], ranked: bool) -> String {
-    let mut row: Vec<String> = Vec::new();
+    let mut out = String::new();
+    push_csv_row(&mut out, index, c, metrics, ranked);
+    out
+}
+
+/// Appends [`csv_row`] to `out` (a sweep reuses one buffer for every
+/// row). The metrics are looked up in step with the candidate's sorted
+/// map when `metrics` is sorted too (a sweep's columns are), by name
+/// otherwise; numbers are written as `{}` writes them ([`push_f64`]).
+pub fn push_csv_row(
+    out: &mut String,
+    index: usize,
+    c: &Candidate,
+    metrics: &[String],
+    ranked: bool,
+) {
+    use std::fmt::Write as _;
     if ranked {
-        row.push(c.rank.map(|r| r.to_string()).unwrap_or_default());
-        row.push(c.pareto.to_string());
+        if let Some(r) = c.rank {
+            let _ = write!(out, "{r}");
+        }
+        out.push(',');
+        out.push_str(if c.pareto { "true" } else { "false" });
+        out.push(',');
     }
-    row.push(index.to_string());
-    row.push(status_word(c.status).to_string());
-    row.extend(c.params.iter().map(|(_, v)| v.clone()));
-    row.extend(
-        metrics
-            .iter()
-            .map(|m| c.metrics.get(m).map(|v| format!("{v}")).unwrap_or_default()),
-    );
-    row.push(c.reason.clone());
-    line(row.into_iter())
+    let _ = write!(out, "{index}");
+    out.push(',');
+    out.push_str(status_word(c.status));
+    for (_, v) in &c.params {
+        out.push(',');
+        push_field(out, v);
+    }
+    let mut have = c.metrics.iter().peekable();
+    for m in metrics {
+        out.push(',');
+        let v = match have.peek() {
+            Some((k, v)) if *k == m => {
+                let v = **v;
+                have.next();
+                Some(v)
+            }
+            _ => c.metrics.get(m).copied(),
+        };
+        if let Some(v) = v {
+            push_f64(out, v);
+        }
+    }
+    out.push(',');
+    push_field(out, &c.reason);
+    out.push('\n');
+}
+
+/// Appends one text field, quoted when it holds a comma, a quote or a
+/// line break (quotes doubled).
+fn push_field(out: &mut String, f: &str) {
+    if f.contains([',', '"', '\n']) {
+        out.push('"');
+        out.push_str(&f.replace('"', "\"\""));
+        out.push('"');
+    } else {
+        out.push_str(f);
+    }
+}
+
+/// Appends `v` exactly as `format!("{v}")` writes it (the shortest digits
+/// that read back as `v`, never an exponent, no fraction for a whole
+/// number, `-0` for minus zero), from serde_json's shortest digits
+/// (which may come with an exponent) laid out again: the same digits, as
+/// both give the shortest that reads back, and of those the nearest. Where
+/// two are equally near, the two may choose differently; `{}` itself
+/// writes those numbers (and those that are not finite).
+pub fn push_f64(out: &mut String, v: f64) {
+    use serde_json::ser::Formatter as _;
+    use std::fmt::Write as _;
+    if !v.is_finite() {
+        let _ = write!(out, "{v}");
+        return;
+    }
+    let mut buf = [0u8; 40];
+    let len = {
+        let mut w = &mut buf[..];
+        if serde_json::ser::CompactFormatter
+            .write_f64(&mut w, v)
+            .is_err()
+        {
+            let _ = write!(out, "{v}");
+            return;
+        }
+        40 - w.len()
+    };
+    let text = &buf[..len];
+    let (neg, text) = match text.split_first() {
+        Some((b'-', rest)) => (true, rest),
+        _ => (false, text),
+    };
+    let (mantissa, exp) = match text.iter().position(|&b| b == b'e' || b == b'E') {
+        Some(at) => {
+            let e = std::str::from_utf8(&text[at + 1..])
+                .ok()
+                .and_then(|e| e.trim_start_matches('+').parse::<i32>().ok());
+            let Some(e) = e else {
+                let _ = write!(out, "{v}");
+                return;
+            };
+            (&text[..at], e)
+        }
+        None => (text, 0),
+    };
+    // The digits without the point, and where the point goes among them.
+    let mut digits = [0u8; 40];
+    let mut n = 0;
+    let mut point = None;
+    for &b in mantissa {
+        if b == b'.' {
+            point = Some(n);
+        } else {
+            digits[n] = b;
+            n += 1;
+        }
+    }
+    let mut dp = point.unwrap_or(n) as i32 + exp;
+    let mut digits = &digits[..n];
+    while let Some((b'0', rest)) = digits.split_first() {
+        digits = rest;
+        dp -= 1;
+    }
+    while let Some((b'0', rest)) = digits.split_last() {
+        digits = rest;
+    }
+    if digits.len() >= 16 && maybe_tie(v) {
+        let _ = write!(out, "{v}");
+        return;
+    }
+    if neg {
+        out.push('-');
+    }
+    if digits.is_empty() {
+        out.push('0');
+    } else if dp <= 0 {
+        out.push_str("0.");
+        out.extend(std::iter::repeat_n('0', (-dp) as usize));
+        out.extend(digits.iter().map(|&b| char::from(b)));
+    } else if dp as usize >= digits.len() {
+        out.extend(digits.iter().map(|&b| char::from(b)));
+        out.extend(std::iter::repeat_n('0', dp as usize - digits.len()));
+    } else {
+        let (int, frac) = digits.split_at(dp as usize);
+        out.extend(int.iter().map(|&b| char::from(b)));
+        out.push('.');
+        out.extend(frac.iter().map(|&b| char::from(b)));
+    }
+}
+
+/// Whether two shortest digit strings of `v`, of 16 digits or more, may
+/// be equally near it (then serde_json and `{}` may choose differently:
+/// 2122363682541629.25 is written ...629.2 by one, ...629.3 by the
+/// other). Shorter strings cannot tie: two of `k` digits both within the
+/// doubles' spacing around `v` need `10^-k < 2^-52`, so `k >= 16`. A tie
+/// needs `v` to be exactly the decimal halfway between the two, one digit
+/// longer: at most 18 significant digits. With `v = m 2^e`, `m` odd, the
+/// exact decimal of `v` is `m 5^-e / 10^-e` for `e < 0`, with as many
+/// significant digits as `m 5^-e`; for `e >= 0` its last digit 5 would
+/// sit at or left of the doubles' spacing, so there is no tie.
+fn maybe_tie(v: f64) -> bool {
+    let bits = v.to_bits();
+    let biased = ((bits >> 52) & 0x7ff) as i32;
+    let fraction = bits & ((1 << 52) - 1);
+    let (m, e) = if biased == 0 {
+        (fraction, -1074)
+    } else {
+        (fraction | (1 << 52), biased - 1075)
+    };
+    if m == 0 {
+        return false;
+    }
+    let e = e + m.trailing_zeros() as i32;
+    let m = m >> m.trailing_zeros();
+    // 5^26 alone has 19 digits.
+    if !(-25..0).contains(&e) {
+        return false;
+    }
+    u128::from(m) * 5u128.pow(e.unsigned_abs()) < 10u128.pow(18)
+}
+
+/// Writes candidate `index` as one line of `candidates.jsonl` (the bytes
+/// of `serde_json::to_string(&Row::of(index, c))` and a line break),
+/// without copying the candidate into a [`Row`].
+///
+/// # Errors
+/// Those of the writer.
+pub fn write_jsonl_row<W: std::io::Write>(
+    mut w: W,
+    index: usize,
+    c: &Candidate,
+) -> serde_json::Result<()> {
+    serde_json::to_writer(
+        &mut w,
+        &RowRef {
+            index,
+            params: &c.params,
+            status: c.status,
+            reason: &c.reason,
+            shortfall: c.shortfall.filter(|v| v.is_finite()),
+            metrics: FiniteOrNull(&c.metrics),
+        },
+    )?;
+    w.write_all(b"\n").map_err(serde_json::Error::io)
+}
+
+/// A [`Row`] that borrows the candidate (the same fields and attributes).
+#[derive(Serialize)]
+struct RowRef<'a> {
+    index: usize,
+    params: &'a [(String, String)],
+    status: Status,
+    reason: &'a str,
+    #[serde(skip_serializing_if = "Option::is_none")]
+    shortfall: Option<f64>,
+    metrics: FiniteOrNull<'a>,
+}
+
+/// Metrics serialised as [`Row::metrics`] is: a number that is not finite
+/// as `null`.
+struct FiniteOrNull<'a>(&'a BTreeMap<String, f64>);
+
+impl Serialize for FiniteOrNull<'_> {
+    fn serialize<S: serde::Serializer>(&self, s: S) -> Result<S::Ok, S::Error> {
+        s.collect_map(self.0.iter().map(|(k, &v)| (k, v.is_finite().then_some(v))))
+    }
 }
 
 /// The status as the tables write it.
@@ -594,6 +808,120 @@ impl Summary {
 #[cfg(test)]
 mod tests {
     use super::*;
+
+    /// A candidate with awkward text and numbers.
+    fn awkward() -> Candidate {
+        Candidate {
+            params: vec![
+                ("coil.turns".into(), "12.5".into()),
+                ("name".into(), "a,\"b\"".into()),
+            ],
+            status: Status::FailsRequirement,
+            reason: "x, y\nz".into(),
+            metrics: [
+                ("a", 1.0),
+                ("b", -0.0),
+                ("c", f64::NAN),
+                ("d", f64::INFINITY),
+                ("e", 1e-7),
+                ("f", 1.5e300),
+                ("g", 0.1 + 0.2),
+                ("h", -123.456),
+            ]
+            .iter()
+            .map(|(k, v)| (k.to_string(), *v))
+            .collect(),
+            rank: Some(3),
+            pareto: true,
+            shortfall: Some(0.25),
+        }
+    }
+
+    /// The row as it was written before rows had a reused buffer.
+    fn csv_row_by_format(index: usize, c: &Candidate, metrics: &[String], ranked: bool) -> String {
+        let mut row: Vec<String> = Vec::new();
+        if ranked {
+            row.push(c.rank.map(|r| r.to_string()).unwrap_or_default());
+            row.push(c.pareto.to_string());
+        }
+        row.push(index.to_string());
+        row.push(status_word(c.status).to_string());
+        row.extend(c.params.iter().map(|(_, v)| v.clone()));
+        row.extend(
+            metrics
+                .iter()
+                .map(|m| c.metrics.get(m).map(|v| format!("{v}")).unwrap_or_default()),
+        );
+        row.push(c.reason.clone());
+        line(row.into_iter())
+    }
+
+    #[test]
+    fn rows_are_written_as_before() {
+        let c = awkward();
+        let sorted: Vec<String> = ["a", "b", "bb", "c", "d", "e", "f", "g", "h", "z"]
+            .iter()
+            .map(|s| s.to_string())
+            .collect();
+        let unsorted: Vec<String> = sorted.iter().rev().cloned().collect();
+        for metrics in [&sorted, &unsorted] {
+            for ranked in [false, true] {
+                assert_eq!(
+                    csv_row(7, &c, metrics, ranked),
+                    csv_row_by_format(7, &c, metrics, ranked)
+                );
+            }
+        }
+        let mut line = Vec::new();
+        write_jsonl_row(&mut line, 7, &c).unwrap();
+        let mut want = serde_json::to_string(&Row::of(7, &c)).unwrap();
+        want.push('\n');
+        assert_eq!(String::from_utf8(line).unwrap(), want);
+    }
+
+    #[test]
+    fn numbers_are_written_as_format_writes_them() {
+        let mut rnd = crate::numeric::test_uniform(2026);
+        let check = |v: f64| {
+            let mut s = String::new();
+            push_f64(&mut s, v);
+            assert_eq!(s, format!("{v}"), "{:e}", v);
+        };
+        for v in [
+            0.0,
+            -0.0,
+            1.0,
+            0.1,
+            1e-7,
+            1e21,
+            1e22,
+            5e-324,
+            f64::MAX,
+            f64::MIN_POSITIVE,
+            123456789.0,
+            0.3,
+            2.5e-5,
+        ] {
+            check(v);
+            check(-v);
+        }
+        for _ in 0..2_000_000 {
+            // Any bit pattern of a finite number.
+            let bits = (rnd() * 2f64.powi(32)) as u64 ^ (((rnd() * 2f64.powi(32)) as u64) << 32);
+            let v = f64::from_bits(bits);
+            if v.is_finite() {
+                check(v);
+            }
+            // Decimals with few digits, as designs and results often are.
+            let d = (rnd() * 1e6).round() / 10f64.powi((rnd() * 12.0) as i32);
+            check(d);
+            check(d * 10f64.powi((rnd() * 40.0) as i32 - 20));
+            // Short binary fractions, where two shortest strings can be
+            // equally near.
+            let m = (rnd() * 2f64.powi(53)).floor();
+            check(m * 2f64.powi(-((rnd() * 40.0) as i32)));
+        }
+    }
 
     #[test]
     fn shards_cover_the_range_once() {
