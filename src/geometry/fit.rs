@@ -181,8 +181,46 @@ impl FitInput {
     }
 
     /// Most turns that fit with the free centre `inner` (bracketed by
-    /// doubling, then [`largest_feasible`]).
+    /// doubling, then [`largest_feasible`]), remembered per thread for
+    /// the last few hundred inputs: a sweep asks again for every turn
+    /// count that does not fit the same coil (for the message that says
+    /// how many would), and the answer depends only on the inputs.
     fn max_turns(&self, inner: f64, outer: f64) -> Result<f64, FitError> {
+        type Key = (Shape, Corner, [u64; 4]);
+        thread_local! {
+            static SEEN: std::cell::RefCell<Vec<(Key, Result<f64, FitError>)>> =
+                const { std::cell::RefCell::new(Vec::new()) };
+        }
+        /// Inputs remembered per thread (the older half is forgotten
+        /// when full).
+        const KEEP: usize = 512;
+        let key: Key = (
+            self.shape,
+            self.corner,
+            [self.trace_width, self.clearance, inner, outer].map(f64::to_bits),
+        );
+        if let Some(hit) = SEEN.with(|s| {
+            s.borrow()
+                .iter()
+                .rev()
+                .find(|(k, _)| *k == key)
+                .map(|(_, v)| v.clone())
+        }) {
+            return hit;
+        }
+        let found = self.max_turns_uncached(inner, outer);
+        SEEN.with(|s| {
+            let mut s = s.borrow_mut();
+            if s.len() >= KEEP {
+                s.drain(..KEEP / 2);
+            }
+            s.push((key, found.clone()));
+        });
+        found
+    }
+
+    /// [`FitInput::max_turns`] computed.
+    fn max_turns_uncached(&self, inner: f64, outer: f64) -> Result<f64, FitError> {
         let (mut lo, mut hi) = (1e-6, 1.0);
         let mut f_lo = self.excess(inner, lo, outer)?;
         if f_lo > 0.0 {
