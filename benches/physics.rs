@@ -1,7 +1,8 @@
 //! Benchmarks of the analysis: the Biot-Savart sum (10,000 segments x
 //! 10,000 points), the full analysis of an 8-layer, 100-turn coil
 //! (target under 1 s) and the full report of the fin starter with its
-//! square-wave drive and `[fin]` (target under 50 ms).
+//! square-wave drive and `[fin]` (target under 50 ms), and the
+//! capacitance phase of one 8-layer sweep candidate.
 
 use coilwright::design::Design;
 use coilwright::physics::field::Segments;
@@ -99,11 +100,33 @@ fn impedance_sweep_fin(c: &mut Criterion) {
     g.finish();
 }
 
+/// The capacitance phase of one sweep candidate (issue 18's sweep: the
+/// fin example at 8 layers, 20 turns, 0.13 mm traces, 17 mm across), from
+/// its chords at the sweep's limit: the neighbour index, the searches and
+/// the runs of turns.
+fn capacitance_sweep_candidate(c: &mut Criterion) {
+    use coilwright::physics::{capacitance, chords, conductor::Conductor};
+    let text = include_str!("../examples/fin-actuator.toml")
+        .replace("layers = 2 ", "layers = 8 ")
+        .replace("trace_width = \"0.1mm\"", "trace_width = \"0.13mm\"")
+        .replace("outer_diameter = \"12mm\"", "outer_diameter = \"17mm\"");
+    let (d, layout) = coilwright::pipeline::parse_and_build(&text).expect("design");
+    assert_eq!(layout.layers, 8);
+    let cond = Conductor::new(&d, &layout);
+    let ch = chords::chords(&d, &layout, &cond, chords::MAX_CHORDS_METRICS);
+    let mut g = c.benchmark_group("capacitance");
+    g.bench_function("sweep_candidate_8_layers", |b| {
+        b.iter(|| black_box(capacitance::analyse(black_box(&d), black_box(&ch), 8, 1e-6)))
+    });
+    g.finish();
+}
+
 criterion_group!(
     benches,
     biot_savart,
     report_8_layer_100_turns,
     report_fin_starter,
-    impedance_sweep_fin
+    impedance_sweep_fin,
+    capacitance_sweep_candidate
 );
 criterion_main!(benches);

@@ -344,7 +344,9 @@ impl<const N: usize> Memo<N> {
     fn get(&mut self, args: [f64; N], f: impl FnOnce() -> f64) -> f64 {
         let key = args.map(f64::to_bits);
         match self.0 {
-            Some((k, v)) if k == key => v,
+            // Compared element by element (the array comparison calls
+            // `memcmp`).
+            Some((k, v)) if k.iter().zip(&key).all(|(a, b)| a == b) => v,
             _ => {
                 let v = f();
                 self.0 = Some((key, v));
@@ -411,10 +413,31 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
             if !same && (lk as usize) > layers {
                 continue;
             }
+            // Each chord listed once, and only those that can pass the
+            // tests below (the same tests, so the same chords in the same
+            // order as testing every listed chord in turn).
             near.clear();
-            grid.around(lk, here, &mut near);
             let tag = 2 * i + usize::from(same);
-            near.retain(|&j| std::mem::replace(&mut listed[j], tag) != tag);
+            for &j in grid.rows_around(lk, here).iter().copied().flatten() {
+                let j = j as usize;
+                if std::mem::replace(&mut listed[j], tag) == tag || j == i {
+                    continue;
+                }
+                let fo = &frames[j];
+                let d = fo.mid - mid;
+                let lat = d.dot(v).abs();
+                let far = if same {
+                    lat < 0.5 * pitch || lat > 1.5 * pitch
+                } else {
+                    (c.width + chords[j].width) / 2.0 - super::conductor::m(lat) <= 0.0
+                };
+                if !(far
+                    || fo.dir.dot(u).abs() < 0.8
+                    || (mid - fo.mid).dot(fo.dir).abs() > fo.span / 2.0)
+                {
+                    near.push(j);
+                }
+            }
             near.sort_unstable();
             // Room beside the copper for the fringe of a facing pair:
             // the gap where a turn runs next to it.
@@ -465,7 +488,7 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
     // strips), by the run's partial capacitances and the real voltages.
     let mut tables: Vec<Option<Arc<Vec<f64>>>> = vec![None; MAX_RUN + 1];
     let mut e_turns = 0.0;
-    let mut run: [Vec<(usize, f64)>; 2] = [Vec::new(), Vec::new()];
+    let mut run: [Vec<usize>; 2] = [Vec::new(), Vec::new()];
     for (i, c) in chords.iter().enumerate() {
         if next[i] == [None, None] {
             continue;
@@ -482,7 +505,7 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
                 // The side of j away from cur.
                 let same_way = frames[j].dir.dot(frames[cur].dir) > 0.0;
                 k_cur = if same_way { k_cur } else { 1 - k_cur };
-                list.push((j, volt_at(&chords[j], &frames[j], mid)));
+                list.push(j);
                 (prev, cur) = (cur, j);
             }
         }
@@ -495,20 +518,21 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
             }
         }
         let n = a + b + 1;
-        let table = tables[n]
-            .get_or_insert_with(|| strip_partials(ratio, n))
-            .clone();
+        let table = tables[n].get_or_insert_with(|| strip_partials(ratio, n));
         let li = (c.layer as usize).saturating_sub(1).min(eps.len() - 1);
         let vi = (c.volt.0 + c.volt.1) / 2.0;
         let len = c.length();
-        // Strip index: the left run (side 0) first, outermost at 0.
-        for (m, &(_, vj)) in run[0][..a].iter().enumerate() {
-            let cp = run_partial(&table, n, a, a - 1 - m, c.thickness / gap, eps[li]);
+        // Strip index: the left run (side 0) first, outermost at 0; the
+        // voltages of the strips kept only.
+        for (m, &j) in run[0][..a].iter().enumerate() {
+            let vj = volt_at(&chords[j], &frames[j], mid);
+            let cp = run_partial(table, n, a, a - 1 - m, c.thickness / gap, eps[li]);
             // Each pair is seen from both of its chords: half each.
             e_turns += 0.5 * 0.5 * cp * len * (vj - vi).powi(2);
         }
-        for (m, &(_, vj)) in run[1][..b].iter().enumerate() {
-            let cp = run_partial(&table, n, a, a + 1 + m, c.thickness / gap, eps[li]);
+        for (m, &j) in run[1][..b].iter().enumerate() {
+            let vj = volt_at(&chords[j], &frames[j], mid);
+            let cp = run_partial(table, n, a, a + 1 + m, c.thickness / gap, eps[li]);
             e_turns += 0.5 * 0.5 * cp * len * (vj - vi).powi(2);
         }
     }

@@ -189,8 +189,12 @@ enum CellStore {
         start: Vec<u32>,
         items: Vec<u32>,
     },
-    /// `(layer, ix, iy, chord)`, sorted.
-    Sorted(Vec<(u8, i64, i64, u32)>),
+    /// The cells `(layer, ix, iy)` listed, sorted, and beside each its
+    /// chord.
+    Sorted {
+        cells: Vec<(u8, i64, i64)>,
+        items: Vec<u32>,
+    },
 }
 
 /// `x.floor() as i64` without the library call (exact: the truncation,
@@ -261,46 +265,60 @@ impl CellIndex {
         // margin holds them all.
         let (mut lo, mut hi) = ((i64::MAX, i64::MAX), (i64::MIN, i64::MIN));
         let (mut layers, mut samples) = (0u8, 0usize);
-        for c in chords {
+        let counts: Vec<usize> = chords.iter().map(|c| steps(c, cell)).collect();
+        for (c, &k) in chords.iter().zip(&counts) {
             for p in [c.a, c.b] {
                 lo = (lo.0.min(at(p.x) - 1), lo.1.min(at(p.y) - 1));
                 hi = (hi.0.max(at(p.x) + 1), hi.1.max(at(p.y) + 1));
             }
             layers = layers.max(c.layer);
-            samples += steps(c, cell) + 1;
+            samples += k + 1;
         }
         let n = (hi.0 - lo.0 + 1, hi.1 - lo.1 + 1);
         let cells = (n.0 as u128) * (n.1 as u128) * (u128::from(layers) + 1);
+        let mut buf = Vec::new();
         // Each chord's cells in order along it, `visit(layer, ix, iy)`.
         if !dense || chords.is_empty() || cells > 2 * samples as u128 + 4096 {
             let mut pairs: Vec<(u8, i64, i64, u32)> = Vec::with_capacity(samples);
             for (i, c) in chords.iter().enumerate() {
-                along(c, cell, |l, x, y| pairs.push((l, x, y, i as u32)));
+                along(c, cell, counts[i], &mut buf, |l, x, y| {
+                    pairs.push((l, x, y, i as u32))
+                });
             }
             pairs.sort_unstable();
             return CellIndex {
                 cell,
-                store: CellStore::Sorted(pairs),
+                store: CellStore::Sorted {
+                    cells: pairs.iter().map(|p| (p.0, p.1, p.2)).collect(),
+                    items: pairs.iter().map(|p| p.3).collect(),
+                },
             };
         }
         let id =
             |l: u8, x: i64, y: i64| ((i64::from(l) * n.0 + (x - lo.0)) * n.1 + (y - lo.1)) as u32;
         let mut pairs: Vec<(u32, u32)> = Vec::with_capacity(samples);
         for (i, c) in chords.iter().enumerate() {
-            along(c, cell, |l, x, y| pairs.push((id(l, x, y), i as u32)));
+            along(c, cell, counts[i], &mut buf, |l, x, y| {
+                pairs.push((id(l, x, y), i as u32))
+            });
         }
+        // Counts, their running sums (where each cell's list ends), then
+        // the chords placed from the back, which leaves `start[c]` at the
+        // cell's first entry (the chords of a cell in chord order).
         let mut start = vec![0u32; cells as usize + 1];
         for &(c, _) in &pairs {
-            start[c as usize + 1] += 1;
+            start[c as usize] += 1;
         }
-        for c in 1..start.len() {
-            start[c] += start[c - 1];
+        let mut sum = 0;
+        for s in start.iter_mut() {
+            sum += *s;
+            *s = sum;
         }
-        let mut fill = start.clone();
         let mut items = vec![0u32; pairs.len()];
-        for &(c, i) in &pairs {
-            items[fill[c as usize] as usize] = i;
-            fill[c as usize] += 1;
+        for &(c, i) in pairs.iter().rev() {
+            let s = &mut start[c as usize];
+            *s -= 1;
+            items[*s as usize] = i;
         }
         CellIndex {
             cell,
@@ -321,7 +339,17 @@ impl CellIndex {
 
     /// Appends the chords listed in the 3 x 3 cells around `(ix, iy)` on
     /// `layer` to `out` (a chord once per cell it is listed in).
-    pub fn around(&self, layer: u8, (ix, iy): (i64, i64), out: &mut Vec<usize>) {
+    pub fn around(&self, layer: u8, at: (i64, i64), out: &mut Vec<usize>) {
+        for row in self.rows_around(layer, at) {
+            out.extend(row.iter().map(|&i| i as usize));
+        }
+    }
+
+    /// The chords listed in the 3 x 3 cells around `(ix, iy)` on `layer`,
+    /// a slice per column of cells ([`CellIndex::around`] without the
+    /// list).
+    pub fn rows_around(&self, layer: u8, (ix, iy): (i64, i64)) -> [&[u32]; 3] {
+        let mut rows: [&[u32]; 3] = [&[], &[], &[]];
         match &self.store {
             CellStore::Dense {
                 lo,
@@ -330,41 +358,82 @@ impl CellIndex {
                 start,
                 items,
             } => {
-                if layer > *layers {
-                    return;
-                }
                 let y0 = (iy - 1 - lo.1).max(0);
                 let y1 = (iy + 1 - lo.1).min(n.1 - 1);
-                if y0 > y1 {
-                    return;
+                if layer > *layers || y0 > y1 {
+                    return rows;
                 }
-                for x in (ix - 1 - lo.0).max(0)..=(ix + 1 - lo.0).min(n.0 - 1) {
-                    let row = (i64::from(layer) * n.0 + x) * n.1;
-                    let (a, b) = ((row + y0) as usize, (row + y1) as usize + 1);
-                    let items = &items[start[a] as usize..start[b] as usize];
-                    out.extend(items.iter().map(|&i| i as usize));
+                let x0 = (ix - 1 - lo.0).max(0);
+                for (row, x) in rows.iter_mut().zip(x0..=(ix + 1 - lo.0).min(n.0 - 1)) {
+                    let at = (i64::from(layer) * n.0 + x) * n.1;
+                    let (a, b) = ((at + y0) as usize, (at + y1) as usize + 1);
+                    *row = &items[start[a] as usize..start[b] as usize];
                 }
             }
-            CellStore::Sorted(pairs) => {
-                for x in ix - 1..=ix + 1 {
-                    let from = pairs.partition_point(|p| (p.0, p.1, p.2) < (layer, x, iy - 1));
-                    out.extend(
-                        pairs[from..]
-                            .iter()
-                            .take_while(|p| (p.0, p.1, p.2) <= (layer, x, iy + 1))
-                            .map(|p| p.3 as usize),
-                    );
+            CellStore::Sorted { cells, items } => {
+                for (row, x) in rows.iter_mut().zip(ix - 1..=ix + 1) {
+                    let a = cells.partition_point(|&c| c < (layer, x, iy - 1));
+                    let b = cells.partition_point(|&c| c <= (layer, x, iy + 1));
+                    *row = &items[a..b];
                 }
             }
         }
+        rows
     }
 }
 
 /// Calls `visit(layer, ix, iy)` with each cell a chord passes through, in
 /// order along it (its points half a cell apart, consecutive repeats
-/// skipped), for [`CellIndex`].
-fn along(c: &Chord, cell: f64, mut visit: impl FnMut(u8, i64, i64)) {
-    let steps = steps(c, cell);
+/// skipped), for [`CellIndex`]; `steps` is [`steps`] of the chord.
+///
+/// The points are not all computed: on each axis the cell moves by one at
+/// the first point past the next cell edge, and which point that is
+/// follows from the straight line, or from a few points where one lies
+/// too near an edge for the line to decide ([`Crossings`]); the cells
+/// are those of every point ([`along_each`], also taken for a chord with
+/// a coordinate that is not finite).
+fn along(
+    c: &Chord,
+    cell: f64,
+    steps: usize,
+    cells: &mut Vec<(i64, i64)>,
+    mut visit: impl FnMut(u8, i64, i64),
+) {
+    let p0 = c.a.lerp(c.b, 0.0);
+    let start = (floor_i64(p0.x / cell), floor_i64(p0.y / cell));
+    let (Some(mut x), Some(mut y)) = (
+        Crossings::new(c.a.x, c.b.x, start.0, cell, steps),
+        Crossings::new(c.a.y, c.b.y, start.1, cell, steps),
+    ) else {
+        return along_each(c, cell, steps, visit);
+    };
+    // Decide the whole chord before visiting, so that the fallback can
+    // start over.
+    cells.clear();
+    cells.push(start);
+    loop {
+        let (kx, ky) = (x.next, y.next);
+        let k = kx.min(ky);
+        if k > steps {
+            break;
+        }
+        let mut here = cells[cells.len() - 1];
+        if kx == k {
+            here.0 = x.step(k);
+        }
+        if ky == k {
+            here.1 = y.step(k);
+        }
+        cells.push(here);
+    }
+    for &(ix, iy) in cells.iter() {
+        visit(c.layer, ix, iy);
+    }
+}
+
+/// [`along`] point by point: each point `a + (b - a) k / steps`, its cell
+/// by [`Axis`].
+fn along_each(c: &Chord, cell: f64, steps: usize, mut visit: impl FnMut(u8, i64, i64)) {
     let d = c.b - c.a;
     let (mut x, mut y) = (Axis::new(d.x, cell), Axis::new(d.y, cell));
     let mut last = None;
@@ -375,6 +444,110 @@ fn along(c: &Chord, cell: f64, mut visit: impl FnMut(u8, i64, i64)) {
             visit(c.layer, here.0, here.1);
             last = Some(here);
         }
+    }
+}
+
+/// The points of a chord at which its cell along one axis changes: the
+/// points `a + (b - a) k / steps` are half a cell apart or less, so the
+/// cell moves by one at a time, at the first `k` past
+/// `steps (edge - a) / (b - a)` for the next edge. That `k` is taken from
+/// the line only when the ratio is farther from a whole number than `1e-9`
+/// of its own size and of the coordinates' over the step (a million times
+/// the rounding of the points, of their division by the cell and of the
+/// ratio itself); otherwise the points decide, halving the span (the
+/// cells move one way along the chord).
+struct Crossings {
+    a: f64,
+    /// `b - a`.
+    d: f64,
+    /// `steps / (b - a)`.
+    scale: f64,
+    cell: f64,
+    steps: usize,
+    /// The cell's step along the chord, +1 or -1 (0: the axis is constant).
+    dir: i64,
+    /// Current cell.
+    at: i64,
+    /// The point at which the cell next changes (past `steps`: none).
+    next: usize,
+    /// The coordinates' size over the step, for the tolerance.
+    size: f64,
+}
+
+impl Crossings {
+    fn new(a: f64, b: f64, at: i64, cell: f64, steps: usize) -> Option<Crossings> {
+        let d = b - a;
+        if !(a.is_finite() && d.is_finite()) {
+            return None;
+        }
+        let mut x = Crossings {
+            a,
+            d,
+            scale: steps as f64 / d,
+            cell,
+            steps,
+            dir: if d > 0.0 {
+                1
+            } else if d < 0.0 {
+                -1
+            } else {
+                0
+            },
+            at,
+            next: usize::MAX,
+            size: 0.0,
+        };
+        // The same cell at both ends: the same all along.
+        if x.dir != 0 && x.cell_at(steps) != at {
+            x.size = (1.0 + a.abs() + d.abs()) * (steps as f64 / d.abs());
+            x.next = x.find(0);
+        }
+        Some(x)
+    }
+
+    /// The cell of point `k`, as [`along_each`] computes it.
+    fn cell_at(&self, k: usize) -> i64 {
+        floor_i64((self.a + self.d * (k as f64 / self.steps as f64)) / self.cell)
+    }
+
+    /// The first point after `k` in the next cell (past `steps`: none):
+    /// from the line, or, when the line cannot tell, by halving the
+    /// points after `k` (the cells move one way).
+    fn find(&self, k: usize) -> usize {
+        let edge = (if self.dir > 0 { self.at + 1 } else { self.at }) as f64 * self.cell;
+        let ratio = (edge - self.a) * self.scale;
+        let tol = 1e-9 * (ratio.abs() + self.size * (1.0 + edge.abs()));
+        if ratio.is_finite() && tol < 0.25 {
+            if ratio - tol > self.steps as f64 {
+                return usize::MAX;
+            }
+            let whole = floor_i64(ratio);
+            let frac = ratio - whole as f64;
+            if frac > tol && 1.0 - frac > tol && whole >= k as i64 {
+                return whole as usize + 1;
+            }
+        }
+        if self.cell_at(self.steps) == self.at {
+            return usize::MAX;
+        }
+        // The cell at `hi` has changed, at `lo` not.
+        let (mut lo, mut hi) = (k, self.steps);
+        while hi - lo > 1 {
+            let m = lo + (hi - lo) / 2;
+            if self.cell_at(m) == self.at {
+                lo = m;
+            } else {
+                hi = m;
+            }
+        }
+        hi
+    }
+
+    /// Moves into the next cell at point `k`; its cell.
+    fn step(&mut self, k: usize) -> i64 {
+        self.at += self.dir;
+        self.next = self.find(k);
+        self.at
     }
 }
 
@@ -417,7 +590,7 @@ mod tests {
             CellIndex::build(&chords, cell, false),
         );
         assert!(matches!(dense.store, CellStore::Dense { .. }));
-        assert!(matches!(sorted.store, CellStore::Sorted(_)));
+        assert!(matches!(sorted.store, CellStore::Sorted { .. }));
         let listed = |index: &CellIndex, layer: u8, at: (i64, i64)| {
             let mut out = Vec::new();
             index.around(layer, at, &mut out);
@@ -440,6 +613,41 @@ mod tests {
                 let at = dense.cell_of(c.a.lerp(c.b, f64::from(k) / 10.0));
                 assert!(listed(&dense, c.layer, at).contains(&i), "chord {i}");
             }
+        }
+        // The cells along a chord from its edges' crossings are those of
+        // every point: chords at every angle, from and to cell edges and
+        // corners, along an axis, nearly along one, and of zero length.
+        let cells = |c: &Chord, fast: bool| {
+            let (mut out, mut buf) = (Vec::new(), Vec::new());
+            let k = steps(c, cell);
+            if fast {
+                along(c, cell, k, &mut buf, |_, x, y| out.push((x, y)));
+            } else {
+                along_each(c, cell, k, |_, x, y| out.push((x, y)));
+            }
+            out
+        };
+        let mut ends = Vec::new();
+        for k in 0..400u32 {
+            let a = f64::from(k) * 0.173;
+            let len = 0.05 + f64::from(k % 23) * 0.61;
+            let p = Point::new(
+                f64::from(k % 9) * 0.37 - 1.6,
+                f64::from(k % 13) * -0.29 + 1.1,
+            );
+            ends.push((p, Point::new(p.x + len * a.cos(), p.y + len * a.sin())));
+        }
+        for (i, j) in [(-3i32, 4i32), (0, 7), (5, -2), (-1, -1), (2, 2)] {
+            let e = |n: i32| f64::from(n) * cell;
+            ends.push((Point::new(e(i), e(j)), Point::new(e(j), e(i))));
+            ends.push((Point::new(e(i), 0.3), Point::new(e(i), 4.1)));
+            ends.push((Point::new(e(i), e(j)), Point::new(e(i) + 1e-15, e(j) - 2.3)));
+            ends.push((Point::new(e(i), e(j)), Point::new(e(i), e(j))));
+            ends.push((Point::new(e(i) + 0.1, -0.0), Point::new(e(j) + 0.1, 7e-16)));
+        }
+        for (a, b) in ends {
+            let c = Chord { a, b, ..chords[0] };
+            assert_eq!(cells(&c, true), cells(&c, false), "{a:?} {b:?}");
         }
         // The shortcut of the cells along a chord gives the plain floor.
         for (a, b) in [
