@@ -244,7 +244,38 @@ impl FitInput {
     }
 
     /// Resolves all three sizes.
+    ///
+    /// Remembered per thread for the last few thousand inputs (by their
+    /// exact values): a sweep that varies other keys (layers, the drive)
+    /// asks for the same sizes again and again, and the answer depends
+    /// only on the inputs.
     pub fn resolve(&self) -> Result<Fit, FitError> {
+        use std::collections::HashMap;
+        thread_local! {
+            static SEEN: std::cell::RefCell<HashMap<String, Result<Fit, FitError>>> =
+                std::cell::RefCell::new(HashMap::new());
+        }
+        /// Inputs remembered per thread (all forgotten when full).
+        const KEEP: usize = 16_384;
+        // The inputs' debug text: every number at its shortest exact
+        // digits, so equal text is equal inputs.
+        let key = format!("{self:?}");
+        if let Some(hit) = SEEN.with(|s| s.borrow().get(&key).cloned()) {
+            return hit;
+        }
+        let found = self.resolve_uncached();
+        SEEN.with(|s| {
+            let mut s = s.borrow_mut();
+            if s.len() >= KEEP {
+                s.clear();
+            }
+            s.insert(key, found.clone());
+        });
+        found
+    }
+
+    /// [`FitInput::resolve`] computed.
+    fn resolve_uncached(&self) -> Result<Fit, FitError> {
         let outer = self.outer_limit();
         let min_id = self.min_inner_diameter;
         if self.shape.whole_turns()
@@ -264,7 +295,7 @@ impl FitInput {
                 turns: Some(TurnsRequest::Count(t)),
                 ..*self
             }
-            .resolve();
+            .resolve_uncached();
         }
         let check_inner = |id: f64| {
             if id < min_id - 1e-9 {
