@@ -493,30 +493,29 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
         if next[i] == [None, None] {
             continue;
         }
+        run[0].clear();
+        run[1].clear();
         let mid = frames[i].mid;
-        for (k, list) in run.iter_mut().enumerate() {
-            list.clear();
-            let (mut prev, mut cur, mut k_cur) = (i, i, k);
-            while list.len() + 1 < MAX_RUN {
-                let Some(j) = next[cur][k_cur] else { break };
-                if j == prev || j == i {
+        // Each side's run from neighbour to neighbour, only as far as the
+        // cross-section keeps it (`kept_runs`: the same strips as walking
+        // both sides to MAX_RUN - 1 and trimming the longer).
+        let mut walk = [(i, i, 0), (i, i, 1)];
+        let (a, b) = kept_runs(|k, limit| {
+            let list = &mut run[k];
+            let (prev, cur, k_cur) = &mut walk[k];
+            while list.len() < limit {
+                let Some(j) = next[*cur][*k_cur] else { break };
+                if j == *prev || j == i {
                     break;
                 }
                 // The side of j away from cur.
-                let same_way = frames[j].dir.dot(frames[cur].dir) > 0.0;
-                k_cur = if same_way { k_cur } else { 1 - k_cur };
+                let same_way = frames[j].dir.dot(frames[*cur].dir) > 0.0;
+                *k_cur = if same_way { *k_cur } else { 1 - *k_cur };
                 list.push(j);
-                (prev, cur) = (cur, j);
+                (*prev, *cur) = (*cur, j);
             }
-        }
-        let (mut a, mut b) = (run[0].len(), run[1].len());
-        while a + b + 1 > MAX_RUN {
-            if a > b {
-                a -= 1;
-            } else {
-                b -= 1;
-            }
-        }
+            list.len()
+        });
         let n = a + b + 1;
         let table = tables[n].get_or_insert_with(|| strip_partials(ratio, n));
         let li = (c.layer as usize).saturating_sub(1).min(eps.len() - 1);
@@ -545,6 +544,21 @@ pub fn analyse(design: &Design, chords: &[Chord], layers: usize, l: f64) -> Capa
         self_resonance_hz: resonance(l, c),
         eps_eff: eps,
     }
+}
+
+/// How many strips of the run on each side of a chord its cross-section
+/// keeps: at most [`MAX_RUN`] in all with the chord, the longer side
+/// trimmed first (the right side on a tie). `extend(side, limit)` walks
+/// that side's run on to at most `limit` strips and returns how many it
+/// has (a walk that has ended stays where it is). Asks for no more than
+/// it keeps: half the strips on the left first, the right up to what
+/// that leaves, then the left again when the right ended early.
+fn kept_runs(mut extend: impl FnMut(usize, usize) -> usize) -> (usize, usize) {
+    let most = MAX_RUN - 1;
+    let a = extend(0, MAX_RUN / 2);
+    let b = extend(1, most - a);
+    let a = if b < most - a { extend(0, most - b) } else { a };
+    (a, b)
 }
 
 /// `1 / (2 pi sqrt(L C))`, Hz (infinite when either is zero).
@@ -601,6 +615,28 @@ mod tests {
             }
         }
         assert!(p[2 * n + 3] > p[2 * n + 4] && p[2 * n + 4] > 0.0);
+    }
+
+    /// The kept runs are those of walking both sides to `MAX_RUN - 1`
+    /// strips and trimming the longer side (the right on a tie) until
+    /// the chord and its runs are `MAX_RUN` strips, for every pair of run
+    /// lengths.
+    #[test]
+    fn kept_runs_trim_as_the_full_walk() {
+        for full_a in 0..=MAX_RUN + 3 {
+            for full_b in 0..=MAX_RUN + 3 {
+                let (mut a, mut b) = (full_a.min(MAX_RUN - 1), full_b.min(MAX_RUN - 1));
+                while a + b + 1 > MAX_RUN {
+                    if a > b {
+                        a -= 1;
+                    } else {
+                        b -= 1;
+                    }
+                }
+                let kept = kept_runs(|k, limit| [full_a, full_b][k].min(limit));
+                assert_eq!(kept, (a, b), "{full_a} {full_b}");
+            }
+        }
     }
 
     /// Resonance: `2 pi f sqrt(L C) = 1`.
