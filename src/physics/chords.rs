@@ -118,13 +118,17 @@ pub fn chords(design: &Design, layout: &Board, cond: &Conductor, max: usize) -> 
             piece += 1;
             let k = parts(&t.segment, step, sag);
             let len = t.segment.length();
+            // Each chord starts where the one before ended (the same
+            // point, computed once).
+            let mut a = t.segment.point_at(0.0);
             for i in 0..k {
                 let (u0, u1) = (i as f64 / k as f64, (i + 1) as f64 / k as f64);
                 let v0 = start[w.group] + span * (along + u0 * len) / own;
                 let v1 = start[w.group] + span * (along + u1 * len) / own;
+                let b = t.segment.point_at(u1);
                 out.push(Chord {
-                    a: t.segment.point_at(u0),
-                    b: t.segment.point_at(u1),
+                    a,
+                    b,
                     z: p.z,
                     layer: w.layer,
                     winding: wi,
@@ -134,6 +138,7 @@ pub fn chords(design: &Design, layout: &Board, cond: &Conductor, max: usize) -> 
                     volt: (v0, v1),
                     lead: t.role != TrackRole::Winding,
                 });
+                a = b;
             }
             along += len;
         }
