@@ -76,8 +76,8 @@ pub fn analyse(
     let rate = |t: f64| (b.power_in(wave, t) - b.losses(t).power_w) / b.heat_capacity;
     // Rise time: the time to reach 63.2 % of the final rise, by
     // separation of variables t = int C / (P_in - P_out) dT (adaptive
-    // Simpson, as the pulse length), exact for the same balance the curve
-    // integrates.
+    // Simpson to thermal::PULSE_TOL, as the pulse length), exact for the
+    // same balance the curve integrates.
     let rise_time = steady_avg.and_then(|ts| {
         if ts - ta <= 1e-9 {
             return None;
@@ -87,7 +87,7 @@ pub fn analyse(
             |t| 1.0 / rate(t).max(1e-300),
             ta,
             target,
-            1e-9,
+            super::thermal::PULSE_TOL,
             40,
         ))
     });
