@@ -156,12 +156,7 @@ pub fn cel(kc: f64, p: f64, c: f64, s: f64) -> f64 {
 /// that has converged keeps its values while the others go on. A lane
 /// with `p <= 0` gives NaN (that branch of [`cel`] is not taken here).
 #[inline(always)]
-pub fn cel_lanes<const N: usize>(
-    kc: [f64; N],
-    p: [f64; N],
-    c: [f64; N],
-    s: [f64; N],
-) -> [f64; N] {
+pub fn cel_lanes<const N: usize>(kc: [f64; N], p: [f64; N], c: [f64; N], s: [f64; N]) -> [f64; N] {
     const ERRTOL: f64 = 1e-9;
     let mut k = kc.map(f64::abs);
     let mut pp = p.map(f64::sqrt);
@@ -246,14 +241,29 @@ mod tests {
         for t in 0..50 {
             let kc: [f64; 8] = std::array::from_fn(|l| {
                 let x = ((t * 8 + l) as f64 * 0.618_033_988_7).fract();
-                if l == 0 { 1e-15 + x * 1e-6 } else { x.powi(3) + 1e-12 }
+                if l == 0 {
+                    1e-15 + x * 1e-6
+                } else {
+                    x.powi(3) + 1e-12
+                }
             });
-            let p: [f64; 8] = std::array::from_fn(|l| if l % 2 == 0 { 1.0 } else { 0.01 + (l * t) as f64 * 0.1 });
+            let p: [f64; 8] = std::array::from_fn(|l| {
+                if l % 2 == 0 {
+                    1.0
+                } else {
+                    0.01 + (l * t) as f64 * 0.1
+                }
+            });
             let c: [f64; 8] = std::array::from_fn(|l| 1.0 - l as f64 * 0.1);
-            let s: [f64; 8] = std::array::from_fn(|l| if l % 3 == 0 { -1.0 } else { 0.3 * l as f64 });
+            let s: [f64; 8] =
+                std::array::from_fn(|l| if l % 3 == 0 { -1.0 } else { 0.3 * l as f64 });
             let v = cel_lanes(kc, p, c, s);
             for l in 0..8 {
-                assert_eq!(v[l].to_bits(), cel(kc[l], p[l], c[l], s[l]).to_bits(), "{t} {l}");
+                assert_eq!(
+                    v[l].to_bits(),
+                    cel(kc[l], p[l], c[l], s[l]).to_bits(),
+                    "{t} {l}"
+                );
             }
         }
         assert!(cel_lanes([0.5], [0.0], [1.0], [1.0])[0].is_nan());
