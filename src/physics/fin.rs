@@ -280,7 +280,7 @@ impl Beam {
 /// on iterating in that noise, up to the limit of 100 iterations. The
 /// frequency is then good to about 1e-9 of itself, far inside the beam
 /// model's own error (the unit tests' 1e-4 against Euler-Bernoulli).
-const RAYLEIGH_TOL: f64 = 2e-9;
+pub const RAYLEIGH_TOL: f64 = 2e-9;
 
 /// Half bandwidth of the beam's matrices: a node's two degrees of
 /// freedom couple only with its neighbours'.
