@@ -143,9 +143,10 @@ impl RingSections {
 
 /// Mutual inductance of two ring elements per unit fraction (full loops),
 /// henry, with the GMD correction for close or overlapping sections
-/// (`series`: the GMD series of the two rings' sections): either a value,
-/// or the radii and distance for Maxwell's formula.
-fn ring_pair(p: &Ring, q: &Ring, series: &GmdSeries) -> PairTerm {
+/// (`series`: the GMD series of the two rings' sections, asked for only
+/// for close pairs): either a value, or the radii and distance for
+/// Maxwell's formula.
+fn ring_pair<'a>(p: &Ring, q: &Ring, series: impl FnOnce() -> &'a GmdSeries) -> PairTerm {
     let dr = q.radius - p.radius;
     let dz = q.z - p.z;
     let dist = (dr * dr + dz * dz).sqrt();
@@ -161,7 +162,7 @@ fn ring_pair(p: &Ring, q: &Ring, series: &GmdSeries) -> PairTerm {
     } else if dist < NEAR * size {
         // GMD / distance: by the series where it converges fast, else the
         // closed form.
-        let s = match series.ln_ratio(dr, dz) {
+        let s = match series().ln_ratio(dr, dz) {
             Some(ln) => ln.exp(),
             None => cached_gmd(dr, dz, p.width, p.thickness, q.width, q.thickness) / dist,
         };
@@ -193,7 +194,7 @@ fn pair_sum<'a>(
         let mut any = false;
         let mut maxwell = [false; 8];
         for (l, q) in chunk.iter().enumerate() {
-            match ring_pair(p, q, series(8 * c + l)) {
+            match ring_pair(p, q, || series(8 * c + l)) {
                 PairTerm::Value(v) => vals[l] = v,
                 PairTerm::Maxwell(x, y, z) => {
                     (a[l], b[l], d[l]) = (x, y, z);
