@@ -14,6 +14,9 @@ use super::spiral::SpiralSpec;
 pub use crate::design::TurnsRequest;
 use crate::design::{Corner, Shape};
 use crate::numeric::roots::largest_feasible;
+use std::cell::RefCell;
+use std::collections::HashMap;
+use std::thread::LocalKey;
 
 /// The inputs of a fit.
 #[derive(Debug, Clone, Copy, PartialEq)]
@@ -89,6 +92,36 @@ pub enum FitError {
 /// How far [`FitInput::buildable_inner`] looks for a buildable innermost
 /// turn, mm.
 const MAX_INNER_SEARCH_MM: f64 = 1000.0;
+
+/// A thread's remembered answers, by the debug text of their inputs.
+type Seen<V> = RefCell<HashMap<String, V>>;
+
+/// Answers remembered per thread by [`remembered`] (all forgotten when
+/// full).
+const REMEMBERED: usize = 16_384;
+
+/// `compute()`, remembered in this thread's `seen` under `key`: the debug
+/// text of every input it depends on (each number at its shortest exact
+/// digits, so equal text is equal inputs, and the answer depends only on
+/// them).
+fn remembered<V: Clone>(
+    seen: &'static LocalKey<Seen<V>>,
+    key: String,
+    compute: impl FnOnce() -> V,
+) -> V {
+    if let Some(hit) = seen.with(|s| s.borrow().get(&key).cloned()) {
+        return hit;
+    }
+    let found = compute();
+    seen.with(|s| {
+        let mut s = s.borrow_mut();
+        if s.len() >= REMEMBERED {
+            s.clear();
+        }
+        s.insert(key, found.clone());
+    });
+    found
+}
 
 impl FitInput {
     /// The spiral's `inner` parameter for a free-centre diameter.
@@ -181,42 +214,19 @@ impl FitInput {
     }
 
     /// Most turns that fit with the free centre `inner` (bracketed by
-    /// doubling, then [`largest_feasible`]), remembered per thread for
-    /// the last few hundred inputs: a sweep asks again for every turn
-    /// count that does not fit the same coil (for the message that says
-    /// how many would), and the answer depends only on the inputs.
+    /// doubling, then [`largest_feasible`]), [`remembered`] per thread: a
+    /// sweep asks again for every turn count that does not fit the same
+    /// coil (for the message that says how many would).
     fn max_turns(&self, inner: f64, outer: f64) -> Result<f64, FitError> {
-        type Key = (Shape, Corner, [u64; 4]);
         thread_local! {
-            static SEEN: std::cell::RefCell<Vec<(Key, Result<f64, FitError>)>> =
-                const { std::cell::RefCell::new(Vec::new()) };
+            static SEEN: Seen<Result<f64, FitError>> = RefCell::new(HashMap::new());
         }
-        /// Inputs remembered per thread (the older half is forgotten
-        /// when full).
-        const KEEP: usize = 512;
-        let key: Key = (
-            self.shape,
-            self.corner,
-            [self.trace_width, self.clearance, inner, outer].map(f64::to_bits),
+        // Only what the spiral depends on: not the turns asked for.
+        let key = format!(
+            "{:?} {:?} {:?} {:?} {inner:?} {outer:?}",
+            self.shape, self.corner, self.trace_width, self.clearance
         );
-        if let Some(hit) = SEEN.with(|s| {
-            s.borrow()
-                .iter()
-                .rev()
-                .find(|(k, _)| *k == key)
-                .map(|(_, v)| v.clone())
-        }) {
-            return hit;
-        }
-        let found = self.max_turns_uncached(inner, outer);
-        SEEN.with(|s| {
-            let mut s = s.borrow_mut();
-            if s.len() >= KEEP {
-                s.drain(..KEEP / 2);
-            }
-            s.push((key, found.clone()));
-        });
-        found
+        remembered(&SEEN, key, || self.max_turns_uncached(inner, outer))
     }
 
     /// [`FitInput::max_turns`] computed.
@@ -243,35 +253,14 @@ impl FitInput {
         )
     }
 
-    /// Resolves all three sizes.
-    ///
-    /// Remembered per thread for the last few thousand inputs (by their
-    /// exact values): a sweep that varies other keys (layers, the drive)
-    /// asks for the same sizes again and again, and the answer depends
-    /// only on the inputs.
+    /// Resolves all three sizes, remembered per thread by their exact
+    /// inputs (`remembered`): a sweep that varies other keys (layers, the
+    /// drive) asks for the same sizes again and again.
     pub fn resolve(&self) -> Result<Fit, FitError> {
-        use std::collections::HashMap;
         thread_local! {
-            static SEEN: std::cell::RefCell<HashMap<String, Result<Fit, FitError>>> =
-                std::cell::RefCell::new(HashMap::new());
+            static SEEN: Seen<Result<Fit, FitError>> = RefCell::new(HashMap::new());
         }
-        /// Inputs remembered per thread (all forgotten when full).
-        const KEEP: usize = 16_384;
-        // The inputs' debug text: every number at its shortest exact
-        // digits, so equal text is equal inputs.
-        let key = format!("{self:?}");
-        if let Some(hit) = SEEN.with(|s| s.borrow().get(&key).cloned()) {
-            return hit;
-        }
-        let found = self.resolve_uncached();
-        SEEN.with(|s| {
-            let mut s = s.borrow_mut();
-            if s.len() >= KEEP {
-                s.clear();
-            }
-            s.insert(key, found.clone());
-        });
-        found
+        remembered(&SEEN, format!("{self:?}"), || self.resolve_uncached())
     }
 
     /// [`FitInput::resolve`] computed.
