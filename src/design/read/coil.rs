@@ -266,37 +266,7 @@ pub(super) fn read(cx: &mut Ctx, t: &Table) -> Option<CoilInput> {
         }
     }
 
-    let layers = if t.has("layers") {
-        cx.integer(t, "layers", 1, 32).map(|n| n as u8)
-    } else {
-        cx.missing(t, "layers", Some("a whole number from 1 to 32".into()));
-        None
-    };
-    let wiring = match cx.choice(t, "wiring") {
-        Some(1) => Wiring::ParallelPairs,
-        _ => Wiring::Series,
-    };
-    if wiring == Wiring::ParallelPairs
-        && let Some(n) = layers
-        && !n.is_multiple_of(2)
-    {
-        cx.err(
-            t.key("wiring"),
-            t.span_of("wiring"),
-            format!("parallel-pairs wiring needs an even number of layers, but layers = {n}"),
-            Some("use an even number of layers or wiring = \"series\"".into()),
-        );
-    } else if wiring == Wiring::ParallelPairs && layers == Some(2) {
-        cx.err(
-            t.key("wiring"),
-            t.span_of("wiring"),
-            "parallel-pairs wiring needs 4 or more layers: with 2 layers both carry the winding, \
-             so its inner end would be stranded in the centre with no free layer to bring it out",
-            Some(
-                "use wiring = \"series\" on 2 layers, or 4, 6, ... layers in parallel pairs".into(),
-            ),
-        );
-    }
+    let (layers, wiring) = layers_and_wiring(cx, t);
     let round = cx.choice(t, "corner") == Some(1);
     if shape_i == 0 && t.has("corner") {
         cx.err(
@@ -345,6 +315,45 @@ pub const SECTOR_CORNER_PITCHES: f64 = 4.0;
 /// it takes `turns` (a whole number, or "max") and no diameters; its
 /// corners are always round (`corner_radius`, default
 /// [`SECTOR_CORNER_PITCHES`] pitches).
+/// `layers` and `wiring`: a whole number of layers from 1 to 32, and
+/// parallel pairs only on 4, 6, ... layers (an odd count has no pairs; on
+/// 2 layers the winding's inner end would have no free layer to come out
+/// on). Shared by every shape.
+fn layers_and_wiring(cx: &mut Ctx, t: &Table) -> (Option<u8>, Wiring) {
+    let layers = if t.has("layers") {
+        cx.integer(t, "layers", 1, 32).map(|n| n as u8)
+    } else {
+        cx.missing(t, "layers", Some("a whole number from 1 to 32".into()));
+        None
+    };
+    let wiring = match cx.choice(t, "wiring") {
+        Some(1) => Wiring::ParallelPairs,
+        _ => Wiring::Series,
+    };
+    if wiring == Wiring::ParallelPairs
+        && let Some(n) = layers
+        && !n.is_multiple_of(2)
+    {
+        cx.err(
+            t.key("wiring"),
+            t.span_of("wiring"),
+            format!("parallel-pairs wiring needs an even number of layers, but layers = {n}"),
+            Some("use an even number of layers or wiring = \"series\"".into()),
+        );
+    } else if wiring == Wiring::ParallelPairs && layers == Some(2) {
+        cx.err(
+            t.key("wiring"),
+            t.span_of("wiring"),
+            "parallel-pairs wiring needs 4 or more layers: with 2 layers both carry the winding, \
+             so its inner end would be stranded in the centre with no free layer to bring it out",
+            Some(
+                "use wiring = \"series\" on 2 layers, or 4, 6, ... layers in parallel pairs".into(),
+            ),
+        );
+    }
+    (layers, wiring)
+}
+
 fn read_sector_rest(
     cx: &mut Ctx,
     t: &Table,
@@ -392,27 +401,7 @@ fn read_sector_rest(
             },
         },
     };
-    let layers = if t.has("layers") {
-        cx.integer(t, "layers", 1, 32).map(|n| n as u8)
-    } else {
-        cx.missing(t, "layers", Some("a whole number from 1 to 32".into()));
-        None
-    };
-    let wiring = match cx.choice(t, "wiring") {
-        Some(1) => Wiring::ParallelPairs,
-        _ => Wiring::Series,
-    };
-    if wiring == Wiring::ParallelPairs
-        && let Some(n) = layers
-        && (!n.is_multiple_of(2) || n == 2)
-    {
-        cx.err(
-            t.key("wiring"),
-            t.span_of("wiring"),
-            format!("parallel-pairs wiring needs 4, 6, ... layers, but layers = {n}"),
-            Some("use 4, 6, ... layers or wiring = \"series\"".into()),
-        );
-    }
+    let (layers, wiring) = layers_and_wiring(cx, t);
     Some(CoilInput {
         shape,
         outer_diameter: None,
